@@ -1,0 +1,129 @@
+"""Critical speeds: where a tracked natural frequency equals order x spin speed.
+
+Each crossing is bracketed on the sweep and refined by Brent's method with
+fresh eigen-solves; at every trial speed the branch is picked out by the same
+shape-and-frequency cost the tracker uses.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+from scipy.optimize import brentq
+
+from ..assembly import SystemMatrices, assemble
+from ..units import to_hz, to_rpm
+from .modes import forward_fraction, log_decrement, modes_at, whirl_label
+from .sweep import TRACKING_RESERVE, Sweep, sweep as run_sweep
+from .tracking import match_cost
+
+#: Relative speed tolerance of the root refinement.
+SPEED_RTOL = 1e-9
+
+
+@dataclass(frozen=True)
+class CriticalSpeed:
+    """One critical speed.
+
+    Attributes
+    ----------
+    speed : float
+        rad/s.
+    order : float
+        Excitation order (1.0 for synchronous).
+    branch : int
+        Index of the tracked branch (0-based) in the sweep.
+    eigenvalue : complex
+        At the critical speed; its imaginary part equals ``order * speed``.
+    shape : complex ndarray (n_nodes, 2)
+    """
+
+    speed: float
+    order: float
+    branch: int
+    eigenvalue: complex
+    shape: np.ndarray
+
+    @property
+    def log_dec(self):
+        return float(log_decrement(np.array([self.eigenvalue]))[0])
+
+    @property
+    def damping_ratio(self):
+        return float(-self.eigenvalue.real / abs(self.eigenvalue))
+
+    @property
+    def forward_fraction(self):
+        return float(forward_fraction(self.shape[None])[0])
+
+    @property
+    def whirl(self):
+        return whirl_label(self.forward_fraction)
+
+    def to_dict(self):
+        return {
+            "speed_rpm": float(to_rpm(self.speed)),
+            "speed_rad_s": float(self.speed),
+            "order": float(self.order),
+            "branch": int(self.branch) + 1,
+            "frequency_hz": float(to_hz(self.eigenvalue.imag)),
+            "whirl": self.whirl,
+            "forward_fraction": self.forward_fraction,
+            "log_dec": self.log_dec,
+            "damping_ratio": self.damping_ratio,
+        }
+
+
+def _branch_at(system, speed, ref_value, ref_shape, n_solve, solver):
+    modes = modes_at(system, speed, n_solve, solver)
+    cost = match_cost(ref_shape[None], np.array([ref_value]), modes.shapes, modes.eigenvalues)[0]
+    j = int(np.argmin(cost))
+    return modes.eigenvalues[j], modes.shapes[j]
+
+
+def critical_speeds(rotor_or_system, result: Sweep | None = None, orders=None, solver=None):
+    """Critical speeds of every tracked branch for each excitation order.
+
+    Parameters
+    ----------
+    rotor_or_system : Rotor or SystemMatrices
+    result : Sweep, optional
+        A sweep of the same system; run with the rotor's settings if omitted.
+    orders : sequence of float, optional
+        Excitation orders; defaults to ``settings.orders`` (1X).
+    solver : callable, optional
+
+    Returns
+    -------
+    list of CriticalSpeed
+        Sorted by speed.
+    """
+    system = rotor_or_system if isinstance(rotor_or_system, SystemMatrices) \
+        else assemble(rotor_or_system)
+    result = run_sweep(system, solver=solver) if result is None else result
+    orders = system.rotor.settings.orders if orders is None else orders
+    n_solve = result.eigenvalues.shape[1] + TRACKING_RESERVE
+    speeds, wd = result.speeds, result.frequency
+    found = []
+    for order in orders:
+        for j in range(wd.shape[1]):
+            gap = wd[:, j] - order * speeds
+            for k in np.nonzero(np.sign(gap[:-1]) * np.sign(gap[1:]) <= 0)[0]:
+                if gap[k] == 0.0 and k > 0:
+                    continue  # counted as the end of the previous bracket
+                lo, hi = speeds[k], speeds[k + 1]
+                ref_value, ref_shape = result.eigenvalues[k, j], result.shapes[k, j]
+
+                def g(w, ref_value=ref_value, ref_shape=ref_shape):
+                    value, _ = _branch_at(system, w, ref_value, ref_shape, n_solve, solver)
+                    return value.imag - order * w
+
+                g_lo, g_hi = g(lo), g(hi)
+                if g_lo * g_hi > 0:
+                    continue  # the fresh solves disagree with the bracket: no crossing
+                root = lo if g_lo == 0 else hi if g_hi == 0 else brentq(
+                    g, lo, hi, xtol=SPEED_RTOL * max(hi, 1.0), rtol=SPEED_RTOL)
+                value, shape = _branch_at(system, root, ref_value, ref_shape, n_solve, solver)
+                found.append(CriticalSpeed(float(root), float(order), j, complex(value), shape))
+    return sorted(found, key=lambda c: (c.speed, c.order))

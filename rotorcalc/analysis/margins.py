@@ -1,0 +1,179 @@
+"""Separation margins of critical speeds from the operating range.
+
+Margins are per cent of the nearer end of the operating range: below the
+minimum speed ``(N_min - N_c) / N_min``, above the maximum continuous speed
+``(N_c - N_mc) / N_mc``; a critical inside the range has a negative margin
+(its distance to the nearer end, per cent of that end).
+
+The default rule (``"af-curve"``) is the amplification-factor rule of
+industry standards for centrifugal compressors, quoted here from memory as
+common practice (confirm against the edition your purchase specification
+names):
+
+* AF < 2.5: the critical is critically damped and needs no margin;
+* AF >= 2.5, critical below the minimum speed: SM = 17 (1 - 1 / (AF - 1.5)) %;
+* AF >= 2.5, critical above the maximum continuous speed:
+  SM = 10 + 17 (1 - 1 / (AF - 1.5)) %.
+
+Until a forced-response amplification factor is supplied, AF is estimated
+from the log decrement as ``pi / delta`` (light damping).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from ..model import MarginRule, OperatingRange
+from ..units import to_rpm
+from .criticals import CriticalSpeed
+
+CAUTION = ("Screening result only: confirm against the applicable standard, the purchase "
+           "specification, local codes and a licensed engineer's review.")
+
+
+def af_from_log_dec(log_dec):
+    """Amplification factor estimated from the log decrement, pi / delta."""
+    return math.pi / log_dec if log_dec > 0 else math.inf
+
+
+def required_margin(rule: MarginRule, af, side):
+    """Required separation margin, per cent, for a critical on ``side``.
+
+    Parameters
+    ----------
+    rule : MarginRule
+    af : float
+        Amplification factor (``inf`` for an undamped or unstable mode).
+    side : {"below", "above", "inside"}
+        Where the critical lies relative to the operating range; for
+        "inside", the larger of the two requirements is returned.
+
+    Returns
+    -------
+    float
+        Per cent; 0 when no margin is required.
+    """
+    if rule.kind == "none":
+        return 0.0
+    if rule.kind == "fixed":
+        return {"below": rule.below, "above": rule.above}.get(side, max(rule.below, rule.above))
+    if af < rule.af_threshold:
+        return 0.0
+    base = 17.0 * (1.0 - 1.0 / (af - 1.5)) if math.isfinite(af) else 17.0
+    above = 10.0 + base
+    return {"below": base, "above": above}.get(side, above)
+
+
+@dataclass(frozen=True)
+class MarginRow:
+    """Margin of one critical speed: where it is, what it needs, and the verdict."""
+
+    critical: CriticalSpeed
+    side: str
+    margin: float
+    amplification_factor: float
+    required: float
+    verdict: str
+
+    @property
+    def passed(self):
+        return self.verdict in ("pass", "critically damped", "not judged")
+
+    def to_dict(self):
+        out = self.critical.to_dict()
+        out.update({
+            "side": self.side,
+            "margin_percent": _finite_or_none(self.margin),
+            "amplification_factor": _finite_or_none(self.amplification_factor),
+            "amplification_factor_source": "log decrement (pi/delta)",
+            "required_margin_percent": self.required,
+            "verdict": self.verdict,
+        })
+        return out
+
+
+def _finite_or_none(x):
+    return float(x) if math.isfinite(x) else None
+
+
+@dataclass(frozen=True)
+class MarginTable:
+    """Separation-margin verdicts for a list of critical speeds."""
+
+    rows: tuple
+    operating: OperatingRange
+    rule: MarginRule
+    verified_above_to: float
+    notes: tuple = ()
+
+    @property
+    def passed(self):
+        return all(row.passed for row in self.rows)
+
+    def to_dict(self):
+        return {
+            "operating_range_rpm": [float(to_rpm(self.operating.min_speed)),
+                                    float(to_rpm(self.operating.max_speed))],
+            "rule": {"kind": self.rule.kind, "below_percent": self.rule.below,
+                     "above_percent": self.rule.above, "af_threshold": self.rule.af_threshold},
+            "criticals": [row.to_dict() for row in self.rows],
+            "passed": self.passed,
+            "sweep_top_rpm": float(to_rpm(self.verified_above_to)),
+            "notes": list(self.notes),
+            "caution": CAUTION,
+        }
+
+
+def _side_and_margin(speed, operating):
+    lo, hi = operating.min_speed, operating.max_speed
+    if speed < lo:
+        return "below", 100.0 * (lo - speed) / lo
+    if speed > hi:
+        return "above", 100.0 * (speed - hi) / hi
+    to_lo = 100.0 * (speed - lo) / lo if lo > 0 else math.inf
+    to_hi = 100.0 * (hi - speed) / hi
+    return "inside", -min(to_lo, to_hi)
+
+
+def separation_margins(criticals, operating: OperatingRange, rule: MarginRule,
+                       sweep_top, judge_backward=False):
+    """Judge every critical speed against the operating range.
+
+    Parameters
+    ----------
+    criticals : sequence of CriticalSpeed
+    operating : OperatingRange
+    rule : MarginRule
+    sweep_top : float
+        Highest speed swept, rad/s: criticals above it were not looked for.
+    judge_backward : bool
+        Backward-whirl criticals are listed but not judged unless this is set
+        (unbalance on isotropic supports does not excite backward whirl;
+        common practice).
+
+    Returns
+    -------
+    MarginTable
+    """
+    rows = []
+    for crit in criticals:
+        side, margin = _side_and_margin(crit.speed, operating)
+        af = af_from_log_dec(crit.log_dec)
+        need = required_margin(rule, af, side)
+        if crit.whirl == "backward" and not judge_backward:
+            verdict = "not judged"
+        elif rule.kind == "af-curve" and af < rule.af_threshold:
+            verdict = "critically damped"
+        elif crit.log_dec <= 0:
+            verdict = "fail"  # an unstable mode fails whatever its place
+        else:
+            verdict = "pass" if margin >= need else "fail"
+        rows.append(MarginRow(crit, side, margin, af, need, verdict))
+    worst_above = required_margin(rule, math.inf, "above")
+    notes = []
+    reach = 100.0 * (sweep_top - operating.max_speed) / operating.max_speed
+    if reach < worst_above:
+        notes.append(f"the sweep reaches only {reach:.0f}% above the maximum continuous speed; "
+                     f"criticals up to {worst_above:.0f}% above it may need checking")
+    return MarginTable(tuple(rows), operating, rule, float(sweep_top), tuple(notes))

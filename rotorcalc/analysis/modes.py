@@ -1,0 +1,191 @@
+"""Damped modes at one spin speed."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..assembly import SystemMatrices, assemble
+from ..model import Rotor
+from ..solvers import make_solver
+from ..units import to_hz, to_rpm
+
+#: A mode is called forward (backward) when at least this share of its
+#: amplitude whirls forward (backward); otherwise it is mixed.
+WHIRL_PURITY = 0.95
+
+
+def whirl_senses(shapes):
+    """Forward and backward circle radii of each node's orbit.
+
+    For a node moving as ``x = Re(X e^{iwt})``, ``y = Re(Y e^{iwt})``, the
+    orbit is the sum of a forward circle of radius ``|X + iY|/2`` and a
+    backward one of radius ``|X - iY|/2``.
+
+    Parameters
+    ----------
+    shapes : complex ndarray (..., n_nodes, 2)
+
+    Returns
+    -------
+    forward, backward : ndarray (..., n_nodes)
+    """
+    x, y = shapes[..., 0], shapes[..., 1]
+    return np.abs(x + 1j * y) / 2.0, np.abs(x - 1j * y) / 2.0
+
+
+def forward_fraction(shapes):
+    """Share of the orbit size (major semi-axis, summed over nodes) that whirls forward."""
+    rf, rb = whirl_senses(shapes)
+    size = rf + rb
+    total = size.sum(axis=-1)
+    fwd = np.where(rf >= rb, size, 0.0).sum(axis=-1)
+    return np.where(total > 0, fwd / np.where(total > 0, total, 1.0), 0.5)
+
+
+def whirl_label(fraction):
+    """'forward', 'backward' or 'mixed' from a forward fraction."""
+    if fraction >= WHIRL_PURITY:
+        return "forward"
+    if fraction <= 1.0 - WHIRL_PURITY:
+        return "backward"
+    return "mixed"
+
+
+def log_decrement(eigenvalues):
+    """Log decrement -2 pi Re(lambda) / Im(lambda); positive is stable."""
+    return -2.0 * np.pi * eigenvalues.real / eigenvalues.imag
+
+
+@dataclass(frozen=True)
+class Modes:
+    """Damped modes of a rotor at one speed.
+
+    Attributes
+    ----------
+    speed : float
+        Spin speed, rad/s.
+    eigenvalues : complex ndarray (n,)
+        ``-zeta wn + i wd``, rad/s, lowest damped frequency first.
+    shapes : complex ndarray (n, n_nodes, 2)
+        x and y translation at every shaft node, largest = 1.
+    vectors : complex ndarray (n_dof, n)
+        Full displacement eigenvectors (same scaling as ``shapes``).
+    node_z : ndarray
+        Node positions, m; ``station_nodes`` picks the stations.
+    warnings : tuple of str
+    """
+
+    speed: float
+    eigenvalues: np.ndarray
+    shapes: np.ndarray
+    vectors: np.ndarray
+    node_z: np.ndarray
+    station_nodes: np.ndarray
+    real_eigenvalues: np.ndarray
+    warnings: tuple = ()
+
+    @property
+    def frequency(self):
+        """Damped natural frequency, rad/s."""
+        return self.eigenvalues.imag
+
+    @property
+    def frequency_hz(self):
+        return to_hz(self.frequency)
+
+    @property
+    def frequency_cpm(self):
+        return to_rpm(self.frequency)
+
+    @property
+    def damping_ratio(self):
+        return -self.eigenvalues.real / np.abs(self.eigenvalues)
+
+    @property
+    def log_dec(self):
+        return log_decrement(self.eigenvalues)
+
+    @property
+    def forward_fraction(self):
+        return forward_fraction(self.shapes)
+
+    @property
+    def whirl(self):
+        return [whirl_label(f) for f in self.forward_fraction]
+
+    @property
+    def station_shapes(self):
+        """(n, n_stations, 2) complex translations at the stations."""
+        return self.shapes[:, self.station_nodes, :]
+
+    def to_dict(self):
+        """Plain-Python summary for JSON (SI units, speeds also in rpm)."""
+        return {
+            "speed_rad_s": float(self.speed),
+            "speed_rpm": float(to_rpm(self.speed)),
+            "modes": [
+                {
+                    "mode": i + 1,
+                    "frequency_hz": float(self.frequency_hz[i]),
+                    "frequency_cpm": float(self.frequency_cpm[i]),
+                    "eigenvalue_re": float(self.eigenvalues[i].real),
+                    "eigenvalue_im": float(self.eigenvalues[i].imag),
+                    "damping_ratio": float(self.damping_ratio[i]),
+                    "log_dec": float(self.log_dec[i]),
+                    "whirl": self.whirl[i],
+                    "forward_fraction": float(self.forward_fraction[i]),
+                    "station_shape": [
+                        {"x_re": float(v[0].real), "x_im": float(v[0].imag),
+                         "y_re": float(v[1].real), "y_im": float(v[1].imag)}
+                        for v in self.station_shapes[i]],
+                }
+                for i in range(len(self.eigenvalues))
+            ],
+            "non_oscillatory_eigenvalues": [float(v) for v in self.real_eigenvalues],
+            "warnings": list(self.warnings),
+        }
+
+
+def modes_at(rotor_or_system, speed, n_modes=None, solver=None):
+    """Damped modes at spin speed ``speed`` (rad/s).
+
+    Parameters
+    ----------
+    rotor_or_system : Rotor or SystemMatrices
+        Pass assembled matrices to avoid re-assembly in a loop.
+    speed : float
+        rad/s.
+    n_modes : int, optional
+        Defaults to the rotor's ``settings.modes``.
+    solver : callable, optional
+        From :func:`rotorcalc.solvers.make_solver`; dense by default.
+
+    Returns
+    -------
+    Modes
+    """
+    system = rotor_or_system if isinstance(rotor_or_system, SystemMatrices) \
+        else assemble(rotor_or_system)
+    n = system.rotor.settings.modes if n_modes is None else n_modes
+    solve = solver if solver is not None else make_solver()
+    speed = float(speed)
+    d_mat = system.damping(speed) + speed * system.gyroscopic
+    pairs = solve(system.mass, d_mat, system.stiffness(speed), n)
+    q = pairs.vectors
+    tdofs = system.translation_dofs
+    shapes = np.stack([q[tdofs[:, 0], :].T, q[tdofs[:, 1], :].T], axis=-1)
+    peak = _peak(shapes)
+    shapes = shapes / peak[:, None, None]
+    vectors = q / peak[None, :]
+    warnings = tuple(system.table_warnings(speed))
+    return Modes(speed, pairs.values, shapes, vectors, system.mesh.node_z,
+                 system.mesh.station_nodes, pairs.real_eigenvalues, warnings)
+
+
+def _peak(shapes):
+    flat = shapes.reshape(shapes.shape[0], -1)
+    idx = np.argmax(np.abs(flat), axis=1)
+    peak = flat[np.arange(flat.shape[0]), idx]
+    return np.where(np.abs(peak) > 0, peak, 1.0)

@@ -1,0 +1,232 @@
+"""Rotor model to global sparse matrices and the DOF map: a pure function.
+
+Global DOFs: shaft node ``n`` owns ``4n .. 4n+3`` = ``[x, y, a, b]``; the
+support (pedestal) nodes follow, two DOFs ``[xs, ys]`` each.  The equation of
+motion is ``M q'' + (C(spin) + spin G) q' + K(spin) q = f``.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+import scipy.sparse as sp
+
+from .fe import bearing as fe_bearing
+from .fe.disk import disk_gyroscopic, disk_mass
+from .fe.shaft import ShaftElement
+from .model import Rotor
+from .units import to_rpm
+
+DOF_PER_NODE = 4
+
+
+@dataclass(frozen=True)
+class Mesh:
+    """Nodes and elements of a rotor's shaft.
+
+    Attributes
+    ----------
+    node_z : ndarray
+        Axial position of every shaft node, m.
+    station_nodes : ndarray of int
+        Node index of every station.
+    elements : tuple of ShaftElement
+    element_nodes : ndarray (n_elements, 2)
+    element_section : ndarray of int
+        Section each element belongs to.
+    """
+
+    node_z: np.ndarray
+    station_nodes: np.ndarray
+    elements: tuple
+    element_nodes: np.ndarray
+    element_section: np.ndarray
+
+    @property
+    def n_nodes(self):
+        return len(self.node_z)
+
+
+def mesh(rotor: Rotor) -> Mesh:
+    """Divide every section into its elements."""
+    theory = rotor.settings.beam_theory
+    z, station_nodes, elements, sections = [0.0], [0], [], []
+    for index, section in enumerate(rotor.sections):
+        n = section.elements
+        length = section.length / n
+        for _ in range(n):
+            elements.append(ShaftElement(
+                length=length,
+                outer_diameter=section.outer_diameter,
+                inner_diameter=section.inner_diameter,
+                youngs_modulus=section.material.youngs_modulus,
+                shear_modulus=section.material.shear_modulus,
+                density=section.material.density,
+                added_mass=section.added_mass / n,
+                shear=theory == "timoshenko",
+                rotary=theory != "euler-bernoulli"))
+            sections.append(index)
+            z.append(z[-1] + length)
+        station_nodes.append(len(z) - 1)
+    element_nodes = np.array([[i, i + 1] for i in range(len(elements))], dtype=int)
+    return Mesh(np.asarray(z), np.asarray(station_nodes, dtype=int), tuple(elements),
+                element_nodes, np.asarray(sections, dtype=int))
+
+
+@dataclass(frozen=True)
+class _Link:
+    """A speed-dependent 2x2 bearing acting between ground or a support node."""
+
+    bearing: object
+    dofs: np.ndarray      # global DOFs of the element ([x, y] or [x, y, xs, ys])
+
+
+@dataclass(frozen=True)
+class SystemMatrices:
+    """Global matrices of a rotor-bearing system and its DOF map.
+
+    Use :meth:`stiffness` and :meth:`damping` for the speed-dependent parts;
+    ``mass`` and ``gyroscopic`` are constant.  All matrices are
+    ``scipy.sparse`` CSR in SI units.
+    """
+
+    rotor: Rotor
+    mesh: Mesh
+    mass: sp.csr_matrix
+    gyroscopic: sp.csr_matrix
+    shaft_stiffness: sp.csr_matrix
+    support_stiffness: sp.csr_matrix
+    support_damping: sp.csr_matrix
+    links: tuple
+    n_dof: int
+    support_dofs: np.ndarray   # (n_bearings, 2), -1 where the bearing is grounded
+
+    def node_dofs(self, node):
+        """Global DOFs ``[x, y, a, b]`` of a shaft node."""
+        return DOF_PER_NODE * node + np.arange(DOF_PER_NODE)
+
+    @property
+    def translation_dofs(self):
+        """(n_nodes, 2) global DOFs of x and y at every shaft node."""
+        base = DOF_PER_NODE * np.arange(self.mesh.n_nodes)
+        return np.stack([base, base + 1], axis=1)
+
+    def _bearing_part(self, omega, which):
+        rows, cols, data = [], [], []
+        for link in self.links:
+            k2, c2 = link.bearing.matrices(omega)
+            block = k2 if which == "k" else c2
+            local = fe_bearing.grounded(block) if len(link.dofs) == 2 else fe_bearing.linked(block)
+            r, c = np.meshgrid(link.dofs, link.dofs, indexing="ij")
+            rows.append(r.ravel())
+            cols.append(c.ravel())
+            data.append(local.ravel())
+        if not rows:
+            return sp.csr_matrix((self.n_dof, self.n_dof))
+        return sp.coo_matrix((np.concatenate(data), (np.concatenate(rows), np.concatenate(cols))),
+                             shape=(self.n_dof, self.n_dof)).tocsr()
+
+    def stiffness(self, omega):
+        """K(spin): shaft, bearings at ``omega`` (rad/s) and supports."""
+        return self.shaft_stiffness + self.support_stiffness + self._bearing_part(omega, "k")
+
+    def damping(self, omega):
+        """C(spin): bearings at ``omega`` (rad/s) and supports (no spin * G term)."""
+        return self.support_damping + self._bearing_part(omega, "c")
+
+    def table_warnings(self, speeds):
+        """One warning per bearing whose coefficient table does not cover ``speeds`` (rad/s)."""
+        speeds = np.atleast_1d(np.asarray(speeds, dtype=float))
+        out = []
+        for i, link in enumerate(self.links):
+            b = link.bearing
+            outside = [w for w in speeds if b.outside_table(w)]
+            if outside:
+                out.append(f"bearing {b.name or i}: its table covers {to_rpm(b.speeds[0]):.0f}-"
+                           f"{to_rpm(b.speeds[-1]):.0f} rpm; end values held at "
+                           f"{to_rpm(min(outside)):.0f}-{to_rpm(max(outside)):.0f} rpm")
+        return out
+
+    def element_matrices(self, index):
+        """Mass, stiffness, gyroscopic matrices (8x8) and global DOFs of shaft element ``index``."""
+        element = self.mesh.elements[index]
+        n1, n2 = self.mesh.element_nodes[index]
+        dofs = np.concatenate([self.node_dofs(n1), self.node_dofs(n2)])
+        return element.mass(), element.stiffness(), element.gyroscopic(), dofs
+
+
+class _Collector:
+    """COO triplets for one global matrix."""
+
+    def __init__(self):
+        self.rows, self.cols, self.data = [], [], []
+
+    def add(self, dofs, block):
+        r, c = np.meshgrid(dofs, dofs, indexing="ij")
+        self.rows.append(r.ravel())
+        self.cols.append(c.ravel())
+        self.data.append(np.asarray(block, dtype=float).ravel())
+
+    def matrix(self, n):
+        if not self.rows:
+            return sp.csr_matrix((n, n))
+        return sp.coo_matrix((np.concatenate(self.data),
+                              (np.concatenate(self.rows), np.concatenate(self.cols))),
+                             shape=(n, n)).tocsr()
+
+
+def _element_dofs(n1, n2):
+    return np.concatenate([DOF_PER_NODE * n1 + np.arange(4), DOF_PER_NODE * n2 + np.arange(4)])
+
+
+def assemble(rotor: Rotor) -> SystemMatrices:
+    """Build the global sparse matrices of ``rotor``.
+
+    Parameters
+    ----------
+    rotor : Rotor
+
+    Returns
+    -------
+    SystemMatrices
+    """
+    m = mesh(rotor)
+    n_shaft = DOF_PER_NODE * m.n_nodes
+    n_support = sum(1 for b in rotor.bearings if b.support is not None)
+    n_dof = n_shaft + 2 * n_support
+    mass, stiff, gyro = _Collector(), _Collector(), _Collector()
+    supp_k, supp_c = _Collector(), _Collector()
+
+    for element, (n1, n2) in zip(m.elements, m.element_nodes):
+        dofs = _element_dofs(n1, n2)
+        mass.add(dofs, element.mass())
+        stiff.add(dofs, element.stiffness())
+        gyro.add(dofs, element.gyroscopic())
+
+    for disk in rotor.disks:
+        dofs = DOF_PER_NODE * m.station_nodes[disk.station] + np.arange(4)
+        mass.add(dofs, disk_mass(disk.mass, disk.transverse_inertia))
+        gyro.add(dofs, disk_gyroscopic(disk.polar_inertia))
+
+    links, support_dofs, next_dof = [], [], n_shaft
+    for bearing in rotor.bearings:
+        shaft = DOF_PER_NODE * m.station_nodes[bearing.station] + np.arange(2)
+        if bearing.support is None:
+            links.append(_Link(bearing, shaft))
+            support_dofs.append([-1, -1])
+            continue
+        pedestal = np.array([next_dof, next_dof + 1])
+        next_dof += 2
+        links.append(_Link(bearing, np.concatenate([shaft, pedestal])))
+        support_dofs.append(list(pedestal))
+        s = bearing.support
+        mass.add(pedestal, np.diag([s.mass, s.mass]))
+        supp_k.add(pedestal, np.diag([s.kx, s.ky]))
+        supp_c.add(pedestal, np.diag([s.cx, s.cy]))
+
+    return SystemMatrices(
+        rotor=rotor, mesh=m, mass=mass.matrix(n_dof), gyroscopic=gyro.matrix(n_dof),
+        shaft_stiffness=stiff.matrix(n_dof), support_stiffness=supp_k.matrix(n_dof),
+        support_damping=supp_c.matrix(n_dof), links=tuple(links), n_dof=n_dof,
+        support_dofs=np.asarray(support_dofs, dtype=int).reshape(-1, 2))

@@ -1,0 +1,418 @@
+"""The rotor model: frozen dataclasses in SI units, validated on construction.
+
+A :class:`Rotor` is an immutable description: shaft sections laid end to end
+from station 0, rigid disks and bearings attached at stations, the operating
+range and the analysis settings.  Change one through copies
+(:func:`dataclasses.replace`); every construction validates and raises
+:class:`~rotorcalc.errors.InputError` with the key path of what is wrong.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .errors import InputError
+
+COEFFICIENT_NAMES = ("kxx", "kxy", "kyx", "kyy", "cxx", "cxy", "cyx", "cyy")
+BEAM_THEORIES = ("timoshenko", "rayleigh", "euler-bernoulli")
+MARGIN_RULES = ("af-curve", "fixed", "none")
+
+
+def _positive(key, value, *, allow_zero=False):
+    ok = value >= 0.0 if allow_zero else value > 0.0
+    if not (math.isfinite(value) and ok):
+        what = "zero or positive" if allow_zero else "positive"
+        raise InputError(key, f"must be {what}", value=value, expected=f"a {what} finite number",
+                         kind="range")
+
+
+@dataclass(frozen=True)
+class Material:
+    """An isotropic elastic material.
+
+    Attributes
+    ----------
+    name : str
+    youngs_modulus : float
+        Pa.
+    shear_modulus : float
+        Pa.
+    density : float
+        kg/m^3.
+    """
+
+    name: str
+    youngs_modulus: float
+    shear_modulus: float
+    density: float
+
+    def __post_init__(self):
+        key = f"material.{self.name}"
+        _positive(f"{key}.youngs_modulus", self.youngs_modulus)
+        _positive(f"{key}.shear_modulus", self.shear_modulus)
+        _positive(f"{key}.density", self.density)
+
+    @property
+    def poisson_ratio(self) -> float:
+        return self.youngs_modulus / (2.0 * self.shear_modulus) - 1.0
+
+
+@dataclass(frozen=True)
+class Section:
+    """A uniform shaft section between two consecutive stations.
+
+    Attributes
+    ----------
+    length, outer_diameter, inner_diameter : float
+        m.  ``inner_diameter`` is 0 for a solid section.
+    material : Material
+    elements : int
+        Number of finite elements the section is divided into.
+    added_mass : float
+        kg carried by the section without adding stiffness (sleeves, shrunk
+        parts), spread uniformly over its length.
+    """
+
+    length: float
+    outer_diameter: float
+    material: Material
+    inner_diameter: float = 0.0
+    elements: int = 1
+    added_mass: float = 0.0
+    key: str = "section"
+
+    def __post_init__(self):
+        _positive(f"{self.key}.length", self.length)
+        _positive(f"{self.key}.outer_diameter", self.outer_diameter)
+        _positive(f"{self.key}.inner_diameter", self.inner_diameter, allow_zero=True)
+        if self.inner_diameter >= self.outer_diameter:
+            raise InputError(f"{self.key}.inner_diameter", "must be smaller than outer_diameter",
+                             value=self.inner_diameter,
+                             expected=f"a bore below {self.outer_diameter:g} m", kind="range")
+        if isinstance(self.elements, bool) or not isinstance(self.elements, int) or self.elements < 1:
+            raise InputError(f"{self.key}.elements", "must be a whole number of at least 1",
+                             value=self.elements, expected="1, 2, 3 ...", kind="range")
+        _positive(f"{self.key}.added_mass", self.added_mass, allow_zero=True)
+
+    @property
+    def area(self) -> float:
+        return math.pi / 4.0 * (self.outer_diameter**2 - self.inner_diameter**2)
+
+    @property
+    def second_moment(self) -> float:
+        """Second moment of area about a diameter, m^4."""
+        return math.pi / 64.0 * (self.outer_diameter**4 - self.inner_diameter**4)
+
+    @property
+    def mass(self) -> float:
+        """Mass of the section including its added mass, kg."""
+        return self.material.density * self.area * self.length + self.added_mass
+
+
+@dataclass(frozen=True)
+class Disk:
+    """A rigid disk at a station.
+
+    Attributes
+    ----------
+    station : int
+    mass : float
+        kg.
+    polar_inertia, transverse_inertia : float
+        kg m^2, about the spin axis and about a diameter through the disk's
+        centre of mass (which sits at the station).
+    """
+
+    station: int
+    mass: float
+    polar_inertia: float
+    transverse_inertia: float
+    name: str = ""
+    key: str = "disk"
+
+    def __post_init__(self):
+        _positive(f"{self.key}.mass", self.mass)
+        _positive(f"{self.key}.polar_inertia", self.polar_inertia, allow_zero=True)
+        _positive(f"{self.key}.transverse_inertia", self.transverse_inertia, allow_zero=True)
+
+    @classmethod
+    def from_geometry(cls, station, outer_diameter, inner_diameter, width, density, name="",
+                      key="disk"):
+        """A solid-of-revolution disk (annulus of uniform width) from its geometry."""
+        _positive(f"{key}.outer_diameter", outer_diameter)
+        _positive(f"{key}.inner_diameter", inner_diameter, allow_zero=True)
+        _positive(f"{key}.width", width)
+        if inner_diameter >= outer_diameter:
+            raise InputError(f"{key}.inner_diameter", "must be smaller than outer_diameter",
+                             value=inner_diameter, kind="range")
+        mass = density * math.pi / 4.0 * (outer_diameter**2 - inner_diameter**2) * width
+        polar = mass * (outer_diameter**2 + inner_diameter**2) / 8.0
+        transverse = polar / 2.0 + mass * width**2 / 12.0
+        return cls(station, mass, polar, transverse, name=name, key=key)
+
+
+@dataclass(frozen=True)
+class Support:
+    """A pedestal between a bearing and ground: mass, stiffness and damping per direction.
+
+    The bearing connects the shaft to the support mass; ``kx, ky`` (N/m) and
+    ``cx, cy`` (N s/m) connect the support mass (kg) to ground.
+    """
+
+    kx: float
+    ky: float
+    mass: float = 0.0
+    cx: float = 0.0
+    cy: float = 0.0
+    key: str = "support"
+
+    def __post_init__(self):
+        _positive(f"{self.key}.kx", self.kx)
+        _positive(f"{self.key}.ky", self.ky)
+        _positive(f"{self.key}.mass", self.mass, allow_zero=True)
+        _positive(f"{self.key}.cx", self.cx, allow_zero=True)
+        _positive(f"{self.key}.cy", self.cy, allow_zero=True)
+
+
+@dataclass(frozen=True)
+class Bearing:
+    """Linear bearing (or seal) coefficients, each constant or tabulated over speed.
+
+    Attributes
+    ----------
+    station : int
+    speeds : tuple of float
+        rad/s, strictly increasing; empty when every coefficient is constant.
+    coefficients : dict
+        ``{"kxx": (values...), ...}`` for the eight names of
+        :data:`COEFFICIENT_NAMES`; each a tuple of one value (constant) or of
+        ``len(speeds)`` values.  N/m and N s/m.  The force on the shaft is
+        ``-K q - C q'`` with ``K = [[kxx, kxy], [kyx, kyy]]``.
+    support : Support or None
+
+    Notes
+    -----
+    Outside the table the end values are held (the rule stated in the docs),
+    and :meth:`outside_table` tells the caller so it can warn.
+    """
+
+    station: int
+    coefficients: dict
+    speeds: tuple = ()
+    name: str = ""
+    kind: str = "bearing"
+    support: Support | None = None
+    key: str = "bearing"
+
+    def __post_init__(self):
+        unknown = set(self.coefficients) - set(COEFFICIENT_NAMES)
+        if unknown:
+            raise InputError(f"{self.key}.{sorted(unknown)[0]}", "is not a bearing coefficient",
+                             expected=", ".join(COEFFICIENT_NAMES), kind="unknown-key")
+        speeds = np.asarray(self.speeds, dtype=float)
+        if speeds.size and (not np.all(np.isfinite(speeds)) or np.any(speeds < 0)):
+            raise InputError(f"{self.key}.speeds", "must be finite and not negative",
+                             value=list(self.speeds), kind="range")
+        if speeds.size > 1 and np.any(np.diff(speeds) <= 0.0):
+            bad = int(np.argmax(np.diff(speeds) <= 0.0)) + 1
+            raise InputError(f"{self.key}.speeds[{bad}]", "speeds must be strictly increasing",
+                             value=list(self.speeds), kind="order")
+        for name in COEFFICIENT_NAMES:
+            values = tuple(self.coefficients.get(name, (0.0,)))
+            if len(values) not in (1, max(speeds.size, 1)):
+                raise InputError(f"{self.key}.{name}",
+                                 f"has {len(values)} values but speeds has {speeds.size}",
+                                 expected="one value, or one value per speed", kind="length")
+            if len(values) > 1 and speeds.size == 0:
+                raise InputError(f"{self.key}.{name}", "is a table but the bearing has no speeds",
+                                 expected="a 'speeds' list of the same length", kind="length")
+            for i, v in enumerate(values):
+                if not math.isfinite(v):
+                    raise InputError(f"{self.key}.{name}[{i}]", "is not a finite number", value=v,
+                                     kind="not-finite")
+            if name in ("kxx", "kyy", "cxx", "cyy"):
+                for i, v in enumerate(values):
+                    if v < 0.0 and name[0] == "k":
+                        raise InputError(f"{self.key}.{name}[{i}]",
+                                         "direct stiffness must not be negative", value=v,
+                                         kind="range")
+
+    def table(self, name) -> tuple:
+        return tuple(self.coefficients.get(name, (0.0,)))
+
+    def outside_table(self, omega) -> bool:
+        """True when ``omega`` lies outside the tabulated speeds (end values held)."""
+        if len(self.speeds) < 2:
+            return False
+        return omega < self.speeds[0] * (1 - 1e-12) or omega > self.speeds[-1] * (1 + 1e-12)
+
+    def matrices(self, omega):
+        """Stiffness and damping matrices (2x2, SI) at spin speed ``omega`` (rad/s).
+
+        Linear interpolation between table points; the end value is held
+        outside the table.
+        """
+        values = {}
+        for name in COEFFICIENT_NAMES:
+            table = self.table(name)
+            if len(table) == 1:
+                values[name] = table[0]
+            else:
+                values[name] = float(np.interp(omega, self.speeds, table))
+        k = np.array([[values["kxx"], values["kxy"]], [values["kyx"], values["kyy"]]])
+        c = np.array([[values["cxx"], values["cxy"]], [values["cyx"], values["cyy"]]])
+        return k, c
+
+
+@dataclass(frozen=True)
+class OperatingRange:
+    """Speeds in rad/s: minimum and maximum continuous, optional trip."""
+
+    min_speed: float
+    max_speed: float
+    trip_speed: float | None = None
+
+    def __post_init__(self):
+        _positive("operating.min_speed", self.min_speed, allow_zero=True)
+        _positive("operating.max_speed", self.max_speed)
+        if self.min_speed > self.max_speed:
+            raise InputError("operating.min_speed", "is above max_speed", value=self.min_speed,
+                             expected=f"at most max_speed ({self.max_speed:g} rad/s)",
+                             kind="order")
+        if self.trip_speed is not None:
+            _positive("operating.trip_speed", self.trip_speed)
+            if self.trip_speed < self.max_speed:
+                raise InputError("operating.trip_speed", "is below max_speed",
+                                 value=self.trip_speed, expected="at least max_speed",
+                                 kind="order")
+
+
+@dataclass(frozen=True)
+class MarginRule:
+    """How the required separation margin is set (see docs/theory.md).
+
+    ``"af-curve"``: the amplification-factor rule of industry standards for
+    centrifugal machinery (common practice, from memory); ``"fixed"``: the
+    ``below`` and ``above`` percentages for every critical; ``"none"``: no
+    margin required (the table still lists the margins).
+    """
+
+    kind: str = "af-curve"
+    below: float = 15.0
+    above: float = 15.0
+    af_threshold: float = 2.5
+
+    def __post_init__(self):
+        if self.kind not in MARGIN_RULES:
+            raise InputError("analysis.margin_rule", "is not a known rule", value=self.kind,
+                             expected=" or ".join(MARGIN_RULES), kind="choice")
+        _positive("analysis.margin_below", self.below, allow_zero=True)
+        _positive("analysis.margin_above", self.above, allow_zero=True)
+        _positive("analysis.af_threshold", self.af_threshold)
+
+
+@dataclass(frozen=True)
+class Settings:
+    """Analysis settings: sweep, number of modes, excitation orders, beam theory."""
+
+    speed_from: float | None = None
+    speed_to: float | None = None
+    speed_count: int = 61
+    modes: int = 8
+    orders: tuple = (1.0,)
+    beam_theory: str = "timoshenko"
+    margin_rule: MarginRule = field(default_factory=MarginRule)
+    judge_backward: bool = False
+
+    def __post_init__(self):
+        if not isinstance(self.speed_count, int) or self.speed_count < 3:
+            raise InputError("analysis.speed_count", "must be a whole number of at least 3",
+                             value=self.speed_count, kind="range")
+        if not isinstance(self.modes, int) or self.modes < 1:
+            raise InputError("analysis.modes", "must be a whole number of at least 1",
+                             value=self.modes, kind="range")
+        if not self.orders:
+            raise InputError("analysis.orders", "must list at least one order", kind="range")
+        for i, order in enumerate(self.orders):
+            _positive(f"analysis.orders[{i}]", order)
+        if self.beam_theory not in BEAM_THEORIES:
+            raise InputError("analysis.beam_theory", "is not a known beam theory",
+                             value=self.beam_theory, expected=" or ".join(BEAM_THEORIES),
+                             kind="choice")
+        for name in ("speed_from", "speed_to"):
+            value = getattr(self, name)
+            if value is not None:
+                _positive(f"analysis.{name}", value, allow_zero=True)
+        if (self.speed_from is not None and self.speed_to is not None
+                and self.speed_to <= self.speed_from):
+            raise InputError("analysis.speed_to", "must be above speed_from", value=self.speed_to,
+                             kind="order")
+
+
+@dataclass(frozen=True)
+class Rotor:
+    """A rotor-bearing system.
+
+    Attributes
+    ----------
+    sections : tuple of Section
+        From station 0; section ``i`` spans stations ``i`` and ``i + 1``.
+    disks, bearings : tuple
+    operating : OperatingRange
+    settings : Settings
+    station_names : dict
+        Optional names, ``{name: station number}``.
+    """
+
+    sections: tuple
+    operating: OperatingRange
+    disks: tuple = ()
+    bearings: tuple = ()
+    settings: Settings = field(default_factory=Settings)
+    station_names: dict = field(default_factory=dict)
+    name: str = "rotor"
+
+    def __post_init__(self):
+        if not self.sections:
+            raise InputError("section", "the rotor has no shaft sections",
+                             expected="at least one [[section]] table", kind="missing")
+        last = len(self.sections)
+        for group in (self.disks, self.bearings):
+            for part in group:
+                if not (isinstance(part.station, int) and 0 <= part.station <= last):
+                    raise InputError(f"{part.key}.at", "names a station that does not exist",
+                                     value=part.station,
+                                     expected=f"a station number 0..{last} or a station name",
+                                     kind="station")
+        for name, station in self.station_names.items():
+            if not (0 <= station <= last):
+                raise InputError(f"stations.{name}", "names a station that does not exist",
+                                 value=station, expected=f"0..{last}", kind="station")
+        names = [b.name for b in self.bearings if b.name]
+        dup = {n for n in names if names.count(n) > 1}
+        if dup:
+            raise InputError("bearing.name", "is used twice", value=sorted(dup)[0],
+                             expected="a name of its own for each bearing", kind="duplicate")
+
+    @property
+    def station_positions(self) -> np.ndarray:
+        """Axial position of every station, m (station 0 at z = 0)."""
+        return np.concatenate([[0.0], np.cumsum([s.length for s in self.sections])])
+
+    @property
+    def length(self) -> float:
+        return float(self.station_positions[-1])
+
+    @property
+    def mass(self) -> float:
+        """Total rotor mass (shaft, added masses, disks), kg; supports excluded."""
+        return sum(s.mass for s in self.sections) + sum(d.mass for d in self.disks)
+
+    def station_label(self, station: int) -> str:
+        for name, number in self.station_names.items():
+            if number == station:
+                return name
+        return str(station)

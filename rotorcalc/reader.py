@@ -1,0 +1,407 @@
+"""TOML rotor description to a :class:`~rotorcalc.model.Rotor`.
+
+The layout is documented key by key in ``docs/input.md``.  Every table has a
+fixed set of keys: an unknown key is an error that names the nearest valid
+one.  Dimensional values go through :mod:`rotorcalc.units` (a bare number is
+SI).  Errors carry the key path, the file and, where it can be found, the line.
+"""
+
+from __future__ import annotations
+
+import difflib
+import math
+import re
+import sys
+from pathlib import Path
+
+if sys.version_info >= (3, 11):
+    import tomllib
+else:  # pragma: no cover
+    import tomli as tomllib
+
+from . import units as u
+from .errors import InputError
+from .model import (COEFFICIENT_NAMES, Bearing, Disk, MarginRule, Material, OperatingRange,
+                    Rotor, Section, Settings, Support)
+
+TOP_KEYS = {"title", "stations", "materials", "section", "disk", "bearing", "operating",
+            "analysis"}
+MATERIAL_KEYS = {"youngs_modulus", "shear_modulus", "poisson_ratio", "density"}
+SECTION_KEYS = {"length", "outer_diameter", "inner_diameter", "material", "elements",
+                "added_mass"}
+DISK_KEYS = {"at", "name", "mass", "polar_inertia", "transverse_inertia", "outer_diameter",
+             "inner_diameter", "width", "material"}
+BEARING_KEYS = {"at", "name", "kind", "speeds", "support", *COEFFICIENT_NAMES}
+SUPPORT_KEYS = {"mass", "kx", "ky", "cx", "cy"}
+OPERATING_KEYS = {"min_speed", "max_speed", "trip_speed"}
+ANALYSIS_KEYS = {"speed_from", "speed_to", "speed_count", "modes", "orders", "beam_theory",
+                 "margin_rule", "margin_below", "margin_above", "af_threshold",
+                 "judge_backward"}
+BEARING_KINDS = ("bearing", "seal")
+
+
+def read_rotor(path) -> Rotor:
+    """Read a rotor description from a TOML file.
+
+    Raises
+    ------
+    InputError
+        With the key path, file and line of the first problem found.
+    """
+    path = Path(path)
+    try:
+        text = path.read_text(encoding="utf-8")
+    except OSError as exc:
+        raise InputError("file", f"cannot be read ({exc.strerror})", value=str(path),
+                         expected="a readable TOML file", file=str(path), kind="file") from None
+    except UnicodeDecodeError:
+        raise InputError("file", "is not UTF-8 text", value=str(path), file=str(path),
+                         kind="file") from None
+    return parse_rotor(text, source=str(path))
+
+
+def parse_rotor(text: str, source: str = "<text>") -> Rotor:
+    """Build a rotor from TOML text; ``source`` names it in error messages."""
+    data = load_toml(text, source)
+    try:
+        return rotor_from_dict(data)
+    except InputError as err:
+        raise err.with_location(file=source, line=locate(text, err.key)) from None
+
+
+def load_toml(text, source):
+    """Parse TOML, turning syntax errors into an InputError with line and column."""
+    try:
+        return tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        msg = str(exc)
+        match = re.search(r"line (\d+), column (\d+)", msg)
+        line = int(match.group(1)) if match else None
+        raise InputError("(syntax)", f"is not valid TOML: {msg}", file=source, line=line,
+                         expected="TOML syntax, see docs/input.md", kind="syntax") from None
+
+
+# --- helpers -------------------------------------------------------------------------
+
+def check_keys(table, allowed, where):
+    """Raise on the first key of ``table`` that is not in ``allowed``."""
+    if not isinstance(table, dict):
+        raise InputError(where, "must be a table", value=_short(table),
+                         expected="a TOML table of keys", kind="type")
+    for key in table:
+        if key not in allowed:
+            near = difflib.get_close_matches(key, sorted(allowed), n=1, cutoff=0.5)
+            hint = f"did you mean '{near[0]}'?" if near else \
+                "one of " + ", ".join(sorted(allowed))
+            path = f"{where}.{key}" if where else key
+            raise InputError(path, "is not a known key", expected=hint, kind="unknown-key")
+
+
+def _short(value):
+    text = repr(value)
+    return text if len(text) < 60 else text[:57] + "..."
+
+
+def _require(table, key, where):
+    if key not in table:
+        raise InputError(f"{where}.{key}", "is missing", expected="a value; see docs/input.md",
+                         kind="missing")
+    return table[key]
+
+
+def _quantity(table, key, dim, where, default=None, required=False):
+    if key not in table:
+        if required:
+            _require(table, key, where)
+        return default
+    return u.parse(table[key], dim, f"{where}.{key}")
+
+
+def _integer(table, key, where, default):
+    value = table.get(key, default)
+    if isinstance(value, bool) or not isinstance(value, int):
+        raise InputError(f"{where}.{key}", "must be a whole number", value=value,
+                         kind="type")
+    return value
+
+
+def _number(table, key, where, default):
+    value = table.get(key, default)
+    if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value):
+        raise InputError(f"{where}.{key}", "must be a finite number", value=value, kind="type")
+    return float(value)
+
+
+def _string(table, key, where, default=None, required=False):
+    if key not in table:
+        if required:
+            _require(table, key, where)
+        return default
+    value = table[key]
+    if not isinstance(value, str):
+        raise InputError(f"{where}.{key}", "must be text", value=value, kind="type")
+    return value
+
+
+def _array_of_tables(data, key):
+    value = data.get(key, [])
+    if not isinstance(value, list) or not all(isinstance(v, dict) for v in value):
+        raise InputError(key, "must be written as [[%s]] tables" % key, value=_short(value),
+                         kind="type")
+    return value
+
+
+# --- the rotor -------------------------------------------------------------------------
+
+def rotor_from_dict(data: dict) -> Rotor:
+    """Build a rotor from a parsed TOML document (a dict)."""
+    check_keys(data, TOP_KEYS, "")
+    materials = _materials(data.get("materials", {}))
+    sections = tuple(_section(t, i, materials) for i, t in enumerate(_array_of_tables(data, "section")))
+    if not sections:
+        raise InputError("section", "the rotor has no shaft sections",
+                         expected="at least one [[section]] table", kind="missing")
+    names = _station_names(data.get("stations", {}), len(sections))
+    disks = tuple(_disk(t, i, materials, names, len(sections))
+                  for i, t in enumerate(_array_of_tables(data, "disk")))
+    bearings = tuple(_bearing(t, i, names, len(sections))
+                     for i, t in enumerate(_array_of_tables(data, "bearing")))
+    if "operating" not in data:
+        raise InputError("operating", "is missing",
+                         expected="an [operating] table with min_speed and max_speed",
+                         kind="missing")
+    operating = _operating(data["operating"])
+    settings = _settings(data.get("analysis", {}))
+    title = _string(data, "title", "", default="rotor")
+    return Rotor(sections=sections, operating=operating, disks=disks, bearings=bearings,
+                 settings=settings, station_names=names, name=title)
+
+
+def _materials(table):
+    check_keys(table, set(table), "materials")  # any names; each checked below
+    out = {}
+    for name, entry in table.items():
+        where = f"materials.{name}"
+        check_keys(entry, MATERIAL_KEYS, where)
+        e = _quantity(entry, "youngs_modulus", u.PRESSURE, where, required=True)
+        rho = _quantity(entry, "density", u.DENSITY, where, required=True)
+        if "shear_modulus" in entry and "poisson_ratio" in entry:
+            raise InputError(f"{where}.poisson_ratio", "is given together with shear_modulus",
+                             expected="one of shear_modulus or poisson_ratio", kind="conflict")
+        if "shear_modulus" in entry:
+            g = _quantity(entry, "shear_modulus", u.PRESSURE, where)
+        else:
+            nu = _number(entry, "poisson_ratio", where, 0.3)
+            if not -1.0 < nu < 0.5:
+                raise InputError(f"{where}.poisson_ratio", "is outside (-1, 0.5)", value=nu,
+                                 expected="a Poisson's ratio such as 0.29", kind="range")
+            g = e / (2.0 * (1.0 + nu)) if e > 0 else e
+        out[name] = Material(name, e, g, rho)
+    return out
+
+
+def _material_ref(table, where, materials):
+    name = _string(table, "material", where, required=True)
+    if name not in materials:
+        near = difflib.get_close_matches(name, sorted(materials), n=1, cutoff=0.5)
+        hint = f"did you mean '{near[0]}'?" if near else \
+            ("one of " + ", ".join(sorted(materials)) if materials else "a [materials.NAME] table")
+        raise InputError(f"{where}.material", "names an unknown material", value=name,
+                         expected=hint, kind="unknown-material")
+    return materials[name]
+
+
+def _section(table, i, materials):
+    where = f"section[{i}]"
+    check_keys(table, SECTION_KEYS, where)
+    length = _quantity(table, "length", u.LENGTH, where, required=True)
+    outer = _quantity(table, "outer_diameter", u.LENGTH, where, required=True)
+    inner = _quantity(table, "inner_diameter", u.LENGTH, where, default=0.0)
+    material = _material_ref(table, where, materials)
+    default_elements = max(1, math.ceil(length / (2.0 * outer))) if outer > 0 and length > 0 else 1
+    elements = _integer(table, "elements", where, default_elements)
+    added = _quantity(table, "added_mass", u.MASS, where, default=0.0)
+    return Section(length=length, outer_diameter=outer, inner_diameter=inner, material=material,
+                   elements=elements, added_mass=added, key=where)
+
+
+def _station_names(table, n_sections):
+    check_keys(table, set(table), "stations")
+    names = {}
+    for name, number in table.items():
+        if isinstance(number, bool) or not isinstance(number, int):
+            raise InputError(f"stations.{name}", "must be a station number", value=number,
+                             expected=f"a whole number 0..{n_sections}", kind="type")
+        if not 0 <= number <= n_sections:
+            raise InputError(f"stations.{name}", "names a station that does not exist",
+                             value=number, expected=f"0..{n_sections}", kind="station")
+        names[name] = number
+    return names
+
+
+def _station(table, where, names, n_sections):
+    at = _require(table, "at", where)
+    if isinstance(at, str):
+        if at not in names:
+            near = difflib.get_close_matches(at, sorted(names), n=1, cutoff=0.5)
+            hint = f"did you mean '{near[0]}'?" if near else \
+                f"a station number 0..{n_sections} or a name from [stations]"
+            raise InputError(f"{where}.at", "names an unknown station", value=at,
+                             expected=hint, kind="station")
+        return names[at]
+    if isinstance(at, bool) or not isinstance(at, int) or not 0 <= at <= n_sections:
+        raise InputError(f"{where}.at", "names a station that does not exist", value=at,
+                         expected=f"a station number 0..{n_sections} or a name from [stations]",
+                         kind="station")
+    return at
+
+
+def _disk(table, i, materials, names, n_sections):
+    where = f"disk[{i}]"
+    check_keys(table, DISK_KEYS, where)
+    station = _station(table, where, names, n_sections)
+    name = _string(table, "name", where, default="")
+    geometric = {"outer_diameter", "width", "material"} & set(table)
+    direct = {"mass", "polar_inertia", "transverse_inertia"} & set(table)
+    if geometric and direct:
+        raise InputError(f"{where}.{sorted(direct)[0]}", "is given together with disk geometry",
+                         expected="either mass and inertias, or outer_diameter, width and "
+                                  "material", kind="conflict")
+    if geometric:
+        outer = _quantity(table, "outer_diameter", u.LENGTH, where, required=True)
+        inner = _quantity(table, "inner_diameter", u.LENGTH, where, default=0.0)
+        width = _quantity(table, "width", u.LENGTH, where, required=True)
+        material = _material_ref(table, where, materials)
+        return Disk.from_geometry(station, outer, inner, width, material.density, name=name,
+                                  key=where)
+    if "inner_diameter" in table:
+        raise InputError(f"{where}.inner_diameter", "needs outer_diameter, width and material",
+                         kind="conflict")
+    mass = _quantity(table, "mass", u.MASS, where, required=True)
+    polar = _quantity(table, "polar_inertia", u.INERTIA, where, default=0.0)
+    transverse = _quantity(table, "transverse_inertia", u.INERTIA, where, default=polar / 2.0)
+    return Disk(station, mass, polar, transverse, name=name, key=where)
+
+
+def _bearing(table, i, names, n_sections):
+    where = f"bearing[{i}]"
+    check_keys(table, BEARING_KEYS, where)
+    station = _station(table, where, names, n_sections)
+    name = _string(table, "name", where, default=f"B{i + 1}")
+    kind = _string(table, "kind", where, default="bearing")
+    if kind not in BEARING_KINDS:
+        raise InputError(f"{where}.kind", "is not a known kind", value=kind,
+                         expected=" or ".join(BEARING_KINDS), kind="choice")
+    speeds = ()
+    if "speeds" in table:
+        raw = table["speeds"]
+        if not isinstance(raw, list) or not raw:
+            raise InputError(f"{where}.speeds", "must be a list of speeds", value=_short(raw),
+                             expected='e.g. ["1000 rpm", "3000 rpm"]', kind="type")
+        speeds = tuple(u.parse(v, u.SPEED, f"{where}.speeds[{j}]") for j, v in enumerate(raw))
+    coefficients = {}
+    for cname in COEFFICIENT_NAMES:
+        if cname not in table:
+            continue
+        dim = u.STIFFNESS if cname[0] == "k" else u.DAMPING
+        raw = table[cname]
+        if isinstance(raw, list):
+            if not raw:
+                raise InputError(f"{where}.{cname}", "is an empty list", kind="length")
+            values = tuple(u.parse(v, dim, f"{where}.{cname}[{j}]") for j, v in enumerate(raw))
+        else:
+            values = (u.parse(raw, dim, f"{where}.{cname}"),)
+        coefficients[cname] = values
+    if not any(k in coefficients for k in ("kxx", "kyy")):
+        raise InputError(f"{where}.kxx", "is missing",
+                         expected="at least the direct stiffnesses kxx and kyy", kind="missing")
+    support = None
+    if "support" in table:
+        sw = f"{where}.support"
+        st = table["support"]
+        check_keys(st, SUPPORT_KEYS, sw)
+        support = Support(kx=_quantity(st, "kx", u.STIFFNESS, sw, required=True),
+                          ky=_quantity(st, "ky", u.STIFFNESS, sw, required=True),
+                          mass=_quantity(st, "mass", u.MASS, sw, default=0.0),
+                          cx=_quantity(st, "cx", u.DAMPING, sw, default=0.0),
+                          cy=_quantity(st, "cy", u.DAMPING, sw, default=0.0), key=sw)
+    return Bearing(station=station, coefficients=coefficients, speeds=speeds, name=name,
+                   kind=kind, support=support, key=where)
+
+
+def _operating(table):
+    where = "operating"
+    check_keys(table, OPERATING_KEYS, where)
+    return OperatingRange(
+        min_speed=_quantity(table, "min_speed", u.SPEED, where, required=True),
+        max_speed=_quantity(table, "max_speed", u.SPEED, where, required=True),
+        trip_speed=_quantity(table, "trip_speed", u.SPEED, where, default=None))
+
+
+def _settings(table):
+    where = "analysis"
+    check_keys(table, ANALYSIS_KEYS, where)
+    orders = table.get("orders", [1.0])
+    if not isinstance(orders, list):
+        orders = [orders]
+    for j, order in enumerate(orders):
+        if isinstance(order, bool) or not isinstance(order, (int, float)):
+            raise InputError(f"{where}.orders[{j}]", "must be a number", value=order,
+                             expected="excitation orders such as [1, 2]", kind="type")
+    judge = table.get("judge_backward", False)
+    if not isinstance(judge, bool):
+        raise InputError(f"{where}.judge_backward", "must be true or false", value=judge,
+                         kind="type")
+    rule = MarginRule(kind=_string(table, "margin_rule", where, default="af-curve"),
+                      below=_number(table, "margin_below", where, 15.0),
+                      above=_number(table, "margin_above", where, 15.0),
+                      af_threshold=_number(table, "af_threshold", where, 2.5))
+    return Settings(speed_from=_quantity(table, "speed_from", u.SPEED, where),
+                    speed_to=_quantity(table, "speed_to", u.SPEED, where),
+                    speed_count=_integer(table, "speed_count", where, 61),
+                    modes=_integer(table, "modes", where, 8),
+                    orders=tuple(float(o) for o in orders),
+                    beam_theory=_string(table, "beam_theory", where, default="timoshenko"),
+                    margin_rule=rule, judge_backward=judge)
+
+
+# --- where is a key? --------------------------------------------------------------------
+
+_HEADER = re.compile(r"^\s*\[\[?\s*([^\]]+?)\s*\]\]?\s*(#.*)?$")
+_PART = re.compile(r"^([^\[\]]+)(?:\[(\d+)\])?$")
+
+
+def locate(text: str, key: str):
+    """Best-effort 1-based line number of a key path such as ``bearing[1].kxx[2]``."""
+    if not key or key.startswith("("):
+        return None
+    lines = text.splitlines()
+    parts = []
+    for piece in key.split("."):
+        match = _PART.match(piece)
+        if not match:
+            return None
+        parts.append((match.group(1), int(match.group(2)) if match.group(2) else None))
+    start, end, header = 0, len(lines), []
+    for depth, (name, index) in enumerate(parts):
+        header = header + [name]
+        wanted = ".".join(header)
+        hits = [n for n in range(start, end) if (m := _HEADER.match(lines[n]))
+                and m.group(1).replace(" ", "") == wanted]
+        if hits:
+            pick = hits[index] if index is not None and index < len(hits) else hits[0]
+            start = pick + 1
+            nxt = [n for n in range(start, len(lines)) if (m := _HEADER.match(lines[n]))
+                   and not m.group(1).replace(" ", "").startswith(wanted + ".")]
+            end = nxt[0] if nxt else len(lines)
+            continue
+        if any((m := _HEADER.match(line)) and m.group(1).replace(" ", "").startswith(wanted + ".")
+               for line in lines[start:end]):
+            continue  # a dotted header further down, e.g. [materials.steel]
+        # a plain key inside the current table
+        pattern = re.compile(rf"^\s*{re.escape(name)}\s*=")
+        for n in range(start, end):
+            if pattern.match(lines[n]):
+                return n + 1
+        return start if start > 0 else None
+    return start if start > 0 else None

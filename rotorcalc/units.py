@@ -1,0 +1,116 @@
+"""Quantities at the edges: parse input text to SI floats, format SI for output.
+
+The numeric core sees plain SI floats only (m, kg, s, N, rad/s).  Parsing is
+done by pint, whose expression parser is a small grammar of its own (no Python
+``eval``).  A bare number is taken as SI.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import pint
+
+from .errors import InputError
+
+_UREG = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+_UREG.define("cycles_per_minute = revolution / minute = cpm")
+
+#: Angular speeds: pint takes Hz as 1/s, which would read "50 Hz" as 50 rad/s.
+#: For a rotational speed or frequency, Hz means revolutions per second.
+_HZ_NAMES = ("hertz",)
+
+
+@dataclass(frozen=True)
+class Dimension:
+    """A physical dimension an input value must have, with its SI unit."""
+
+    name: str
+    si_unit: str
+    examples: str
+
+    @property
+    def dimensionality(self):
+        return _UREG.Quantity(1.0, self.si_unit).dimensionality
+
+
+LENGTH = Dimension("length", "m", '"80 mm", "3.5 in"')
+MASS = Dimension("mass", "kg", '"12 kg", "26 lb"')
+INERTIA = Dimension("mass moment of inertia", "kg*m**2", '"0.8 kg*m^2", "2700 lb*in^2"')
+STIFFNESS = Dimension("stiffness", "N/m", '"1.2e8 N/m", "650 klbf/in"')
+DAMPING = Dimension("damping", "N*s/m", '"2.5e4 N*s/m", "120 lbf*s/in"')
+SPEED = Dimension("rotational speed", "rad/s", '"3600 rpm", "60 Hz", "377 rad/s"')
+PRESSURE = Dimension("modulus", "Pa", '"211 GPa", "30e6 psi"')
+DENSITY = Dimension("density", "kg/m**3", '"7850 kg/m^3", "0.283 lb/in^3"')
+UNBALANCE = Dimension("unbalance", "kg*m", '"12 g*mm", "0.05 oz*in"')
+ANGLE = Dimension("angle", "rad", '"30 deg", "0.5 rad"')
+
+
+def parse(value, dim: Dimension, key: str) -> float:
+    """Return ``value`` as an SI float of dimension ``dim``.
+
+    Parameters
+    ----------
+    value : float, int or str
+        A bare number (taken as SI) or text with a unit, e.g. ``"80 mm"``.
+    dim : Dimension
+        The dimension the value must have.
+    key : str
+        Key path used in the error message.
+
+    Raises
+    ------
+    InputError
+        When the text is not a quantity, has the wrong dimension, or is not finite.
+    """
+    expected = f"a {dim.name}: a number in {dim.si_unit} or text with a unit such as {dim.examples}"
+    if isinstance(value, bool):
+        raise InputError(key, "is a true/false value, not a number", value=value,
+                         expected=expected, kind="type")
+    if isinstance(value, (int, float)):
+        number = float(value)
+    elif isinstance(value, str):
+        number = _parse_text(value, dim, key, expected)
+    else:
+        raise InputError(key, f"has the wrong type ({type(value).__name__})",
+                         value=value, expected=expected, kind="type")
+    if not math.isfinite(number):
+        raise InputError(key, "is not a finite number", value=value,
+                         expected=expected, kind="not-finite")
+    return number
+
+
+def _parse_text(text, dim, key, expected):
+    try:
+        quantity = _UREG.Quantity(text.strip())
+    except Exception as exc:  # pint raises a zoo of parser errors
+        raise InputError(key, f"cannot be read as a quantity ({type(exc).__name__})",
+                         value=text, expected=expected, kind="unit") from None
+    if not isinstance(quantity, _UREG.Quantity):
+        return float(quantity)  # plain number written as text: SI
+    if quantity.unitless:
+        return float(quantity.magnitude)
+    if dim is SPEED and any(name in str(quantity.units) for name in _HZ_NAMES):
+        quantity = quantity * _UREG.Quantity(2.0 * math.pi, "rad")
+    try:
+        return float(quantity.to(dim.si_unit).magnitude)
+    except pint.DimensionalityError:
+        raise InputError(key, f"has units of {quantity.dimensionality}, not a {dim.name}",
+                         value=text, expected=expected, kind="unit") from None
+    except Exception as exc:
+        raise InputError(key, f"cannot be converted ({type(exc).__name__})", value=text,
+                         expected=expected, kind="unit") from None
+
+
+RPM = 2.0 * math.pi / 60.0  # rad/s per rpm
+
+
+def to_rpm(omega):
+    """rad/s to rev/min (works on arrays)."""
+    return omega / RPM
+
+
+def to_hz(omega):
+    """rad/s to Hz (works on arrays)."""
+    return omega / (2.0 * math.pi)
