@@ -141,11 +141,17 @@ class SystemMatrices:
         out = []
         for i, link in enumerate(self.links):
             b = link.bearing
-            outside = [w for w in speeds if b.outside_table(w)]
-            if outside:
-                out.append(f"bearing {b.name or i}: its table covers {to_rpm(b.speeds[0]):.0f}-"
-                           f"{to_rpm(b.speeds[-1]):.0f} rpm; end values held at "
-                           f"{to_rpm(min(outside)):.0f}-{to_rpm(max(outside)):.0f} rpm")
+            if len(b.speeds) < 2:
+                continue
+            lo, hi = b.speeds[0], b.speeds[-1]
+            parts = []
+            if np.any(speeds < lo * (1 - 1e-12)):
+                parts.append(f"below {to_rpm(lo):.0f} rpm")
+            if np.any(speeds > hi * (1 + 1e-12)):
+                parts.append(f"above {to_rpm(hi):.0f} rpm")
+            if parts:
+                out.append(f"bearing {b.name or i}: speeds {' and '.join(parts)} lie outside its "
+                           f"coefficient table; the end values were held")
         return out
 
     def element_matrices(self, index):

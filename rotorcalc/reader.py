@@ -308,6 +308,11 @@ def _bearing(table, i, names, n_sections):
         if isinstance(raw, list):
             if not raw:
                 raise InputError(f"{where}.{cname}", "is an empty list", kind="length")
+            if len(raw) != max(len(speeds), 1):
+                raise InputError(f"{where}.{cname}",
+                                 f"has {len(raw)} values but speeds has {len(speeds)}",
+                                 expected="one value per speed, or a single value (not a list)"
+                                 " for a constant", kind="length")
             values = tuple(u.parse(v, dim, f"{where}.{cname}[{j}]") for j, v in enumerate(raw))
         else:
             values = (u.parse(raw, dim, f"{where}.{cname}"),)

@@ -1,9 +1,9 @@
 """Closed-form reference solutions for the verification tests of rotorcalc.
 
 This module is deliberately independent of the ``rotorcalc`` package: it uses
-only numpy and scipy, and every result is either an explicit closed form or
-the root/eigenvalue of a small characteristic polynomial written out here.
-The finite-element code is checked against these functions, so nothing in
+only numpy (scipy is not imported, to keep the self-tests fast), and every
+result is either an explicit closed form or the root/eigenvalue of a small
+characteristic polynomial written out here.  The finite-element code is checked against these functions, so nothing in
 here may import from ``rotorcalc``.
 
 Conventions (see ``docs/conventions-draft.txt``)
@@ -34,7 +34,6 @@ import math
 from typing import NamedTuple
 
 import numpy as np
-from scipy.optimize import brentq
 
 __all__ = [
     "BOUNDARIES",
@@ -96,6 +95,33 @@ def _mode_number(n):
     if isinstance(n, bool) or int(n) != n or int(n) < 1:
         raise ValueError(f"mode number n must be an integer >= 1, got {n!r}")
     return int(n)
+
+
+def _bisect(f, lo, hi):
+    """Root of ``f`` in ``[lo, hi]`` by bisection, to machine precision.
+
+    ``f(lo)`` and ``f(hi)`` must differ in sign.  Robust and, at about 55
+    halvings for a bracket of width pi, cheap enough for reference use.
+    """
+    flo, fhi = f(lo), f(hi)
+    if flo == 0.0:
+        return lo
+    if fhi == 0.0:
+        return hi
+    if (flo > 0.0) == (fhi > 0.0):
+        raise ValueError("root is not bracketed")
+    for _ in range(200):
+        mid = 0.5 * (lo + hi)
+        if mid <= lo or mid >= hi:
+            break
+        fmid = f(mid)
+        if fmid == 0.0:
+            return mid
+        if (fmid > 0.0) == (flo > 0.0):
+            lo, flo = mid, fmid
+        else:
+            hi = mid
+    return 0.5 * (lo + hi)
 
 
 def _whirl_name(whirl):
@@ -170,8 +196,8 @@ def euler_bernoulli_characteristic(boundary, x):
 def euler_bernoulli_beta_l(boundary, n):
     """Eigenvalue ``beta_n * L`` of a uniform Euler-Bernoulli beam.
 
-    The root is found numerically (Brent's method, ``xtol = 1e-14``) in a
-    bracket of width pi that contains exactly one zero of the characteristic
+    The root is found numerically (bisection to machine precision, see
+    :func:`_bisect`) in a bracket of width pi that contains exactly one zero of the characteristic
     function of :func:`euler_bernoulli_characteristic`; no value is typed in.
 
     * pinned-pinned: bracket ``[(n - 1/2) pi, (n + 1/2) pi]`` (root ``n pi``).
@@ -213,7 +239,7 @@ def euler_bernoulli_beta_l(boundary, n):
     def f(x):
         return float(euler_bernoulli_characteristic(b, x))
 
-    return brentq(f, lo, hi, xtol=1e-14, rtol=4.0 * np.finfo(float).eps, maxiter=200)
+    return _bisect(f, lo, hi)
 
 
 def euler_bernoulli_frequency(boundary, n, E, I, rho, A, L):
@@ -854,10 +880,27 @@ def jeffcott_damped_bearings_eigenvalues(k_shaft, m, k_bearing, c_bearing,
     """
     poly = jeffcott_damped_bearings_polynomial(k_shaft, m, k_bearing, c_bearing,
                                                m_journal, c_disk)
-    roots = np.roots(poly)
-    # clean numerically real roots
-    scale = max(np.max(np.abs(roots)), 1.0)
-    roots = np.where(np.abs(roots.imag) < 1e-10 * scale, roots.real + 0j, roots)
+    nz = np.flatnonzero(poly != 0.0)
+    poly = poly[nz[0]:]
+    roots = np.roots(poly).astype(complex)
+    # polish each root with Newton steps on the polynomial (kept only while
+    # they reduce |p|): the roots can differ by many orders of magnitude
+    # (e.g. the fast real root ~ -(k_shaft + 2 k_bearing)/(2 c_bearing)).
+    dpoly = np.polyder(poly)
+    for i in range(roots.size):
+        r = roots[i]
+        for _ in range(3):
+            d = np.polyval(dpoly, r)
+            if d == 0:
+                break
+            r_new = r - np.polyval(poly, r) / d
+            if abs(np.polyval(poly, r_new)) < abs(np.polyval(poly, r)):
+                r = r_new
+            else:
+                break
+        roots[i] = r
+    # clean numerically real roots (relative to each root's own size)
+    roots = np.where(np.abs(roots.imag) < 1e-12 * np.abs(roots), roots.real + 0j, roots)
     order = np.lexsort((-roots.imag, np.round(np.abs(roots.imag), 9)))
     return roots[order]
 
@@ -960,8 +1003,9 @@ def gyroscopic_2dof_whirl(k11, k12, k22, m, Id, Ip, spin):
     m = _positive("m", m)
     Id = _nonnegative("Id", Id)
     Ip = _nonnegative("Ip", Ip)
-    fw = _positive_real_roots(gyroscopic_2dof_polynomial(k11, k12, k22, m, Id, Ip, spin, "forward"))
-    bw = _positive_real_roots(gyroscopic_2dof_polynomial(k11, k12, k22, m, Id, Ip, spin, "backward"))
+    args = (k11, k12, k22, m, Id, Ip, spin)
+    fw = _positive_real_roots(gyroscopic_2dof_polynomial(*args, "forward"))
+    bw = _positive_real_roots(gyroscopic_2dof_polynomial(*args, "backward"))
     return fw, bw
 
 
@@ -1205,7 +1249,7 @@ def anisotropic_jeffcott_unbalance_orbit(kx, ky, m, eccentricity, spin):
     spin = _nonnegative("spin", spin)
     dx = kx - m * spin ** 2
     dy = ky - m * spin ** 2
-    if dx == 0.0 or dy == 0.0:
+    if abs(dx) <= 1e-12 * kx or abs(dy) <= 1e-12 * ky:
         raise ValueError("spin equals a critical speed; undamped response is unbounded")
     f = m * e * spin ** 2
     X = f / dx

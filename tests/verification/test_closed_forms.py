@@ -15,8 +15,9 @@ import numpy as np
 import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
-from scipy.integrate import quad
-from scipy.linalg import eig
+
+# scipy is deliberately not imported (import time); integrals of polynomials
+# are done exactly by Gauss-Legendre quadrature, eigenproblems with numpy.
 
 try:  # package-style collection (if tests/ ever gets __init__.py files)
     from . import closed_forms as cf
@@ -34,6 +35,22 @@ RHO = 7850.0
 def solid(d):
     """Area and second moment of area of a solid circle of diameter d."""
     return math.pi * d ** 2 / 4.0, math.pi * d ** 4 / 64.0
+
+
+def quad(f, a, b, n=8):
+    """Gauss-Legendre quadrature, exact for polynomials of degree < 2n.
+
+    Returns a 1-tuple to mirror the call pattern ``quad(...)[0]``.
+    """
+    x, w = np.polynomial.legendre.leggauss(n)
+    z = 0.5 * (b - a) * x + 0.5 * (a + b)
+    return (0.5 * (b - a) * float(np.sum(w * np.array([f(zi) for zi in z]))),)
+
+
+def eig(A, right=True):
+    """Eigenvalues (and right eigenvectors) of a dense matrix via numpy."""
+    vals, vecs = np.linalg.eig(A)
+    return (vals, vecs) if right else vals
 
 
 HYP = settings(max_examples=40, deadline=None, derandomize=True)
@@ -435,7 +452,7 @@ def _direct_whirl(K2, m, Id, Ip, spin):
     Gm = np.zeros((4, 4))
     Gm[2, 3], Gm[3, 2] = Ip, -Ip
     K = np.zeros((4, 4))
-    for p, (t, r) in enumerate(((0, 2), (1, 3))):
+    for t, r in ((0, 2), (1, 3)):
         K[np.ix_([t, r], [t, r])] = K2
     Z = np.zeros((4, 4))
     A = np.block([[Z, np.eye(4)], [-np.linalg.solve(M, K), -np.linalg.solve(M, spin * Gm)]])

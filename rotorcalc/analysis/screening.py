@@ -1,0 +1,50 @@
+"""The main job in one call: sweep, critical speeds and their separation margins."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from ..assembly import assemble
+from ..model import Rotor
+from .criticals import critical_speeds
+from .margins import MarginTable, separation_margins
+from .sweep import Sweep, sweep
+
+
+@dataclass(frozen=True)
+class Screening:
+    """Sweep, critical speeds and margin table of one rotor."""
+
+    rotor: Rotor
+    sweep: Sweep
+    criticals: tuple
+    margins: MarginTable
+
+    @property
+    def passed(self):
+        return self.margins.passed
+
+    def to_dict(self):
+        return {"margins": self.margins.to_dict(), "sweep": self.sweep.to_dict()}
+
+
+def screen(rotor: Rotor, speeds=None, orders=None, solver=None, progress=None) -> Screening:
+    """Sweep the speed range, find the critical speeds and judge their margins.
+
+    Parameters
+    ----------
+    rotor : Rotor
+    speeds : array_like, optional
+        rad/s; the rotor's sweep settings by default.
+    orders : sequence of float, optional
+        Excitation orders; ``rotor.settings.orders`` by default.
+    solver, progress : optional
+        Passed to :func:`~rotorcalc.analysis.sweep.sweep`.
+    """
+    system = assemble(rotor)
+    result = sweep(system, speeds=speeds, solver=solver, progress=progress)
+    crits = tuple(critical_speeds(system, result, orders=orders, solver=solver))
+    table = separation_margins(crits, rotor.operating, rotor.settings.margin_rule,
+                               float(result.speeds[-1]),
+                               judge_backward=rotor.settings.judge_backward)
+    return Screening(rotor, result, crits, table)

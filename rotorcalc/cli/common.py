@@ -1,0 +1,133 @@
+"""Shared pieces of the command line: loading, errors, progress, output files."""
+
+from __future__ import annotations
+
+import time
+from contextlib import contextmanager
+from pathlib import Path
+
+import typer
+from rich.console import Console
+from rich.progress import BarColumn, Progress, TextColumn, TimeRemainingColumn
+from rich.table import Table
+
+from .. import units as u
+from ..errors import InputError, RotorcalcError
+from ..output import envelope, write_csv, write_json
+from ..reader import read_rotor
+from ..tables import rows_csv
+
+console = Console()
+if not console.is_terminal:
+    console = Console(width=140)  # pipes and files: wide enough for the margin table
+errors = Console(stderr=True)
+
+EXIT_OK, EXIT_CHECK_FAILED, EXIT_BAD_INPUT = 0, 1, 2
+
+
+def fail_input(err: InputError):
+    errors.print(f"[bold red]Input error[/] {err.message()}", highlight=False, soft_wrap=True)
+    raise typer.Exit(EXIT_BAD_INPUT)
+
+
+@contextmanager
+def input_errors():
+    """Turn the package's input errors into a one-paragraph message and exit code 2."""
+    try:
+        yield
+    except InputError as err:
+        fail_input(err)
+    except RotorcalcError as err:
+        errors.print(f"[bold red]Error[/] {err}", highlight=False, soft_wrap=True)
+        raise typer.Exit(3)
+
+
+def load(case: Path):
+    with input_errors():
+        return read_rotor(case)
+
+
+def speed_option(text: str, option: str) -> float:
+    """A speed from the command line; a unit is required so '3000' is never misread."""
+    with input_errors():
+        stripped = text.strip()
+        try:
+            float(stripped)
+        except ValueError:
+            return u.parse(stripped, u.SPEED, option)
+        raise InputError(option, "needs a unit", value=text,
+                         expected='a speed such as "3000 rpm", "50 Hz" or "314 rad/s"',
+                         kind="unit")
+
+
+def check_output(path: Path | None, case: Path, option: str):
+    """Refuse to write over the input file."""
+    if path is None:
+        return
+    if path.exists() and path.resolve() == case.resolve():
+        fail_input(InputError(option, "would overwrite the input file", value=str(path),
+                              expected="another file name", kind="output"))
+
+
+class SweepProgress:
+    """A progress callback that shows a bar only when the sweep will take over a second."""
+
+    def __init__(self, label="sweeping speeds"):
+        self.label = label
+        self.start = time.perf_counter()
+        self.bar = None
+        self.task = None
+
+    def __call__(self, done, total):
+        if self.bar is None:
+            elapsed = time.perf_counter() - self.start
+            if elapsed / done * total < 1.0 or not console.is_terminal:
+                return
+            self.bar = Progress(TextColumn("{task.description}"), BarColumn(),
+                                TextColumn("{task.completed}/{task.total}"),
+                                TimeRemainingColumn(), console=errors, transient=True)
+            self.bar.start()
+            self.task = self.bar.add_task(self.label, total=total)
+        self.bar.update(self.task, completed=done)
+        if done >= total:
+            self.close()
+
+    def close(self):
+        if self.bar is not None:
+            self.bar.stop()
+            self.bar = None
+
+
+def print_table(title, columns, rows, caption=None):
+    table = Table(title=title, caption=caption, header_style="bold", title_justify="left",
+                  caption_justify="left")
+    for column in columns:
+        table.add_column(column.heading, justify="right" if column.fmt not in ("{}",) else "left")
+    for row in rows:
+        table.add_row(*[column.text(row) for column in columns])
+    console.print(table)
+
+
+def write_outputs(command, case, result_dict, warnings, json_path, csv_path, columns, rows):
+    if json_path is not None:
+        write_json(json_path, envelope(command, case, result_dict, warnings))
+        console.print(f"wrote {json_path}")
+    if csv_path is not None:
+        header, body = rows_csv(columns, rows)
+        write_csv(csv_path, header, body)
+        console.print(f"wrote {csv_path}")
+
+
+def print_warnings(warnings):
+    for w in warnings:
+        errors.print(f"[yellow]warning[/] {w}", highlight=False, soft_wrap=True)
+
+
+def save_figure(fig, path: Path):
+    from ..plotting import save
+    try:
+        save(fig, path)
+    except ValueError as exc:
+        fail_input(InputError("picture file", str(exc), value=str(path),
+                              expected="a .png, .svg or .pdf file name", kind="output"))
+    console.print(f"wrote {path}")

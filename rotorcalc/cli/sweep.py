@@ -1,0 +1,50 @@
+"""``rotorcalc sweep``: tracked modes over the speed range and the whirl-speed map."""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Optional
+
+import typer
+
+from ..analysis import screen
+from ..tables import sweep_columns, sweep_rows
+from .common import (SweepProgress, check_output, console, input_errors, load, print_warnings,
+                     save_figure, write_outputs)
+from .criticals import apply_overrides, print_margins
+
+EXAMPLE = """[bold]Example[/]: rotorcalc sweep cases/compressor.toml --map map.png --csv sweep.csv"""
+
+
+def command(
+    case: Path = typer.Argument(..., help="Rotor description (TOML)."),
+    map_path: Optional[Path] = typer.Option(None, "--map", help="Write the whirl-speed map (.png/.svg/.pdf)."),
+    points: Optional[int] = typer.Option(None, "--points", min=3, help="Number of sweep speeds."),
+    top: Optional[str] = typer.Option(None, "--to", help='Highest sweep speed, e.g. "12000 rpm".'),
+    json_path: Optional[Path] = typer.Option(None, "--json", help="Write every branch as JSON."),
+    csv_path: Optional[Path] = typer.Option(None, "--csv", help="Write the sweep (one row per speed and branch) as CSV."),
+):
+    """Sweep the speed range, track the modes and draw the whirl-speed map."""
+    rotor = apply_overrides(load(case), points=points, top=top)
+    for path, opt in ((map_path, "--map"), (json_path, "--json"), (csv_path, "--csv")):
+        check_output(path, case, opt)
+    progress = SweepProgress()
+    with input_errors():
+        result = screen(rotor, progress=progress)
+    progress.close()
+    sw = result.sweep
+    console.print(f"{rotor.name}: {len(sw.speeds)} speeds, {sw.eigenvalues.shape[1]} branches")
+    print_margins(result, brief=True)
+    print_warnings(sw.warnings)
+    rows = list(sweep_rows(sw))
+    write_outputs("sweep", case, result.to_dict(), sw.warnings, json_path, csv_path,
+                  sweep_columns(sw), rows)
+    if map_path is not None:
+        from ..plotting import whirl_speed_map
+        ax = whirl_speed_map(sw, result.criticals, rotor.operating, rotor.settings.orders,
+                             margins=result.margins)
+        save_figure(ax.figure, map_path)
+
+
+def register(app: typer.Typer):
+    app.command("sweep", help=command.__doc__ + "\n\n" + EXAMPLE)(command)

@@ -1,0 +1,93 @@
+"""Command line: exit codes, files written, messages for bad input (typer's runner)."""
+
+import json
+
+import pytest
+from typer.testing import CliRunner
+
+from rotorcalc.cli import app
+from rotorcalc.output import read_json
+from tests.conftest import ROOT
+
+runner = CliRunner()
+PUMP = str(ROOT / "cases" / "feed_pump.toml")
+
+
+def run(*args):
+    return runner.invoke(app, [str(a) for a in args])
+
+
+def test_help_has_an_example_per_command():
+    for command in ("modes", "sweep", "criticals", "check", "layout"):
+        result = run(command, "--help")
+        assert result.exit_code == 0
+        assert "Example" in result.output and f"rotorcalc {command}" in result.output
+
+
+def test_modes_table_json_csv(tmp_path):
+    out_json, out_csv = tmp_path / "m.json", tmp_path / "m.csv"
+    result = run("modes", PUMP, "--speed", "3000 rpm", "--count", "4", "--json", out_json,
+                 "--csv", out_csv)
+    assert result.exit_code == 0, result.output
+    assert "Log dec" in result.output
+    data = read_json(out_json)
+    assert data["command"] == "modes" and len(data["result"]["modes"]) == 4
+    assert len(out_csv.read_text().splitlines()) == 5
+
+
+def test_speed_needs_a_unit():
+    result = run("modes", PUMP, "--speed", "3000")
+    assert result.exit_code == 2
+    assert "--speed" in result.output and "needs a unit" in result.output
+
+
+def test_criticals_json_matches_table(tmp_path):
+    out = tmp_path / "c.json"
+    result = run("criticals", PUMP, "--json", out, "--csv", tmp_path / "c.csv")
+    assert result.exit_code == 0, result.output
+    doc = json.loads(out.read_text())
+    crits = doc["result"]["criticals"]
+    assert crits and all("verdict" in c and "margin_percent" in c for c in crits)
+    assert doc["result"]["caution"].startswith("Screening result only")
+    assert doc["input"]["sha256"] and doc["version"]
+    assert "Verdict" in result.output
+
+
+def test_check_exit_code_follows_margins():
+    assert run("check", PUMP).exit_code == 0
+    failing = run("check", PUMP, "--rule", "fixed", "--below", "90", "--above", "90")
+    assert failing.exit_code == 1
+    assert "FAILED" in failing.output
+
+
+@pytest.mark.parametrize("old,new,key", [
+    ('outer_diameter = "75 mm"', 'outer_diametr = "75 mm"', "outer_diametr"),
+    ('kxx = "1.5e7 N/m"', 'kxx = "1.5e7 kg"', "bearing[2].kxx"),
+    ('length = "140 mm"', 'length = "-140 mm"', "section[0].length"),
+    ('at = 6\nkxx', 'at = 60\nkxx', "bearing[2].at"),
+    ('speeds = ["1500 rpm", "2500 rpm"', 'speeds = ["2500 rpm", "1500 rpm"', "bearing[0].speeds[1]"),
+])
+def test_bad_input_exit_2_names_key(tmp_path, old, new, key):
+    text = (ROOT / "cases" / "feed_pump.toml").read_text()
+    assert old in text
+    bad = tmp_path / "bad.toml"
+    bad.write_text(text.replace(old, new, 1))
+    for command in (["criticals"], ["check"], ["modes", "--speed", "1000 rpm"]):
+        result = run(command[0], bad, *command[1:])
+        assert result.exit_code == 2, result.output
+        assert key in result.output
+        assert "Traceback" not in result.output
+
+
+def test_missing_file_is_bad_input(tmp_path):
+    result = run("criticals", tmp_path / "nope.toml")
+    assert result.exit_code == 2
+    assert "cannot be read" in result.output
+
+
+def test_refuses_to_overwrite_input(tmp_path):
+    case = tmp_path / "case.toml"
+    case.write_text((ROOT / "cases" / "feed_pump.toml").read_text())
+    result = run("criticals", case, "--json", case)
+    assert result.exit_code == 2
+    assert "overwrite the input" in result.output

@@ -1,0 +1,67 @@
+"""Global matrices: symmetry, totals against analytic sums, DOF map."""
+
+import numpy as np
+import pytest
+
+from rotorcalc.assembly import assemble
+from rotorcalc.model import Bearing, Disk, Support
+from tests.conftest import isotropic, uniform_shaft
+
+
+def rotor_with_parts():
+    disk = Disk(1, 12.0, 0.3, 0.16)
+    brg = Bearing(0, {"kxx": (1e8,), "kyy": (2e8,), "kxy": (1e7,), "kyx": (-1e7,),
+                      "cxx": (1e4,), "cyy": (1e4,)},
+                  support=Support(kx=5e8, ky=6e8, mass=30.0, cx=1e3, cy=1e3))
+    return uniform_shaft(length=0.8, elements=8, disks=[disk],
+                         bearings=[brg, isotropic(1, 1e8)])
+
+
+def test_matrix_symmetries():
+    s = assemble(rotor_with_parts())
+    for mat in (s.mass, s.shaft_stiffness, s.support_stiffness, s.support_damping):
+        assert abs(mat - mat.T).max() == 0
+    assert abs(s.gyroscopic + s.gyroscopic.T).max() == 0
+    k = s.stiffness(100.0).toarray()
+    assert k[0, 1] == pytest.approx(1e7) and k[1, 0] == pytest.approx(-1e7)
+
+
+def test_totals_match_analytic():
+    """Rigid translation gives the total mass; rigid tilts give transverse and polar inertia."""
+    rotor = rotor_with_parts()
+    s = assemble(rotor)
+    z = s.mesh.node_z
+    zc = 0.4
+    ux = np.zeros(s.n_dof)
+    ux[0:4 * len(z):4] = 1
+    ux[s.support_dofs[0, 0]] = 1
+    assert ux @ s.mass @ ux == pytest.approx(rotor.mass + 30.0, rel=1e-12)
+    sec = rotor.sections[0]
+    tilt_x, tilt_y = np.zeros(s.n_dof), np.zeros(s.n_dof)
+    tilt_x[0:4 * len(z):4], tilt_x[2:4 * len(z):4] = z - zc, 1.0
+    tilt_y[1:4 * len(z):4], tilt_y[3:4 * len(z):4] = z - zc, 1.0
+    m_shaft = sec.mass
+    i_shaft = m_shaft * sec.length**2 / 12 + sec.material.density * sec.second_moment * sec.length
+    disk_term = 0.16 + 12.0 * (0.8 - zc) ** 2
+    assert tilt_x @ s.mass @ tilt_x == pytest.approx(i_shaft + disk_term, rel=1e-12)
+    polar = 2 * sec.material.density * sec.second_moment * sec.length + 0.3
+    assert tilt_x @ s.gyroscopic @ tilt_y == pytest.approx(polar, rel=1e-12)
+
+
+def test_dof_map():
+    s = assemble(rotor_with_parts())
+    assert s.n_dof == 4 * 9 + 2
+    assert list(s.node_dofs(3)) == [12, 13, 14, 15]
+    assert list(s.mesh.station_nodes) == [0, 8]
+    np.testing.assert_array_equal(s.support_dofs, [[36, 37], [-1, -1]])
+    m, k, g, dofs = s.element_matrices(2)
+    assert m.shape == (8, 8) and list(dofs) == list(range(8, 16))
+
+
+def test_speed_table_interpolation_and_hold():
+    brg = Bearing(0, {"kxx": (1e8, 2e8), "kyy": (1e8, 2e8)}, speeds=(100.0, 200.0), name="A")
+    s = assemble(uniform_shaft(bearings=[brg, isotropic(1, 1e8)]))
+    assert s.stiffness(150.0)[0, 0] - s.shaft_stiffness[0, 0] == pytest.approx(1.5e8)
+    assert s.stiffness(500.0)[0, 0] - s.shaft_stiffness[0, 0] == pytest.approx(2e8)
+    assert s.table_warnings([50.0, 150.0]) and "below 955 rpm" in s.table_warnings([50.0])[0]
+    assert s.table_warnings([150.0]) == []

@@ -1,0 +1,143 @@
+"""Reading rotor files: units, stations, defaults, and every input check firing."""
+
+import math
+
+import pytest
+
+from rotorcalc.errors import InputError
+from rotorcalc.reader import locate, parse_rotor
+
+BASE = """
+title = "test rotor"
+[stations]
+left = 0
+right = 2
+
+[materials.steel]
+youngs_modulus = "206 GPa"
+poisson_ratio = 0.3
+density = "7850 kg/m^3"
+
+[[section]]
+length = "300 mm"
+outer_diameter = "60 mm"
+material = "steel"
+[[section]]
+length = "12 in"
+outer_diameter = "60 mm"
+inner_diameter = "20 mm"
+material = "steel"
+elements = 3
+
+[[disk]]
+at = 1
+mass = "20 kg"
+polar_inertia = "0.2 kg*m^2"
+
+[[bearing]]
+name = "A"
+at = "left"
+speeds = ["1000 rpm", "3000 rpm"]
+kxx = ["1e8 N/m", "650 klbf/in"]
+kyy = "1e8 N/m"
+cxx = 1000
+
+[[bearing]]
+name = "B"
+at = "right"
+kxx = "1e8 N/m"
+kyy = "1e8 N/m"
+[bearing.support]
+mass = "50 kg"
+kx = "5e8 N/m"
+ky = "5e8 N/m"
+
+[operating]
+min_speed = "2000 rpm"
+max_speed = "3000 rpm"
+"""
+
+
+def test_reads_units_and_stations():
+    rotor = parse_rotor(BASE)
+    assert rotor.sections[1].length == pytest.approx(0.3048)
+    assert rotor.sections[0].elements == 3  # default: ceil(L / 2D)
+    assert rotor.sections[1].elements == 3
+    assert rotor.bearings[0].station == 0 and rotor.bearings[1].station == 2
+    assert rotor.bearings[0].table("kxx")[1] == pytest.approx(650e3 * 4.4482216152605 / 0.0254)
+    assert rotor.bearings[0].speeds[0] == pytest.approx(1000 * 2 * math.pi / 60)
+    assert rotor.disks[0].transverse_inertia == pytest.approx(0.1)  # default Ip / 2
+    assert rotor.bearings[1].support.mass == 50.0
+    assert rotor.operating.max_speed == pytest.approx(3000 * 2 * math.pi / 60)
+    assert rotor.sections[0].material.shear_modulus == pytest.approx(206e9 / 2.6)
+
+
+def mutate(old, new):
+    assert old in BASE, old
+    return BASE.replace(old, new, 1)
+
+
+BAD = [
+    # (replace this, with this, key named in the error, kind)
+    ('outer_diameter = "60 mm"\nmaterial', 'outer_diameter = "60 mm"\nmaterail', "section[0].materail", "unknown-key"),
+    ('kyy = "1e8 N/m"\ncxx', 'kyy = "3 kg"\ncxx', "bearing[0].kyy", "unit"),
+    ('length = "300 mm"', 'length = "-300 mm"', "section[0].length", "range"),
+    ('at = "right"', 'at = 7', "bearing[1].at", "station"),
+    ('speeds = ["1000 rpm", "3000 rpm"]', 'speeds = ["3000 rpm", "1000 rpm"]', "bearing[0].speeds[1]", "order"),
+    ('kxx = ["1e8 N/m", "650 klbf/in"]', 'kxx = ["1e8 N/m"]', "bearing[0].kxx", "length"),
+    ('inner_diameter = "20 mm"', 'inner_diameter = "70 mm"', "section[1].inner_diameter", "range"),
+    ('material = "steel"\nelements', 'material = "stele"\nelements', "section[1].material", "unknown-material"),
+    ('min_speed = "2000 rpm"', 'min_speed = "4000 rpm"', "operating.min_speed", "order"),
+    ('mass = "20 kg"', 'mass = "nan kg"', "disk[0].mass", "not-finite"),
+    ('mass = "20 kg"', 'mass = 0', "disk[0].mass", "range"),
+    ('name = "B"', 'name = "A"', "bearing.name", "duplicate"),
+    ('elements = 3', 'elements = 2.5', "section[1].elements", "type"),
+    ('at = 1\nmass', 'at = "middle"\nmass', "disk[0].at", "station"),
+    ('title = "test rotor"', 'title = "test rotor"\ncolour = "red"', "colour", "unknown-key"),
+    ('[operating]', '[operatng]', "operatng", "unknown-key"),
+    ('length = "300 mm"', 'length = "300 mm', "(syntax)", "syntax"),
+]
+
+
+@pytest.mark.parametrize("old,new,key,kind", BAD, ids=[b[2] + ":" + b[3] for b in BAD])
+def test_bad_input_names_the_key(old, new, key, kind):
+    with pytest.raises(InputError) as info:
+        parse_rotor(mutate(old, new), source="case.toml")
+    err = info.value
+    assert err.key == key
+    assert err.kind == kind
+    assert err.file == "case.toml"
+    assert key in err.message() or kind == "syntax"
+
+
+def test_unknown_key_suggests_nearest():
+    text = mutate('outer_diameter = "60 mm"\nmaterial', 'outer_diamter = "60 mm"\nmaterial')
+    with pytest.raises(InputError, match="did you mean 'outer_diameter'"):
+        parse_rotor(text)
+
+
+def test_no_shaft_and_missing_operating():
+    with pytest.raises(InputError) as info:
+        parse_rotor('[operating]\nmin_speed = 1\nmax_speed = 2\n')
+    assert info.value.key == "section" and info.value.kind == "missing"
+    start = BASE.index("[operating]")
+    with pytest.raises(InputError) as info:
+        parse_rotor(BASE[:start])
+    assert info.value.key == "operating"
+
+
+def test_error_line_numbers():
+    text = mutate('at = "right"', 'at = 7')
+    with pytest.raises(InputError) as info:
+        parse_rotor(text)
+    line = text.splitlines()[info.value.line - 1]
+    assert line.strip() == "at = 7"
+    assert locate(BASE, "materials.steel.density") == \
+        1 + BASE.splitlines().index('density = "7850 kg/m^3"')
+    assert locate(BASE, "bearing[1].support.kx") == 1 + BASE.splitlines().index('kx = "5e8 N/m"')
+
+
+def test_syntax_error_has_line():
+    with pytest.raises(InputError) as info:
+        parse_rotor(mutate('length = "300 mm"', 'length = "300 mm'))
+    assert info.value.line == 1 + BASE.splitlines().index('length = "300 mm"')
