@@ -174,12 +174,20 @@ class _Collector:
         self.cols.append(c.ravel())
         self.data.append(np.asarray(block, dtype=float).ravel())
 
-    def matrix(self, n):
+    def matrix(self, n, symmetry=0):
+        """The summed matrix; ``symmetry`` +1 or -1 makes it exactly (skew-)symmetric.
+
+        Summing duplicates does not fix the order of the additions, so a
+        symmetric sum can differ from its transpose in the last bit.
+        """
         if not self.rows:
             return sp.csr_matrix((n, n))
-        return sp.coo_matrix((np.concatenate(self.data),
-                              (np.concatenate(self.rows), np.concatenate(self.cols))),
-                             shape=(n, n)).tocsr()
+        out = sp.coo_matrix((np.concatenate(self.data),
+                             (np.concatenate(self.rows), np.concatenate(self.cols))),
+                            shape=(n, n)).tocsr()
+        if symmetry:
+            out = ((out + symmetry * out.T) * 0.5).tocsr()
+        return out
 
 
 def _element_dofs(n1, n2):
@@ -232,7 +240,7 @@ def assemble(rotor: Rotor) -> SystemMatrices:
         supp_c.add(pedestal, np.diag([s.cx, s.cy]))
 
     return SystemMatrices(
-        rotor=rotor, mesh=m, mass=mass.matrix(n_dof), gyroscopic=gyro.matrix(n_dof),
-        shaft_stiffness=stiff.matrix(n_dof), support_stiffness=supp_k.matrix(n_dof),
-        support_damping=supp_c.matrix(n_dof), links=tuple(links), n_dof=n_dof,
+        rotor=rotor, mesh=m, mass=mass.matrix(n_dof, 1), gyroscopic=gyro.matrix(n_dof, -1),
+        shaft_stiffness=stiff.matrix(n_dof, 1), support_stiffness=supp_k.matrix(n_dof, 1),
+        support_damping=supp_c.matrix(n_dof, 1), links=tuple(links), n_dof=n_dof,
         support_dofs=np.asarray(support_dofs, dtype=int).reshape(-1, 2))

@@ -64,8 +64,9 @@ class InputError(RotorcalcError, ValueError):
         if self.value is not None:
             text += f" (found {self.value!r})"
         if self.expected:
-            text += f"; expected {self.expected}"
-        return text + "."
+            lead = "" if self.expected.startswith(("did you mean", "one of")) else "expected "
+            text += f"; {lead}{self.expected}"
+        return text if text.endswith((".", "?")) else text + "."
 
 
 class SolverError(RotorcalcError, RuntimeError):

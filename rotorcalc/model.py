@@ -15,6 +15,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from .errors import InputError
+from .units import to_rpm
 
 COEFFICIENT_NAMES = ("kxx", "kxy", "kyx", "kyy", "cxx", "cxy", "cyx", "cyy")
 BEAM_THEORIES = ("timoshenko", "rayleigh", "euler-bernoulli")
@@ -50,7 +51,7 @@ class Material:
     density: float
 
     def __post_init__(self):
-        key = f"material.{self.name}"
+        key = f"materials.{self.name}"
         _positive(f"{key}.youngs_modulus", self.youngs_modulus)
         _positive(f"{key}.shear_modulus", self.shear_modulus)
         _positive(f"{key}.density", self.density)
@@ -94,7 +95,7 @@ class Section:
                              expected=f"a bore below {self.outer_diameter:g} m", kind="range")
         if isinstance(self.elements, bool) or not isinstance(self.elements, int) or self.elements < 1:
             raise InputError(f"{self.key}.elements", "must be a whole number of at least 1",
-                             value=self.elements, expected="1, 2, 3 ...", kind="range")
+                             value=self.elements, expected="a whole number such as 1, 2 or 3", kind="range")
         _positive(f"{self.key}.added_mass", self.added_mass, allow_zero=True)
 
     @property
@@ -279,14 +280,16 @@ class OperatingRange:
         _positive("operating.min_speed", self.min_speed, allow_zero=True)
         _positive("operating.max_speed", self.max_speed)
         if self.min_speed > self.max_speed:
-            raise InputError("operating.min_speed", "is above max_speed", value=self.min_speed,
-                             expected=f"at most max_speed ({self.max_speed:g} rad/s)",
+            raise InputError("operating.min_speed", "is above max_speed",
+                             value=f"{to_rpm(self.min_speed):.6g} rpm",
+                             expected=f"at most max_speed ({to_rpm(self.max_speed):.6g} rpm)",
                              kind="order")
         if self.trip_speed is not None:
             _positive("operating.trip_speed", self.trip_speed)
             if self.trip_speed < self.max_speed:
                 raise InputError("operating.trip_speed", "is below max_speed",
-                                 value=self.trip_speed, expected="at least max_speed",
+                                 value=f"{to_rpm(self.trip_speed):.6g} rpm",
+                                 expected=f"at least max_speed ({to_rpm(self.max_speed):.6g} rpm)",
                                  kind="order")
 
 
@@ -391,11 +394,13 @@ class Rotor:
             if not (0 <= station <= last):
                 raise InputError(f"stations.{name}", "names a station that does not exist",
                                  value=station, expected=f"0..{last}", kind="station")
-        names = [b.name for b in self.bearings if b.name]
-        dup = {n for n in names if names.count(n) > 1}
-        if dup:
-            raise InputError("bearing.name", "is used twice", value=sorted(dup)[0],
-                             expected="a name of its own for each bearing", kind="duplicate")
+        seen = {}
+        for i, b in enumerate(self.bearings):
+            if b.name and b.name in seen:
+                raise InputError(f"bearing[{i}].name", f"is already used by bearing[{seen[b.name]}]",
+                                 value=b.name, expected="a name of its own for each bearing",
+                                 kind="duplicate")
+            seen.setdefault(b.name, i)
 
     @property
     def station_positions(self) -> np.ndarray:

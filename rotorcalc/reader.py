@@ -83,6 +83,10 @@ def load_toml(text, source):
 
 # --- helpers -------------------------------------------------------------------------
 
+def _path(where, key):
+    return f"{where}.{key}" if where else key
+
+
 def check_keys(table, allowed, where):
     """Raise on the first key of ``table`` that is not in ``allowed``."""
     if not isinstance(table, dict):
@@ -93,8 +97,7 @@ def check_keys(table, allowed, where):
             near = difflib.get_close_matches(key, sorted(allowed), n=1, cutoff=0.5)
             hint = f"did you mean '{near[0]}'?" if near else \
                 "one of " + ", ".join(sorted(allowed))
-            path = f"{where}.{key}" if where else key
-            raise InputError(path, "is not a known key", expected=hint, kind="unknown-key")
+            raise InputError(_path(where, key), "is not a known key", expected=hint, kind="unknown-key")
 
 
 def _short(value):
@@ -104,7 +107,7 @@ def _short(value):
 
 def _require(table, key, where):
     if key not in table:
-        raise InputError(f"{where}.{key}", "is missing", expected="a value; see docs/input.md",
+        raise InputError(_path(where, key), "is missing", expected="a value; see docs/input.md",
                          kind="missing")
     return table[key]
 
@@ -114,13 +117,13 @@ def _quantity(table, key, dim, where, default=None, required=False):
         if required:
             _require(table, key, where)
         return default
-    return u.parse(table[key], dim, f"{where}.{key}")
+    return u.parse(table[key], dim, _path(where, key))
 
 
 def _integer(table, key, where, default):
     value = table.get(key, default)
     if isinstance(value, bool) or not isinstance(value, int):
-        raise InputError(f"{where}.{key}", "must be a whole number", value=value,
+        raise InputError(_path(where, key), "must be a whole number", value=value,
                          kind="type")
     return value
 
@@ -128,7 +131,7 @@ def _integer(table, key, where, default):
 def _number(table, key, where, default):
     value = table.get(key, default)
     if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value):
-        raise InputError(f"{where}.{key}", "must be a finite number", value=value, kind="type")
+        raise InputError(_path(where, key), "must be a finite number", value=value, kind="type")
     return float(value)
 
 
@@ -139,7 +142,7 @@ def _string(table, key, where, default=None, required=False):
         return default
     value = table[key]
     if not isinstance(value, str):
-        raise InputError(f"{where}.{key}", "must be text", value=value, kind="type")
+        raise InputError(_path(where, key), "must be text", value=value, kind="type")
     return value
 
 
@@ -178,7 +181,8 @@ def rotor_from_dict(data: dict) -> Rotor:
 
 
 def _materials(table):
-    check_keys(table, set(table), "materials")  # any names; each checked below
+    if not isinstance(table, dict):
+        check_keys(table, set(), "materials")  # raises: must be a table
     out = {}
     for name, entry in table.items():
         where = f"materials.{name}"
@@ -226,7 +230,8 @@ def _section(table, i, materials):
 
 
 def _station_names(table, n_sections):
-    check_keys(table, set(table), "stations")
+    if not isinstance(table, dict):
+        check_keys(table, set(), "stations")  # raises: must be a table
     names = {}
     for name, number in table.items():
         if isinstance(number, bool) or not isinstance(number, int):
@@ -317,9 +322,11 @@ def _bearing(table, i, names, n_sections):
         else:
             values = (u.parse(raw, dim, f"{where}.{cname}"),)
         coefficients[cname] = values
-    if not any(k in coefficients for k in ("kxx", "kyy")):
-        raise InputError(f"{where}.kxx", "is missing",
-                         expected="at least the direct stiffnesses kxx and kyy", kind="missing")
+    for direct in ("kxx", "kyy"):
+        if direct not in coefficients:
+            raise InputError(f"{where}.{direct}", "is missing",
+                             expected="both direct stiffnesses kxx and kyy (0 is allowed)",
+                             kind="missing")
     support = None
     if "support" in table:
         sw = f"{where}.support"

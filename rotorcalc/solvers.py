@@ -25,13 +25,26 @@ import scipy.sparse as sp
 class Eigenpairs:
     """Eigenvalues (rad/s, complex) and displacement eigenvectors (columns).
 
-    ``real_eigenvalues`` holds the finite non-oscillatory ones (overdamped or
-    rigid-body), which have no whirl frequency.
+    ``real_eigenvalues`` holds the finite non-oscillatory ones (overdamped
+    motion), which have no whirl frequency; ``rigid_body`` counts the
+    state-space eigenvalues that are zero to within roundoff (two per
+    rigid-body degree of freedom of an unsupported rotor).
     """
 
     values: np.ndarray
     vectors: np.ndarray
     real_eigenvalues: np.ndarray
+    rigid_body: int = 0
+
+
+#: Eigenvalues below this fraction of the scaled pencil's reference frequency
+#: are zero to within roundoff: rigid-body motion, whose double zero eigenvalue
+#: splits by about sqrt(machine epsilon) of the reference.
+ZERO_EIGENVALUE = 1e-6
+#: An eigenvalue is oscillatory when its imaginary part exceeds this fraction
+#: of its own magnitude (not of the spectrum's largest: that drops low modes
+#: of stiff systems).
+OSCILLATORY = 1e-6
 
 
 def _scaling(m, k):
@@ -83,7 +96,7 @@ class DenseSolver:
     name = "dense"
 
     def __call__(self, m, d_mat, k, n_modes):
-        a, b, scale, _ = scaled_pencil(m, d_mat, k)
+        a, b, scale, ref = scaled_pencil(m, d_mat, k)
         n = m.shape[0]
         mass_diag = m.diagonal()
         if np.all(mass_diag > 0):
@@ -98,13 +111,13 @@ class DenseSolver:
         finite = np.isfinite(values)
         values, vectors = values[finite], vectors[:, finite]
         size = np.abs(values)
-        tol = 1e-9 * max(np.max(size, initial=0.0), 1.0)
-        oscillatory = values.imag > tol
-        real = values[np.abs(values.imag) <= tol].real
+        zero = size < ZERO_EIGENVALUE * ref
+        oscillatory = (values.imag > OSCILLATORY * size) & ~zero
+        real = values[(np.abs(values.imag) <= OSCILLATORY * size) & ~zero].real
         values, vectors = values[oscillatory], vectors[:, oscillatory]
         order = np.argsort(values.imag)[:n_modes]
         q = vectors[:n, order] / scale[:, None]
-        return Eigenpairs(values[order], q, np.sort(real))
+        return Eigenpairs(values[order], q, np.sort(real), int(zero.sum()))
 
 
 SOLVERS = {"dense": DenseSolver}

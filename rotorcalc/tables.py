@@ -87,9 +87,11 @@ MARGIN_COLUMNS = [
 def sweep_rows(result):
     whirl = result.whirl
     ff = result.forward_fraction
+    present = result.present
     for k in range(len(result.speeds)):
         for j in range(result.eigenvalues.shape[1]):
-            yield (k, j, whirl[k, j], ff[k, j])
+            if present[k, j]:
+                yield (k, j, whirl[k, j], ff[k, j])
 
 
 def sweep_columns(result):

@@ -16,10 +16,13 @@ from .errors import InputError
 
 _UREG = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
 _UREG.define("cycles_per_minute = revolution / minute = cpm")
+_UREG.define("@alias revolution = rev")
+_UREG.define("@alias revolutions_per_minute = RPM")
 
 #: Angular speeds: pint takes Hz as 1/s, which would read "50 Hz" as 50 rad/s.
 #: For a rotational speed or frequency, Hz means revolutions per second.
 _HZ_NAMES = ("hertz",)
+_ANGLE_NAMES = ("radian", "revolution", "cycles_per_minute", "degree", "turn")
 
 
 @dataclass(frozen=True)
@@ -91,8 +94,14 @@ def _parse_text(text, dim, key, expected):
         return float(quantity)  # plain number written as text: SI
     if quantity.unitless:
         return float(quantity.magnitude)
-    if dim is SPEED and any(name in str(quantity.units) for name in _HZ_NAMES):
-        quantity = quantity * _UREG.Quantity(2.0 * math.pi, "rad")
+    if dim is SPEED:
+        names = str(quantity.units)
+        if any(name in names for name in _HZ_NAMES):
+            quantity = quantity * _UREG.Quantity(2.0 * math.pi, "rad")
+        elif not any(name in names for name in _ANGLE_NAMES):
+            # "50 /s" or "50 cps" (pint: counts per second) would silently lose 2 pi
+            raise InputError(key, "has no angle or revolution in its unit", value=text,
+                             expected=expected, kind="unit")
     try:
         return float(quantity.to(dim.si_unit).magnitude)
     except pint.DimensionalityError:

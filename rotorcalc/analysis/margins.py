@@ -161,12 +161,12 @@ def separation_margins(criticals, operating: OperatingRange, rule: MarginRule,
         side, margin = _side_and_margin(crit.speed, operating)
         af = af_from_log_dec(crit.log_dec)
         need = required_margin(rule, af, side)
-        if crit.whirl == "backward" and not judge_backward:
+        if crit.log_dec <= 0:
+            verdict = "fail"  # an unstable mode fails whatever its whirl or place
+        elif crit.whirl == "backward" and not judge_backward:
             verdict = "not judged"
         elif rule.kind == "af-curve" and af < rule.af_threshold:
             verdict = "critically damped"
-        elif crit.log_dec <= 0:
-            verdict = "fail"  # an unstable mode fails whatever its place
         else:
             verdict = "pass" if margin >= need else "fail"
         rows.append(MarginRow(crit, side, margin, af, need, verdict))

@@ -35,12 +35,24 @@ def whirl_senses(shapes):
     return np.abs(x + 1j * y) / 2.0, np.abs(x - 1j * y) / 2.0
 
 
+#: A node orbit whose minor axis is below this fraction of its major axis is a
+#: straight line: it whirls neither way and counts half forward, half backward.
+#: (Without it the sense of a planar mode was decided by roundoff.)
+STRAIGHT_ORBIT = 1e-6
+
+
 def forward_fraction(shapes):
-    """Share of the orbit size (major semi-axis, summed over nodes) that whirls forward."""
+    """Share of the orbit size (major semi-axis, summed over nodes) that whirls forward.
+
+    Straight-line node orbits (see :data:`STRAIGHT_ORBIT`) count half.
+    """
     rf, rb = whirl_senses(shapes)
     size = rf + rb
     total = size.sum(axis=-1)
-    fwd = np.where(rf >= rb, size, 0.0).sum(axis=-1)
+    # minor / major semi-axis of each node's ellipse is |rf - rb| / (rf + rb)
+    straight = np.abs(rf - rb) <= STRAIGHT_ORBIT * size
+    share = np.where(straight, 0.5, np.where(rf > rb, 1.0, 0.0))
+    fwd = (share * size).sum(axis=-1)
     return np.where(total > 0, fwd / np.where(total > 0, total, 1.0), 0.5)
 
 
@@ -85,6 +97,7 @@ class Modes:
     station_nodes: np.ndarray
     real_eigenvalues: np.ndarray
     warnings: tuple = ()
+    rigid_body_modes: int = 0
 
     @property
     def frequency(self):
@@ -144,6 +157,7 @@ class Modes:
                 for i in range(len(self.eigenvalues))
             ],
             "non_oscillatory_eigenvalues": [float(v) for v in self.real_eigenvalues],
+            "rigid_body_modes": self.rigid_body_modes,
             "warnings": list(self.warnings),
         }
 
@@ -179,9 +193,13 @@ def modes_at(rotor_or_system, speed, n_modes=None, solver=None):
     peak = _peak(shapes)
     shapes = shapes / peak[:, None, None]
     vectors = q / peak[None, :]
-    warnings = tuple(system.table_warnings(speed))
+    warnings = list(system.table_warnings(speed))
+    rigid = pairs.rigid_body // 2
+    if rigid:
+        warnings.append(f"{rigid} rigid-body mode(s) at zero frequency: the rotor is not fully "
+                        "supported; they are not listed as modes")
     return Modes(speed, pairs.values, shapes, vectors, system.mesh.node_z,
-                 system.mesh.station_nodes, pairs.real_eigenvalues, warnings)
+                 system.mesh.station_nodes, pairs.real_eigenvalues, tuple(warnings), rigid)
 
 
 def _peak(shapes):

@@ -7,6 +7,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..assembly import SystemMatrices, assemble
+from ..errors import InputError
 from ..model import Rotor
 from ..units import to_hz, to_rpm
 from .modes import forward_fraction, log_decrement, modes_at, whirl_label
@@ -23,6 +24,11 @@ def default_speeds(rotor: Rotor):
     top = max(rotor.operating.max_speed, rotor.operating.trip_speed or 0.0)
     start = 0.0 if s.speed_from is None else s.speed_from
     stop = 1.5 * top if s.speed_to is None else s.speed_to
+    if stop <= start:
+        raise InputError("analysis.speed_from", "is not below the top of the sweep",
+                         value=f"{to_rpm(start):.6g} rpm",
+                         expected=f"a speed below {to_rpm(stop):.6g} rpm (speed_to, or 1.5 x "
+                                  "the highest operating speed by default)", kind="order")
     return np.linspace(start, stop, s.speed_count)
 
 
@@ -61,14 +67,21 @@ class Sweep:
         return forward_fraction(self.shapes)
 
     @property
+    def present(self):
+        """True where a branch exists, (n_speeds, n_branches)."""
+        return np.isfinite(self.eigenvalues.real)
+
+    @property
     def whirl(self):
-        """Whirl label of every point, (n_speeds, n_branches)."""
-        return np.vectorize(whirl_label)(self.forward_fraction)
+        """Whirl label of every point, (n_speeds, n_branches); "" where absent."""
+        ff, present = self.forward_fraction, self.present
+        return np.array([[whirl_label(f) if p else "" for f, p in zip(row, prow)]
+                         for row, prow in zip(ff, present)])
 
     @property
     def branch_whirl(self):
         """Dominant whirl label of each branch over the sweep."""
-        mean = self.forward_fraction.mean(axis=0)
+        mean = np.nanmean(np.where(self.present, self.forward_fraction, np.nan), axis=0)
         return [whirl_label(f) for f in mean]
 
     def to_dict(self):
@@ -79,15 +92,20 @@ class Sweep:
                 {
                     "branch": j + 1,
                     "whirl": self.branch_whirl[j],
-                    "frequency_hz": [float(v) for v in to_hz(self.frequency[:, j])],
-                    "frequency_cpm": [float(v) for v in to_rpm(self.frequency[:, j])],
-                    "log_dec": [float(v) for v in self.log_dec[:, j]],
-                    "forward_fraction": [float(v) for v in ff[:, j]],
+                    "frequency_hz": _listed(to_hz(self.frequency[:, j])),
+                    "frequency_cpm": _listed(to_rpm(self.frequency[:, j])),
+                    "log_dec": _listed(self.log_dec[:, j]),
+                    "forward_fraction": _listed(np.where(self.present[:, j], ff[:, j], np.nan)),
                 }
                 for j in range(self.eigenvalues.shape[1])
             ],
             "warnings": list(self.warnings),
         }
+
+
+def _listed(values):
+    """Floats for JSON, None where a branch is absent."""
+    return [float(v) if np.isfinite(v) else None for v in values]
 
 
 def sweep(rotor_or_system, speeds=None, n_modes=None, solver=None, progress=None):
@@ -99,7 +117,8 @@ def sweep(rotor_or_system, speeds=None, n_modes=None, solver=None, progress=None
     speeds : array_like, optional
         rad/s; by default :func:`default_speeds`.
     n_modes : int, optional
-        Branches reported; defaults to ``settings.modes``.
+        Every branch that is among the ``n_modes`` lowest modes at some speed is
+        reported; defaults to ``settings.modes``.
     solver : callable, optional
     progress : callable, optional
         Called as ``progress(done, total)`` after each speed.
@@ -117,13 +136,36 @@ def sweep(rotor_or_system, speeds=None, n_modes=None, solver=None, progress=None
         solved.append(modes_at(system, speed, n + TRACKING_RESERVE, solver))
         if progress is not None:
             progress(i + 1, len(speeds))
-    width = min(len(m.eigenvalues) for m in solved)
-    values = np.array([m.eigenvalues[:width] for m in solved])
-    shapes = np.array([m.shapes[:width] for m in solved])
-    order = track(values, shapes)
-    rows = np.arange(len(speeds))[:, None]
-    values, shapes = values[rows, order], shapes[rows, order]
-    keep = min(n, width)
+    values, shapes = branches_from(solved, n)
     warnings = tuple(system.table_warnings(speeds))
-    return Sweep(speeds, values[:, :keep], shapes[:, :keep], system.mesh.node_z,
-                 system.mesh.station_nodes, warnings)
+    return Sweep(speeds, values, shapes, system.mesh.node_z, system.mesh.station_nodes, warnings)
+
+
+def branches_from(solved, n):
+    """Track the modes of each speed into branches; keep those among the lowest ``n``.
+
+    A branch is kept when, at some speed, it is one of the ``n`` lowest modes
+    there.  Branches are ordered by the frequency at which they first appear
+    (for branches present from the first speed: by frequency there).
+    Absent points are NaN.
+    """
+    paths = track([m.eigenvalues for m in solved], [m.shapes for m in solved])
+    n_nodes = solved[0].shapes.shape[1]
+    keep = np.zeros(paths.shape[1], dtype=bool)
+    for k, m in enumerate(solved):
+        for j in np.nonzero(paths[k] >= 0)[0]:
+            if paths[k, j] < n:  # modes at each speed are sorted by frequency
+                keep[j] = True
+    first = np.argmax(paths >= 0, axis=0)
+    start_freq = np.array([solved[first[j]].eigenvalues[paths[first[j], j]].imag
+                           for j in range(paths.shape[1])])
+    chosen = sorted(np.nonzero(keep)[0], key=lambda j: (first[j] > 0, start_freq[j], first[j]))
+    values = np.full((len(solved), len(chosen)), np.nan + 1j * np.nan)
+    shapes = np.full((len(solved), len(chosen), n_nodes, 2), np.nan + 1j * np.nan)
+    for col, j in enumerate(chosen):
+        for k, m in enumerate(solved):
+            i = paths[k, j]
+            if i >= 0:
+                values[k, col] = m.eigenvalues[i]
+                shapes[k, col] = m.shapes[i]
+    return values, shapes

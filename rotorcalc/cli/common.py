@@ -8,6 +8,7 @@ from pathlib import Path
 
 import typer
 from rich.console import Console
+from rich.markup import escape
 from rich.progress import BarColumn, Progress, TextColumn, TimeRemainingColumn
 from rich.table import Table
 
@@ -26,7 +27,8 @@ EXIT_OK, EXIT_CHECK_FAILED, EXIT_BAD_INPUT = 0, 1, 2
 
 
 def fail_input(err: InputError):
-    errors.print(f"[bold red]Input error[/] {err.message()}", highlight=False, soft_wrap=True)
+    errors.print(f"[bold red]Input error[/] {escape(err.message())}", highlight=False,
+                 soft_wrap=True)
     raise typer.Exit(EXIT_BAD_INPUT)
 
 
@@ -38,7 +40,7 @@ def input_errors():
     except InputError as err:
         fail_input(err)
     except RotorcalcError as err:
-        errors.print(f"[bold red]Error[/] {err}", highlight=False, soft_wrap=True)
+        errors.print(f"[bold red]Error[/] {escape(str(err))}", highlight=False, soft_wrap=True)
         raise typer.Exit(3)
 
 
@@ -99,7 +101,8 @@ class SweepProgress:
 
 
 def print_table(title, columns, rows, caption=None):
-    table = Table(title=title, caption=caption, header_style="bold", title_justify="left",
+    table = Table(title=escape(title), caption=escape(caption) if caption else None,
+                  header_style="bold", title_justify="left",
                   caption_justify="left")
     for column in columns:
         table.add_column(column.heading, justify="right" if column.fmt not in ("{}",) else "left")
@@ -120,7 +123,7 @@ def write_outputs(command, case, result_dict, warnings, json_path, csv_path, col
 
 def print_warnings(warnings):
     for w in warnings:
-        errors.print(f"[yellow]warning[/] {w}", highlight=False, soft_wrap=True)
+        errors.print(f"[yellow]warning[/] {escape(w)}", highlight=False, soft_wrap=True)
 
 
 def save_figure(fig, path: Path):

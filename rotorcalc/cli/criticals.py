@@ -8,6 +8,8 @@ from typing import Optional
 
 import typer
 
+from rich.markup import escape
+
 from ..analysis import screen
 from ..analysis.margins import CAUTION
 from ..errors import InputError
@@ -66,11 +68,12 @@ def print_margins(result, brief=False):
     else:
         rule_text = "Margin rule: none (margins listed, not judged)."
     if not table.rows:
-        console.print(f"{title}\nNo critical speed found up to {to_rpm(table.verified_above_to):.0f} rpm.")
+        console.print(f"{escape(title)}\nNo critical speed found up to "
+                      f"{to_rpm(table.verified_above_to):.0f} rpm.")
     else:
         print_table(title, MARGIN_COLUMNS, table.rows, caption=None if brief else rule_text)
     for note in table.notes:
-        console.print(f"[yellow]note[/] {note}", highlight=False)
+        console.print(f"[yellow]note[/] {escape(note)}", highlight=False)
     verdict = "[green]all margins met[/]" if table.passed else "[bold red]margin check FAILED[/]"
     console.print(f"Verdict: {verdict}")
     if not brief:

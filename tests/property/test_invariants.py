@@ -1,0 +1,82 @@
+"""Property tests: random valid rotors keep the structural invariants.
+
+The invariants follow from the energy expressions (kinetic energy gives a
+symmetric positive-definite M; strain energy a symmetric K; the gyroscopic
+term is skew-symmetric) and from real matrices having conjugate eigenvalues.
+"""
+
+import numpy as np
+import scipy.linalg as la
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
+
+from rotorcalc.analysis import modes_at
+from rotorcalc.assembly import assemble
+from rotorcalc.model import Bearing, Disk, Material, OperatingRange, Rotor, Section, Settings
+from rotorcalc.solvers import scaled_pencil
+
+finite = dict(allow_nan=False, allow_infinity=False)
+
+
+@st.composite
+def rotors(draw, isotropic=False):
+    material = Material("m", draw(st.floats(7e10, 2.2e11, **finite)),
+                        draw(st.floats(2.6e10, 8.5e10, **finite)),
+                        draw(st.floats(2700, 8900, **finite)))
+    n = draw(st.integers(1, 4))
+    sections = []
+    for i in range(n):
+        od = draw(st.floats(0.02, 0.2, **finite))
+        sections.append(Section(draw(st.floats(0.05, 0.6, **finite)), od, material,
+                                inner_diameter=draw(st.sampled_from([0.0, 0.5 * od])),
+                                elements=draw(st.integers(1, 3)),
+                                added_mass=draw(st.sampled_from([0.0, 2.0]))))
+    disks = tuple(Disk(draw(st.integers(0, n)), draw(st.floats(1, 80, **finite)),
+                       draw(st.floats(0.01, 2, **finite)), draw(st.floats(0.005, 1, **finite)))
+                  for _ in range(draw(st.integers(0, 2))))
+    bearings = []
+    for station in sorted({0, n, draw(st.integers(0, n))}):
+        kx = draw(st.floats(1e6, 1e9, **finite))
+        ky = kx if isotropic else draw(st.floats(1e6, 1e9, **finite))
+        cx = draw(st.floats(0, 1e4, **finite))
+        coefficients = {"kxx": (kx,), "kyy": (ky,), "cxx": (cx,), "cyy": (cx,)}
+        bearings.append(Bearing(station, coefficients))
+    return Rotor(tuple(sections), OperatingRange(100.0, 300.0), disks=disks,
+                 bearings=tuple(bearings), settings=Settings(modes=4))
+
+
+@settings(max_examples=25, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(rotors())
+def test_matrix_invariants(rotor):
+    s = assemble(rotor)
+    m, k, g = s.mass.toarray(), s.stiffness(200.0).toarray(), s.gyroscopic.toarray()
+    assert np.array_equal(m, m.T)
+    assert np.array_equal(k, k.T)
+    assert np.array_equal(g, -g.T)
+    assert np.all(np.linalg.eigvalsh(m) > 0)
+    ux = np.zeros(s.n_dof)
+    ux[0::4] = 1.0
+    assert ux @ m @ ux > 0
+    assert np.isclose(ux @ m @ ux, rotor.mass, rtol=1e-10)
+
+
+@settings(max_examples=15, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(rotors(), st.floats(0, 2000, **finite))
+def test_eigenvalues_in_conjugate_pairs(rotor, speed):
+    s = assemble(rotor)
+    a, b, _, _ = scaled_pencil(s.mass, s.damping(speed) + speed * s.gyroscopic, s.stiffness(speed))
+    lam = la.eigvals(a, b)
+    lam = lam[np.isfinite(lam)]
+    scale = np.abs(lam).max()
+    upper = np.sort_complex(lam[lam.imag > 1e-9 * scale])
+    lower = np.sort_complex(np.conj(lam[lam.imag < -1e-9 * scale]))
+    assert len(upper) == len(lower)
+    assert np.allclose(upper, lower, rtol=1e-7, atol=1e-9 * scale)
+
+
+@settings(max_examples=15, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(rotors(isotropic=True))
+def test_isotropic_pairs_equal_at_zero_speed(rotor):
+    m = modes_at(rotor, 0.0, 4)
+    f = m.frequency
+    assert np.allclose(f[0::2], f[1::2], rtol=1e-7)
