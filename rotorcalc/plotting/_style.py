@@ -1,0 +1,138 @@
+"""The look shared by every rotorcalc picture: colours, sizes, axes helpers.
+
+Nothing here changes matplotlib's global settings; every artist is styled as
+it is made, so a caller's own style for other figures is left alone.
+"""
+
+from __future__ import annotations
+
+from matplotlib.figure import Figure
+
+# Ink and paper: dark slate rather than black, so that thin lines stay crisp in
+# print without looking heavy on screen.
+INK = "#25313d"
+MUTED = "#6f7b87"
+FAINT = "#b9c1c9"
+GRID = "#e2e6ea"
+PAPER = "#ffffff"
+
+# Operating range: a pale sage band with a darker edge.
+BAND_FILL = "#e3ecd8"
+BAND_EDGE = "#5f8745"
+
+# Log-decrement classes, warm (lightly damped) to cool (well damped).
+LOG_DEC_EDGES = (0.0, 0.1, 0.3, 1.0, 3.0)
+LOG_DEC_COLOURS = ("#b1172f", "#e36a1e", "#c49b0b", "#3a9467", "#2d6fb4", "#4a3f8c")
+LOG_DEC_LABELS = ("below 0 (unstable)", "0 to 0.1", "0.1 to 0.3", "0.3 to 1",
+                  "1 to 3", "above 3")
+
+# Whirl sense as line style, so the map reads in black and white too.
+WHIRL_STYLES = {"forward": "-", "backward": (0, (5.0, 2.2)), "mixed": (0, (1.0, 1.6))}
+WHIRL_ORDER = ("forward", "backward", "mixed")
+
+# Critical-speed markers by margin verdict (shape and colour both differ).
+VERDICT_STYLES = {
+    "pass": {"marker": "o", "facecolor": "#2f8a3b", "label": "pass"},
+    "fail": {"marker": "X", "facecolor": "#c4161c", "label": "fail"},
+    "critically damped": {"marker": "D", "facecolor": "#c3cad2", "label": "critically damped"},
+    "not judged": {"marker": "o", "facecolor": "none", "label": "not judged"},
+}
+NEUTRAL_MARKER = {"marker": "o", "facecolor": PAPER, "label": ""}
+
+# Rotor drawing.
+STEEL = "#cfd8e1"
+STEEL_EDGE = "#53626f"
+DISK = "#9db4cb"
+BORE = "#f5f7f9"
+ADDED_MASS_HATCH = "#7b8a97"
+BEARING = "#3f4f5e"
+SEAL = "#a0522d"
+
+FONT_TICK = 8.5
+FONT_LABEL = 9.5
+FONT_TITLE = 11.0
+FONT_NOTE = 7.5
+
+
+def axes_for(ax, figsize):
+    """Return ``(figure, axes, created)``; a new figure is made only when ``ax`` is None.
+
+    The figure is a plain :class:`matplotlib.figure.Figure`, not registered
+    with pyplot: it needs no GUI backend and is freed with its last reference.
+    To show it in a window, make the axes with pyplot and pass them as ``ax``.
+    """
+    if ax is not None:
+        return ax.figure, ax, False
+    fig = Figure(figsize=figsize, facecolor=PAPER)
+    return fig, fig.add_subplot(1, 1, 1), True
+
+
+def style_axes(ax, grid=True):
+    """Slate spines and ticks, a light grid behind the data."""
+    ax.set_facecolor(PAPER)
+    for side, spine in ax.spines.items():
+        spine.set_color(MUTED if side in ("left", "bottom") else FAINT)
+        spine.set_linewidth(0.8)
+    ax.tick_params(colors=INK, labelsize=FONT_TICK, length=3.5, width=0.7, direction="out")
+    ax.tick_params(which="minor", length=2.0, width=0.5)
+    if grid:
+        ax.grid(True, which="major", color=GRID, linewidth=0.7, zorder=0)
+        ax.set_axisbelow(True)
+
+
+def label_axes(ax, xlabel=None, ylabel=None, title=None):
+    if xlabel is not None:
+        ax.set_xlabel(xlabel, fontsize=FONT_LABEL, color=INK)
+    if ylabel is not None:
+        ax.set_ylabel(ylabel, fontsize=FONT_LABEL, color=INK)
+    if title is not None:
+        ax.set_title(title, fontsize=FONT_TITLE, color=INK, loc="left", pad=10)
+
+
+#: Log decrements this close to zero are rounding noise of an undamped mode.
+LOG_DEC_ZERO = 1e-6
+
+
+def log_dec_class(value):
+    """Index into :data:`LOG_DEC_COLOURS` of a log decrement (non-finite: -1)."""
+    if value != value or value in (float("inf"), float("-inf")):
+        return -1
+    if abs(value) < LOG_DEC_ZERO:
+        value = 0.0
+    for i, edge in enumerate(LOG_DEC_EDGES):
+        if value < edge:
+            return i
+    return len(LOG_DEC_EDGES)
+
+
+def signed(value, spec):
+    """A number with a true minus sign, as the tick labels have."""
+    return format(value, spec).replace("-", "\u2212")
+
+
+def log_dec_text(value, digits=3):
+    """A log decrement for a label: a few significant digits, noise shown as 0."""
+    if abs(value) < LOG_DEC_ZERO:
+        return "0"
+    return signed(value, f".{digits}g")
+
+
+def legend_columns(ax, labels, fontsize, handlelength=2.0, spacing=1.5):
+    """How many legend entries fit side by side in the width of the axes."""
+    room = ax.get_window_extent().width * 72.0 / ax.figure.dpi
+    used, n = 0.0, 0
+    for label in labels:
+        width = (handlelength + 0.8 + spacing) * fontsize + 0.55 * fontsize * len(label)
+        if n and used + width > room:
+            break
+        used += width
+        n += 1
+    n = max(n, 1)
+    rows = -(-len(labels) // n)
+    return -(-len(labels) // rows)
+
+
+def whole(value):
+    """A speed or frequency as a whole number of rpm/cpm, for labels."""
+    return signed(value, ".0f")
+
