@@ -6,7 +6,7 @@ result is either an explicit closed form or the root/eigenvalue of a small
 characteristic polynomial written out here.  The finite-element code is checked against these functions, so nothing in
 here may import from ``rotorcalc``.
 
-Conventions (see ``docs/conventions-draft.txt``)
+Conventions (see ``docs/theory.md``, section 1)
 ------------------------------------------------
 * SI units throughout: m, kg, s, N, rad/s.
 * Shaft axis z; lateral translations x, y; tilts are slopes a = dx/dz,
@@ -496,7 +496,7 @@ def rayleigh_spinning_ss_whirl(E, I, rho, A, L, n, spin):
     Source: M. I. Friswell, J. E. T. Penny, S. D. Garvey, A. W. Lees,
     "Dynamics of Rotating Machines", Cambridge University Press, 2010,
     continuous spinning shaft (chapter and equation number from memory).
-    Signs follow docs/conventions-draft.txt; derivation in docs/theory.md.
+    Signs follow docs/theory.md (section 1); derivation in docs/theory.md.
 
     Parameters
     ----------
@@ -732,7 +732,7 @@ def log_decrement(eigenvalue):
     """Log decrement of a complex eigenvalue, project convention.
 
     ``delta = -2 pi Re(lambda) / |Im(lambda)|`` (positive = stable), see
-    docs/conventions-draft.txt.  The absolute value of ``Im`` makes the
+    docs/theory.md (section 1).  The absolute value of ``Im`` makes the
     result independent of which member of a conjugate pair is passed.
     For ``lambda = -zeta wn + i wn sqrt(1 - zeta^2)`` this equals
     :func:`log_decrement_from_damping_ratio` (W. T. Thomson, "Theory of
@@ -915,7 +915,7 @@ def gyroscopic_2dof_polynomial(k11, k12, k22, m, Id, Ip, spin, whirl="forward"):
     Per plane the stiffness is ``[[k11, k12], [k12, k22]]`` on ``[x, a]``
     (and identically on ``[y, b]``), mass ``m`` on the translation and
     transverse inertia ``Id`` on the tilt, gyroscopic block of
-    docs/conventions-draft.txt.  In complex coordinates ``r = x + i y``,
+    docs/theory.md (section 1).  In complex coordinates ``r = x + i y``,
     ``phi = a + i b`` with ``e^{i w t}``, ``w > 0``::
 
         det [[k11 - m w^2, k12], [k12, k22 - Id w^2 +/- Ip spin w]] = 0
