@@ -40,6 +40,7 @@ def save(fig, path):
         raise ValueError(f"cannot save a figure as {path.name!r}: the file name must end in "
                          + ", ".join(FORMATS))
     folder = path.parent if str(path.parent) else Path(".")
+    folder.mkdir(parents=True, exist_ok=True)
     # Exclusive creation under a random name: no clash with a parallel save, and
     # the file gets the permissions any ordinary new file would.
     tmp = folder / f".{path.name}.{secrets.token_hex(6)}.tmp"

@@ -43,7 +43,9 @@ def test_speed_needs_a_unit():
 
 def test_criticals_json_matches_table(tmp_path):
     out = tmp_path / "c.json"
-    result = run("criticals", PUMP, "--json", out, "--csv", tmp_path / "c.csv")
+    picture = tmp_path / "new" / "folder" / "map.png"  # folders are created, as in the README
+    result = run("criticals", PUMP, "--json", out, "--csv", tmp_path / "c.csv", "--map", picture)
+    assert picture.exists()
     assert result.exit_code == 0, result.output
     doc = json.loads(out.read_text())
     crits = doc["result"]["criticals"]
