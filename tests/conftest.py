@@ -9,7 +9,7 @@ from pathlib import Path  # noqa: E402
 
 import pytest
 
-from rotorcalc.model import (Bearing, Disk, Material, OperatingRange, Rotor, Section,
+from rotorcalc.model import (Bearing, Material, OperatingRange, Rotor, Section,
                              Settings)
 
 ROOT = Path(__file__).resolve().parents[1]

@@ -7,7 +7,6 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..assembly import SystemMatrices, assemble
-from ..model import Rotor
 from ..solvers import make_solver
 from ..units import to_hz, to_rpm
 

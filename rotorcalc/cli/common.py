@@ -100,6 +100,19 @@ class SweepProgress:
             self.bar = None
 
 
+def screen_case(rotor, case, outputs):
+    """Refuse outputs that would overwrite the case, then sweep with a progress bar."""
+    from ..analysis import screen
+    for option, path in outputs.items():
+        check_output(path, case, option)
+    progress = SweepProgress()
+    try:
+        with input_errors():
+            return screen(rotor, progress=progress)
+    finally:
+        progress.close()
+
+
 def print_table(title, columns, rows, caption=None):
     table = Table(title=escape(title), caption=escape(caption) if caption else None,
                   header_style="bold", title_justify="left",

@@ -10,13 +10,12 @@ import typer
 
 from rich.markup import escape
 
-from ..analysis import screen
 from ..analysis.margins import CAUTION
 from ..errors import InputError
 from ..model import MarginRule
 from ..tables import MARGIN_COLUMNS
 from ..units import to_rpm
-from .common import (SweepProgress, check_output, console, input_errors, load, print_table,
+from .common import (EXIT_CHECK_FAILED, screen_case, console, input_errors, load, print_table,
                      print_warnings, save_figure, speed_option, write_outputs)
 
 EXAMPLE = """[bold]Example[/]: rotorcalc criticals cases/feed_pump.toml --map pump-map.png --json pump.json"""
@@ -83,12 +82,7 @@ def print_margins(result, brief=False):
 def run(case, map_path, json_path, csv_path, points, top, orders, rule, below, above, command):
     rotor = apply_overrides(load(case), points=points, top=top, orders=orders, rule=rule,
                             below=below, above=above)
-    for path, opt in ((map_path, "--map"), (json_path, "--json"), (csv_path, "--csv")):
-        check_output(path, case, opt)
-    progress = SweepProgress()
-    with input_errors():
-        result = screen(rotor, progress=progress)
-    progress.close()
+    result = screen_case(rotor, case, {"--map": map_path, "--json": json_path, "--csv": csv_path})
     print_margins(result)
     print_warnings(result.sweep.warnings)
     write_outputs(command, case, result.margins.to_dict(), result.sweep.warnings, json_path,
@@ -101,39 +95,34 @@ def run(case, map_path, json_path, csv_path, points, top, orders, rule, below, a
     return result
 
 
-def options():
-    """The option set shared by ``criticals`` and ``check``."""
-    return dict(
-        map_path=typer.Option(None, "--map", help="Also write the whirl-speed map (.png/.svg/.pdf)."),
-        json_path=typer.Option(None, "--json", help="Write the margin table as JSON."),
-        csv_path=typer.Option(None, "--csv", help="Write the margin table as CSV."),
-        points=typer.Option(None, "--points", min=3, help="Number of sweep speeds."),
-        top=typer.Option(None, "--to", help='Highest sweep speed, e.g. "12000 rpm".'),
-        orders=typer.Option(None, "--orders", help="Excitation orders, comma separated, e.g. 1,2."),
-        rule=typer.Option(None, "--rule", help=RULE_HELP),
-        below=typer.Option(None, "--below", help="Required margin below the minimum speed, per cent (fixed rule)."),
-        above=typer.Option(None, "--above", help="Required margin above the maximum continuous speed, per cent (fixed rule)."),
-    )
+def make_command(name, gate):
+    """The ``criticals`` command, or with ``gate`` the ``check`` command (exit 1 on failure)."""
 
+    def command(
+        case: Path = typer.Argument(..., help="Rotor description (TOML)."),
+        map_path: Optional[Path] = typer.Option(
+            None, "--map", help="Also write the whirl-speed map (.png/.svg/.pdf)."),
+        json_path: Optional[Path] = typer.Option(None, "--json", help="Write the margin table as JSON."),
+        csv_path: Optional[Path] = typer.Option(None, "--csv", help="Write the margin table as CSV."),
+        points: Optional[int] = typer.Option(None, "--points", min=3, help="Number of sweep speeds."),
+        top: Optional[str] = typer.Option(None, "--to", help='Highest sweep speed, e.g. "12000 rpm".'),
+        orders: Optional[str] = typer.Option(
+            None, "--orders", help="Excitation orders, comma separated, e.g. 1,2."),
+        rule: Optional[str] = typer.Option(None, "--rule", help=RULE_HELP),
+        below: Optional[float] = typer.Option(
+            None, "--below", help="Required margin below the minimum speed, per cent (fixed rule)."),
+        above: Optional[float] = typer.Option(
+            None, "--above",
+            help="Required margin above the maximum continuous speed, per cent (fixed rule)."),
+    ):
+        result = run(case, map_path, json_path, csv_path, points, top, orders, rule, below, above,
+                     name)
+        if gate and not result.passed:
+            raise typer.Exit(EXIT_CHECK_FAILED)
 
-_O = options()
-
-
-def command(
-    case: Path = typer.Argument(..., help="Rotor description (TOML)."),
-    map_path: Optional[Path] = _O["map_path"],
-    json_path: Optional[Path] = _O["json_path"],
-    csv_path: Optional[Path] = _O["csv_path"],
-    points: Optional[int] = _O["points"],
-    top: Optional[str] = _O["top"],
-    orders: Optional[str] = _O["orders"],
-    rule: Optional[str] = _O["rule"],
-    below: Optional[float] = _O["below"],
-    above: Optional[float] = _O["above"],
-):
-    """Critical speeds (forward/backward, log dec) and their separation margins."""
-    run(case, map_path, json_path, csv_path, points, top, orders, rule, below, above, "criticals")
+    return command
 
 
 def register(app: typer.Typer):
-    app.command("criticals", help=command.__doc__ + "\n\n" + EXAMPLE)(command)
+    doc = "Critical speeds (forward/backward, log dec) and their separation margins."
+    app.command("criticals", help=doc + "\n\n" + EXAMPLE)(make_command("criticals", gate=False))

@@ -8,9 +8,10 @@ from typing import Optional
 import typer
 
 from ..analysis import modes_at
+from ..errors import InputError
 from ..tables import mode_columns
 from ..units import to_rpm
-from .common import (check_output, console, input_errors, load, print_table, print_warnings,
+from .common import (check_output, fail_input, input_errors, load, print_table, print_warnings,
                      save_figure, speed_option, write_outputs)
 
 EXAMPLE = """[bold]Example[/]: rotorcalc modes cases/feed_pump.toml --speed "3000 rpm" --shape 1 --plot shape.png"""
@@ -41,8 +42,6 @@ def command(
                   columns, rows)
     if plot is not None:
         if shape > len(rows):
-            from ..errors import InputError
-            from .common import fail_input
             fail_input(InputError("--shape", "is above the number of modes solved", value=shape,
                                   expected=f"1..{len(rows)}", kind="range"))
         from ..plotting import mode_shape

@@ -7,10 +7,8 @@ from typing import Optional
 
 import typer
 
-from ..analysis import screen
 from ..tables import sweep_columns, sweep_rows
-from .common import (SweepProgress, check_output, console, input_errors, load, print_warnings,
-                     save_figure, write_outputs)
+from .common import console, load, print_warnings, save_figure, screen_case, write_outputs
 from .criticals import apply_overrides, print_margins
 
 EXAMPLE = """[bold]Example[/]: rotorcalc sweep cases/compressor.toml --map map.png --csv sweep.csv"""
@@ -26,12 +24,7 @@ def command(
 ):
     """Sweep the speed range, track the modes and draw the whirl-speed map."""
     rotor = apply_overrides(load(case), points=points, top=top)
-    for path, opt in ((map_path, "--map"), (json_path, "--json"), (csv_path, "--csv")):
-        check_output(path, case, opt)
-    progress = SweepProgress()
-    with input_errors():
-        result = screen(rotor, progress=progress)
-    progress.close()
+    result = screen_case(rotor, case, {"--map": map_path, "--json": json_path, "--csv": csv_path})
     sw = result.sweep
     console.print(f"{rotor.name}: {len(sw.speeds)} speeds, {sw.eigenvalues.shape[1]} branches")
     print_margins(result, brief=True)

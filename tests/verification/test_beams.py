@@ -36,10 +36,10 @@ from rotorcalc.analysis.modes import modes_at
 from rotorcalc.analysis.sweep import sweep
 from rotorcalc.assembly import assemble
 from rotorcalc.fe.shaft import shear_coefficient
-from rotorcalc.solvers import DenseSolver
 from tests.conftest import STEEL, isotropic, uniform_shaft
 from tests.verification import closed_forms as cf
 from tests.verification.record import check
+from tests.verification.reduce import solve_reduced
 
 BLEVINS = "Blevins 1979, Table 8-1 (from memory)"
 HAN = "Han, Benaroya, Wei 1999, SS Timoshenko freq. eq. (from memory); Hutchinson 2001 kappa"
@@ -71,22 +71,6 @@ def fitted_rate(elements, errors):
     """Least-squares slope of log(error) against log(1/elements) (error ~ h^p)."""
     h = 1.0 / np.asarray(elements, dtype=float)
     return float(np.polyfit(np.log(h), np.log(np.asarray(errors)), 1)[0])
-
-
-def solve_reduced(system, fixed, speed, n_modes):
-    """Modes with the DOFs ``fixed`` deleted (exact clamping or pinning).
-
-    Returns the eigenvalues and the displacement vectors padded back to the
-    full DOF numbering (zeros at the deleted DOFs).
-    """
-    keep = np.setdiff1d(np.arange(system.n_dof), fixed)
-    def sub(mat):
-        return mat.tocsr()[keep][:, keep]
-    d_mat = system.damping(speed) + speed * system.gyroscopic
-    pairs = DenseSolver()(sub(system.mass), sub(d_mat), sub(system.stiffness(speed)), n_modes)
-    full = np.zeros((system.n_dof, pairs.values.size), dtype=complex)
-    full[keep] = pairs.vectors
-    return pairs.values, full, pairs.real_eigenvalues
 
 
 def assert_plane_pair(vectors):

@@ -48,10 +48,10 @@ from rotorcalc.analysis.sweep import sweep
 from rotorcalc.assembly import assemble
 from rotorcalc.model import (Bearing, Disk, Material, OperatingRange, Rotor, Section,
                              Settings)
-from rotorcalc.solvers import DenseSolver
 from tests.conftest import STEEL, isotropic
 from tests.verification import closed_forms as cf
 from tests.verification.record import check
+from tests.verification.reduce import solve_reduced as _solve_reduced
 
 JEFFCOTT = "Jeffcott 1919; Roark 48EI/L^3 (from memory)"
 SERIES = "Jeffcott 1919 + springs in series, Thomson (from memory)"
@@ -81,16 +81,10 @@ def solve_reduced(system, fixed, speed, n_modes):
     deleted DOFs) and the forward fraction of each mode computed by the
     package's own orbit classification.
     """
-    keep = np.setdiff1d(np.arange(system.n_dof), fixed)
-    def sub(mat):
-        return mat.tocsr()[keep][:, keep]
-    d_mat = system.damping(speed) + speed * system.gyroscopic
-    pairs = DenseSolver()(sub(system.mass), sub(d_mat), sub(system.stiffness(speed)), n_modes)
-    full = np.zeros((system.n_dof, pairs.values.size), dtype=complex)
-    full[keep] = pairs.vectors
+    values, full, _ = _solve_reduced(system, fixed, speed, n_modes)
     t = system.translation_dofs
     shapes = np.stack([full[t[:, 0]].T, full[t[:, 1]].T], axis=-1)
-    return pairs.values, full, forward_fraction(shapes)
+    return values, full, forward_fraction(shapes)
 
 
 # ---------------------------------------------------------------------------
