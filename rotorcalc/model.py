@@ -16,6 +16,7 @@ import numpy as np
 
 from .errors import InputError
 from .units import to_rpm
+from .unbalance import ResponseSettings
 
 COEFFICIENT_NAMES = ("kxx", "kxy", "kyx", "kyy", "cxx", "cxy", "cyx", "cyy")
 BEAM_THEORIES = ("timoshenko", "rayleigh", "euler-bernoulli")
@@ -368,6 +369,9 @@ class Rotor:
     settings : Settings
     station_names : dict
         Optional names, ``{name: station number}``.
+    unbalance, probes, clearances : tuple
+        Forced-response input (:mod:`rotorcalc.unbalance`).
+    response : ResponseSettings
     """
 
     sections: tuple
@@ -377,13 +381,18 @@ class Rotor:
     settings: Settings = field(default_factory=Settings)
     station_names: dict = field(default_factory=dict)
     name: str = "rotor"
+    unbalance: tuple = ()
+    probes: tuple = ()
+    clearances: tuple = ()
+    response: ResponseSettings = field(default_factory=ResponseSettings)
 
     def __post_init__(self):
         if not self.sections:
             raise InputError("section", "the rotor has no shaft sections",
                              expected="at least one [[section]] table", kind="missing")
         last = len(self.sections)
-        for group in (self.disks, self.bearings):
+        weights = tuple(w for case in self.unbalance for w in case.weights)
+        for group in (self.disks, self.bearings, weights, self.probes, self.clearances):
             for part in group:
                 if not (isinstance(part.station, int) and 0 <= part.station <= last):
                     raise InputError(f"{part.key}.at", "names a station that does not exist",

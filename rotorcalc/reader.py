@@ -19,13 +19,15 @@ if sys.version_info >= (3, 11):
 else:  # pragma: no cover
     import tomli as tomllib
 
+from . import standards
 from . import units as u
 from .errors import InputError
 from .model import (COEFFICIENT_NAMES, Bearing, Disk, MarginRule, Material, OperatingRange,
                     Rotor, Section, Settings, Support)
+from .unbalance import Clearance, Probe, ResponseSettings, UnbalanceCase, UnbalanceWeight
 
 TOP_KEYS = {"title", "stations", "materials", "section", "disk", "bearing", "operating",
-            "analysis"}
+            "analysis", "unbalance", "probe", "clearance", "response"}
 MATERIAL_KEYS = {"youngs_modulus", "shear_modulus", "poisson_ratio", "density"}
 SECTION_KEYS = {"length", "outer_diameter", "inner_diameter", "material", "elements",
                 "added_mass"}
@@ -37,6 +39,11 @@ OPERATING_KEYS = {"min_speed", "max_speed", "trip_speed"}
 ANALYSIS_KEYS = {"speed_from", "speed_to", "speed_count", "modes", "orders", "beam_theory",
                  "margin_rule", "margin_below", "margin_above", "af_threshold",
                  "judge_backward"}
+UNBALANCE_KEYS = {"description", "residual_multiple", "residual_mass", "weight"}
+WEIGHT_KEYS = {"at", "amount", "mass", "radius", "phase"}
+PROBE_KEYS = {"at", "angle", "name"}
+CLEARANCE_KEYS = {"at", "radial", "name"}
+RESPONSE_KEYS = {"speed_from", "speed_to", "speed_count", "check_vibration", "clearance_share"}
 BEARING_KINDS = ("bearing", "seal")
 
 
@@ -146,10 +153,11 @@ def _string(table, key, where, default=None, required=False):
     return value
 
 
-def _array_of_tables(data, key):
+def _array_of_tables(data, key, where=""):
     value = data.get(key, [])
     if not isinstance(value, list) or not all(isinstance(v, dict) for v in value):
-        raise InputError(key, "must be written as [[%s]] tables" % key, value=_short(value),
+        path = _path(where, key)
+        raise InputError(path, f"must be written as [[{path}]] tables", value=_short(value),
                          kind="type")
     return value
 
@@ -176,8 +184,17 @@ def rotor_from_dict(data: dict) -> Rotor:
     operating = _operating(data["operating"])
     settings = _settings(data.get("analysis", {}))
     title = _string(data, "title", "", default="rotor")
+    mass = sum(s.mass for s in sections) + sum(d.mass for d in disks)
+    unbalance = _unbalance_cases(data.get("unbalance", {}), names, len(sections), mass,
+                                 operating.max_speed)
+    probes = tuple(_probe(t, i, names, len(sections))
+                   for i, t in enumerate(_array_of_tables(data, "probe")))
+    clearances = tuple(_clearance(t, i, names, len(sections))
+                       for i, t in enumerate(_array_of_tables(data, "clearance")))
     return Rotor(sections=sections, operating=operating, disks=disks, bearings=bearings,
-                 settings=settings, station_names=names, name=title)
+                 settings=settings, station_names=names, name=title, unbalance=unbalance,
+                 probes=probes, clearances=clearances,
+                 response=_response(data.get("response", {})))
 
 
 def _materials(table):
@@ -375,6 +392,88 @@ def _settings(table):
                     orders=tuple(float(o) for o in orders),
                     beam_theory=_string(table, "beam_theory", where, default="timoshenko"),
                     margin_rule=rule, judge_backward=judge)
+
+
+# --- forced response ---------------------------------------------------------------------
+
+def _unbalance_cases(table, names, n_sections, rotor_mass, max_speed):
+    if not isinstance(table, dict):
+        check_keys(table, set(), "unbalance")  # raises: must be a table
+    cases = []
+    for case_name, entry in table.items():
+        where = f"unbalance.{case_name}"
+        check_keys(entry, UNBALANCE_KEYS, where)
+        multiple = _number(entry, "residual_multiple", where, standards.RESIDUAL_MULTIPLE)
+        if multiple <= 0:
+            raise InputError(f"{where}.residual_multiple", "must be positive", value=multiple,
+                             kind="range")
+        carried = _quantity(entry, "residual_mass", u.MASS, where, default=rotor_mass)
+        if carried <= 0:
+            raise InputError(f"{where}.residual_mass", "must be positive", value=carried,
+                             kind="range")
+        weights = []
+        for j, w in enumerate(_array_of_tables(entry, "weight", where)):
+            wk = f"{where}.weight[{j}]"
+            check_keys(w, WEIGHT_KEYS, wk)
+            station = _station(w, wk, names, n_sections)
+            amount = _unbalance_amount(w, wk, multiple * standards.residual_unbalance(
+                carried, max_speed))
+            phase = _quantity(w, "phase", u.ANGLE, wk, default=0.0)
+            weights.append(UnbalanceWeight(station, amount, phase, key=wk))
+        cases.append(UnbalanceCase(case_name, tuple(weights),
+                                   _string(entry, "description", where, default=""), key=where))
+    return tuple(cases)
+
+
+def _unbalance_amount(w, where, residual):
+    """An explicit amount, mass times radius, or "residual" (the common-practice amount)."""
+    given = {"amount", "mass", "radius"} & set(w)
+    if "amount" in given and len(given) > 1:
+        raise InputError(f"{where}.amount", "is given together with mass and radius",
+                         expected="either amount, or mass and radius", kind="conflict")
+    if "amount" in w:
+        if isinstance(w["amount"], str) and w["amount"].strip() == "residual":
+            return residual
+        return u.parse(w["amount"], u.UNBALANCE, f"{where}.amount")
+    if not given:
+        raise InputError(f"{where}.amount", "is missing",
+                         expected='an amount ("12 g*mm", "residual"), or mass and radius',
+                         kind="missing")
+    mass = _quantity(w, "mass", u.MASS, where, required=True)
+    radius = _quantity(w, "radius", u.LENGTH, where, required=True)
+    return mass * radius
+
+
+def _probe(table, i, names, n_sections):
+    where = f"probe[{i}]"
+    check_keys(table, PROBE_KEYS, where)
+    station = _station(table, where, names, n_sections)
+    angle = _quantity(table, "angle", u.ANGLE, where, default=0.0)
+    return Probe(station, angle, _string(table, "name", where, default=f"P{i + 1}"), key=where)
+
+
+def _clearance(table, i, names, n_sections):
+    where = f"clearance[{i}]"
+    check_keys(table, CLEARANCE_KEYS, where)
+    station = _station(table, where, names, n_sections)
+    radial = _quantity(table, "radial", u.LENGTH, where, required=True)
+    return Clearance(station, radial, _string(table, "name", where, default=f"C{i + 1}"),
+                     key=where)
+
+
+def _response(table):
+    where = "response"
+    check_keys(table, RESPONSE_KEYS, where)
+    check = table.get("check_vibration", True)
+    if not isinstance(check, bool):
+        raise InputError(f"{where}.check_vibration", "must be true or false", value=check,
+                         kind="type")
+    return ResponseSettings(speed_from=_quantity(table, "speed_from", u.SPEED, where),
+                            speed_to=_quantity(table, "speed_to", u.SPEED, where),
+                            speed_count=_integer(table, "speed_count", where, 201),
+                            check_vibration=check,
+                            clearance_share=_number(table, "clearance_share", where,
+                                                    standards.CLEARANCE_SHARE))
 
 
 # --- where is a key? --------------------------------------------------------------------

@@ -82,6 +82,65 @@ MARGIN_COLUMNS = [
 ]
 
 
+RESPONSE_MARGIN_COLUMNS = [
+    Column("AF resp.", lambda r: r.af_response, "{:.2f}", "amplification_factor_response"),
+    Column("Req. resp. %", lambda r: r.required_response, "{:.1f}",
+           "required_margin_response_percent"),
+    Column("Verdict resp.", lambda r: r.verdict_response, "{}", "verdict_response"),
+]
+
+
+def margin_columns(table):
+    """Margin columns, with the response-based ones when the table has them."""
+    return MARGIN_COLUMNS + (RESPONSE_MARGIN_COLUMNS if table.has_response else [])
+
+
+# --- response peaks and limit checks --------------------------------------------------
+
+PEAK_COLUMNS = [
+    Column("Case", lambda p: p.case, "{}", "case"),
+    Column("Probe", lambda p: p.probe, "{}", "probe"),
+    Column("Peak rpm", lambda p: float(to_rpm(p.speed)), "{:.0f}", "speed_rpm"),
+    Column("Amplitude um pp", lambda p: p.amplitude * 1e6, "{:.2f}", "amplitude_pp_um"),
+    Column("Half-power rpm", lambda p: None if p.half_power is None else
+           "{:.0f}-{:.0f}".format(*to_rpm(np.array(p.half_power))), "{}", "half_power_rpm"),
+    Column("Bandwidth rpm", lambda p: None if p.bandwidth is None else float(to_rpm(p.bandwidth)),
+           "{:.0f}", "bandwidth_rpm"),
+    Column("AF", lambda p: p.af, "{:.2f}", "amplification_factor"),
+    Column("Note", lambda p: p.note, "{}", "note"),
+]
+
+LIMIT_COLUMNS = [
+    Column("Case", lambda c: c.case, "{}", "case"),
+    Column("Where", lambda c: c.where, "{}", "where"),
+    Column("Check", lambda c: c.kind, "{}", "kind"),
+    Column("Worst at rpm", lambda c: float(to_rpm(c.speed)), "{:.0f}", "speed_rpm"),
+    Column("Value um", lambda c: c.value * 1e6, "{:.2f}", "value_um"),
+    Column("Limit um", lambda c: c.limit * 1e6, "{:.2f}", "limit_um"),
+    Column("Ratio", lambda c: c.ratio, "{:.2f}", "ratio"),
+    Column("Verdict", lambda c: "pass" if c.passed else "fail", "{}", "verdict"),
+]
+
+
+def response_rows(result, case_index):
+    """Rows (speed index, probe index) of one case's probe curves, long format."""
+    for k in range(len(result.speeds)):
+        for j in range(len(result.probes)):
+            yield (case_index, k, j)
+
+
+def response_columns(result):
+    return [
+        Column("Case", lambda r: result.cases[r[0]], "{}", "case"),
+        Column("Speed rpm", lambda r: float(to_rpm(result.speeds[r[1]])), "{:.1f}", "speed_rpm"),
+        Column("Probe", lambda r: result.probes[r[2]].name, "{}", "probe"),
+        Column("Amplitude um pp", lambda r: float(1e6 * 2 * abs(result.probe_values[r])),
+               "{:.4f}", "amplitude_pp_um"),
+        Column("Phase lag deg", lambda r: float(result.probe_phase(r[0], r[2])[r[1]]), "{:.2f}",
+               "phase_lag_deg"),
+    ]
+
+
 # --- sweep, long format: rows are (sweep, speed index, branch) --------------------------
 
 def sweep_rows(result):

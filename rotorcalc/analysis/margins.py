@@ -65,9 +65,18 @@ def required_margin(rule: MarginRule, af, side):
     return {"below": base, "above": above}.get(side, above)
 
 
+PASSING = ("pass", "critically damped", "not judged", "no peak")
+
+
 @dataclass(frozen=True)
 class MarginRow:
-    """Margin of one critical speed: where it is, what it needs, and the verdict."""
+    """Margin of one critical speed: where it is, what it needs, and the verdicts.
+
+    The ``*_response`` fields are filled when an unbalance response was run:
+    the amplification factor measured on the response peaks matched to this
+    critical (the largest, to be conservative), the margin it requires and
+    the verdict that follows.
+    """
 
     critical: CriticalSpeed
     side: str
@@ -75,10 +84,15 @@ class MarginRow:
     amplification_factor: float
     required: float
     verdict: str
+    af_response: float | None = None
+    required_response: float | None = None
+    verdict_response: str | None = None
+    peaks: tuple = ()
 
     @property
     def passed(self):
-        return self.verdict in ("pass", "critically damped", "not judged")
+        return self.verdict in PASSING and (self.verdict_response is None
+                                            or self.verdict_response in PASSING)
 
     def to_dict(self):
         out = self.critical.to_dict()
@@ -90,6 +104,14 @@ class MarginRow:
             "required_margin_percent": self.required,
             "verdict": self.verdict,
         })
+        if self.verdict_response is not None:
+            out.update({
+                "amplification_factor_response": (None if self.af_response is None
+                                                  else _finite_or_none(self.af_response)),
+                "required_margin_response_percent": self.required_response,
+                "verdict_response": self.verdict_response,
+                "peaks": [p.to_dict() for p in self.peaks],
+            })
         return out
 
 
@@ -110,6 +132,10 @@ class MarginTable:
     @property
     def passed(self):
         return all(row.passed for row in self.rows)
+
+    @property
+    def has_response(self):
+        return any(row.verdict_response is not None for row in self.rows)
 
     def to_dict(self):
         return {
@@ -136,8 +162,37 @@ def _side_and_margin(speed, operating):
     return "inside", -min(to_lo, to_hi)
 
 
+def _verdict(rule, crit, af, margin, need, judge_backward):
+    if crit.log_dec <= 0:
+        return "fail"  # an unstable mode fails whatever its whirl or place
+    if crit.whirl == "backward" and not judge_backward:
+        return "not judged"
+    if rule.kind == "af-curve" and af < rule.af_threshold:
+        return "critically damped"
+    return "pass" if margin >= need else "fail"
+
+
+def match_window(critical):
+    """Relative speed window in which a response peak belongs to a critical speed.
+
+    The peak of the unbalance response of a single mode lies above its damped
+    natural frequency by about 1.5 zeta^2 (displacement response to a rotating
+    unbalance); other modes and probe placement shift it further, so the
+    window is the larger of 5 % and three damping ratios.
+    """
+    return max(0.05, 3.0 * critical.damping_ratio)
+
+
+def matched_peaks(critical, peaks):
+    """The response peaks that belong to ``critical`` (synchronous criticals only)."""
+    if critical.order != 1.0:
+        return ()
+    window = match_window(critical)
+    return tuple(p for p in peaks if abs(p.speed / critical.speed - 1.0) <= window)
+
+
 def separation_margins(criticals, operating: OperatingRange, rule: MarginRule,
-                       sweep_top, judge_backward=False):
+                       sweep_top, judge_backward=False, peaks=None):
     """Judge every critical speed against the operating range.
 
     Parameters
@@ -151,6 +206,10 @@ def separation_margins(criticals, operating: OperatingRange, rule: MarginRule,
         Backward-whirl criticals are listed but not judged unless this is set
         (unbalance on isotropic supports does not excite backward whirl;
         common practice).
+    peaks : sequence of Peak, optional
+        Unbalance-response peaks; when given, every synchronous critical also
+        gets the amplification factor measured on its matched peaks and the
+        verdict that follows from it.
 
     Returns
     -------
@@ -161,19 +220,33 @@ def separation_margins(criticals, operating: OperatingRange, rule: MarginRule,
         side, margin = _side_and_margin(crit.speed, operating)
         af = af_from_log_dec(crit.log_dec)
         need = required_margin(rule, af, side)
-        if crit.log_dec <= 0:
-            verdict = "fail"  # an unstable mode fails whatever its whirl or place
-        elif crit.whirl == "backward" and not judge_backward:
-            verdict = "not judged"
-        elif rule.kind == "af-curve" and af < rule.af_threshold:
-            verdict = "critically damped"
-        else:
-            verdict = "pass" if margin >= need else "fail"
-        rows.append(MarginRow(crit, side, margin, af, need, verdict))
+        verdict = _verdict(rule, crit, af, margin, need, judge_backward)
+        extra = {}
+        if peaks is not None:
+            mine = matched_peaks(crit, peaks)
+            factors = [p.af for p in mine if p.af is not None]
+            if not mine:
+                extra = dict(verdict_response="no peak" if crit.log_dec > 0 else "fail")
+            elif not factors:
+                # no half-power points on any matched peak: too flat to measure
+                extra = dict(af_response=None, required_response=0.0,
+                             verdict_response="critically damped" if crit.log_dec > 0
+                             else "fail", peaks=mine)
+            else:
+                af_r = max(factors)
+                need_r = required_margin(rule, af_r, side)
+                extra = dict(af_response=af_r, required_response=need_r,
+                             verdict_response=_verdict(rule, crit, af_r, margin, need_r,
+                                                       judge_backward), peaks=mine)
+        rows.append(MarginRow(crit, side, margin, af, need, verdict, **extra))
     worst_above = required_margin(rule, math.inf, "above")
     notes = []
     reach = 100.0 * (sweep_top - operating.max_speed) / operating.max_speed
     if reach < worst_above:
         notes.append(f"the sweep reaches only {reach:.0f}% above the maximum continuous speed; "
                      f"criticals up to {worst_above:.0f}% above it may need checking")
+    if peaks is not None and any(r.verdict_response == "no peak" and r.critical.whirl != "backward"
+                                 for r in rows):
+        notes.append("some forward criticals show no response peak: the unbalance cases given "
+                     "do not excite them at the probes; add a case that does")
     return MarginTable(tuple(rows), operating, rule, float(sweep_top), tuple(notes))

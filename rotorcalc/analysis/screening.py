@@ -1,4 +1,4 @@
-"""The main job in one call: sweep, critical speeds and their separation margins."""
+"""The main job in one call: sweep, critical speeds, unbalance response and margins."""
 
 from __future__ import annotations
 
@@ -8,24 +8,30 @@ from ..assembly import assemble
 from ..model import Rotor
 from .criticals import critical_speeds
 from .margins import MarginTable, separation_margins
+from .response import Response, unbalance_response
 from .sweep import Sweep, sweep
 
 
 @dataclass(frozen=True)
 class Screening:
-    """Sweep, critical speeds and margin table of one rotor."""
+    """Sweep, critical speeds, margin table and (when the rotor has unbalance cases)
+    the unbalance response of one rotor."""
 
     rotor: Rotor
     sweep: Sweep
     criticals: tuple
     margins: MarginTable
+    response: Response | None = None
 
     @property
     def passed(self):
-        return self.margins.passed
+        return self.margins.passed and (self.response is None or self.response.passed)
 
     def to_dict(self):
-        return {"margins": self.margins.to_dict(), "sweep": self.sweep.to_dict()}
+        out = {"margins": self.margins.to_dict(), "sweep": self.sweep.to_dict()}
+        if self.response is not None:
+            out["response"] = self.response.to_dict()
+        return out
 
 
 def screen(rotor: Rotor, speeds=None, orders=None, solver=None, progress=None) -> Screening:
@@ -44,7 +50,9 @@ def screen(rotor: Rotor, speeds=None, orders=None, solver=None, progress=None) -
     system = assemble(rotor)
     result = sweep(system, speeds=speeds, solver=solver, progress=progress)
     crits = tuple(critical_speeds(system, result, orders=orders, solver=solver))
+    response = unbalance_response(system) if rotor.unbalance else None
     table = separation_margins(crits, rotor.operating, rotor.settings.margin_rule,
                                float(result.speeds[-1]),
-                               judge_backward=rotor.settings.judge_backward)
-    return Screening(rotor, result, crits, table)
+                               judge_backward=rotor.settings.judge_backward,
+                               peaks=None if response is None else response.peaks)
+    return Screening(rotor, result, crits, table, response)

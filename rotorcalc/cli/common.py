@@ -20,7 +20,7 @@ from ..tables import rows_csv
 
 console = Console()
 if not console.is_terminal:
-    console = Console(width=140)  # pipes and files: wide enough for the margin table
+    console = Console(width=160)  # pipes and files: wide enough for the margin table
 errors = Console(stderr=True)
 
 EXIT_OK, EXIT_CHECK_FAILED, EXIT_BAD_INPUT = 0, 1, 2

@@ -13,7 +13,7 @@ from rich.markup import escape
 from ..analysis.margins import CAUTION
 from ..errors import InputError
 from ..model import MarginRule
-from ..tables import MARGIN_COLUMNS
+from ..tables import LIMIT_COLUMNS, margin_columns
 from ..units import to_rpm
 from .common import (EXIT_CHECK_FAILED, screen_case, console, input_errors, load, print_table,
                      print_warnings, save_figure, speed_option, write_outputs)
@@ -70,10 +70,22 @@ def print_margins(result, brief=False):
         console.print(f"{escape(title)}\nNo critical speed found up to "
                       f"{to_rpm(table.verified_above_to):.0f} rpm.")
     else:
-        print_table(title, MARGIN_COLUMNS, table.rows, caption=None if brief else rule_text)
+        if table.has_response:
+            rule_text += (" 'resp.' columns: AF measured on the unbalance-response peaks "
+                          "(half-power bandwidth).")
+        print_table(title, margin_columns(table), table.rows,
+                    caption=None if brief else rule_text)
+    response = result.response
+    if response is not None and (response.vibration or response.clearance):
+        print_table("Unbalance response at running speeds: vibration and clearance",
+                    LIMIT_COLUMNS, response.vibration + response.clearance,
+                    caption=None if brief else (
+                        "Vibration limit 25.4*sqrt(12000/N) um pk-pk, at most 25.4 um; clearance "
+                        f"limit {rotor.response.clearance_share:.0%} of the radial clearance "
+                        "(common practice, from memory)."))
     for note in table.notes:
         console.print(f"[yellow]note[/] {escape(note)}", highlight=False)
-    verdict = "[green]all margins met[/]" if table.passed else "[bold red]margin check FAILED[/]"
+    verdict = "[green]all margins met[/]" if result.passed else "[bold red]margin check FAILED[/]"
     console.print(f"Verdict: {verdict}")
     if not brief:
         console.print(f"[dim]{CAUTION}[/]", highlight=False)
@@ -84,9 +96,15 @@ def run(case, map_path, json_path, csv_path, points, top, orders, rule, below, a
                             below=below, above=above)
     result = screen_case(rotor, case, {"--map": map_path, "--json": json_path, "--csv": csv_path})
     print_margins(result)
-    print_warnings(result.sweep.warnings)
-    write_outputs(command, case, result.margins.to_dict(), result.sweep.warnings, json_path,
-                  csv_path, MARGIN_COLUMNS, result.margins.rows)
+    document = result.margins.to_dict()
+    if result.response is not None:
+        document["response_checks"] = [c.to_dict() for c in
+                                       result.response.vibration + result.response.clearance]
+        document["passed"] = result.passed
+    warnings = result.sweep.warnings + (result.response.warnings if result.response else ())
+    print_warnings(warnings)
+    write_outputs(command, case, document, warnings, json_path, csv_path,
+                  margin_columns(result.margins), result.margins.rows)
     if map_path is not None:
         from ..plotting import whirl_speed_map
         ax = whirl_speed_map(result.sweep, result.criticals, rotor.operating,

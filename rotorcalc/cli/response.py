@@ -1,0 +1,77 @@
+"""``rotorcalc response``: unbalance response, peaks, amplification factors and limits."""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Optional
+
+import typer
+
+from ..analysis.response import unbalance_response
+from ..errors import InputError
+from ..tables import LIMIT_COLUMNS, PEAK_COLUMNS, response_columns, response_rows
+from .common import (check_output, console, fail_input, input_errors, load, print_table,
+                     print_warnings, save_figure, speed_option, write_outputs)
+
+EXAMPLE = ("[bold]Example[/]: rotorcalc response cases/compressor.toml --bode bode.png "
+           "--polar polar.png --orbits orbits.png --at \"11500 rpm\"")
+
+
+def command(
+    case: Path = typer.Argument(..., help="Rotor description (TOML) with [unbalance.NAME] cases."),
+    name: Optional[str] = typer.Option(None, "--case", "-c",
+                                       help="Unbalance case to draw (default: the first)."),
+    bode: Optional[Path] = typer.Option(None, "--bode", help="Write Bode plots (amplitude and phase) of every probe."),
+    polar: Optional[Path] = typer.Option(None, "--polar", help="Write polar plots of every probe."),
+    orbits: Optional[Path] = typer.Option(None, "--orbits", help="Write orbit ellipses at the --at speeds."),
+    at: Optional[str] = typer.Option(None, "--at", help='Orbit speeds, comma separated, e.g. "3000 rpm, 3600 rpm" (default: maximum continuous speed).'),
+    json_path: Optional[Path] = typer.Option(None, "--json", help="Write every response curve, peak and check as JSON."),
+    csv_path: Optional[Path] = typer.Option(None, "--csv", help="Write the probe curves (one row per case, speed and probe) as CSV."),
+):
+    """Unbalance response: probe amplitudes and phases, peaks with amplification factors,
+    vibration and clearance checks at running speeds."""
+    rotor = load(case)
+    for path, opt in ((bode, "--bode"), (polar, "--polar"), (orbits, "--orbits"),
+                      (json_path, "--json"), (csv_path, "--csv")):
+        check_output(path, case, opt)
+    with input_errors():
+        result = unbalance_response(rotor)
+    if name is None:
+        index = 0
+    elif name in result.cases:
+        index = result.cases.index(name)
+    else:
+        fail_input(InputError("--case", "names no unbalance case of the file", value=name,
+                              expected="one of " + ", ".join(result.cases), kind="choice"))
+    speeds = [rotor.operating.max_speed]
+    if at:
+        speeds = [speed_option(part, "--at") for part in at.split(",")]
+    print_table(f"{rotor.name}: unbalance response peaks", PEAK_COLUMNS, result.peaks,
+                caption="AF = peak speed / half-power bandwidth (0.707 of the peak).")
+    if result.vibration or result.clearance:
+        print_table("Response at running speeds", LIMIT_COLUMNS,
+                    result.vibration + result.clearance,
+                    caption="Vibration limit 25.4*sqrt(12000/N) um pk-pk, at most 25.4 um; "
+                            f"clearance limit {rotor.response.clearance_share:.0%} of the radial "
+                            "clearance (common practice, from memory).")
+    verdict = "[green]within limits[/]" if result.passed else "[bold red]limits EXCEEDED[/]"
+    console.print(f"Verdict: {verdict}")
+    print_warnings(result.warnings)
+    rows = [r for i in range(len(result.cases)) for r in response_rows(result, i)]
+    write_outputs("response", case, result.to_dict(), result.warnings, json_path, csv_path,
+                  response_columns(result), rows)
+    if bode is not None or polar is not None or orbits is not None:
+        from .. import plotting
+        if bode is not None:
+            save_figure(plotting.bode(result, index, operating=rotor.operating).figure, bode)
+        if polar is not None:
+            save_figure(plotting.polar(result, index).figure, polar)
+        if orbits is not None:
+            with input_errors():
+                at_speeds = unbalance_response(rotor, speeds=speeds,
+                                               cases=[rotor.unbalance[index]])
+            save_figure(plotting.orbits(at_speeds, 0).figure, orbits)
+
+
+def register(app: typer.Typer):
+    app.command("response", help=command.__doc__ + "\n\n" + EXAMPLE)(command)
