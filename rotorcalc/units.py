@@ -94,7 +94,7 @@ def _parse_text(text, dim, key, expected):
         return float(quantity)  # plain number written as text: SI
     if quantity.unitless:
         return float(quantity.magnitude)
-    if dim is SPEED:
+    if dim is SPEED and quantity.dimensionality == dim.dimensionality:
         names = str(quantity.units)
         if any(name in names for name in _HZ_NAMES):
             quantity = quantity * _UREG.Quantity(2.0 * math.pi, "rad")

@@ -1,0 +1,236 @@
+"""Critical-speed map: undamped synchronous critical speeds against bearing stiffness.
+
+Every bearing is replaced by an isotropic spring of stiffness ``k`` (no
+damping, no cross-coupling; supports are kept, in series); seals keep their
+own direct stiffness at the maximum continuous speed.  A synchronous
+whirl ``q = Re(phi e^{i W t})`` of the undamped spinning rotor satisfies
+
+    (K(k) - W^2 M + i W^2 G) phi = 0,   i.e.   K(k) phi = W^2 (M - i G) phi,
+
+a generalized eigenproblem with real symmetric ``K`` and Hermitian
+``M - i G``; its positive eigenvalues are the squared critical speeds, the
+gyroscopic effect included, and the whirl of each eigenvector tells forward
+from backward.  The bearings' own direct stiffness curves over speed are
+crossed with the map curves to give the criticals the real bearings produce.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+import scipy.linalg as la
+import scipy.sparse as sp
+import scipy.sparse.linalg as spla
+from scipy.optimize import brentq
+
+from ..assembly import SystemMatrices, assemble
+from ..fe import bearing as fe_bearing
+from ..units import to_rpm
+from .modes import forward_fraction
+from .sweep import default_speeds
+
+#: Above this many DOFs the map uses sparse shift-invert instead of dense solves.
+DENSE_LIMIT = 600
+#: Speeds at which each bearing curve is sampled (crossings are then refined).
+CURVE_POINTS = 25
+
+
+@dataclass(frozen=True)
+class BearingCurve:
+    """A bearing's direct stiffness over speed, as drawn on the map."""
+
+    bearing: str
+    direction: str          # "kxx" or "kyy"
+    speeds: np.ndarray      # rad/s
+    stiffness: np.ndarray   # N/m
+
+
+@dataclass(frozen=True)
+class Crossing:
+    """Where a bearing's stiffness curve meets a critical-speed curve."""
+
+    bearing: str
+    direction: str
+    mode: int
+    speed: float
+    stiffness: float
+
+    def to_dict(self):
+        return {"bearing": self.bearing, "direction": self.direction, "mode": self.mode + 1,
+                "speed_rpm": float(to_rpm(self.speed)), "stiffness_n_m": self.stiffness}
+
+
+@dataclass(frozen=True)
+class CriticalSpeedMap:
+    """Undamped synchronous critical speeds over a log-spaced support stiffness.
+
+    Attributes
+    ----------
+    stiffness : ndarray (n_k,)
+        N/m.
+    speeds : ndarray (n_k, n_modes)
+        Critical speeds, rad/s, lowest first (forward whirl unless asked otherwise).
+    shapes : complex ndarray (n_k, n_modes, n_nodes, 2)
+    curves : tuple of BearingCurve
+    crossings : tuple of Crossing
+    """
+
+    stiffness: np.ndarray
+    speeds: np.ndarray
+    shapes: np.ndarray
+    node_z: np.ndarray
+    station_nodes: np.ndarray
+    whirl: str
+    curves: tuple
+    crossings: tuple
+
+    def to_dict(self):
+        return {
+            "whirl": self.whirl,
+            "stiffness_n_m": [float(v) for v in self.stiffness],
+            "modes": [{"mode": j + 1,
+                       "critical_speed_rpm": [float(v) if np.isfinite(v) else None
+                                              for v in to_rpm(self.speeds[:, j])]}
+                      for j in range(self.speeds.shape[1])],
+            "bearing_curves": [{"bearing": c.bearing, "direction": c.direction,
+                                "speeds_rpm": [float(v) for v in to_rpm(c.speeds)],
+                                "stiffness_n_m": [float(v) for v in c.stiffness]}
+                               for c in self.curves],
+            "crossings": [c.to_dict() for c in self.crossings],
+        }
+
+
+class _MapProblem:
+    """K(k) = K0 + k B and the Hermitian mass M - iG of one assembled rotor."""
+
+    def __init__(self, system: SystemMatrices):
+        self.system = system
+        n = system.n_dof
+        rows, cols, vals = [], [], []
+        seals = sp.csr_matrix((n, n))
+        at_speed = system.rotor.operating.max_speed
+        for link in system.links:
+            d = link.dofs
+            if link.bearing.kind == "seal":
+                # a seal keeps its own direct stiffness (at the maximum continuous speed)
+                k2 = np.diag(np.diag(link.bearing.matrices(at_speed)[0]))
+                block = fe_bearing.grounded(k2) if len(d) == 2 else fe_bearing.linked(k2)
+                r, c = np.meshgrid(d, d, indexing="ij")
+                seals = seals + sp.csr_matrix((block.ravel(), (r.ravel(), c.ravel())),
+                                              shape=(n, n))
+                continue
+            block = fe_bearing.grounded(np.eye(2)) if len(d) == 2 else fe_bearing.linked(np.eye(2))
+            r, c = np.meshgrid(d, d, indexing="ij")
+            rows.append(r.ravel())
+            cols.append(c.ravel())
+            vals.append(block.ravel())
+        if rows:
+            self.unit = sp.coo_matrix((np.concatenate(vals), (np.concatenate(rows),
+                                                              np.concatenate(cols))),
+                                      shape=(n, n)).tocsr()
+        else:
+            self.unit = sp.csr_matrix((n, n))
+        self.k0 = (system.shaft_stiffness + system.support_stiffness + seals).tocsr()
+        self.mass = (system.mass - 1j * system.gyroscopic).tocsr()
+
+    def solve(self, k, n_modes, whirl="forward"):
+        """Lowest ``n_modes`` critical speeds (rad/s) of the given whirl and their shapes."""
+        s = self.system
+        kk = self.k0 + k * self.unit
+        want = 2 * n_modes + 6
+        if s.n_dof <= DENSE_LIMIT or want >= s.n_dof - 2:
+            values, vectors = la.eig(kk.toarray(), self.mass.toarray())
+        else:
+            values, vectors = spla.eigs(kk.tocsc().astype(complex), k=want,
+                                        M=self.mass.tocsc(), sigma=0.0)
+        values = values.real
+        good = np.isfinite(values) & (values > 0)
+        values, vectors = values[good], vectors[:, good]
+        t = s.translation_dofs
+        shapes = np.stack([vectors[t[:, 0]].T, vectors[t[:, 1]].T], axis=-1)
+        ff = forward_fraction(shapes)
+        keep = ff >= 0.5 if whirl == "forward" else ff < 0.5
+        values, shapes = values[keep], shapes[keep]
+        order = np.argsort(values)[:n_modes]
+        speeds = np.sqrt(values[order])
+        shapes = shapes[order]
+        peak = shapes.reshape(len(order), -1)
+        idx = np.argmax(np.abs(peak), axis=1)
+        norm = peak[np.arange(len(order)), idx]
+        shapes = shapes / np.where(np.abs(norm) > 0, norm, 1.0)[:, None, None]
+        out_speeds = np.full(n_modes, np.nan)
+        out_shapes = np.full((n_modes,) + shapes.shape[1:], np.nan + 0j)
+        out_speeds[:len(order)], out_shapes[:len(order)] = speeds, shapes
+        return out_speeds, out_shapes
+
+
+def bearing_curves(rotor, speeds):
+    """Direct stiffness (kxx and kyy) of every bearing over ``speeds`` (end values held)."""
+    out = []
+    for i, b in enumerate(rotor.bearings):
+        if b.kind == "seal":
+            continue  # a seal is not a support: its curve would not mean a critical
+        for j, name in enumerate(("kxx", "kyy")):
+            k = np.array([b.matrices(w)[0][j, j] for w in speeds])
+            out.append(BearingCurve(b.name or f"B{i + 1}", name, np.asarray(speeds), k))
+    return tuple(out)
+
+
+def critical_speed_map(rotor_or_system, stiffness=None, n_modes=4, whirl="forward",
+                       speeds=None):
+    """The critical-speed map and the crossings with the bearings' own curves.
+
+    Parameters
+    ----------
+    rotor_or_system : Rotor or SystemMatrices
+    stiffness : array_like, optional
+        Support stiffness values, N/m; by default 41 values log-spaced over
+        four decades around the bearings' mean direct stiffness.
+    n_modes : int
+        Number of critical-speed curves.
+    whirl : {"forward", "backward"}
+    speeds : array_like, optional
+        Speeds (rad/s) at which the bearing curves are drawn; by default the
+        analysis sweep of the rotor.
+    """
+    system = rotor_or_system if isinstance(rotor_or_system, SystemMatrices) \
+        else assemble(rotor_or_system)
+    rotor = system.rotor
+    if speeds is None:
+        sweep_speeds = default_speeds(rotor)
+        speeds = np.linspace(sweep_speeds[0], sweep_speeds[-1], CURVE_POINTS)
+    curves = bearing_curves(rotor, np.asarray(speeds, dtype=float))
+    if stiffness is None:
+        mean = np.exp(np.mean([np.log(np.maximum(c.stiffness, 1.0)) for c in curves])) \
+            if curves else 1e8
+        stiffness = np.logspace(np.log10(mean) - 2, np.log10(mean) + 2, 41)
+    stiffness = np.asarray(stiffness, dtype=float)
+    problem = _MapProblem(system)
+    solved = [problem.solve(k, n_modes, whirl) for k in stiffness]
+    crit = np.array([s[0] for s in solved])
+    shapes = np.array([s[1] for s in solved])
+    crossings = []
+    for curve in curves:
+        # one solve per curve speed gives every mode; refine each crossing with fresh solves
+        on_curve = np.array([problem.solve(k, n_modes, whirl)[0] for k in curve.stiffness])
+        for j in range(n_modes):
+            gap = on_curve[:, j] - curve.speeds
+            for a in np.nonzero(np.sign(gap[:-1]) * np.sign(gap[1:]) < 0)[0]:
+                def g(w, curve=curve, j=j):
+                    k = float(np.interp(w, curve.speeds, curve.stiffness))
+                    return problem.solve(k, j + 1, whirl)[0][j] - w
+                w = brentq(g, curve.speeds[a], curve.speeds[a + 1], rtol=1e-10)
+                k = float(np.interp(w, curve.speeds, curve.stiffness))
+                crossings.append(Crossing(curve.bearing, curve.direction, j, float(w), k))
+    crossings.sort(key=lambda c: (c.speed, c.bearing, c.direction))
+    return CriticalSpeedMap(stiffness, crit, shapes, system.mesh.node_z, system.mesh.station_nodes,
+                            whirl, curves, tuple(crossings))
+
+
+def map_mode_shape(rotor_or_system, stiffness, mode, whirl="forward"):
+    """Critical speed (rad/s) and shape (n_nodes, 2) of one map curve at one stiffness."""
+    system = rotor_or_system if isinstance(rotor_or_system, SystemMatrices) \
+        else assemble(rotor_or_system)
+    speeds, shapes = _MapProblem(system).solve(float(stiffness), mode + 1, whirl)
+    return float(speeds[mode]), shapes[mode]

@@ -1,0 +1,301 @@
+"""What-if studies: variants side by side, the stiffness window that keeps the
+margins, and the sensitivity of each critical speed to the bearings and disks.
+
+All three are built on :func:`~rotorcalc.analysis.screening.screen` and the
+change grammar of :mod:`rotorcalc.variants`.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+from scipy.optimize import brentq, newton
+
+from ..assembly import assemble
+from ..units import to_rpm
+from ..variants import Variant, apply_variant, parse_change
+from .criticals import CriticalSpeed, _branch_at
+from .margins import af_from_log_dec
+from .screening import Screening, screen
+
+# --- variants side by side -------------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class ComparisonRow:
+    """One critical speed of one variant, with its change against the base."""
+
+    variant: str
+    row: object              # MarginRow
+    base_speed: float | None  # the matching critical of the base, rad/s
+
+    @property
+    def change_percent(self):
+        if self.base_speed is None:
+            return None
+        return 100.0 * (self.row.critical.speed / self.base_speed - 1.0)
+
+
+@dataclass(frozen=True)
+class Comparison:
+    """Screenings of a base rotor and its variants."""
+
+    names: tuple
+    screenings: tuple
+    rows: tuple
+
+    @property
+    def passed(self):
+        return {name: s.passed for name, s in zip(self.names, self.screenings)}
+
+    def to_dict(self):
+        out = []
+        for r in self.rows:
+            d = r.row.to_dict()
+            d.update({"variant": r.variant,
+                      "base_speed_rpm": None if r.base_speed is None else float(to_rpm(r.base_speed)),
+                      "change_percent": r.change_percent})
+            out.append(d)
+        return {"variants": list(self.names), "passed": self.passed, "criticals": out}
+
+
+def _match(crit: CriticalSpeed, base: tuple):
+    """The base critical of the same order and whirl nearest in speed (within 30 %)."""
+    same = [c for c in base if c.order == crit.order and c.whirl == crit.whirl]
+    if not same:
+        return None
+    best = min(same, key=lambda c: abs(c.speed - crit.speed))
+    return best if abs(best.speed / crit.speed - 1.0) <= 0.3 else None
+
+
+def compare(rotor, variants, progress=None):
+    """Screen the base rotor and every variant; rows carry the change against the base.
+
+    Parameters
+    ----------
+    rotor : Rotor
+    variants : sequence of Variant
+    progress : callable, optional
+        ``progress(done, total)`` after each screening.
+    """
+    models = [("base", rotor)] + [(v.name, apply_variant(rotor, v)) for v in variants]
+    screenings = []
+    for i, (_, model) in enumerate(models):
+        screenings.append(screen(model))
+        if progress is not None:
+            progress(i + 1, len(models))
+    base = screenings[0].criticals
+    rows = []
+    for (name, _), result in zip(models, screenings):
+        for row in result.margins.rows:
+            match = _match(row.critical, base)
+            rows.append(ComparisonRow(name, row, None if match is None else match.speed))
+    return Comparison(tuple(n for n, _ in models), tuple(screenings), tuple(rows))
+
+
+# --- stiffness window ------------------------------------------------------------------
+
+
+def margin_excess(result: Screening):
+    """Smallest (margin - required margin), per cent, over the judged critical speeds.
+
+    Criticals that need no margin (critically damped, not judged) do not
+    count; an unstable critical gives minus infinity.  Returns the excess and
+    the limiting critical (or None).
+    """
+    worst, limiting = math.inf, None
+    for row in result.margins.rows:
+        if row.critical.log_dec <= 0:
+            return -math.inf, row.critical
+        if row.verdict in ("critically damped", "not judged"):
+            continue
+        excess = row.margin - row.required
+        if excess < worst:
+            worst, limiting = excess, row.critical
+    return worst, limiting
+
+
+@dataclass(frozen=True)
+class WindowEnd:
+    """One end of the stiffness window: the factor and the critical that limits it."""
+
+    factor: float | None       # None: the window reaches past the searched range
+    limiting: CriticalSpeed | None
+    note: str = ""
+
+    def to_dict(self):
+        c = self.limiting
+        return {"factor": self.factor, "note": self.note,
+                "limiting_critical_rpm": None if c is None else float(to_rpm(c.speed)),
+                "limiting_whirl": None if c is None else c.whirl}
+
+
+@dataclass(frozen=True)
+class StiffnessWindow:
+    """Range of a stiffness scale factor for which every separation margin holds."""
+
+    target: str
+    factors: np.ndarray
+    excess: np.ndarray
+    low: WindowEnd
+    high: WindowEnd
+    base_passes: bool
+
+    def to_dict(self):
+        return {"target": self.target, "base_passes": self.base_passes,
+                "scan": [{"factor": float(f), "excess_percent": None if not np.isfinite(e)
+                          else float(e)} for f, e in zip(self.factors, self.excess)],
+                "low": self.low.to_dict(), "high": self.high.to_dict()}
+
+
+def _scaled(rotor, target, factor):
+    return apply_variant(rotor, Variant(f"x{factor:g}",
+                                        (parse_change(f"{target}.k *= {float(factor)!r}"),)))
+
+
+def stiffness_window(rotor, target="bearing.*", low=0.1, high=10.0, points=9, rtol=2e-3,
+                     progress=None):
+    """The stiffness scale factors, around 1, for which every margin holds.
+
+    Scales the four stiffness coefficients of the target bearing(s)
+    (``"bearing.*"`` for all together, ``"bearing.DE"`` or ``"bearing[0]"``
+    for one), screens the rotor on a log grid of factors, and refines each
+    end of the passing interval that contains 1 by Brent's method on the
+    margin excess.  Amplification factors are estimated from the log
+    decrement.
+
+    Returns
+    -------
+    StiffnessWindow
+    """
+    factors = np.unique(np.concatenate([np.geomspace(low, high, points), [1.0]]))
+    total = [0]
+
+    def evaluate(f):
+        excess, limiting = margin_excess(screen(_scaled(rotor, target, f)))
+        total[0] += 1
+        if progress is not None:
+            progress(total[0], None)
+        return excess, limiting
+
+    scan = [evaluate(f) for f in factors]
+    excess = np.array([e for e, _ in scan])
+    one = int(np.argmin(abs(factors - 1.0)))
+    base_ok = excess[one] >= 0
+
+    def end(step):
+        if not base_ok:
+            return WindowEnd(None, scan[one][1], "the base stiffness does not keep the margins")
+        i = one
+        while 0 <= i + step < len(factors) and excess[i + step] >= 0:
+            i += step
+        if not 0 <= i + step < len(factors):
+            return WindowEnd(None, None, f"margins hold up to the end of the search "
+                                         f"(x{factors[i]:g})")
+        a, b = sorted((factors[i], factors[i + step]))
+        g = lambda f: evaluate(f)[0]  # noqa: E731
+        # work in log(factor) so the tolerance is relative
+        try:
+            root = math.exp(brentq(lambda s: _finite(g(math.exp(s))), math.log(a), math.log(b),
+                                   xtol=rtol))
+        except ValueError:
+            root = factors[i]
+        # the critical that fails just outside the window limits it
+        limiting = evaluate(root * (1 - 2 * rtol) if step < 0 else root * (1 + 2 * rtol))[1]
+        return WindowEnd(float(root), limiting)
+
+    return StiffnessWindow(target, factors, excess, end(-1), end(+1), bool(base_ok))
+
+
+def _finite(x):
+    return max(min(x, 1e3), -1e3)  # brentq needs finite values; the sign is what matters
+
+
+# --- sensitivities ---------------------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class Sensitivity:
+    """Per cent change of a critical speed per per cent change of a parameter."""
+
+    critical: CriticalSpeed
+    parameter: str
+    value: float | None
+    check: float | None      # the same with half the step (agreement verifies the difference)
+
+    def to_dict(self):
+        return {"critical_rpm": float(to_rpm(self.critical.speed)), "whirl": self.critical.whirl,
+                "parameter": self.parameter, "sensitivity": self.value,
+                "sensitivity_half_step": self.check}
+
+
+def refine_near(rotor, critical: CriticalSpeed, window=0.1):
+    """The critical speed of ``rotor`` on the branch of ``critical`` (from a nearby rotor)."""
+    system = assemble(rotor)
+    ref_value, ref_shape = critical.eigenvalue, critical.shape
+
+    def g(w):
+        value, _ = _branch_at(system, w, ref_value, ref_shape, 8, None)
+        return value.imag - critical.order * w
+
+    # the perturbed critical is close: a few secant steps from the old one, and
+    # Brent's method on a bracket only when they fail
+    try:
+        root = newton(g, critical.speed, x1=critical.speed * (1 + 1e-4), rtol=1e-11,
+                      maxiter=20)
+        if abs(root / critical.speed - 1.0) <= window:
+            return float(root)
+    except (RuntimeError, ValueError, OverflowError):
+        pass
+    lo, hi = critical.speed * (1 - window), critical.speed * (1 + window)
+    try:
+        return brentq(g, lo, hi, rtol=1e-10)
+    except ValueError:
+        return None
+
+
+def parameters(rotor):
+    """The levers: each bearing's direct stiffness and each disk's mass, as change paths."""
+    out = []
+    for i, b in enumerate(rotor.bearings):
+        label = b.name or f"bearing[{i}]"
+        out.append((f"{label} kxx, kyy", f"bearing[{i}].kdirect"))
+    for i, d in enumerate(rotor.disks):
+        label = d.name or f"disk[{i}]"
+        out.append((f"{label} mass", f"disk[{i}].mass"))
+    return out
+
+
+def sensitivities(rotor, criticals, step=0.01, near=None):
+    """Sensitivity of critical speeds to each bearing's direct stiffness and each disk's mass.
+
+    Central difference with relative step ``step`` and, as a check, with
+    ``step / 2`` (the two agree to O(step^2) when the difference is sound).
+    By default every critical that needs a margin: judged (forward or mixed
+    whirl, or any whirl when the rotor judges backward criticals) and not
+    critically damped (estimated AF at least the rule's threshold); with
+    ``near`` (a fraction) only those within that fraction of the operating
+    range's ends.
+    """
+    op = rotor.operating
+    threshold = rotor.settings.margin_rule.af_threshold
+    judged = [c for c in criticals
+              if (c.whirl != "backward" or rotor.settings.judge_backward)
+              and af_from_log_dec(c.log_dec) >= threshold]
+    chosen = judged if near is None else [
+        c for c in judged if op.min_speed * (1 - near) <= c.speed <= op.max_speed * (1 + near)]
+    out = []
+    for crit in chosen:
+        for label, path in parameters(rotor):
+            values = []
+            for h in (step, step / 2):
+                up = refine_near(apply_variant(rotor, Variant("+", (parse_change(
+                    f"{path} *= {1 + h!r}"),))), crit)
+                down = refine_near(apply_variant(rotor, Variant("-", (parse_change(
+                    f"{path} *= {1 - h!r}"),))), crit)
+                values.append(None if up is None or down is None
+                              else (up - down) / (2 * h * crit.speed))
+            out.append(Sensitivity(crit, label, values[0], values[1]))
+    return tuple(out)

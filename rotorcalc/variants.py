@@ -1,0 +1,312 @@
+"""What-if variants: small, checked changes applied to a rotor model by copy.
+
+A change is one line of a tiny grammar of our own (no Python evaluation)::
+
+    change := path "*=" number        scale the value(s) at path
+            | path "=" quantity       set the value at path (a unit is allowed)
+    path   := part ("." part)*        part := name | name "[" index "]" | "*"
+
+Targets:
+
+* ``bearing.SEL.COEF``: ``SEL`` is a bearing name, ``[i]`` (``bearing[0]``) or
+  ``*`` (every bearing); ``COEF`` is one of kxx ... cyy, or a group: ``k``
+  (the four stiffnesses), ``c`` (the four dampings), ``kdirect``
+  (kxx, kyy), ``cdirect`` (cxx, cyy), ``all``.  Scaling scales every table
+  value; setting replaces the table by a constant.
+* ``bearing.SEL.support.FIELD``: mass, kx, ky, cx, cy.
+* ``section[i].FIELD`` (or ``section.*``): length, outer_diameter,
+  inner_diameter, added_mass.
+* ``disk[i].FIELD`` or ``disk.NAME.FIELD`` (or ``disk.*``): mass,
+  polar_inertia, transverse_inertia.
+* ``operating.FIELD``: min_speed, max_speed, trip_speed.
+
+Every changed part is rebuilt through its constructor, so a change that makes
+the model invalid raises the same :class:`~rotorcalc.errors.InputError` as a
+bad input file would.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import re
+from dataclasses import dataclass
+from pathlib import Path
+
+from . import units as u
+from .errors import InputError
+from .model import COEFFICIENT_NAMES, Rotor
+from .reader import check_keys, load_toml, locate, read_rotor
+
+GROUPS = {
+    "k": ("kxx", "kxy", "kyx", "kyy"),
+    "c": ("cxx", "cxy", "cyx", "cyy"),
+    "kdirect": ("kxx", "kyy"),
+    "cdirect": ("cxx", "cyy"),
+    "all": COEFFICIENT_NAMES,
+    **{name: (name,) for name in COEFFICIENT_NAMES},
+}
+SUPPORT_FIELDS = {"mass": u.MASS, "kx": u.STIFFNESS, "ky": u.STIFFNESS, "cx": u.DAMPING,
+                  "cy": u.DAMPING}
+SECTION_FIELDS = {"length": u.LENGTH, "outer_diameter": u.LENGTH, "inner_diameter": u.LENGTH,
+                  "added_mass": u.MASS}
+DISK_FIELDS = {"mass": u.MASS, "polar_inertia": u.INERTIA, "transverse_inertia": u.INERTIA}
+OPERATING_FIELDS = {"min_speed": u.SPEED, "max_speed": u.SPEED, "trip_speed": u.SPEED}
+
+_CHANGE = re.compile(r"^\s*(?P<path>[A-Za-z0-9_.*\[\]\- ]+?)\s*(?P<op>\*=|=)\s*(?P<value>.+?)\s*$")
+_PART = re.compile(r"^(?P<name>[A-Za-z0-9_\-* ]+?)\s*(?:\[(?P<index>\d+)\])?$")
+
+
+@dataclass(frozen=True)
+class Change:
+    """One parsed change: a path (list of parts), ``scale`` or ``set``, and the value text."""
+
+    text: str
+    path: tuple
+    op: str
+    value: object
+    key: str = "change"
+
+
+@dataclass(frozen=True)
+class Variant:
+    """A named set of changes."""
+
+    name: str
+    changes: tuple
+
+
+def parse_change(text, key="change") -> Change:
+    """Parse one change line; raise InputError on anything outside the grammar."""
+    if not isinstance(text, str):
+        raise InputError(key, "must be text", value=text,
+                         expected='e.g. "bearing.*.k *= 0.7"', kind="type")
+    match = _CHANGE.match(text)
+    if not match:
+        raise InputError(key, "is not a change", value=text,
+                         expected='"PATH *= FACTOR" or "PATH = VALUE", e.g. "bearing.*.k *= 0.7"',
+                         kind="syntax")
+    parts = []
+    for piece in match.group("path").split("."):
+        m = _PART.match(piece.strip())
+        if not m:
+            raise InputError(key, f"has a bad path element {piece!r}", value=text,
+                             expected="names, [index] or *", kind="syntax")
+        parts.append((m.group("name"), None if m.group("index") is None else int(m.group("index"))))
+    op = "scale" if match.group("op") == "*=" else "set"
+    value = match.group("value")
+    if op == "scale":
+        try:
+            value = float(value)
+        except ValueError:
+            raise InputError(key, "scales by something that is not a number", value=text,
+                             expected="a plain factor such as 0.7", kind="type") from None
+        if not value > 0 or value != value or value == float("inf"):
+            raise InputError(key, "must scale by a positive finite factor", value=text,
+                             kind="range")
+    return Change(text, tuple(parts), op, value, key)
+
+
+def _pick(items, selector, index, label, key, text):
+    """Indices of the parts a path element selects: a name, [i] or *."""
+    if selector == "*" and index is None:
+        return list(range(len(items)))
+    if index is not None:
+        if selector != label or not 0 <= index < len(items):
+            raise InputError(key, f"selects {label}[{index}], which does not exist", value=text,
+                             expected=f"an index 0..{len(items) - 1}", kind="station")
+        return [index]
+    hits = [i for i, part in enumerate(items) if getattr(part, "name", "") == selector]
+    if not hits:
+        names = [p.name for p in items if getattr(p, "name", "")]
+        raise InputError(key, f"names no {label} called {selector!r}", value=text,
+                         expected="one of " + ", ".join(names) if names else "an index",
+                         kind="unknown-key")
+    return hits
+
+
+def _new_value(change, old, dim):
+    if change.op == "scale":
+        return old * change.value
+    return u.parse(change.value, dim, change.key)
+
+
+def _field(fields, name, change):
+    if name not in fields:
+        raise InputError(change.key, f"cannot change {name!r}", value=change.text,
+                         expected="one of " + ", ".join(fields), kind="unknown-key")
+    return fields[name]
+
+
+def apply_change(rotor: Rotor, change: Change) -> Rotor:
+    """A copy of ``rotor`` with one change applied."""
+    parts, key, text = change.path, change.key, change.text
+    head, head_index = parts[0]
+    if head == "bearing":
+        return _change_bearings(rotor, change, parts, head_index)
+    if head in ("section", "disk"):
+        items = rotor.sections if head == "section" else rotor.disks
+        if head_index is not None:
+            chosen, rest = _pick(items, head, head_index, head, key, text), parts[1:]
+        else:
+            if len(parts) < 3:
+                raise InputError(key, "needs a part and a field", value=text,
+                                 expected=f"{head}[i].FIELD or {head}.NAME.FIELD", kind="syntax")
+            chosen, rest = _pick(items, parts[1][0], None, head, key, text), parts[2:]
+        if len(rest) != 1:
+            raise InputError(key, "needs exactly one field after the part", value=text,
+                             kind="syntax")
+        fields = SECTION_FIELDS if head == "section" else DISK_FIELDS
+        name = rest[0][0]
+        dim = _field(fields, name, change)
+        new = list(items)
+        for i in chosen:
+            new[i] = dataclasses.replace(new[i], **{name: _new_value(change, getattr(new[i], name), dim)})
+        return dataclasses.replace(rotor, **{"sections" if head == "section" else "disks": tuple(new)})
+    if head == "operating":
+        if len(parts) != 2:
+            raise InputError(key, "needs one field", value=text,
+                             expected="operating.min_speed, max_speed or trip_speed", kind="syntax")
+        name = parts[1][0]
+        dim = _field(OPERATING_FIELDS, name, change)
+        old = getattr(rotor.operating, name)
+        if old is None and change.op == "scale":
+            raise InputError(key, f"scales {name}, which the rotor does not have", value=text,
+                             kind="missing")
+        return dataclasses.replace(rotor, operating=dataclasses.replace(
+            rotor.operating, **{name: _new_value(change, old, dim)}))
+    raise InputError(key, f"cannot change {head!r}", value=text,
+                     expected="bearing..., section..., disk... or operating...", kind="unknown-key")
+
+
+def _change_bearings(rotor, change, parts, head_index):
+    key, text = change.key, change.text
+    if head_index is not None:
+        chosen, rest = _pick(rotor.bearings, "bearing", head_index, "bearing", key, text), parts[1:]
+    else:
+        if len(parts) < 3:
+            raise InputError(key, "needs a bearing and a coefficient", value=text,
+                             expected="bearing.NAME.k, bearing[0].kxx, bearing.*.support.kx",
+                             kind="syntax")
+        chosen, rest = _pick(rotor.bearings, parts[1][0], None, "bearing", key, text), parts[2:]
+    new = list(rotor.bearings)
+    if rest and rest[0][0] == "support":
+        if len(rest) != 2:
+            raise InputError(key, "needs one support field", value=text,
+                             expected="support.mass, kx, ky, cx or cy", kind="syntax")
+        name = rest[1][0]
+        dim = _field(SUPPORT_FIELDS, name, change)
+        if parts[1][0] == "*" and head_index is None:
+            chosen = [i for i in chosen if new[i].support is not None]  # those that have one
+            if not chosen:
+                raise InputError(key, "changes supports, but no bearing has one", value=text,
+                                 kind="missing")
+        for i in chosen:
+            support = new[i].support
+            if support is None:
+                raise InputError(key, f"changes the support of bearing {new[i].name!r}, which "
+                                      "has none", value=text, kind="missing")
+            value = _new_value(change, getattr(support, name), dim)
+            new[i] = dataclasses.replace(new[i], support=dataclasses.replace(support, **{name: value}))
+        return dataclasses.replace(rotor, bearings=tuple(new))
+    if len(rest) != 1 or rest[0][0] not in GROUPS:
+        raise InputError(key, "names no bearing coefficient", value=text,
+                         expected="kxx ... cyy, or k, c, kdirect, cdirect, all", kind="unknown-key")
+    names = GROUPS[rest[0][0]]
+    for i in chosen:
+        coefficients = dict(new[i].coefficients)
+        for name in names:
+            dim = u.STIFFNESS if name[0] == "k" else u.DAMPING
+            if change.op == "scale":
+                coefficients[name] = tuple(v * change.value for v in new[i].table(name))
+            else:
+                coefficients[name] = (u.parse(change.value, dim, key),)
+        new[i] = dataclasses.replace(new[i], coefficients=coefficients)
+    return dataclasses.replace(rotor, bearings=tuple(new))
+
+
+def apply_variant(rotor: Rotor, variant: Variant) -> Rotor:
+    """A copy of ``rotor`` with every change of ``variant`` applied in order."""
+    for change in variant.changes:
+        rotor = apply_change(rotor, change)
+    return rotor
+
+
+VARIANTS_TOP = {"base", "variant"}
+VARIANT_KEYS = {"name", "changes"}
+
+
+def parse_variants(data, where="variant"):
+    """Variants from the parsed ``[[variant]]`` tables."""
+    tables = data.get("variant", [])
+    if not isinstance(tables, list) or not all(isinstance(t, dict) for t in tables) or not tables:
+        raise InputError("variant", "must be one or more [[variant]] tables",
+                         expected='[[variant]] with name = "..." and changes = ["..."]',
+                         kind="missing")
+    out, names = [], set()
+    for i, table in enumerate(tables):
+        key = f"{where}[{i}]"
+        check_keys(table, VARIANT_KEYS, key)
+        name = table.get("name", f"variant {i + 1}")
+        if not isinstance(name, str) or not name:
+            raise InputError(f"{key}.name", "must be text", value=name, kind="type")
+        if name in names:
+            raise InputError(f"{key}.name", "is used twice", value=name, kind="duplicate")
+        names.add(name)
+        changes = table.get("changes")
+        if not isinstance(changes, list) or not changes:
+            raise InputError(f"{key}.changes", "must be a list of changes", value=changes,
+                             expected='e.g. ["bearing.*.k *= 0.7"]', kind="missing")
+        out.append(Variant(name, tuple(parse_change(c, f"{key}.changes[{j}]")
+                                       for j, c in enumerate(changes))))
+    return tuple(out)
+
+
+def read_variants(path):
+    """Read a variants file: ``base`` (the rotor file, relative to this one) and variants.
+
+    Returns
+    -------
+    base_path : Path
+    rotor : Rotor
+    variants : tuple of Variant
+        Each variant is also applied once here, so a change that does not fit
+        the rotor is reported now, with the variants file's line.
+    """
+    path = Path(path)
+    try:
+        text = path.read_text(encoding="utf-8")
+    except OSError as exc:
+        raise InputError("file", f"cannot be read ({exc.strerror})", value=str(path),
+                         file=str(path), kind="file") from None
+    data = load_toml(text, str(path))
+    try:
+        check_keys(data, VARIANTS_TOP, "")
+        base = data.get("base")
+        if not isinstance(base, str):
+            raise InputError("base", "is missing" if base is None else "must be text",
+                             value=base, expected="the rotor file, e.g. base = \"pump.toml\"",
+                             kind="missing")
+        variants = parse_variants(data)
+    except InputError as err:
+        raise err.with_location(file=str(path), line=locate(text, err.key)) from None
+    base_path = (path.parent / base).resolve()
+    rotor = read_rotor(base_path)
+    for i, variant in enumerate(variants):
+        try:
+            apply_variant(rotor, variant)
+        except InputError as err:
+            line = locate(text, f"variant[{i}].changes")
+            raise err.with_location(file=str(path), line=line) from None
+    return base_path, rotor, variants
+
+
+def variant_from_option(text, index=0):
+    """A variant from the command line: ``"NAME: change; change"`` (the name is optional)."""
+    name, _, body = text.partition(":") if ":" in text.split("=")[0] else ("", "", text)
+    name = name.strip() or f"option {index + 1}"
+    changes = [c for c in (part.strip() for part in body.split(";")) if c]
+    if not changes:
+        raise InputError("--vary", "has no change", value=text,
+                         expected='"NAME: bearing.*.k *= 0.7; operating.max_speed = 3800 rpm"',
+                         kind="missing")
+    return Variant(name, tuple(parse_change(c, f"--vary[{index}]") for c in changes))
