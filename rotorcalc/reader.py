@@ -84,6 +84,8 @@ def load_toml(text, source):
         msg = str(exc)
         match = re.search(r"line (\d+), column (\d+)", msg)
         line = int(match.group(1)) if match else None
+        if line is None and "end of document" in msg:
+            line = text.count("\n") + 1
         raise InputError("(syntax)", f"is not valid TOML: {msg}", file=source, line=line,
                          expected="TOML syntax, see docs/input.md", kind="syntax") from None
 

@@ -90,6 +90,16 @@ def _parse_text(text, dim, key, expected):
     except Exception as exc:  # pint raises a zoo of parser errors
         raise InputError(key, f"cannot be read as a quantity ({type(exc).__name__})",
                          value=text, expected=expected, kind="unit") from None
+    try:
+        return _to_si(quantity, dim, key, text, expected)
+    except InputError:
+        raise
+    except Exception as exc:  # overflow of huge numbers and the like
+        raise InputError(key, f"cannot be converted ({type(exc).__name__})", value=text,
+                         expected=expected, kind="unit") from None
+
+
+def _to_si(quantity, dim, key, text, expected):
     if not isinstance(quantity, _UREG.Quantity):
         return float(quantity)  # plain number written as text: SI
     if quantity.unitless:
@@ -107,9 +117,6 @@ def _parse_text(text, dim, key, expected):
     except pint.DimensionalityError:
         raise InputError(key, f"has units of {quantity.dimensionality}, not a {dim.name}",
                          value=text, expected=expected, kind="unit") from None
-    except Exception as exc:
-        raise InputError(key, f"cannot be converted ({type(exc).__name__})", value=text,
-                         expected=expected, kind="unit") from None
 
 
 RPM = 2.0 * math.pi / 60.0  # rad/s per rpm
