@@ -30,11 +30,12 @@ class InputError(RotorcalcError, ValueError):
         Where the entry is, when known.
     kind : str
         A short machine-readable label of the kind of error
-        (``"unknown-key"``, ``"unit"``, ``"range"`` ...).
+        (``"unknown-key"``, ``"unit"``, ``"range"`` ...); required, so that
+        every raise is classified (docs/robustness.md lists the kinds).
     """
 
-    def __init__(self, key, problem, *, value=None, expected=None, file=None,
-                 line=None, kind="invalid"):
+    def __init__(self, key, problem, *, kind, value=None, expected=None, file=None,
+                 line=None):
         self.key = key
         self.problem = problem
         self.value = value

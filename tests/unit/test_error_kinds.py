@@ -1,0 +1,104 @@
+"""Every kind of input error the package can raise is raised by some case here.
+
+The table below is also the source of docs/robustness.md
+(``python tools/make_robustness_table.py``): one bad input per row, with the
+message the tool gives for it.
+"""
+
+import ast
+import json
+import os
+
+import pytest
+
+from rotorcalc.errors import InputError
+from rotorcalc.reader import parse_rotor, read_rotor
+from rotorcalc.variants import apply_change, parse_change
+from tests.conftest import ROOT
+
+PUMP = (ROOT / "cases" / "feed_pump.toml").read_text()
+
+
+def mutated(old, new):
+    assert old in PUMP, old
+    return lambda: parse_rotor(PUMP.replace(old, new, 1), source="pump.toml")
+
+
+def change(text):
+    rotor = read_rotor(ROOT / "cases" / "feed_pump.toml")
+    return lambda: apply_change(rotor, parse_change(text))
+
+
+#: (kind, what is wrong, the call that must raise it)
+CASES = [
+    ("syntax", "TOML syntax error", mutated('length = "140 mm"', 'length = "140 mm')),
+    ("syntax", "a what-if change outside the grammar", change("bearing.*.k ** 2")),
+    ("unknown-key", "a misspelt key", mutated('outer_diameter = "60 mm"', 'outer_diamter = "60 mm"')),
+    ("unknown-key", "a change naming a bearing that does not exist", change("bearing.XX.k *= 2")),
+    ("missing", "a required key left out", mutated('length = "140 mm"\nouter_diameter = "60 mm"',
+                                                   'outer_diameter = "60 mm"')),
+    ("missing", "a rotor with no shaft", lambda: parse_rotor(
+        '[operating]\nmin_speed = "1 rpm"\nmax_speed = "2 rpm"\n')),
+    ("type", "text where a whole number is expected", mutated("modes = 6", 'modes = "six"')),
+    ("not-finite", "NaN or infinite value", mutated('mass = "11.8 kg"', 'mass = "nan kg"')),
+    ("range", "a negative length", mutated('length = "140 mm"', 'length = "-140 mm"')),
+    ("range", "a zero mass", mutated('mass = "11.8 kg"', "mass = 0")),
+    ("range", "inner diameter not below outer", mutated('outer_diameter = "150 mm"\ninner_diameter = "60 mm"',
+                                                        'outer_diameter = "150 mm"\ninner_diameter = "160 mm"')),
+    ("unit", "a unit of the wrong dimension", mutated('kxx = "1.5e7 N/m"', 'kxx = "1.5e7 kg"')),
+    ("unit", "a speed without an angle or revolution", mutated('max_speed = "3600 rpm"',
+                                                              'max_speed = "3600 /min"')),
+    ("order", "speed table not strictly increasing",
+     mutated('speeds = ["1500 rpm", "2500 rpm"', 'speeds = ["2500 rpm", "1500 rpm"')),
+    ("order", "operating minimum above maximum", mutated('min_speed = "2400 rpm"', 'min_speed = "4000 rpm"')),
+    ("length", "coefficient table of another length than its speeds",
+     mutated('kxx = ["1.10e8 N/m", "1.25e8 N/m", "1.40e8 N/m", "1.55e8 N/m"]', 'kxx = ["1.10e8 N/m"]')),
+    ("station", "a part at a station that does not exist", mutated("at = 6\nkxx", "at = 60\nkxx")),
+    ("station", "a part at a station name that does not exist", mutated('at = "stage_1"', 'at = "stage_one"')),
+    ("duplicate", "two bearings of one name", mutated('name = "NDE"', 'name = "DE"')),
+    ("unknown-material", "a reference to an unknown material",
+     mutated('material = "shaft_steel"', 'material = "shaft_stel"')),
+    ("conflict", "shear modulus and Poisson's ratio both given",
+     mutated("poisson_ratio = 0.29", 'poisson_ratio = 0.29\nshear_modulus = "80 GPa"')),
+    ("choice", "an unknown choice", mutated("modes = 6", 'modes = 6\nbeam_theory = "thick"')),
+    ("file", "a file that cannot be read", lambda: read_rotor(ROOT / "cases" / "no-such.toml")),
+]
+
+#: Kinds raised only by the command line (tested in tests/cli): refusing to
+#: write over the input, or a picture with an unknown extension.
+CLI_ONLY = {"output"}
+
+
+@pytest.mark.parametrize("kind,what,call", CASES, ids=[f"{k}:{w}" for k, w, _ in CASES])
+def test_kind_is_raised(kind, what, call):
+    with pytest.raises(InputError) as info:
+        call()
+    err = info.value
+    assert err.kind == kind, err.message()
+    assert err.key and err.message()
+    record = os.environ.get("ROTORCALC_RECORD_ERRORS")
+    if record:
+        with open(record, "a", encoding="utf-8") as handle:
+            handle.write(json.dumps({"kind": kind, "what": what, "key": err.key,
+                                     "message": err.message()}) + "\n")
+
+
+def kinds_in_code():
+    """The ``kind=`` of every ``InputError(...)`` call in the package (read from the AST)."""
+    used = set()
+    for path in (ROOT / "rotorcalc").rglob("*.py"):
+        if path.name == "errors.py":
+            continue  # the class itself: with_location copies an existing kind
+        for node in ast.walk(ast.parse(path.read_text())):
+            if isinstance(node, ast.Call) and getattr(node.func, "id", None) == "InputError":
+                kinds = [k.value for k in node.keywords if k.arg == "kind"]
+                assert kinds and isinstance(kinds[0], ast.Constant), \
+                    f"{path}:{node.lineno}: InputError without a literal kind"
+                used.add(kinds[0].value)
+    return used
+
+
+def test_every_kind_in_the_code_has_a_case():
+    used = kinds_in_code()
+    covered = {k for k, _, _ in CASES} | CLI_ONLY
+    assert used <= covered, f"input-error kinds without a test case: {sorted(used - covered)}"
