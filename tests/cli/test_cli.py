@@ -93,3 +93,21 @@ def test_refuses_to_overwrite_input(tmp_path):
     result = run("criticals", case, "--json", case)
     assert result.exit_code == 2
     assert "overwrite the input" in result.output
+
+
+def test_json_is_deterministic_and_carries_provenance(tmp_path):
+    first, second = tmp_path / "a.json", tmp_path / "b.json"
+    assert run("modes", PUMP, "--speed", "2000 rpm", "--json", first).exit_code == 0
+    assert run("modes", PUMP, "--speed", "2000 rpm", "--json", second).exit_code == 0
+    assert first.read_bytes() == second.read_bytes()
+    doc = read_json(first)
+    import hashlib
+    assert doc["input"]["sha256"] == hashlib.sha256((ROOT / "cases" / "feed_pump.toml")
+                                                    .read_bytes()).hexdigest()
+    assert doc["version"] and "warnings" in doc
+
+
+def test_picture_with_unknown_extension_is_bad_input(tmp_path):
+    result = run("layout", PUMP, "--out", tmp_path / "side.bmp")
+    assert result.exit_code == 2 and "picture file" in result.output
+    assert not (tmp_path / "side.bmp").exists()
