@@ -13,7 +13,7 @@ from rotorcalc.model import (Bearing, Material, OperatingRange, Rotor, Section,
                              Settings)
 
 ROOT = Path(__file__).resolve().parents[1]
-CASES = sorted((ROOT / "cases").glob("*.toml"))
+CASES = sorted(p for p in (ROOT / "cases").glob("*.toml") if not p.stem.endswith("_variants"))
 
 STEEL = Material("steel", 2.11e11, 2.11e11 / 2.6, 7810.0)
 

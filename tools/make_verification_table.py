@@ -38,6 +38,13 @@ SECTIONS = (
     ("", "8. Invariants and conditioning"),   # test_matrix_invariants.py
 )
 
+#: Sections given by test module rather than by test name, in document order
+#: after those above.
+MODULE_SECTIONS = (
+    ("test_unbalance_response.py",
+     "9. Unbalance response, amplification factor and residual-unbalance rules"),
+)
+
 INTRO = """\
 # Verification
 
@@ -63,6 +70,9 @@ relative (`rel`) or absolute (`abs`); label checks must match exactly.
 
 def section_of(test_id):
     module, _, name = test_id.partition("::")
+    for suffix, title in MODULE_SECTIONS:
+        if module.endswith(suffix):
+            return title
     if module.endswith("test_matrix_invariants.py"):
         return SECTIONS[-1][1]
     for prefix, title in SECTIONS[:-1]:
@@ -109,7 +119,7 @@ def render(rows, xfails):
     groups = {}
     for row in rows:
         groups.setdefault(section_of(row["test"]), []).append(row)
-    for title in [t for _, t in SECTIONS] + ["Other checks"]:
+    for title in [t for _, t in SECTIONS + MODULE_SECTIONS] + ["Other checks"]:
         if title not in groups:
             continue
         out.append(f"## {title}\n")

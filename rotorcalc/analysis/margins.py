@@ -173,22 +173,43 @@ def _verdict(rule, crit, af, margin, need, judge_backward):
 
 
 def match_window(critical):
-    """Relative speed window in which a response peak belongs to a critical speed.
+    """Relative speed window in which a response peak may belong to a critical speed.
 
     The peak of the unbalance response of a single mode lies above its damped
     natural frequency by about 1.5 zeta^2 (displacement response to a rotating
     unbalance); other modes and probe placement shift it further, so the
-    window is the larger of 5 % and three damping ratios.
+    window is three damping ratios, at least 5 % and at most 25 %.
     """
-    return max(0.05, 3.0 * critical.damping_ratio)
+    return min(max(0.05, 3.0 * critical.damping_ratio), 0.25)
 
 
 def matched_peaks(critical, peaks):
-    """The response peaks that belong to ``critical`` (synchronous criticals only)."""
+    """The response peaks within ``critical``'s window (synchronous criticals only)."""
     if critical.order != 1.0:
         return ()
     window = match_window(critical)
     return tuple(p for p in peaks if abs(p.speed / critical.speed - 1.0) <= window)
+
+
+def assign_peaks(criticals, peaks):
+    """Give each response peak to one critical: the nearest whose window holds it.
+
+    Unbalance drives forward whirl, so a forward or mixed critical is preferred
+    to a backward one at the same distance.  Returns one tuple of peaks per
+    critical.
+    """
+    mine = [[] for _ in criticals]
+    for peak in peaks:
+        best, best_key = None, None
+        for i, crit in enumerate(criticals):
+            if peak not in matched_peaks(crit, (peak,)):
+                continue
+            key = (crit.whirl == "backward", abs(peak.speed / crit.speed - 1.0))
+            if best_key is None or key < best_key:
+                best, best_key = i, key
+        if best is not None:
+            mine[best].append(peak)
+    return [tuple(m) for m in mine]
 
 
 def separation_margins(criticals, operating: OperatingRange, rule: MarginRule,
@@ -216,14 +237,15 @@ def separation_margins(criticals, operating: OperatingRange, rule: MarginRule,
     MarginTable
     """
     rows = []
-    for crit in criticals:
+    assigned = assign_peaks(criticals, peaks) if peaks is not None else None
+    for index, crit in enumerate(criticals):
         side, margin = _side_and_margin(crit.speed, operating)
         af = af_from_log_dec(crit.log_dec)
         need = required_margin(rule, af, side)
         verdict = _verdict(rule, crit, af, margin, need, judge_backward)
         extra = {}
         if peaks is not None:
-            mine = matched_peaks(crit, peaks)
+            mine = assigned[index]
             factors = [p.af for p in mine if p.af is not None]
             if not mine:
                 extra = dict(verdict_response="no peak" if crit.log_dec > 0 else "fail")
@@ -238,6 +260,8 @@ def separation_margins(criticals, operating: OperatingRange, rule: MarginRule,
                 extra = dict(af_response=af_r, required_response=need_r,
                              verdict_response=_verdict(rule, crit, af_r, margin, need_r,
                                                        judge_backward), peaks=mine)
+        if extra and crit.whirl == "backward" and not judge_backward and crit.log_dec > 0:
+            extra["verdict_response"] = "not judged"
         rows.append(MarginRow(crit, side, margin, af, need, verdict, **extra))
     worst_above = required_margin(rule, math.inf, "above")
     notes = []

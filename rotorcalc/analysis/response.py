@@ -351,6 +351,31 @@ def _find_peaks(speeds, amp, evaluate, case, probe):
     return peaks
 
 
+def _solve_speeds(system, solver, force, rows, speeds):
+    """Station, probe, bearing and support responses at each of ``speeds``."""
+    station_dofs = system.translation_dofs[system.mesh.station_nodes]
+    n_cases, n_b = force.shape[1], len(system.links)
+    st = np.empty((n_cases, len(speeds), len(station_dofs), 2), dtype=complex)
+    pv = np.empty((n_cases, len(speeds), rows.shape[0]), dtype=complex)
+    fb = np.zeros((n_cases, len(speeds), n_b, 2), dtype=complex)
+    fs = np.zeros_like(fb)
+    for k, w in enumerate(speeds):
+        q = solver.solve(w, w * w * force)            # (n_dof, n_cases)
+        st[:, k] = np.transpose(q[station_dofs], (2, 0, 1))
+        pv[:, k] = (rows @ q).T
+        for b, link in enumerate(system.links):
+            kb, cb = link.bearing.matrices(w)
+            rel = q[link.dofs[:2]] - (q[link.dofs[2:]] if len(link.dofs) == 4 else 0.0)
+            fb[:, k, b] = ((kb + 1j * w * cb) @ rel).T
+            if len(link.dofs) == 4:
+                sup = link.bearing.support
+                ks = np.diag([sup.kx, sup.ky]) + 1j * w * np.diag([sup.cx, sup.cy])
+                fs[:, k, b] = (ks @ q[link.dofs[2:]]).T
+            else:
+                fs[:, k, b] = fb[:, k, b]
+    return st, pv, fb, fs
+
+
 def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None):
     """Steady-state unbalance response, peaks with amplification factors, and limit checks.
 
@@ -358,7 +383,8 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None):
     ----------
     rotor_or_system : Rotor or SystemMatrices
     speeds : array_like, optional
-        rad/s; by default :func:`response_speeds`.
+        rad/s, used exactly as given; by default :func:`response_speeds`, to
+        which the refined peak and half-power speeds are then added.
     cases : sequence of UnbalanceCase, optional
         Defaults to the rotor's cases.
     probes : sequence of Probe, optional
@@ -377,30 +403,12 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None):
                          expected="an [unbalance.NAME] table with [[unbalance.NAME.weight]]",
                          kind="missing")
     probes = tuple(default_probes(rotor) if probes is None else probes)
-    speeds = response_speeds(rotor) if speeds is None else np.asarray(speeds, dtype=float)
+    own_grid = speeds is None
+    speeds = response_speeds(rotor) if own_grid else np.asarray(speeds, dtype=float)
     solver = HarmonicSolver(system)
     force = unbalance_forces(system, cases)
     rows = _probe_rows(system, probes)
-    station_dofs = system.translation_dofs[system.mesh.station_nodes]
-    n_b = len(system.links)
-    st = np.empty((len(cases), len(speeds), len(station_dofs), 2), dtype=complex)
-    pv = np.empty((len(cases), len(speeds), len(probes)), dtype=complex)
-    fb = np.zeros((len(cases), len(speeds), n_b, 2), dtype=complex)
-    fs = np.zeros_like(fb)
-    for k, w in enumerate(speeds):
-        q = solver.solve(w, w * w * force)            # (n_dof, n_cases)
-        st[:, k] = np.transpose(q[station_dofs], (2, 0, 1))
-        pv[:, k] = (rows @ q).T
-        for b, link in enumerate(system.links):
-            kb, cb = link.bearing.matrices(w)
-            rel = q[link.dofs[:2]] - (q[link.dofs[2:]] if len(link.dofs) == 4 else 0.0)
-            fb[:, k, b] = ((kb + 1j * w * cb) @ rel).T
-            if len(link.dofs) == 4:
-                s = link.bearing.support
-                ks = np.diag([s.kx, s.ky]) + 1j * w * np.diag([s.cx, s.cy])
-                fs[:, k, b] = (ks @ q[link.dofs[2:]]).T
-            else:
-                fs[:, k, b] = fb[:, k, b]
+    st, pv, fb, fs = _solve_speeds(system, solver, force, rows, speeds)
 
     peaks = []
     for i, case in enumerate(cases):
@@ -409,6 +417,18 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None):
             amp = 2.0 * np.abs(pv[i, :, j])
             peaks.extend(_find_peaks(speeds, amp, lambda w, j=j, ev=ev: ev.probe(w, j),
                                      case.name, probe.name))
+    # on its own grid, add the refined peak and half-power speeds to the curves, so
+    # that a sharp peak between grid points is drawn and checked at its top (speeds
+    # given by the caller are kept exactly)
+    extra = sorted({v for p in peaks for v in (p.speed,) + (p.half_power or ())}) \
+        if own_grid else []
+    extra = [v for v in extra if np.min(np.abs(speeds - v)) > 1e-9 * speeds[-1]]
+    if extra:
+        more = _solve_speeds(system, solver, force, rows, np.asarray(extra))
+        order = np.argsort(np.concatenate([speeds, extra]), kind="stable")
+        speeds = np.concatenate([speeds, extra])[order]
+        st, pv, fb, fs = (np.concatenate([a, b], axis=1)[:, order]
+                          for a, b in zip((st, pv, fb, fs), more))
 
     op = rotor.operating
     in_range = (speeds >= op.min_speed * (1 - 1e-12)) & (speeds <= op.max_speed * (1 + 1e-12))

@@ -65,8 +65,9 @@ CASES = [
 ]
 
 #: Kinds raised only by the command line (tested in tests/cli): refusing to
-#: write over the input, or a picture with an unknown extension.
-CLI_ONLY = {"output"}
+#: write over the input or a picture with an unknown extension ("output"), and
+#: a command-line option that cannot be used ("option").
+CLI_ONLY = {"output", "option"}
 
 
 @pytest.mark.parametrize("kind,what,call", CASES, ids=[f"{k}:{w}" for k, w, _ in CASES])

@@ -1257,3 +1257,194 @@ def anisotropic_jeffcott_unbalance_orbit(kx, ky, m, eccentricity, spin):
     s = X * Y  # sign of the angular momentum X*Y*spin for spin > 0
     sense = "forward" if s > 0 else ("backward" if s < 0 else "straight")
     return AnisotropicOrbit(X, Y, abs(X + Y) / 2.0, abs(X - Y) / 2.0, sense)
+
+
+# ===========================================================================
+# Rotating-unbalance response of a single-degree-of-freedom rotor
+# (added with tests/verification/test_unbalance_response.py)
+# ===========================================================================
+#
+# A disk of mass m on a massless shaft of stiffness k, with viscous damping c
+# at the disk, spinning at w and carrying an unbalance U = m e (kg m), obeys,
+# in the complex coordinate r = x + i y,
+#
+#     m r'' + c r' + k r = U w^2 e^{i w t}.
+#
+# With wn = sqrt(k/m), zeta = c / (2 sqrt(k m)) and the speed ratio
+# s = w / wn, the steady response is r = (U/m) H(s) e^{i w t} with
+#
+#     H(s) = s^2 / (1 - s^2 + 2 i zeta s),
+#     |H| = s^2 / sqrt((1 - s^2)^2 + (2 zeta s)^2),
+#     phase lag behind the unbalance = atan2(2 zeta s, 1 - s^2).
+#
+# Peak and half-power points exactly.  With u = 1/s^2,
+#
+#     |H|^2 = 1 / (u^2 - 2 (1 - 2 zeta^2) u + 1),
+#
+# a parabola in u.  Its minimum is at u = 1 - 2 zeta^2, so the peak lies at
+# s_peak = 1/sqrt(1 - 2 zeta^2) (zeta < 1/sqrt 2) with
+# |H|_peak = 1 / (2 zeta sqrt(1 - zeta^2)).  The half-power condition
+# |H|^2 = |H|_peak^2 / 2 gives (u - (1 - 2 zeta^2))^2 = 4 zeta^2 (1 - zeta^2):
+#
+#     u_{low, high} = 1 - 2 zeta^2 +- 2 zeta sqrt(1 - zeta^2),
+#     s_{low, high} = 1 / sqrt(u_{low, high}).
+#
+# Writing zeta = sin(t): u_peak = cos 2t and u = cos 2t +- sin 2t
+# = sqrt(2) cos(2t -+ pi/4), so the upper half-power point exists only for
+# t < pi/8, i.e. zeta < sin(pi/8) = 0.38268...; above that the response never
+# falls to 0.707 of the peak at high speed (it tends to 1, the peak to less
+# than sqrt 2).  (In u the problem is the force-excited oscillator in s^2:
+# the rotating-unbalance curve over s is the constant-force curve over 1/s.)
+#
+# Light-damping expansions (derived here by series expansion of the exact
+# points and checked against them in test_unbalance_response.py):
+#
+#     s_high - s_low = 2 zeta + 10 zeta^3 + O(zeta^5),
+#     s_peak = 1 + zeta^2 + O(zeta^4),
+#     AF = s_peak / (s_high - s_low)
+#        = (1 / (2 zeta)) (1 - 4 zeta^2 - 6 zeta^4 + O(zeta^6)),
+#     and with delta = 2 pi zeta / sqrt(1 - zeta^2) (log decrement)
+#     AF = (pi / delta) (1 - 7/2 zeta^2 - 61/8 zeta^4 + O(zeta^6)).
+#
+# The approximations AF ~ 1/(2 zeta) ~ pi/delta therefore err by O(zeta^2)
+# (not O(zeta)), both on the high side.  The peak over the damped natural
+# frequency wd = wn sqrt(1 - zeta^2) is
+#
+#     s_peak / sqrt(1 - zeta^2) = 1 / sqrt((1 - 2 zeta^2)(1 - zeta^2))
+#                               = 1 + 3/2 zeta^2 + 19/8 zeta^4 + O(zeta^6).
+#
+# Sources: H. H. Jeffcott, Phil. Mag. (6) 37 (1919) 304-314 (the rotor and
+# its unbalance response); W. T. Thomson, "Theory of Vibration with
+# Applications", Prentice-Hall, section on rotating unbalance (amplitude
+# ratio and phase) and on the quality factor / half-power bandwidth
+# (Q ~ 1/(2 zeta)); all from memory as to sections and equation numbers.
+# The exact half-power points and the expansions are derived above.
+
+__all__ += [
+    "unbalance_amplitude_ratio",
+    "unbalance_phase_lag",
+    "UnbalancePeak",
+    "unbalance_peak",
+    "unbalance_peak_over_damped_frequency",
+]
+
+#: Largest damping ratio with an upper half-power point: sin(pi/8).
+UNBALANCE_HALF_POWER_ZETA_MAX = math.sin(math.pi / 8.0)
+
+
+def _damping_ratio_below(zeta, limit, what):
+    zeta = _positive("zeta", zeta)
+    if zeta >= limit:
+        raise ValueError(f"zeta must be below {limit:.6g} for {what}, got {zeta!r}")
+    return zeta
+
+
+def unbalance_amplitude_ratio(s, zeta):
+    """Amplitude ratio ``|r| m / U`` of the rotating-unbalance response.
+
+    ``s^2 / sqrt((1 - s^2)^2 + (2 zeta s)^2)`` with the speed ratio
+    ``s = w / wn``.
+
+    Sources: H. H. Jeffcott, Phil. Mag. (6) 37 (1919) 304-314; W. T.
+    Thomson, "Theory of Vibration with Applications", Prentice-Hall,
+    rotating unbalance (from memory as to the equation number).
+
+    Parameters
+    ----------
+    s : float or array_like
+        Speed ratio(s) ``w / wn``, ``s >= 0``.
+    zeta : float
+        Damping ratio, ``zeta >= 0``.
+
+    Returns
+    -------
+    float or ndarray
+    """
+    zeta = _nonnegative("zeta", zeta)
+    s = np.asarray(s, dtype=float)
+    if np.any(s < 0) or not np.all(np.isfinite(s)):
+        raise ValueError("speed ratios must be finite and not negative")
+    out = s ** 2 / np.sqrt((1.0 - s ** 2) ** 2 + (2.0 * zeta * s) ** 2)
+    return out[()] if out.ndim == 0 else out
+
+
+def unbalance_phase_lag(s, zeta):
+    """Phase lag (degrees, 0..180) of the response behind the unbalance.
+
+    ``atan2(2 zeta s, 1 - s^2)``: 90 degrees at ``s = 1`` for any damping.
+
+    Sources: as :func:`unbalance_amplitude_ratio`.
+
+    Returns
+    -------
+    float or ndarray
+    """
+    zeta = _nonnegative("zeta", zeta)
+    s = np.asarray(s, dtype=float)
+    if np.any(s < 0) or not np.all(np.isfinite(s)):
+        raise ValueError("speed ratios must be finite and not negative")
+    out = np.degrees(np.arctan2(2.0 * zeta * s, 1.0 - s ** 2))
+    return out[()] if out.ndim == 0 else out
+
+
+class UnbalancePeak(NamedTuple):
+    """Exact peak and half-power points of :func:`unbalance_peak` (speed ratios)."""
+
+    speed: float       #: s_peak = 1 / sqrt(1 - 2 zeta^2)
+    amplitude: float   #: peak amplitude ratio 1 / (2 zeta sqrt(1 - zeta^2))
+    low: float         #: lower half-power speed ratio
+    high: float        #: upper half-power speed ratio
+    af: float          #: amplification factor s_peak / (high - low)
+
+
+def unbalance_peak(zeta):
+    """Exact peak, half-power points and amplification factor of the
+    rotating-unbalance response (all as ratios to ``wn``).
+
+    Derived in the comment block above this function: with ``u = 1/s^2``
+    the squared amplitude ratio is the reciprocal of a parabola in ``u``,
+    whence ``s_peak = (1 - 2 zeta^2)^(-1/2)`` and
+    ``s_{low, high} = (1 - 2 zeta^2 +- 2 zeta sqrt(1 - zeta^2))^(-1/2)``.
+
+    Sources: H. H. Jeffcott (1919); W. T. Thomson, "Theory of Vibration
+    with Applications", rotating unbalance and half-power bandwidth (from
+    memory); the exact half-power points are derived here.
+
+    Parameters
+    ----------
+    zeta : float
+        Damping ratio, ``0 < zeta < sin(pi/8) = 0.3827`` (above it there is
+        no upper half-power point).
+
+    Returns
+    -------
+    UnbalancePeak
+    """
+    zeta = _damping_ratio_below(zeta, UNBALANCE_HALF_POWER_ZETA_MAX,
+                                "an upper half-power point")
+    root = math.sqrt(1.0 - zeta * zeta)
+    centre = 1.0 - 2.0 * zeta * zeta
+    half = 2.0 * zeta * root
+    speed = 1.0 / math.sqrt(centre)
+    low = 1.0 / math.sqrt(centre + half)
+    high = 1.0 / math.sqrt(centre - half)
+    return UnbalancePeak(speed, 1.0 / (2.0 * zeta * root), low, high, speed / (high - low))
+
+
+def unbalance_peak_over_damped_frequency(zeta):
+    """Peak speed of the unbalance response over the damped natural frequency.
+
+    ``(wn / sqrt(1 - 2 zeta^2)) / (wn sqrt(1 - zeta^2))
+    = 1 / sqrt((1 - 2 zeta^2)(1 - zeta^2)) = 1 + 1.5 zeta^2 + O(zeta^4)``.
+
+    Sources: as :func:`unbalance_peak` (derived here).
+
+    Parameters
+    ----------
+    zeta : float
+        Damping ratio, ``0 <= zeta < 1/sqrt(2)``.
+    """
+    zeta = _nonnegative("zeta", zeta)
+    if zeta >= math.sqrt(0.5):
+        raise ValueError(f"zeta must be below 1/sqrt(2) for a peak, got {zeta!r}")
+    return 1.0 / math.sqrt((1.0 - 2.0 * zeta * zeta) * (1.0 - zeta * zeta))
