@@ -255,16 +255,13 @@ def test_unbalance_jeffcott_peak_vs_damped_critical(zeta):
 OP_JEFFCOTT = OperatingRange(300.0, 350.0)
 
 
-@pytest.mark.xfail(strict=True, reason=(
-    "degenerate forward/backward pair (isotropic rotor without gyroscopic coupling): the "
-    "eigen-solver returns an arbitrary basis of the two-dimensional eigenspace and the whirl "
-    "labels follow it, so both 1X criticals can be labelled backward (zeta = 0.05 here) and "
-    "the margin table then passes a critical that needs 25 % margin and has 12.5 %"))
 def test_unbalance_jeffcott_degenerate_pair_has_forward_critical():
     """An isotropic rotor's unbalance orbit is a forward circle (theory.md
     section 1; common practice), so of a degenerate forward/backward pair one
     critical must be judged as forward: the eigenspace holds the forward
-    circle x + i y = e^{i w t} and the backward circle, one each."""
+    circle x + i y = e^{i w t} and the backward circle, one each.  (Regression:
+    the solver's arbitrary basis of the pair once labelled both backward;
+    rotorcalc.analysis.circular now splits the pair.)"""
     for zeta in ZETAS:
         _, res, crits = jeffcott(zeta)
         assert sorted(c.whirl for c in crits) == ["backward", "forward"], zeta
