@@ -9,6 +9,7 @@ import numpy as np
 from ..assembly import SystemMatrices, assemble
 from ..solvers import make_solver
 from ..units import to_hz, to_rpm
+from .circular import split_degenerate
 
 #: A mode is called forward (backward) when at least this share of its
 #: amplitude whirls forward (backward); otherwise it is mixed.
@@ -161,7 +162,7 @@ class Modes:
         }
 
 
-def modes_at(rotor_or_system, speed, n_modes=None, solver=None):
+def modes_at(rotor_or_system, speed, n_modes=None, solver=None, near=None):
     """Damped modes at spin speed ``speed`` (rad/s).
 
     Parameters
@@ -173,7 +174,9 @@ def modes_at(rotor_or_system, speed, n_modes=None, solver=None):
     n_modes : int, optional
         Defaults to the rotor's ``settings.modes``.
     solver : callable, optional
-        From :func:`rotorcalc.solvers.make_solver`; dense by default.
+        From :func:`rotorcalc.solvers.make_solver`; ``"auto"`` (by model size) by default.
+    near : complex, optional
+        rad/s: the ``n_modes`` modes nearest this eigenvalue instead of the lowest.
 
     Returns
     -------
@@ -185,14 +188,18 @@ def modes_at(rotor_or_system, speed, n_modes=None, solver=None):
     solve = solver if solver is not None else make_solver()
     speed = float(speed)
     d_mat = system.damping(speed) + speed * system.gyroscopic
-    pairs = solve(system.mass, d_mat, system.stiffness(speed), n)
-    q = pairs.vectors
+    if near is None:
+        pairs = solve(system.mass, d_mat, system.stiffness(speed), n)
+    else:
+        pairs = solve(system.mass, d_mat, system.stiffness(speed), n, near=near)
+    q = split_degenerate(pairs.values, pairs.vectors, system.mass, d_mat,
+                         system.stiffness(speed))
     tdofs = system.translation_dofs
     shapes = np.stack([q[tdofs[:, 0], :].T, q[tdofs[:, 1], :].T], axis=-1)
     peak = _peak(shapes)
     shapes = shapes / peak[:, None, None]
     vectors = q / peak[None, :]
-    warnings = list(system.table_warnings(speed))
+    warnings = list(system.table_warnings(speed)) + list(getattr(pairs, "warnings", ()))
     rigid = pairs.rigid_body // 2
     if rigid:
         warnings.append(f"{rigid} rigid-body mode(s) at zero frequency: the rotor is not fully "
