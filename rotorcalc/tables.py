@@ -166,3 +166,152 @@ def sweep_columns(result):
         Column("Whirl", lambda r: str(r[2]), "{}", "whirl"),
         Column("Forward share", lambda r: float(r[3]), "{:.3f}", "forward_fraction"),
     ]
+
+
+# --- what-if studies: critical-speed map, variants, stiffness window, levers -----------
+
+#: N/m per klbf/in (1 lbf = 4.4482216152605 N, 1 in = 0.0254 m, exact definitions).
+N_PER_M_PER_KLBF_IN = 4.4482216152605e3 / 0.0254
+
+
+def separation(speed, operating):
+    """Where a speed lies against the operating range and its margin, per cent.
+
+    The same definition as the margin table: per cent of the nearer end,
+    negative inside the range.
+    """
+    lo, hi = operating.min_speed, operating.max_speed
+    if speed < lo:
+        return "below", 100.0 * (lo - speed) / lo
+    if speed > hi:
+        return "above", 100.0 * (speed - hi) / hi
+    to_lo = 100.0 * (speed - lo) / lo if lo > 0 else math.inf
+    return "inside", -min(to_lo, 100.0 * (hi - speed) / hi)
+
+
+def crossing_columns(operating):
+    """Crossings of the bearings' stiffness curves with the map curves (rows: Crossing)."""
+    return [
+        Column("Bearing", lambda c: c.bearing, "{}", "bearing"),
+        Column("Direction", lambda c: c.direction, "{}", "direction"),
+        Column("Map mode", lambda c: c.mode + 1, "{:d}", "mode"),
+        Column("Speed rpm", lambda c: float(to_rpm(c.speed)), "{:.0f}", "speed_rpm"),
+        Column("Where", lambda c: separation(c.speed, operating)[0], "{}", "side"),
+        Column("Margin %", lambda c: separation(c.speed, operating)[1], "{:.1f}",
+               "margin_percent"),
+        Column("Stiffness N/m", lambda c: c.stiffness, "{:.3e}", "stiffness_n_m"),
+        Column("Stiffness klbf/in", lambda c: c.stiffness / N_PER_M_PER_KLBF_IN, "{:.0f}",
+               "stiffness_klbf_in"),
+    ]
+
+
+def map_end_columns(cmap):
+    """The map's two ends, per mode (rows: mode indices): soft and stiff support limits."""
+    return [
+        Column("Map mode", lambda j: j + 1, "{:d}", "mode"),
+        Column(f"At {cmap.stiffness[0]:.2e} N/m, rpm", lambda j: float(to_rpm(cmap.speeds[0, j])),
+               "{:.0f}", "speed_rpm_softest"),
+        Column(f"At {cmap.stiffness[-1]:.2e} N/m, rpm",
+               lambda j: float(to_rpm(cmap.speeds[-1, j])), "{:.0f}", "speed_rpm_stiffest"),
+    ]
+
+
+#: Rows: (stiffness N/m, mode index, critical speed rad/s, bearing share 0..1).
+MAP_SHAPE_COLUMNS = [
+    Column("Stiffness N/m", lambda r: r[0], "{:.3e}", "stiffness_n_m"),
+    Column("Map mode", lambda r: r[1] + 1, "{:d}", "mode"),
+    Column("Critical rpm", lambda r: float(to_rpm(r[2])), "{:.0f}", "speed_rpm"),
+    Column("Largest bearing motion", lambda r: r[3], "{:.0%}", "bearing_motion_share"),
+]
+
+
+def _change_rpm(r):
+    if r.base_speed is None or r.variant == "base":
+        return None
+    return float(to_rpm(r.row.critical.speed - r.base_speed))
+
+
+def comparison_columns(comparison):
+    """One row per critical per variant (rows: ComparisonRow), with the change to the base."""
+    orders = {r.row.critical.order for r in comparison.rows}
+    columns = [
+        Column("Variant", lambda r: r.variant, "{}", "variant"),
+        Column("Speed rpm", lambda r: float(to_rpm(r.row.critical.speed)), "{:.0f}",
+               "speed_rpm"),
+    ]
+    if orders - {1.0}:
+        columns.append(Column("Order", lambda r: r.row.critical.order, "{:g}X", "order"))
+    columns += [
+        Column("Whirl", lambda r: r.row.critical.whirl, "{}", "whirl"),
+        Column("Log dec", lambda r: r.row.critical.log_dec, "{:.3f}", "log_dec"),
+        Column("Where", lambda r: r.row.side, "{}", "side"),
+        Column("Margin %", lambda r: r.row.margin, "{:.1f}", "margin_percent"),
+        Column("Req. %", lambda r: r.row.required, "{:.1f}", "required_margin_percent"),
+        Column("Verdict", lambda r: r.row.verdict, "{}", "verdict"),
+    ]
+    if any(r.row.verdict_response is not None for r in comparison.rows):
+        columns.append(Column("Verdict resp.", lambda r: r.row.verdict_response, "{}",
+                              "verdict_response"))
+    columns += [
+        Column("Base rpm", lambda r: None if r.base_speed is None or r.variant == "base"
+               else float(to_rpm(r.base_speed)), "{:.0f}", "base_speed_rpm"),
+        Column("Change rpm", _change_rpm, "{:+.0f}", "change_rpm"),
+        Column("Change %", lambda r: None if r.variant == "base" else r.change_percent,
+               "{:+.1f}", "change_percent"),
+    ]
+    return columns
+
+
+def _excess_state(excess):
+    if excess == math.inf:
+        return "no critical needs a margin"
+    if excess == -math.inf:
+        return "unstable critical"
+    return "keeps the margins" if excess >= 0 else "margin short"
+
+
+#: Rows: (factor, excess per cent) of a StiffnessWindow scan.
+WINDOW_SCAN_COLUMNS = [
+    Column("Factor", lambda r: float(r[0]), "x{:.3g}", "factor"),
+    Column("Smallest margin excess %", lambda r: float(r[1]), "{:+.1f}", "excess_percent"),
+    Column("Result", lambda r: _excess_state(float(r[1])), "{}", "result"),
+]
+
+
+def _limiting(end, get):
+    return None if end.limiting is None else get(end.limiting)
+
+
+#: Rows: (label, WindowEnd) for the low and high end of a StiffnessWindow.
+WINDOW_END_COLUMNS = [
+    Column("End", lambda r: r[0], "{}", "end"),
+    Column("Factor", lambda r: r[1].factor, "x{:.3g}", "factor"),
+    Column("Limiting critical rpm", lambda r: _limiting(r[1], lambda c: float(to_rpm(c.speed))),
+           "{:.0f}", "limiting_critical_rpm"),
+    Column("Whirl", lambda r: _limiting(r[1], lambda c: c.whirl), "{}", "limiting_whirl"),
+    Column("Log dec", lambda r: _limiting(r[1], lambda c: c.log_dec), "{:.3f}",
+           "limiting_log_dec"),
+    Column("Note", lambda r: r[1].note or None, "{}", "note"),
+]
+
+
+def _agreement(s):
+    if s.value is None or s.check is None:
+        return "not found"
+    return "ok" if abs(s.value - s.check) <= 0.02 * abs(s.value) + 1e-4 else "differs"
+
+
+#: Rows: (rank within its critical, Sensitivity).
+SENSITIVITY_COLUMNS = [
+    Column("Critical rpm", lambda r: float(to_rpm(r[1].critical.speed)), "{:.0f}",
+           "critical_rpm"),
+    Column("Whirl", lambda r: r[1].critical.whirl, "{}", "whirl"),
+    Column("Rank", lambda r: r[0], "{:d}", "rank"),
+    Column("Lever", lambda r: r[1].parameter, "{}", "parameter"),
+    Column("% per %", lambda r: r[1].value, "{:+.4f}", "sensitivity"),
+    Column("Half step", lambda r: r[1].check, "{:+.4f}", "sensitivity_half_step"),
+    Column("Check", lambda r: _agreement(r[1]), "{}", "check"),
+    Column("rpm for +10 %", lambda r: None if r[1].value is None
+           else float(to_rpm(r[1].critical.speed)) * r[1].value * 0.1, "{:+.0f}",
+           "rpm_change_for_plus_10_percent"),
+]

@@ -86,11 +86,17 @@ def parse_change(text, key="change") -> Change:
                          expected='"PATH *= FACTOR" or "PATH = VALUE", e.g. "bearing.*.k *= 0.7"',
                          kind="syntax")
     parts = []
-    for piece in match.group("path").split("."):
+    for position, piece in enumerate(match.group("path").split(".")):
         m = _PART.match(piece.strip())
         if not m:
             raise InputError(key, f"has a bad path element {piece!r}", value=text,
                              expected="names, [index] or *", kind="syntax")
+        if m.group("index") is not None and position > 0:
+            # only the part itself takes an index (bearing[0], section[2]); an index on a
+            # field or coefficient would be silently ignored
+            raise InputError(key, f"has an index on {m.group('name')!r}, which takes none",
+                             value=text, expected="an index only right after bearing, section "
+                                                  "or disk, e.g. bearing[0].kxx", kind="syntax")
         parts.append((m.group("name"), None if m.group("index") is None else int(m.group("index"))))
     op = "scale" if match.group("op") == "*=" else "set"
     value = match.group("value")
@@ -127,7 +133,21 @@ def _pick(items, selector, index, label, key, text):
 def _new_value(change, old, dim):
     if change.op == "scale":
         return old * change.value
-    return u.parse(change.value, dim, change.key)
+    text = str(change.value).strip()
+    try:
+        float(text)
+    except ValueError:
+        pass
+    else:
+        if float(text) != 0.0:  # "4000" for a speed would silently be rad/s
+            raise InputError(change.key, "sets a value without a unit", value=change.text,
+                             expected=f"a {dim.name} with a unit, e.g. {dim.examples}",
+                             kind="unit")
+    try:
+        return u.parse(text, dim, change.key)
+    except InputError as err:
+        raise InputError(change.key, err.problem, value=change.text, expected=err.expected,
+                         kind=err.kind) from None
 
 
 def _field(fields, name, change):
@@ -212,6 +232,10 @@ def _change_bearings(rotor, change, parts, head_index):
         raise InputError(key, "names no bearing coefficient", value=text,
                          expected="kxx ... cyy, or k, c, kdirect, cdirect, all", kind="unknown-key")
     names = GROUPS[rest[0][0]]
+    if change.op == "set" and len({n[0] for n in names}) > 1:
+        raise InputError(key, "sets stiffness and damping to one value", value=text,
+                         expected="set the k and c coefficients in separate changes",
+                         kind="conflict")
     for i in chosen:
         coefficients = dict(new[i].coefficients)
         for name in names:
@@ -219,7 +243,7 @@ def _change_bearings(rotor, change, parts, head_index):
             if change.op == "scale":
                 coefficients[name] = tuple(v * change.value for v in new[i].table(name))
             else:
-                coefficients[name] = (u.parse(change.value, dim, key),)
+                coefficients[name] = (_new_value(change, None, dim),)
         new[i] = dataclasses.replace(new[i], coefficients=coefficients)
     return dataclasses.replace(rotor, bearings=tuple(new))
 

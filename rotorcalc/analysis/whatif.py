@@ -7,11 +7,12 @@ change grammar of :mod:`rotorcalc.variants`.
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.optimize import brentq, newton
+from scipy.optimize import brentq, linear_sum_assignment, newton
 
 from ..assembly import assemble
 from ..units import to_rpm
@@ -61,13 +62,35 @@ class Comparison:
         return {"variants": list(self.names), "passed": self.passed, "criticals": out}
 
 
-def _match(crit: CriticalSpeed, base: tuple):
-    """The base critical of the same order and whirl nearest in speed (within 30 %)."""
-    same = [c for c in base if c.order == crit.order and c.whirl == crit.whirl]
-    if not same:
-        return None
-    best = min(same, key=lambda c: abs(c.speed - crit.speed))
-    return best if abs(best.speed / crit.speed - 1.0) <= 0.3 else None
+#: A variant's critical is the same as a base critical when it lies within this
+#: share of the base speed (after a one-to-one assignment).
+MATCH_SHARE = 0.35
+
+
+def match_criticals(criticals, base):
+    """One-to-one matching of a variant's criticals to the base's.
+
+    An optimal assignment on the relative speed change, plus a penalty of 0.2
+    when the whirl changes between forward and not-forward (a backward mode may
+    turn mixed under a change of supports) and a bar on different orders;
+    pairs further apart than :data:`MATCH_SHARE` of the base speed are left
+    unmatched.  Returns, per critical, the matched base critical or None.
+    """
+    out = [None] * len(criticals)
+    if not criticals or not base:
+        return out
+    cost = np.full((len(criticals), len(base)), 1e6)
+    for i, c in enumerate(criticals):
+        for j, b in enumerate(base):
+            if c.order != b.order:
+                continue
+            cost[i, j] = abs(c.speed / b.speed - 1.0) + 0.2 * ((c.whirl == "forward")
+                                                             != (b.whirl == "forward"))
+    rows, cols = linear_sum_assignment(cost)
+    for i, j in zip(rows, cols):
+        if cost[i, j] < 1e6 and abs(criticals[i].speed / base[j].speed - 1.0) <= MATCH_SHARE:
+            out[i] = base[j]
+    return out
 
 
 def compare(rotor, variants, progress=None):
@@ -89,8 +112,8 @@ def compare(rotor, variants, progress=None):
     base = screenings[0].criticals
     rows = []
     for (name, _), result in zip(models, screenings):
-        for row in result.margins.rows:
-            match = _match(row.critical, base)
+        matches = match_criticals([r.critical for r in result.margins.rows], base)
+        for row, match in zip(result.margins.rows, matches):
             rows.append(ComparisonRow(name, row, None if match is None else match.speed))
     return Comparison(tuple(n for n, _ in models), tuple(screenings), tuple(rows))
 
@@ -150,31 +173,41 @@ class StiffnessWindow:
                 "low": self.low.to_dict(), "high": self.high.to_dict()}
 
 
-def _scaled(rotor, target, factor):
-    return apply_variant(rotor, Variant(f"x{factor:g}",
-                                        (parse_change(f"{target}.k *= {float(factor)!r}"),)))
+def window_targets(rotor, target=None):
+    """Change paths of the bearings a window scales: every bearing (seals kept) by default."""
+    if target is None:
+        return [f"bearing[{i}]" for i, b in enumerate(rotor.bearings) if b.kind == "bearing"]
+    return [target]
 
 
-def stiffness_window(rotor, target="bearing.*", low=0.1, high=10.0, points=9, rtol=2e-3,
+def _scaled(rotor, targets, factor):
+    changes = tuple(parse_change(f"{t}.k *= {float(factor)!r}") for t in targets)
+    return apply_variant(rotor, Variant(f"x{factor:g}", changes))
+
+
+def stiffness_window(rotor, target=None, low=0.1, high=10.0, points=9, rtol=2e-3,
                      progress=None):
     """The stiffness scale factors, around 1, for which every margin holds.
 
-    Scales the four stiffness coefficients of the target bearing(s)
-    (``"bearing.*"`` for all together, ``"bearing.DE"`` or ``"bearing[0]"``
-    for one), screens the rotor on a log grid of factors, and refines each
-    end of the passing interval that contains 1 by Brent's method on the
-    margin excess.  Amplification factors are estimated from the log
-    decrement.
+    Scales the four stiffness coefficients of the target bearing(s) (by
+    default every bearing together, seals unchanged; or one, e.g.
+    ``"bearing.DE"``, ``"bearing[0]"``), screens the rotor on a log grid of
+    factors, and refines each end of the passing interval that contains 1 by
+    Brent's method on the margin excess.  Amplification factors are
+    estimated from the log decrement (the unbalance response is not run).
 
     Returns
     -------
     StiffnessWindow
     """
-    factors = np.unique(np.concatenate([np.geomspace(low, high, points), [1.0]]))
+    targets = window_targets(rotor, target)
+    rotor = dataclasses.replace(rotor, unbalance=())
+    grid = np.geomspace(low, high, points)
+    factors = np.sort(np.concatenate([grid[~np.isclose(grid, 1.0, rtol=1e-9)], [1.0]]))
     total = [0]
 
     def evaluate(f):
-        excess, limiting = margin_excess(screen(_scaled(rotor, target, f)))
+        excess, limiting = margin_excess(screen(_scaled(rotor, targets, f)))
         total[0] += 1
         if progress is not None:
             progress(total[0], None)
@@ -206,7 +239,8 @@ def stiffness_window(rotor, target="bearing.*", low=0.1, high=10.0, points=9, rt
         limiting = evaluate(root * (1 - 2 * rtol) if step < 0 else root * (1 + 2 * rtol))[1]
         return WindowEnd(float(root), limiting)
 
-    return StiffnessWindow(target, factors, excess, end(-1), end(+1), bool(base_ok))
+    label = target or "all bearings (seals unchanged)"
+    return StiffnessWindow(label, factors, excess, end(-1), end(+1), bool(base_ok))
 
 
 def _finite(x):

@@ -17,7 +17,7 @@ matplotlib.use("Agg")  # no screen needed; pictures go to files
 
 import typer  # noqa: E402
 
-from . import check, criticals, layout, modes, response, sweep  # noqa: E402
+from . import check, criticals, layout, modes, response, sweep, whatif  # noqa: E402
 
 app = typer.Typer(
     add_completion=False, no_args_is_help=True, rich_markup_mode="rich",
@@ -26,7 +26,7 @@ app = typer.Typer(
          "Screening only: confirm against the applicable standard, the purchase specification, "
          "local codes and a licensed engineer's review.")
 
-for module in (modes, sweep, criticals, check, response, layout):
+for module in (modes, sweep, criticals, check, response, layout, whatif):
     module.register(app)
 
 
