@@ -10,8 +10,22 @@ whirl ``q = Re(phi e^{i W t})`` of the undamped spinning rotor satisfies
 a generalized eigenproblem with real symmetric ``K`` and Hermitian
 ``M - i G``; its positive eigenvalues are the squared critical speeds, the
 gyroscopic effect included, and the whirl of each eigenvector tells forward
-from backward.  The bearings' own direct stiffness curves over speed are
-crossed with the map curves to give the criticals the real bearings produce.
+from backward.
+
+When the system is isotropic (every bearing becomes an isotropic spring, so
+this holds unless a seal or a support differs between x and y), ``K`` and
+``M - iG`` commute with the quarter turn about the shaft axis and the
+problem splits exactly into a forward part (``y = -i x``, ``b = -i a`` at
+every node) and a backward part (``y = +i x``).  The map then solves only the
+part asked for, half the size.  Solving the full problem instead would leave
+the whirl of a degenerate pair to roundoff: without gyroscopic coupling
+(Euler-Bernoulli shafts, rigid disks without inertia) or where it vanishes
+(the bounce mode of a symmetric rotor) the forward and backward criticals
+coincide, the eigensolver returns an arbitrary basis of their plane, and one
+critical could be listed twice as forward, or not at all.
+
+The bearings' own direct stiffness curves over speed are crossed with the map
+curves to give the criticals the real bearings produce.
 """
 
 from __future__ import annotations
@@ -34,6 +48,33 @@ from .sweep import default_speeds
 DENSE_LIMIT = 600
 #: Speeds at which each bearing curve is sampled (crossings are then refined).
 CURVE_POINTS = 25
+#: Relative tolerance of the isotropy test (quarter turn about the shaft axis).
+ISOTROPY_RTOL = 1e-12
+
+
+def _quarter_turn(n):
+    """The rotation (u, v) -> (-v, u) of every DOF pair (x, y), (a, b), (xs, ys)."""
+    even, odd = np.arange(0, n, 2), np.arange(1, n, 2)
+    rows = np.concatenate([even, odd])
+    cols = np.concatenate([odd, even])
+    vals = np.concatenate([-np.ones(even.size), np.ones(odd.size)])
+    return sp.csr_matrix((vals, (rows, cols)), shape=(n, n))
+
+
+def _invariant(mat, turn):
+    """True when ``turn.T @ mat @ turn == mat`` to :data:`ISOTROPY_RTOL`."""
+    diff = abs(turn.T @ mat @ turn - mat)
+    scale = abs(mat).max() if mat.nnz else 0.0
+    return (diff.max() if diff.nnz else 0.0) <= ISOTROPY_RTOL * max(scale, np.finfo(float).tiny)
+
+
+def _circular_basis(n, sign):
+    """Columns (e_u + sign i e_v) / sqrt 2, one per DOF pair: sign -1 forward, +1 backward."""
+    pairs = np.arange(n // 2)
+    rows = np.concatenate([2 * pairs, 2 * pairs + 1])
+    cols = np.concatenate([pairs, pairs])
+    vals = np.concatenate([np.ones(pairs.size), sign * 1j * np.ones(pairs.size)]) / np.sqrt(2.0)
+    return sp.csr_matrix((vals, (rows, cols)), shape=(n, n // 2))
 
 
 @dataclass(frozen=True)
@@ -133,25 +174,50 @@ class _MapProblem:
             self.unit = sp.csr_matrix((n, n))
         self.k0 = (system.shaft_stiffness + system.support_stiffness + seals).tocsr()
         self.mass = (system.mass - 1j * system.gyroscopic).tocsr()
+        # isotropic: the forward and backward parts decouple exactly (module docstring)
+        turn = _quarter_turn(n)
+        self.isotropic = (n % 2 == 0 and _invariant(self.k0, turn)
+                          and _invariant(self.unit, turn) and _invariant(self.mass, turn))
 
     def solve(self, k, n_modes, whirl="forward"):
         """Lowest ``n_modes`` critical speeds (rad/s) of the given whirl and their shapes."""
         s = self.system
         kk = self.k0 + k * self.unit
+        mm = self.mass
+        basis = None
+        if self.isotropic:
+            # only the part of the whirl asked for: y = -i x (forward) or y = +i x
+            basis = _circular_basis(s.n_dof, -1.0 if whirl == "forward" else 1.0)
+            kk = (basis.conj().T @ kk @ basis).tocsr()
+            mm = (basis.conj().T @ mm @ basis).tocsr()
+        size = kk.shape[0]
         want = 2 * n_modes + 6
-        if s.n_dof <= DENSE_LIMIT or want >= s.n_dof - 2:
-            values, vectors = la.eig(kk.toarray(), self.mass.toarray())
-        else:
-            values, vectors = spla.eigs(kk.tocsc().astype(complex), k=want,
-                                        M=self.mass.tocsc(), sigma=0.0)
-        values = values.real
-        good = np.isfinite(values) & (values > 0)
-        values, vectors = values[good], vectors[:, good]
-        t = s.translation_dofs
-        shapes = np.stack([vectors[t[:, 0]].T, vectors[t[:, 1]].T], axis=-1)
-        ff = forward_fraction(shapes)
-        keep = ff >= 0.5 if whirl == "forward" else ff < 0.5
-        values, shapes = values[keep], shapes[keep]
+        lu = None
+        while True:
+            dense = s.n_dof <= DENSE_LIMIT or want >= size - 2
+            if dense:
+                values, vectors = la.eig(kk.toarray(), mm.toarray())
+            else:
+                if lu is None:
+                    lu = spla.splu(kk.tocsc().astype(complex))
+                values, vectors = _largest_inverse(lu, mm, want)
+            if basis is not None:
+                vectors = basis @ vectors
+            values = values.real
+            good = np.isfinite(values) & (values > 0)
+            values, vectors = values[good], vectors[:, good]
+            t = s.translation_dofs
+            shapes = np.stack([vectors[t[:, 0]].T, vectors[t[:, 1]].T], axis=-1)
+            ff = forward_fraction(shapes)
+            keep = ff >= 0.5 if whirl == "forward" else ff < 0.5
+            values, shapes = values[keep], shapes[keep]
+            # the sparse solve returns the `want` largest |1/W^2|: every
+            # positive one found is complete below the smallest found, but
+            # negative ones (M - iG is indefinite) or the other whirl may
+            # take slots, so ask for more until n_modes are in hand
+            if dense or values.size >= n_modes:
+                break
+            want *= 2
         order = np.argsort(values)[:n_modes]
         speeds = np.sqrt(values[order])
         shapes = shapes[order]
@@ -163,6 +229,23 @@ class _MapProblem:
         out_shapes = np.full((n_modes,) + shapes.shape[1:], np.nan + 0j)
         out_speeds[:len(order)], out_shapes[:len(order)] = speeds, shapes
         return out_speeds, out_shapes
+
+
+def _largest_inverse(lu, mass, want):
+    """The ``want`` eigenpairs of ``K phi = W^2 H phi`` with the largest
+    ``|1/W^2|``, from the standard problem ``K^-1 H phi = (1/W^2) phi``.
+
+    ARPACK's generalized shift-invert mode would use ``H = M - iG`` as an
+    inner product, which needs it positive (semi-)definite; the gyroscopic
+    part makes it indefinite, and that mode then returns spurious values.
+    ``K`` (``lu``, its sparse LU) is positive definite for a supported rotor.
+    """
+    h = mass.tocsc().astype(complex)
+    op = spla.LinearOperator(h.shape, matvec=lambda x: lu.solve(h @ x), dtype=complex)
+    mu, vectors = spla.eigs(op, k=want, which="LM")
+    with np.errstate(divide="ignore", invalid="ignore"):
+        values = 1.0 / mu
+    return values, vectors
 
 
 def bearing_curves(rotor, speeds):
