@@ -6,7 +6,11 @@ it is made, so a caller's own style for other figures is left alone.
 
 from __future__ import annotations
 
+import numpy as np
 from matplotlib.figure import Figure
+from matplotlib.patches import Rectangle
+
+from ..units import to_rpm
 
 # Ink and paper: dark slate rather than black, so that thin lines stay crisp in
 # print without looking heavy on screen.
@@ -19,6 +23,8 @@ PAPER = "#ffffff"
 # Operating range: a pale sage band with a darker edge.
 BAND_FILL = "#e3ecd8"
 BAND_EDGE = "#5f8745"
+#: The trip speed's dashes.
+TRIP_DASH = (0, (4, 2.5))
 
 # Log-decrement classes, warm (lightly damped) to cool (well damped).
 LOG_DEC_EDGES = (0.0, 0.1, 0.3, 1.0, 3.0)
@@ -136,3 +142,64 @@ def whole(value):
     """A speed or frequency as a whole number of rpm/cpm, for labels."""
     return signed(value, ".0f")
 
+
+def short_whirl(label):
+    """"fwd", "bwd" for forward and backward whirl; other labels as they are."""
+    return {"forward": "fwd", "backward": "bwd"}.get(label, label)
+
+
+def paper_box(style="square", pad=0.1, alpha=0.8):
+    """The see-through paper box behind a label on the data, so lines under it give way."""
+    return dict(boxstyle=f"{style},pad={pad}", facecolor=PAPER, edgecolor="none", alpha=alpha)
+
+
+def operating_band(ax, operating, axis="x", linewidth=0.9, label=None):
+    """Shade the operating range with its ends as lines and the trip speed dashed.
+
+    ``axis`` is the axis the speeds (rpm) run along: ``"x"`` shades the range
+    full height, ``"y"`` full width.  ``label`` names the band artist.
+
+    Returns
+    -------
+    band : Rectangle
+    trip : Line2D or None
+        None without a trip speed.
+    marks : list of (float, str)
+        The speeds to label and their texts: both ends, then the trip speed.
+    """
+    lo, hi = to_rpm(operating.min_speed), to_rpm(operating.max_speed)
+    named = {} if label is None else {"label": label}
+    if axis == "x":
+        band = Rectangle((lo, 0.0), hi - lo, 1.0, transform=ax.get_xaxis_transform(),
+                         facecolor=BAND_FILL, edgecolor="none", zorder=1, **named)
+        edge = ax.axvline
+    else:
+        band = Rectangle((0.0, lo), 1.0, hi - lo, transform=ax.get_yaxis_transform(),
+                         facecolor=BAND_FILL, edgecolor="none", zorder=1, **named)
+        edge = ax.axhline
+    ax.add_patch(band)
+    for speed in (lo, hi):
+        edge(speed, color=BAND_EDGE, linewidth=linewidth, zorder=1.5)
+    marks = [(lo, whole(lo)), (hi, whole(hi))]
+    trip = None
+    if operating.trip_speed is not None:
+        speed = to_rpm(operating.trip_speed)
+        trip = edge(speed, color=BAND_EDGE, linewidth=linewidth, linestyle=TRIP_DASH, zorder=1.5)
+        marks.append((speed, f"trip {whole(speed)}"))
+    return band, trip, marks
+
+
+def order_line(ax, order, x_lo, x_hi, top):
+    """The excitation line ``frequency = order x speed``, labelled "2X" where it leaves
+    the frame: at the right edge, or below the top.  Returns the line and its label."""
+    xs = np.array([x_lo, x_hi])
+    line, = ax.plot(xs, order * xs, color=MUTED, linewidth=0.9, zorder=2)
+    if order * x_hi <= top:
+        x = x_hi - 0.012 * (x_hi - x_lo)
+        y, va = order * x, "bottom"
+    else:
+        y = 0.97 * top
+        x, va = y / order, "center"
+    text = ax.text(x, y, f" {order:g}X ", fontsize=FONT_TICK, color=INK, ha="right", va=va,
+                   zorder=5, bbox=paper_box("square", 0.12, 0.85))
+    return line, text

@@ -10,17 +10,17 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from functools import lru_cache
 
 import numpy as np
-from matplotlib.font_manager import FontProperties
 from matplotlib.lines import Line2D
 from matplotlib.patches import Patch, Rectangle
-from matplotlib.textpath import TextToPath
-from matplotlib.transforms import ScaledTranslation, offset_copy
+from matplotlib.ticker import FuncFormatter, NullFormatter
 
 from ..units import to_rpm
+from . import _labels as lb
 from . import _style as st
+from ._geometry import snapshot
+from .speedmap import branch_runs, frequency_top
 
 #: N/m per klbf/in (1 lbf = 4.4482216152605 N, 1 in = 0.0254 m), for the top axis.
 N_PER_KLBF_IN = 4.4482216152605e3 / 0.0254
@@ -191,91 +191,6 @@ class MapShapeArtists:
     legend: object
 
 
-# --- shared drawing helpers ---------------------------------------------------------------
-
-_MEASURE = TextToPath()
-
-
-@lru_cache(maxsize=1024)
-def _text_width(text, size):
-    """Width of a label in points, from the font's metrics, plus a little padding."""
-    width, _, _ = _MEASURE.get_text_width_height_descent(text, FontProperties(size=size),
-                                                         ismath=False)
-    return float(width) + 3.0
-
-
-def _overlap(a, b):
-    return not (a[2] <= b[0] or b[2] <= a[0] or a[3] <= b[1] or b[3] <= a[1])
-
-
-def _inside(rect, frame):
-    return (rect[0] >= frame[0] and rect[2] <= frame[2] and rect[1] >= frame[1]
-            and rect[3] <= frame[3])
-
-
-def _points(ax, xy):
-    """Data coordinates to points on the page (array of shape (..., 2))."""
-    return np.asarray(ax.transData.transform(xy)) * 72.0 / ax.figure.dpi
-
-
-def _frame(ax):
-    box = ax.get_window_extent()
-    k = 72.0 / ax.figure.dpi
-    return (box.x0 * k, box.y0 * k, box.x1 * k, box.y1 * k)
-
-
-def _line_boxes(ax, xs, ys, pad=1.5, step=3.0):
-    """Small boxes (points) along a polyline, so that labels can keep off it."""
-    q = _points(ax, np.column_stack([xs, ys]))
-    ok = np.all(np.isfinite(q), axis=1)
-    boxes = []
-    for i in range(len(q) - 1):
-        if not (ok[i] and ok[i + 1]):
-            continue
-        a, b = q[i], q[i + 1]
-        n = max(1, int(np.hypot(*(b - a)) // step))
-        for t in np.linspace(0.0, 1.0, n + 1):
-            x, y = a + t * (b - a)
-            boxes.append((x - pad, y - pad, x + pad, y + pad))
-    return boxes
-
-
-def _legend_beside(ax, handles, labels, headers, x_offset, muted=()):
-    """A key to the right of the axes with bold headers set flush with the handles."""
-    size = st.FONT_NOTE + 0.5
-    length, pad = 2.6, 0.6
-    where = offset_copy(ax.transAxes, fig=ax.figure, x=x_offset, units="points")
-    legend = ax.legend(handles, labels, loc="upper left", bbox_to_anchor=(1.0, 1.0),
-                       bbox_transform=where, borderaxespad=0.0, frameon=False, fontsize=size,
-                       handlelength=length, handletextpad=pad, labelspacing=0.35)
-    shift = ScaledTranslation(-(length + pad) * size / 72.0, 0.0, ax.figure.dpi_scale_trans)
-    for i, text in enumerate(legend.get_texts()):
-        text.set_color(st.MUTED if i in muted else st.INK)
-        if i in headers:
-            text.set_fontweight("bold")
-            text.set_transform(text.get_transform() + shift)
-    return legend
-
-
-class _Key:
-    """Handles, labels and header positions of a legend, built in order."""
-
-    def __init__(self):
-        self.handles, self.labels, self.headers, self.muted = [], [], [], []
-
-    def header(self, text):
-        self.headers.append(len(self.labels))
-        self.add(Line2D([], [], linestyle="none"), text)
-
-    def add(self, handle, text):
-        self.handles.append(handle)
-        self.labels.append(text)
-
-    def note(self, text):
-        self.muted.append(len(self.labels))
-        self.add(Line2D([], [], linestyle="none"), text)
-
-
 # --- the critical-speed map ---------------------------------------------------------------
 
 def critical_speed_map(cmap, operating=None, window=None, base_stiffness=None, ax=None, *,
@@ -309,8 +224,10 @@ def critical_speed_map(cmap, operating=None, window=None, base_stiffness=None, a
         Axes to draw on; a new figure is made when omitted.
     speed_max : float, optional
         Top of the speed axis, rpm.  By default 1.15 x the highest of the
-        trip (or maximum) speed, the bearing curves and the crossings, so
-        the upper modes do not squash the map; modes above are counted in
+        trip (or maximum) speed, the bearing curves, the crossings and the
+        window's limiting criticals, raised to show the next mode above them
+        at the bearings' stiffness when that is within twice as high, so the
+        upper modes do not squash the map; modes wholly above are counted in
         the key.
 
     Returns
@@ -337,9 +254,9 @@ def critical_speed_map(cmap, operating=None, window=None, base_stiffness=None, a
     st.style_axes(ax)
 
     k = np.asarray(cmap.stiffness, dtype=float)
-    rpm = np.atleast_2d(to_rpm(np.asarray(cmap.speeds, dtype=float)))
-    if rpm.shape[0] != k.shape[0]:
-        rpm = rpm.reshape(k.shape[0], -1)
+    rpm = to_rpm(np.asarray(cmap.speeds, dtype=float))
+    if rpm.ndim == 1:
+        rpm = rpm[:, None]
     curves = tuple(cmap.curves)
     crossings = tuple(cmap.crossings)
 
@@ -349,6 +266,7 @@ def critical_speed_map(cmap, operating=None, window=None, base_stiffness=None, a
     if k_hi <= k_lo:
         k_lo, k_hi = k_lo / 3.0, k_hi * 3.0
     ax.set_xlim(k_lo, k_hi)
+    _plain_log_ticks(ax.xaxis, k_hi / k_lo)
     top = _speed_top(k, rpm, curves, crossings, operating, window) if speed_max is None \
         else float(speed_max)
     ax.set_ylim(0.0, top)
@@ -357,7 +275,7 @@ def critical_speed_map(cmap, operating=None, window=None, base_stiffness=None, a
     band = trip_line = None
     band_labels, side_width = (), 0.0
     if operating is not None:
-        band, trip_line, marks = _draw_operating_h(ax, operating)
+        band, trip_line, marks = st.operating_band(ax, operating, axis="y")
         band_labels, side_width = _side_labels(ax, marks)
 
     # Bearing curves: one colour per bearing; a curve lying on an earlier one is drawn
@@ -375,14 +293,14 @@ def critical_speed_map(cmap, operating=None, window=None, base_stiffness=None, a
         curve_lines.append(line)
         if under is not None:
             aliases.setdefault(c.bearing, []).append((c.direction, curves[under]))
-        boxes += _line_boxes(ax, xs, ys)
+        boxes += lb.line_boxes(ax, xs, ys)
 
     mode_lines = []
     for j in range(rpm.shape[1]):
         line, = ax.plot(k, rpm[:, j], color=st.INK, linewidth=1.9, zorder=4,
                         solid_capstyle="round")
         mode_lines.append(line)
-        boxes += _line_boxes(ax, k, rpm[:, j])
+        boxes += lb.line_boxes(ax, k, rpm[:, j])
     lowest = np.array([np.nanmin(col) if np.isfinite(col).any() else np.inf for col in rpm.T])
     hidden = int(np.sum(np.isfinite(lowest) & (lowest > top)))
 
@@ -415,6 +333,7 @@ def critical_speed_map(cmap, operating=None, window=None, base_stiffness=None, a
 
     st.label_axes(ax, "Support stiffness (N/m)", "Critical speed (rpm)")
     stiffness_axis = ax.secondary_xaxis("top", functions=(_to_klbf_in, _from_klbf_in))
+    _plain_log_ticks(stiffness_axis.xaxis, k_hi / k_lo)
     stiffness_axis.tick_params(colors=st.INK, labelsize=st.FONT_TICK, length=3.5, width=0.7)
     stiffness_axis.tick_params(which="minor", length=2.0, width=0.5)
     stiffness_axis.spines["top"].set_color(st.FAINT)
@@ -430,8 +349,31 @@ def critical_speed_map(cmap, operating=None, window=None, base_stiffness=None, a
         mode_labels=tuple(mode_labels), curves=tuple(curve_lines), crossings=tuple(markers),
         crossing_labels=tuple(crossing_labels), band=band, band_labels=tuple(band_labels),
         trip_line=trip_line, window_band=window_band, window_labels=tuple(window_labels),
-        window_markers=tuple(window_markers), window_arrows=tuple(window_arrows), base_line=base_line, legend=legend,
-        speed_max=top, hidden_modes=hidden)
+        window_markers=tuple(window_markers), window_arrows=tuple(window_arrows),
+        base_line=base_line, legend=legend, speed_max=top, hidden_modes=hidden)
+
+
+_SUPERSCRIPT = str.maketrans("-0123456789", "\u207b\u2070\u00b9\u00b2\u00b3\u2074\u2075\u2076"
+                                            "\u2077\u2078\u2079")
+
+
+def _power_text(value):
+    """``1e8`` as "10⁸" and ``2e8`` as "2×10⁸", in plain text (no math parser needed)."""
+    if not (math.isfinite(value) and value > 0):
+        return ""
+    mantissa, exponent = f"{value:.0e}".split("e")
+    power = "10" + str(int(exponent)).translate(_SUPERSCRIPT)
+    return power if mantissa == "1" else f"{mantissa}\u00d7{power}"
+
+
+def _plain_log_ticks(axis, ratio):
+    """Decade labels as plain text; in-between labels too when the axis spans under
+    two decades (``ratio``, top over bottom), where decades alone are too few to read by."""
+    axis.set_major_formatter(FuncFormatter(lambda v, _: _power_text(v)))
+    if ratio < 100.0:
+        axis.set_minor_formatter(FuncFormatter(lambda v, _: _power_text(v)))
+    else:
+        axis.set_minor_formatter(NullFormatter())
 
 
 def _to_klbf_in(k):
@@ -479,15 +421,14 @@ def _speed_top(stiffness, rpm, curves, crossings, operating, window):
         if above:
             first = min(j for j, _ in above)
             need.append(max(at for j, at in above if j == first))
-    finite = rpm[np.isfinite(rpm)]
-    if finite.size:
+    present = [col[np.isfinite(col)] for col in rpm.T]
+    present = [col for col in present if col.size]
+    if present and not need:
+        # nothing else to go by: the two lowest modes, as the single whirl-speed map does
+        need.append(max(float(np.median(col)) for col in present[:2]))
+    elif present:
         # at least part of the lowest mode shows, whatever the rest asks
-        first = rpm[:, 0][np.isfinite(rpm[:, 0])]
-        if first.size:
-            need.append(float(first.min()) / HEADROOM * 1.25)
-        if not need:
-            medians = np.sort([np.nanmedian(col) for col in rpm.T if np.isfinite(col).any()])
-            need.append(float(medians[:2].max()))
+        need.append(float(present[0].min()) * 1.25 / HEADROOM)
     top = HEADROOM * max(need) if need else 1.0
     return top if math.isfinite(top) and top > 0 else 1.0
 
@@ -505,30 +446,14 @@ def _mode_at(stiffness, rpm, value):
     return float(np.interp(v, x[order], y[order]))
 
 
-def _draw_operating_h(ax, operating):
-    lo, hi = to_rpm(operating.min_speed), to_rpm(operating.max_speed)
-    band = ax.add_patch(Rectangle((0.0, lo), 1.0, hi - lo, transform=ax.get_yaxis_transform(),
-                                  facecolor=st.BAND_FILL, edgecolor="none", zorder=1))
-    for y in (lo, hi):
-        ax.axhline(y, color=st.BAND_EDGE, linewidth=0.9, zorder=1.5)
-    marks = [(lo, st.whole(lo)), (hi, st.whole(hi))]
-    trip = None
-    if operating.trip_speed is not None:
-        t = to_rpm(operating.trip_speed)
-        trip = ax.axhline(t, color=st.BAND_EDGE, linewidth=0.9, linestyle=(0, (4, 2.5)),
-                          zorder=1.5)
-        marks.append((t, f"trip {st.whole(t)}"))
-    return band, trip, marks
-
-
 def _side_labels(ax, marks):
     """Labels just right of the frame at data heights, spread apart where they would touch.
 
     Returns the annotations and the width (points) they take.
     """
     gap = 1.25 * st.FONT_NOTE
-    frame = _frame(ax)
-    ys = [float(_points(ax, (ax.get_xlim()[0], y))[1]) for y, _ in marks]
+    frame = lb.frame(ax)
+    ys = [float(lb.points(ax, (ax.get_xlim()[0], y))[1]) for y, _ in marks]
     order = sorted(range(len(marks)), key=lambda i: ys[i])
     placed = {}
     last = -np.inf
@@ -548,15 +473,15 @@ def _side_labels(ax, marks):
             color=st.BAND_EDGE, annotation_clip=False,
             arrowprops=dict(arrowstyle="-", color=st.BAND_EDGE, linewidth=0.5, shrinkA=0,
                             shrinkB=0) if abs(dy) > 1.0 else None))
-        width = max(width, 6 + _text_width(text, st.FONT_NOTE))
+        width = max(width, 6 + lb.text_width(text, st.FONT_NOTE))
     return texts, width
 
 
 def _draw_window(ax, window, base, top, lines):
     """The band of stiffness that keeps the margins, its ends named.
 
-    Returns the band, its texts, the limiting markers, the arrows of open ends and the boxes (points) the
-    texts take, for the other labels to avoid.
+    Returns the band, its texts, the limiting markers, the arrows of open ends and
+    the boxes (points) the texts take, for the other labels to avoid.
     """
     texts, markers, arrows, taken = [], [], [], []
     x_lo, x_hi = ax.get_xlim()
@@ -573,9 +498,9 @@ def _draw_window(ax, window, base, top, lines):
                        bbox=dict(boxstyle="round,pad=0.3", facecolor=st.PAPER, edgecolor=FAIL,
                                  linewidth=0.6, alpha=0.92))
         texts.append(note)
-        frame = _frame(ax)
+        frame = lb.frame(ax)
         lines = text.split("\n")
-        w = max(_text_width(t, st.FONT_NOTE + 0.5) for t in lines) + 8
+        w = max(lb.text_width(t, st.FONT_NOTE + 0.5) for t in lines) + 8
         h = 1.25 * (st.FONT_NOTE + 0.5) * len(lines) + 8
         x0 = frame[0] + 0.015 * (frame[2] - frame[0])
         y1 = frame[1] + 0.975 * (frame[3] - frame[1])
@@ -598,8 +523,7 @@ def _draw_window(ax, window, base, top, lines):
                                  xytext=(0, -4), textcoords="offset points", ha="center",
                                  va="top", fontsize=st.FONT_NOTE + 0.5, color=WINDOW_EDGE,
                                  fontweight="bold", zorder=8,
-                                 bbox=dict(boxstyle="square,pad=0.15", facecolor=st.PAPER,
-                                           edgecolor="none", alpha=0.8)))
+                                 bbox=st.paper_box("square", 0.15, 0.8)))
         taken.append(_box_of(ax, mid, "margins kept", st.FONT_NOTE + 0.5, 10))
     for end, f, side in ends:
         x = base * f
@@ -619,8 +543,7 @@ def _draw_window(ax, window, base, top, lines):
                                            markersize=5.5, markerfacecolor=WINDOW_EDGE,
                                            markeredgecolor=st.PAPER, markeredgewidth=0.8,
                                            zorder=9)[0])
-                    marked = float(_points(ax, (x, y))[1])
-                    px = float(_points(ax, (x, y))[0])
+                    px, marked = (float(v) for v in lb.points(ax, (x, y)))
                     taken.append((px - 5, marked - 5, px + 5, marked + 5))
         else:
             text = f"\u00d7{f:.3g}, end of search: margins still kept"
@@ -632,8 +555,8 @@ def _draw_window(ax, window, base, top, lines):
                                 shrinkA=0, shrinkB=0, mutation_scale=10)))
         # Along the end line, inside the band, reading upwards from the bottom, clear
         # of the limiting marker where there is room above or below it.
-        frame = _frame(ax)
-        length = _text_width(text, st.FONT_NOTE)
+        frame = lb.frame(ax)
+        length = lb.text_width(text, st.FONT_NOTE)
         height = frame[3] - frame[1]
         y0 = frame[1] + 0.12 * height
         if marked is not None:
@@ -649,9 +572,8 @@ def _draw_window(ax, window, base, top, lines):
                                  rotation=90, ha="left", va="bottom" if side > 0 else "top",
                                  rotation_mode="anchor", fontsize=st.FONT_NOTE,
                                  color=WINDOW_EDGE, zorder=8,
-                                 bbox=dict(boxstyle="square,pad=0.1", facecolor=st.PAPER,
-                                           edgecolor="none", alpha=0.75)))
-        px = float(_points(ax, (x, 1.0))[0])
+                                 bbox=st.paper_box("square", 0.1, 0.75)))
+        px = float(lb.points(ax, (x, 1.0))[0])
         x0 = px - 3 - 1.3 * st.FONT_NOTE if side > 0 else px + 3
         taken.append((x0, y0, x0 + 1.3 * st.FONT_NOTE, y0 + length))
     return band, texts, markers, arrows, taken
@@ -662,22 +584,12 @@ def _base_tag(ax, x, text, colour, lines=()):
     lo, hi = ax.get_xlim()
     if not lo <= x <= hi:
         return None
-    px, py = _points(ax, (x, ax.get_ylim()[0]))
-    w, h = _text_width(text, st.FONT_NOTE), 1.3 * st.FONT_NOTE
-    choice = None
-    frame = _frame(ax)
-    for dy in np.arange(3.0, frame[3] - frame[1] - 30.0, 11.0):
-        for dx in (3, -3):
-            x0 = px + dx if dx > 0 else px + dx - w
-            rect = (x0, py + dy, x0 + w, py + dy + h)
-            if not any(_overlap(rect, b) for b in lines):
-                choice = (dx, dy, rect)
-                break
-        if choice is not None:
-            break
-    if choice is None:
-        choice = (3, 3, (px + 3, py + 3, px + 3 + w, py + 3 + h))
-    dx, dy, rect = choice
+    anchor = lb.points(ax, (x, ax.get_ylim()[0]))
+    w, h = lb.text_width(text, st.FONT_NOTE), 1.3 * st.FONT_NOTE
+    frame = lb.frame(ax)
+    steps = [(dx, dy) for dy in np.arange(3.0, frame[3] - frame[1] - 30.0, 11.0)
+             for dx in (3, -3)]
+    dx, dy, rect = lb.first_fit(anchor, w, h, steps or [(3, 3)], lines, None)
     ax.annotate(text, xy=(x, 0.0), xycoords=("data", "axes fraction"), xytext=(dx, dy),
                 textcoords="offset points", ha="left" if dx > 0 else "right", va="bottom",
                 fontsize=st.FONT_NOTE, color=colour, zorder=8)
@@ -685,29 +597,22 @@ def _base_tag(ax, x, text, colour, lines=()):
 
 
 def _box_of(ax, x, text, size, drop):
-    px, py = _points(ax, (x, ax.get_ylim()[1]))
-    w = _text_width(text, size)
+    px, py = lb.points(ax, (x, ax.get_ylim()[1]))
+    w = lb.text_width(text, size)
     return (px - w / 2, py - drop - 1.4 * size, px + w / 2, py)
 
 
-def _whirl_short(label):
-    return {"forward": "fwd", "backward": "bwd"}.get(label, label)
-
-
 def _critical_text(crit):
-    return f"{st.whole(to_rpm(crit.speed))} rpm {crit.order:g}X {_whirl_short(crit.whirl)}"
+    return f"{st.whole(to_rpm(crit.speed))} rpm {crit.order:g}X {st.short_whirl(crit.whirl)}"
 
 
-def _place(ax, anchor, text, taken, offsets, frame, size=st.FONT_NOTE):
-    """The first offset (points) at which a label beside ``anchor`` fits; its box."""
-    w, h = _text_width(text, size) + 2, 1.3 * size
-    for dx, dy in offsets:
-        x0 = anchor[0] + dx if dx >= 0 else anchor[0] + dx - w
-        rect = (x0, anchor[1] + dy, x0 + w, anchor[1] + dy + h)
-        if _inside(rect, frame) and not any(_overlap(rect, t) for t in taken):
-            return dx, dy, rect
-    dx, dy = offsets[0]
-    return dx, dy, (anchor[0] + dx, anchor[1] + dy, anchor[0] + dx + w, anchor[1] + dy + h)
+def _speeds_text(speeds):
+    """Whole rpm of a group of crossings: "2500 rpm", "2500 / 2550 rpm", "2500\u20132600 rpm"."""
+    if len(speeds) == 1:
+        return f"{st.whole(speeds[0])} rpm"
+    if len(speeds) == 2:
+        return f"{st.whole(speeds[0])} / {st.whole(speeds[1])} rpm"
+    return f"{st.whole(speeds[0])}\u2013{st.whole(speeds[-1])} rpm"
 
 
 # Candidate label offsets from a crossing, points: beside it first, then further out.
@@ -720,66 +625,47 @@ def _label_crossings(ax, crossings, lines, taken):
     """Speed labels at the crossings, one per group of all but coinciding markers."""
     if not crossings:
         return []
-    frame = _frame(ax)
-    pts = [_points(ax, (c.stiffness, to_rpm(c.speed))) for c in crossings]
-    marks = [(p[0] - 4, p[1] - 4, p[0] + 4, p[1] + 4) for p in pts]
-    groups = []
-    for i in sorted(range(len(crossings)), key=lambda i: pts[i][0]):
-        for g in groups:
-            if any(np.hypot(*(pts[j] - pts[i])) < COINCIDE for j in g):
-                g.append(i)
-                break
-        else:
-            groups.append([i])
+    frame = lb.frame(ax)
+    pts = [lb.points(ax, (c.stiffness, to_rpm(c.speed))) for c in crossings]
+    obstacles = list(taken) + [(p[0] - 4, p[1] - 4, p[0] + 4, p[1] + 4) for p in pts]
+    order = sorted(range(len(crossings)), key=lambda i: pts[i][0])
+    h = 1.3 * st.FONT_NOTE
     labels = []
-    obstacles = list(taken) + marks
-    for g in groups:
-        speeds = sorted({int(round(float(to_rpm(crossings[i].speed)))) for i in g})
-        if len(speeds) == 1:
-            text = f"{st.whole(speeds[0])} rpm"
-        elif len(speeds) == 2:
-            text = f"{st.whole(speeds[0])} / {st.whole(speeds[1])} rpm"
-        else:
-            text = f"{st.whole(speeds[0])}\u2013{st.whole(speeds[-1])} rpm"
-        xs = [pts[i][0] for i in g]
-        ys = [pts[i][1] for i in g]
+    for g in lb.coinciding(pts, order, COINCIDE, chain=True):
+        text = _speeds_text(sorted({int(round(float(to_rpm(crossings[i].speed)))) for i in g}))
+        w = lb.text_width(text, st.FONT_NOTE) + 2
+        xs, ys = [pts[i][0] for i in g], [pts[i][1] for i in g]
         # a label for the group sits beside its outermost markers
         anchor_r = np.array([max(xs), float(np.mean(ys))])
         anchor_l = np.array([min(xs), float(np.mean(ys))])
         best = None
-        for soft in (True, False):
-            avoid = obstacles + (lines if soft else [])
-            for dx, dy in _CROSS_OFFSETS:
-                anchor = anchor_r if dx > 0 else anchor_l
-                dx_, dy_, rect = _place(ax, anchor, text, avoid, [(dx, dy)], frame)
-                if _inside(rect, frame) and not any(_overlap(rect, t) for t in avoid):
-                    best = (anchor, dx_, dy_, rect)
+        # clear of the curves where it can be, else of the other labels and markers only
+        for avoid in (obstacles + lines, obstacles):
+            for offset in _CROSS_OFFSETS:
+                anchor = anchor_r if offset[0] > 0 else anchor_l
+                dx, dy, rect = lb.first_fit(anchor, w, h, [offset], avoid, frame)
+                if lb.fits(rect, frame, avoid):
+                    best = (anchor, dx, dy, rect)
                     break
             if best is not None:
                 break
         if best is None:
-            best = (anchor_r,) + _place(ax, anchor_r, text, [], _CROSS_OFFSETS[:1], frame)
+            best = (anchor_r,) + lb.first_fit(anchor_r, w, h, _CROSS_OFFSETS[:1], [], frame)
         anchor, dx, dy, rect = best
         obstacles.append(rect)
-        h = 1.3 * st.FONT_NOTE
         data_xy = ax.transData.inverted().transform(anchor * ax.figure.dpi / 72.0)
-        far = abs(dy) > 15 or abs(dx) > 8
-        labels.append(ax.annotate(
-            text, xy=tuple(data_xy), xytext=(dx, dy + h / 2), textcoords="offset points",
-            ha="left" if dx > 0 else "right", va="center", fontsize=st.FONT_NOTE,
-            color=st.INK, zorder=8,
-            bbox=dict(boxstyle="round,pad=0.15", facecolor=st.PAPER, edgecolor="none",
-                      alpha=0.85),
-            arrowprops=dict(arrowstyle="-", color=st.MUTED, linewidth=0.6, shrinkA=0,
-                            shrinkB=4) if far else None))
+        labels.append(lb.leader_label(ax, text, tuple(data_xy), (dx, dy + h / 2),
+                                      abs(dy) > 15 or abs(dx) > 8, zorder=8))
     return labels
 
 
 def _label_modes(ax, k, rpm, top, lines, taken):
     """"mode n" beside each curve: at its stiff end, or where it leaves through the top."""
-    frame = _frame(ax)
+    frame = lb.frame(ax)
     labels = []
     obstacles = list(taken)
+    size = st.FONT_NOTE + 0.5
+    h = 1.3 * size
     for j in range(rpm.shape[1]):
         y = rpm[:, j]
         ok = np.isfinite(y) & np.isfinite(k) & (y < top)
@@ -793,24 +679,20 @@ def _label_modes(ax, k, rpm, top, lines, taken):
                 continue
             i = int(np.nonzero(ok)[0][-1])
         text = f"mode {j + 1}"
-        anchor = _points(ax, (k[i], y[i]))
+        anchor = lb.points(ax, (k[i], y[i]))
         if i == len(y) - 1:
             offsets = [(-4, 3), (-4, -13), (-30, 3), (-30, -13), (-60, 3), (-60, -13)]
         else:
             offsets = [(-6, 0), (6, -6), (-6, -12), (6, -18), (-12, -24)]
-        dx, dy, rect = _place(ax, anchor, text, obstacles + lines, offsets, frame,
-                              size=st.FONT_NOTE + 0.5)
-        if any(_overlap(rect, t) for t in obstacles) or not _inside(rect, frame):
-            dx, dy, rect = _place(ax, anchor, text, obstacles, offsets, frame,
-                                  size=st.FONT_NOTE + 0.5)
+        w = lb.text_width(text, size) + 2
+        dx, dy, rect = lb.first_fit(anchor, w, h, offsets, obstacles + lines, frame)
+        if not lb.fits(rect, frame, obstacles):
+            dx, dy, rect = lb.first_fit(anchor, w, h, offsets, obstacles, frame)
         obstacles.append(rect)
-        h = 1.3 * (st.FONT_NOTE + 0.5)
         labels.append(ax.annotate(
             text, xy=(k[i], y[i]), xytext=(dx, dy + h / 2), textcoords="offset points",
-            ha="left" if dx >= 0 else "right", va="center", fontsize=st.FONT_NOTE + 0.5,
-            color=st.INK, fontweight="bold", zorder=7,
-            bbox=dict(boxstyle="square,pad=0.1", facecolor=st.PAPER, edgecolor="none",
-                      alpha=0.8)))
+            ha="left" if dx >= 0 else "right", va="center", fontsize=size, color=st.INK,
+            fontweight="bold", zorder=7, bbox=st.paper_box()))
     taken.extend(obstacles[len(taken):])
     return labels
 
@@ -820,7 +702,7 @@ def _map_legend(ax, whirl, curves, colour_of, aliases, crossings, operating, win
     n_curves = {}
     for c in curves:
         n_curves[c.bearing] = n_curves.get(c.bearing, 0) + 1
-    key = _Key()
+    key = lb.Key()
     key.header("Critical speeds")
     key.add(Line2D([], [], color=st.INK, linewidth=1.9), f"undamped, {whirl} whirl, per mode")
     key.note("every bearing an isotropic spring")
@@ -856,11 +738,7 @@ def _map_legend(ax, whirl, curves, colour_of, aliases, crossings, operating, win
     if operating is not None or window is not None or base is not None:
         key.header("Ranges")
     if operating is not None:
-        key.add(Patch(facecolor=st.BAND_FILL, edgecolor=st.BAND_EDGE, linewidth=0.8),
-                "operating range")
-        if operating.trip_speed is not None:
-            key.add(Line2D([], [], color=st.BAND_EDGE, linewidth=0.9, linestyle=(0, (4, 2.5))),
-                    "trip speed")
+        key.operating(operating)
     if window is not None and window.base_passes:
         key.add(Patch(facecolor=WINDOW_FILL, alpha=WINDOW_ALPHA, edgecolor=WINDOW_EDGE,
                       linewidth=0.8), f"margins kept, {window.target} scaled")
@@ -874,8 +752,7 @@ def _map_legend(ax, whirl, curves, colour_of, aliases, crossings, operating, win
     if hidden:
         key.note(f"{hidden} mode{'s' if hidden > 1 else ''} above {st.whole(top)} rpm "
                  "not shown")
-    return _legend_beside(ax, key.handles, key.labels, key.headers, side_width + 12.0,
-                          key.muted)
+    return lb.legend_beside(ax, key, offset=side_width + 12.0)
 
 
 # --- variants' whirl-speed maps overlaid -------------------------------------------------
@@ -928,18 +805,21 @@ def variant_maps(comparison, operating=None, orders=(1.0,), ax=None, *, freq_max
     x_hi = float(speeds.max()) if speeds.size else 1.0
     if x_hi <= x_lo:
         x_hi = x_lo + 1.0
-    top = _variant_top(data, screenings, x_hi) if freq_max is None else float(freq_max)
+    criticals = [c for s in screenings for c in s.criticals]
+    top = frequency_top([freq for _, freq, _ in data], x_hi, criticals) if freq_max is None \
+        else float(freq_max)
     ax.set_xlim(x_lo, x_hi)
     ax.set_ylim(0.0, top)
 
     band = trip_line = None
     band_labels, rows = (), 0
     if operating is not None:
-        band, trip_line, band_labels, rows = _draw_operating_v(ax, operating)
+        band, trip_line, marks = st.operating_band(ax, operating)
+        band_labels, rows = lb.edge_labels(ax, marks)
 
     order_lines, order_labels = [], []
     for order in orders:
-        line, text = _draw_order(ax, order, x_lo, x_hi, top)
+        line, text = st.order_line(ax, order, x_lo, x_hi, top)
         order_lines.append(line)
         order_labels.append(text)
 
@@ -980,100 +860,25 @@ def variant_maps(comparison, operating=None, orders=(1.0,), ax=None, *, freq_max
         hidden_branches=hidden)
 
 
-def _variant_top(data, screenings, x_hi):
-    need = [1.1 * x_hi]
-    for speed, freq, _ in data:
-        if freq.ndim == 2 and freq.size:
-            with np.errstate(all="ignore"):
-                med = np.array([np.nanmedian(col) if np.isfinite(col).any() else np.nan
-                                for col in freq.T])
-            med = np.sort(med[np.isfinite(med)])
-            if med.size:
-                need.append(1.15 * float(med[:2].max()))
-    for s in screenings:
-        need.extend(1.08 * float(to_rpm(c.eigenvalue.imag)) for c in s.criticals)
-    top = max(need)
-    return top if math.isfinite(top) and top > 0 else 1.0
-
-
 def _whirl_runs(ax, speed, freq, whirl, colour, width, z):
     """A branch as runs of equal whirl label, each change half-way between two speeds."""
     pieces, kinds = [], []
-    n = len(speed)
     ok = np.isfinite(speed) & np.isfinite(freq) & (whirl != "")
-    i = 0
-    while i < n:
-        if not ok[i]:
-            i += 1
-            continue
-        k = i
-        while k + 1 < n and ok[k + 1] and whirl[k + 1] == whirl[i]:
-            k += 1
-        xs, ys = list(speed[i:k + 1]), list(freq[i:k + 1])
-        if i > 0 and ok[i - 1]:
-            xs.insert(0, 0.5 * (speed[i - 1] + speed[i]))
-            ys.insert(0, 0.5 * (freq[i - 1] + freq[i]))
-        if k + 1 < n and ok[k + 1]:
-            xs.append(0.5 * (speed[k] + speed[k + 1]))
-            ys.append(0.5 * (freq[k] + freq[k + 1]))
-        label = str(whirl[i])
+    for xs, ys, label in branch_runs(speed, freq, ok, whirl):
+        label = str(label)
         line, = ax.plot(xs, ys, color=colour, linestyle=st.WHIRL_STYLES.get(label, "-"),
                         linewidth=width, solid_capstyle="butt", dash_capstyle="butt", zorder=z)
         pieces.append(line)
         kinds.append(label)
-        i = k + 1
     return pieces, kinds
 
 
-def _draw_order(ax, order, x_lo, x_hi, top):
-    xs = np.array([x_lo, x_hi])
-    line, = ax.plot(xs, order * xs, color=st.MUTED, linewidth=0.9, zorder=2)
-    if order * x_hi <= top:
-        x = x_hi - 0.012 * (x_hi - x_lo)
-        y, va = order * x, "bottom"
-    else:
-        y = 0.97 * top
-        x, va = y / order, "center"
-    text = ax.text(x, y, f" {order:g}X ", fontsize=st.FONT_TICK, color=st.INK, ha="right",
-                   va=va, zorder=5, bbox=dict(boxstyle="square,pad=0.12", facecolor=st.PAPER,
-                                              edgecolor="none", alpha=0.85))
-    return line, text
-
-
-def _draw_operating_v(ax, operating):
-    lo, hi = to_rpm(operating.min_speed), to_rpm(operating.max_speed)
-    band = ax.add_patch(Rectangle((lo, 0.0), hi - lo, 1.0, transform=ax.get_xaxis_transform(),
-                                  facecolor=st.BAND_FILL, edgecolor="none", zorder=1))
-    for x in (lo, hi):
-        ax.axvline(x, color=st.BAND_EDGE, linewidth=0.9, zorder=1.5)
-    marks = [(lo, st.whole(lo)), (hi, st.whole(hi))]
-    trip = None
-    if operating.trip_speed is not None:
-        t = to_rpm(operating.trip_speed)
-        trip = ax.axvline(t, color=st.BAND_EDGE, linewidth=0.9, linestyle=(0, (4, 2.5)),
-                          zorder=1.5)
-        marks.append((t, f"trip {st.whole(t)}"))
-    placed, texts = [], []
-    for x, text in marks:
-        px = float(_points(ax, (x, 0.0))[0])
-        half = 0.5 * _text_width(text, st.FONT_NOTE)
-        row = 0
-        while any(r == row and abs(px - p) < half + h for p, h, r in placed):
-            row += 1
-        placed.append((px, half, row))
-        texts.append(ax.annotate(text, xy=(x, 1.0), xycoords=("data", "axes fraction"),
-                                 xytext=(0, 3 + 10 * row), textcoords="offset points",
-                                 ha="center", va="bottom", fontsize=st.FONT_NOTE,
-                                 color=st.BAND_EDGE, annotation_clip=False))
-    return band, trip, texts, 1 + max(r for _, _, r in placed)
-
-
 def _variant_legend(ax, names, colours, screenings, orders, operating, hidden, top):
-    key = _Key()
+    key = lb.Key()
     key.header("Variants: critical speeds (rpm)")
     for name, colour, s in zip(names, colours, screenings):
         crits = sorted(s.criticals, key=lambda c: c.speed)
-        items = [f"{st.whole(to_rpm(c.speed))} {_whirl_short(c.whirl)}" for c in crits]
+        items = [f"{st.whole(to_rpm(c.speed))} {st.short_whirl(c.whirl)}" for c in crits]
         if len(items) > MAX_LISTED:
             items = items[:MAX_LISTED - 1] + [f"+{len(crits) - MAX_LISTED + 1} more"]
         rows = [", ".join(items[i:i + 3]) for i in range(0, len(items), 3)] or \
@@ -1086,19 +891,11 @@ def _variant_legend(ax, names, colours, screenings, orders, operating, hidden, t
     for label in st.WHIRL_ORDER:
         key.add(Line2D([], [], color=st.MUTED, linewidth=1.6, linestyle=st.WHIRL_STYLES[label]),
                 label)
-    key.header("Lines")
-    key.add(Line2D([], [], color=st.MUTED, linewidth=0.9),
-            "excitation " + ", ".join(f"{o:g}X" for o in orders))
-    if operating is not None:
-        key.add(Patch(facecolor=st.BAND_FILL, edgecolor=st.BAND_EDGE, linewidth=0.8),
-                "operating range")
-        if operating.trip_speed is not None:
-            key.add(Line2D([], [], color=st.BAND_EDGE, linewidth=0.9, linestyle=(0, (4, 2.5))),
-                    "trip speed")
+    key.lines(orders, operating)
     if hidden:
         key.note(f"{hidden} branch{'es' if hidden > 1 else ''} above {st.whole(top)} cpm "
                  "not shown")
-    return _legend_beside(ax, key.handles, key.labels, key.headers, 10.0, key.muted)
+    return lb.legend_beside(ax, key, offset=10.0)
 
 
 # --- mode shapes at map points ------------------------------------------------------------
@@ -1188,19 +985,15 @@ def map_shapes(node_z, shapes, labels, ax=None, *, station_nodes=None):
                  loc="left", pad=pad)
     note = "the shaft at the instant of its largest orbit"
     room = (ax.get_window_extent().width * 72.0 / fig.dpi
-            - _text_width("Mode shapes on the critical-speed map", st.FONT_TITLE))
-    if _text_width(note, st.FONT_NOTE + 0.5) + 12 < room:
+            - lb.text_width("Mode shapes on the critical-speed map", st.FONT_TITLE))
+    if lb.text_width(note, st.FONT_NOTE + 0.5) + 12 < room:
         ax.set_title(note, fontsize=st.FONT_NOTE + 0.5, color=st.MUTED, loc="right", pad=pad)
     shown = [t if np.isfinite(s).all() else f"{t} (absent)" for s, t in zip(shapes, labels)]
     legend = None
     if lines:
-        where = offset_copy(ax.transAxes, fig=fig, y=-30, units="points")
-        legend = ax.legend(lines, shown, loc="upper center", bbox_to_anchor=(0.5, 0.0),
-                           bbox_transform=where, frameon=False,
-                           ncol=min(3, st.legend_columns(ax, shown, st.FONT_NOTE + 0.5)),
-                           fontsize=st.FONT_NOTE + 0.5, handlelength=2.6, columnspacing=1.6)
-        for text in legend.get_texts():
-            text.set_color(st.INK)
+        legend = lb.legend_below(ax, lines, shown, 30,
+                                 min(3, st.legend_columns(ax, shown, st.FONT_NOTE + 0.5)),
+                                 handlelength=2.6, columnspacing=1.6)
     return MapShapeArtists(figure=fig, ax=ax, lines=tuple(lines),
                            station_lines=tuple(station_lines), legend=legend)
 
@@ -1208,9 +1001,7 @@ def map_shapes(node_z, shapes, labels, ax=None, *, station_nodes=None):
 def _signed_deflection(shape):
     """Deflection at the instant the largest orbit is at its major semi-axis, peak +1.
 
-    For ``p(t) = Re([X, Y] e^{it})`` the squared radius at a node is largest at
-    ``t = -arg(X^2 + Y^2) / 2``; the shaft at that instant is projected on the
-    peak node's direction.  None for a shape with no finite, non-zero entry.
+    None for a shape with no finite, non-zero entry.
     """
     if not np.isfinite(shape).all():
         return None
@@ -1219,14 +1010,9 @@ def _signed_deflection(shape):
     peak = int(np.argmax(major))
     if major[peak] == 0:
         return None
-    px, py = shape[peak]
-    t = -0.5 * np.angle(px * px + py * py)
-    at = (shape * np.exp(1j * t)).real
-    u = at[peak]
-    norm = float(np.hypot(*u))
-    if norm == 0:
+    d, _ = snapshot(shape, peak)
+    if d is None:
         return None
-    d = at @ (u / norm)
     big = float(np.max(np.abs(d)))
     return d / big if big > 0 else None
 

@@ -8,8 +8,8 @@ from dataclasses import dataclass, field
 import numpy as np
 from matplotlib.lines import Line2D
 from matplotlib.patches import Patch, Polygon, Rectangle
-from matplotlib.transforms import offset_copy
 
+from . import _labels as lb
 from . import _style as st
 from ._geometry import MM, disk_size, shaft_diameter
 
@@ -26,7 +26,7 @@ _GROUND_HALF = 0.15
 _SEAL_W, _SEAL_H = 0.05, 0.07
 
 
-@dataclass
+@dataclass(frozen=True)
 class LayoutArtists:
     """What :func:`rotor_layout` drew.
 
@@ -124,7 +124,6 @@ def rotor_layout(rotor, ax=None, *, radial_scale=None):
     y_ground, ym, mm_per_in = frame.y_ground, frame.ym, frame.mm_per_in
     name_y, plan = frame.name_y, frame.plan
     st.style_axes(ax, grid=False)
-    out = LayoutArtists(figure=fig, ax=ax, radial_scale=f)
 
     ax.set_xlim(x_lo, x_hi)
     ax.set_ylim(y_bottom, y_top)
@@ -138,25 +137,23 @@ def rotor_layout(rotor, ax=None, *, radial_scale=None):
     ax.plot([x_lo + 0.01 * length, x_hi - 0.01 * length], [0, 0], color=st.MUTED,
             linewidth=0.6, linestyle=(0, (12, 3, 2, 3)), zorder=5)
 
-    _draw_sections(ax, rotor, z, out)
-    _draw_disks(ax, rotor, z, disk_sizes, out)
+    sections, bores = _draw_sections(ax, rotor, z)
+    disks = _draw_disks(ax, rotor, z, disk_sizes)
     _label_diameters(ax, rotor, z, disk_sizes, ym, mm_per_in)
-    for bearing in rotor.bearings:
-        if bearing.kind == "seal":
-            out.bearings.append(_draw_seal(ax, bearing, rotor, z, ym, mm_per_in))
-        else:
-            out.bearings.append(_draw_bearing(ax, bearing, rotor, z, y_ground, ym, mm_per_in))
+    bearings = [_draw_seal(ax, b, rotor, z, ym, mm_per_in) if b.kind == "seal" else
+                _draw_bearing(ax, b, rotor, z, y_ground, ym, mm_per_in) for b in rotor.bearings]
     _label_disks(ax, rotor, z, disk_sizes, plan)
     _label_bearings(ax, rotor, z, name_y)
-    out.station_axis = _station_axis(ax, rotor, z)
+    station_axis = _station_axis(ax, rotor, z)
 
     scale_note = "true scale" if f == 1 else f"radial scale \u00d7{f:g}"
     ax.set_title(rotor.name, fontsize=st.FONT_TITLE, color=st.INK, loc="left", pad=8)
     ax.set_title(f"length {length:.0f} mm \u00b7 rotor mass {rotor.mass:.1f} kg \u00b7 "
                  f"{scale_note}", fontsize=st.FONT_NOTE + 0.5, color=st.MUTED, loc="right",
                  pad=8)
-    out.legend = _legend(ax, rotor)
-    return out
+    return LayoutArtists(figure=fig, ax=ax, sections=sections, bores=bores, disks=disks,
+                         bearings=bearings, station_axis=station_axis, radial_scale=f,
+                         legend=_legend(ax, rotor))
 
 
 @dataclass(frozen=True)
@@ -204,7 +201,9 @@ def _frame(rotor, z, disk_sizes, f, width_in):
                   (y_top - y_bottom) / ym, name_y, plan)
 
 
-def _draw_sections(ax, rotor, z, out):
+def _draw_sections(ax, rotor, z):
+    """The sections' rectangles and the hidden-line pairs of their bores."""
+    sections, bores = [], []
     for i, s in enumerate(rotor.sections):
         r = s.outer_diameter * MM / 2
         hatch = "////" if s.added_mass > 0 else None
@@ -212,7 +211,7 @@ def _draw_sections(ax, rotor, z, out):
                          edgecolor=st.STEEL_EDGE, linewidth=0.8, hatch=hatch, zorder=2)
         _soft_hatch(rect)
         ax.add_patch(rect)
-        out.sections.append(rect)
+        sections.append(rect)
         if s.inner_diameter > 0:
             ri = s.inner_diameter * MM / 2
             ax.add_patch(Rectangle((z[i], -ri), z[i + 1] - z[i], 2 * ri, facecolor=st.BORE,
@@ -220,7 +219,8 @@ def _draw_sections(ax, rotor, z, out):
             lines = ax.plot([z[i], z[i + 1]], [ri, ri], [z[i], z[i + 1]], [-ri, -ri],
                             color=st.STEEL_EDGE, linewidth=0.7, linestyle=(0, (4, 2)),
                             zorder=2.2)
-            out.bores.append(lines)
+            bores.append(lines)
+    return sections, bores
 
 
 def _soft_hatch(patch):
@@ -231,12 +231,10 @@ def _soft_hatch(patch):
         patch.set_hatch_linewidth(0.5)
 
 
-def _draw_disks(ax, rotor, z, sizes, out):
-    for disk, (d, w) in zip(rotor.disks, sizes):
-        rect = Rectangle((z[disk.station] - w / 2, -d / 2), w, d, facecolor=st.DISK,
-                         edgecolor=st.STEEL_EDGE, linewidth=0.8, zorder=3)
-        ax.add_patch(rect)
-        out.disks.append(rect)
+def _draw_disks(ax, rotor, z, sizes):
+    return [ax.add_patch(Rectangle((z[disk.station] - w / 2, -d / 2), w, d, facecolor=st.DISK,
+                                   edgecolor=st.STEEL_EDGE, linewidth=0.8, zorder=3))
+            for disk, (d, w) in zip(rotor.disks, sizes)]
 
 
 def _label_diameters(ax, rotor, z, sizes, ym, xm):
@@ -340,22 +338,6 @@ def _draw_seal(ax, bearing, rotor, z, ym, xm):
     return artists
 
 
-def _rows(centres_pt, halves_pt, gap=3.0):
-    """Row index per label so that labels in one row do not touch."""
-    placed, rows = [], []
-    for c, h in zip(centres_pt, halves_pt):
-        row = 0
-        while any(r == row and abs(c - pc) < h + ph + gap for pc, ph, r in placed):
-            row += 1
-        placed.append((c, h, row))
-        rows.append(row)
-    return rows
-
-
-def _to_points(ax, x):
-    return ax.transData.transform((x, 0.0))[0] * 72.0 / ax.figure.dpi
-
-
 def _disk_label_plan(rotor, z, xm):
     """(disk index, text, row) of every disk label; rows keep neighbours apart."""
     order = sorted(range(len(rotor.disks)), key=lambda i: z[rotor.disks[i].station])
@@ -367,7 +349,7 @@ def _disk_label_plan(rotor, z, xm):
         texts.append(text)
         centres.append(z[disk.station] / xm * 72.0)
         halves.append(0.29 * st.FONT_NOTE * max(len(t) for t in text.split("\n")))
-    return list(zip(order, texts, _rows(centres, halves)))
+    return list(zip(order, texts, lb.stack_rows(centres, halves, gap=3.0)))
 
 
 #: Height of a two-line disk label and the step between label rows, points.
@@ -402,9 +384,9 @@ def _label_bearings(ax, rotor, z, name_y):
         return
     items = [rotor.bearings[i] for i in order]
     texts = [b.name or ("seal" if b.kind == "seal" else "bearing") for b in items]
-    centres = [_to_points(ax, z[b.station]) for b in items]
+    centres = [lb.points(ax, (z[b.station], 0.0))[0] for b in items]
     halves = [0.29 * st.FONT_NOTE * len(t) for t in texts]
-    rows = _rows(centres, halves)
+    rows = lb.stack_rows(centres, halves, gap=3.0)
     for i, b, text, row in zip(order, items, texts, rows):
         colour = st.SEAL if b.kind == "seal" else st.INK
         ax.annotate(text, xy=(z[b.station], name_y[i]),
@@ -457,11 +439,6 @@ def _legend(ax, rotor):
     if any(b.kind == "seal" for b in rotor.bearings):
         handles.append(Patch(facecolor=st.SEAL, edgecolor=st.SEAL))
         labels.append("seal")
-    where = offset_copy(ax.transAxes, fig=ax.figure, y=-34, units="points")
-    legend = ax.legend(handles, labels, loc="upper center", bbox_to_anchor=(0.5, 0.0),
-                       bbox_transform=where, frameon=False,
-                       ncol=st.legend_columns(ax, labels, st.FONT_NOTE + 0.5, 1.8, 1.6),
-                       fontsize=st.FONT_NOTE + 0.5, handlelength=1.8, columnspacing=1.6)
-    for text in legend.get_texts():
-        text.set_color(st.INK)
-    return legend
+    return lb.legend_below(ax, handles, labels, 34,
+                           st.legend_columns(ax, labels, st.FONT_NOTE + 0.5, 1.8, 1.6),
+                           handlelength=1.8, columnspacing=1.6)

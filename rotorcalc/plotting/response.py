@@ -20,17 +20,15 @@ from __future__ import annotations
 import math
 import os
 from dataclasses import dataclass
-from functools import lru_cache
 
 import numpy as np
 from matplotlib.figure import Figure
-from matplotlib.font_manager import FontProperties
 from matplotlib.lines import Line2D
-from matplotlib.patches import FancyArrowPatch, Patch, Rectangle
-from matplotlib.textpath import text_to_path
+from matplotlib.patches import FancyArrowPatch
 from matplotlib.ticker import FuncFormatter, MaxNLocator, NullFormatter
 
 from ..units import to_rpm
+from . import _labels as lb
 from . import _style as st
 
 #: One colour per probe station (and per speed in the orbit picture).
@@ -314,33 +312,6 @@ def _log_limits(lines, top):
     return 10.0 ** math.floor(math.log10(low)), 1.6 * top
 
 
-@lru_cache(maxsize=512)
-def _text_width(text, size, bold=False):
-    """Width of a label in points, from the font's metrics, plus a little padding."""
-    prop = FontProperties(size=size, weight="bold" if bold else "normal")
-    return float(text_to_path.get_text_width_height_descent(text, prop, ismath=False)[0]) + 3.0
-
-
-def _overlap(a, b):
-    return not (a[2] <= b[0] or b[2] <= a[0] or a[3] <= b[1] or b[3] <= a[1])
-
-
-def _in_frame(rect, frame):
-    return (rect[0] >= frame[0] and rect[2] <= frame[2] and rect[1] >= frame[1]
-            and rect[3] <= frame[3])
-
-
-def _frame_points(ax):
-    box = ax.get_window_extent()
-    k = 72.0 / ax.figure.dpi
-    return (box.x0 * k, box.y0 * k, box.x1 * k, box.y1 * k)
-
-
-def _points(ax, xy):
-    px = ax.transData.transform(xy)
-    return px * 72.0 / ax.figure.dpi
-
-
 def _nice_step(span, count):
     """A 1-2-5 step giving about ``count`` intervals over ``span``."""
     if not span > 0:
@@ -357,6 +328,14 @@ def _balanced_columns(n, most):
     """Legend columns: at most ``most``, the rows as evenly filled as can be."""
     rows = -(-n // most)
     return max(1, -(-n // rows))
+
+
+def _figure_legend(fig, handles, names, handlelength):
+    """A legend of the whole figure, centred along its bottom."""
+    return lb.ink(fig.legend(handles, names, loc="lower center", bbox_to_anchor=(0.5, 0.01),
+                             frameon=False, fontsize=st.FONT_NOTE + 0.5,
+                             handlelength=handlelength,
+                             ncol=_balanced_columns(len(names), 6), columnspacing=1.6))
 
 
 def _grid(n):
@@ -481,11 +460,11 @@ def bode(response, case_index=0, probes=None, operating=None, ax=None, *, log_am
     bands, trips, band_labels, rows = [], [], [], 0
     if operating is not None:
         for a in panels:
-            band, trip = _draw_operating(a, operating)
+            band, trip, marks = st.operating_band(a, operating, linewidth=0.8)
             bands.append(band)
             if trip is not None:
                 trips.append(trip)
-        band_labels, rows = _range_labels(amp_ax, operating)
+        band_labels, rows = lb.edge_labels(amp_ax, marks)
 
     markers, labels, bars, phase_marks = _draw_peaks(amp_ax, phase_ax, response, i, peaks,
                                                      looks, speeds, amp_lines)
@@ -526,41 +505,6 @@ def _break_wraps(x, lag):
     return x, lag
 
 
-def _draw_operating(ax, operating):
-    lo, hi = to_rpm(operating.min_speed), to_rpm(operating.max_speed)
-    band = ax.add_patch(Rectangle((lo, 0.0), hi - lo, 1.0, transform=ax.get_xaxis_transform(),
-                                  facecolor=st.BAND_FILL, edgecolor="none", zorder=1))
-    for x in (lo, hi):
-        ax.axvline(x, color=st.BAND_EDGE, linewidth=0.8, zorder=1.5)
-    trip = None
-    if operating.trip_speed is not None:
-        trip = ax.axvline(to_rpm(operating.trip_speed), color=st.BAND_EDGE, linewidth=0.8,
-                          linestyle=(0, (4, 2.5)), zorder=1.5)
-    return band, trip
-
-
-def _range_labels(ax, operating):
-    """The range's speeds just above the frame, stacked in rows where they would touch."""
-    lo, hi = to_rpm(operating.min_speed), to_rpm(operating.max_speed)
-    marks = [(lo, st.whole(lo)), (hi, st.whole(hi))]
-    if operating.trip_speed is not None:
-        trip = to_rpm(operating.trip_speed)
-        marks.append((trip, f"trip {st.whole(trip)}"))
-    placed, texts = [], []
-    for x, text in marks:
-        px = _points(ax, (x, 0.0))[0]
-        half = 0.5 * _text_width(text, st.FONT_NOTE)
-        row = 0
-        while any(r == row and abs(px - p) < half + h for p, h, r in placed):
-            row += 1
-        placed.append((px, half, row))
-        texts.append(ax.annotate(text, xy=(x, 1.0), xycoords=("data", "axes fraction"),
-                                 xytext=(0, 3 + 10 * row), textcoords="offset points",
-                                 ha="center", va="bottom", fontsize=st.FONT_NOTE,
-                                 color=st.BAND_EDGE, annotation_clip=False))
-    return texts, 1 + max(r for _, _, r in placed)
-
-
 #: Where an AF label may go, points from its peak marker: beside it first,
 #: then stepping up and down the side, where a leader line joins them.
 _AF_OFFSETS = ([(7, -4), (-7, -4), (7, 6), (-7, 6), (7, -14), (-7, -14)]
@@ -568,35 +512,20 @@ _AF_OFFSETS = ([(7, -4), (-7, -4), (7, 6), (-7, 6), (7, -14), (-7, -14)]
                   for s in (1, -1)])
 
 
-def _line_boxes(ax, xs, ys, pad=1.5, step=3.0):
-    """Small boxes (points) along a drawn polyline, so labels can keep off it."""
-    q = _points(ax, np.column_stack([xs, ys]))
-    q = q[np.all(np.isfinite(q), axis=1)]
-    boxes = []
-    for a, b in zip(q[:-1], q[1:]):
-        n = max(1, int(np.hypot(*(b - a)) // step))
-        for t in np.linspace(0.0, 1.0, n, endpoint=False):
-            x, y = a + t * (b - a)
-            boxes.append((x - pad, y - pad, x + pad, y + pad))
-    if len(q):
-        boxes.append((q[-1][0] - pad, q[-1][1] - pad, q[-1][0] + pad, q[-1][1] + pad))
-    return boxes
-
-
 def _draw_peaks(amp_ax, phase_ax, response, i, peaks, looks, speeds, lines):
     markers, labels, bars, phase_marks = [], [], [], []
     if not peaks:
         return markers, labels, bars, phase_marks
     size = st.FONT_NOTE + 0.5
-    frame = _frame_points(amp_ax)
-    points = [_points(amp_ax, (to_rpm(p.speed), UM * p.amplitude)) for _, p in peaks]
+    frame = lb.frame(amp_ax)
+    points = [lb.points(amp_ax, (to_rpm(p.speed), UM * p.amplitude)) for _, p in peaks]
     taken = [(q[0] - 4, q[1] - 4, q[0] + 4, q[1] + 4) for q in points]
     for line in lines:
-        taken += _line_boxes(amp_ax, *line.get_data())
+        taken += lb.line_boxes(amp_ax, *line.get_data())
     for _, p in peaks:
         if p.half_power is not None:
             y = UM * p.amplitude * HALF_POWER
-            taken += _line_boxes(amp_ax, [to_rpm(v) for v in p.half_power], [y, y], pad=3.0)
+            taken += lb.line_boxes(amp_ax, [to_rpm(v) for v in p.half_power], [y, y], pad=3.0)
     # The highest peaks choose first: they stand clear, the low ones can step aside.
     order = sorted(range(len(peaks)), key=lambda n: -peaks[n][1].amplitude)
     placed = {}
@@ -606,20 +535,10 @@ def _draw_peaks(amp_ax, phase_ax, response, i, peaks, looks, speeds, lines):
         tag = _direction_tag(response, k)
         if tag:
             text = f"{tag}  {text}"
-        w, h = _text_width(text, size), 1.25 * size
-        q = points[n]
-        choice = None
-        for dx, dy in _AF_OFFSETS:
-            x0 = q[0] + dx if dx > 0 else q[0] + dx - w
-            rect = (x0, q[1] + dy - h / 2, x0 + w, q[1] + dy + h / 2)
-            if _in_frame(rect, frame) and not any(_overlap(rect, t) for t in taken):
-                choice = (dx, dy, rect)
-                break
-        if choice is None:
-            dx, dy = _AF_OFFSETS[0]
-            choice = (dx, dy, (q[0] + dx, q[1] + dy - h / 2, q[0] + dx + w, q[1] + dy + h / 2))
-        taken.append(choice[2])
-        placed[n] = (text, choice[0], choice[1])
+        dx, dy, rect = lb.first_fit(points[n], lb.text_width(text, size), 1.25 * size,
+                                    _AF_OFFSETS, taken, frame, centred=True)
+        taken.append(rect)
+        placed[n] = (text, dx, dy)
 
     for n, (k, peak) in enumerate(peaks):
         colour, style = looks[k]
@@ -641,15 +560,9 @@ def _draw_peaks(amp_ax, phase_ax, response, i, peaks, looks, speeds, lines):
                                    markeredgecolor=colour if hollow else st.INK,
                                    markeredgewidth=0.9, zorder=6)[0])
         text, dx, dy = placed[n]
-        far = abs(dy) > 12 or abs(dx) > 10
-        labels.append(amp_ax.annotate(
-            text, xy=(x, y), xytext=(dx, dy), textcoords="offset points",
-            ha="left" if dx > 0 else "right", va="center", fontsize=st.FONT_NOTE + 0.5,
-            color=colour, zorder=7,
-            bbox=dict(boxstyle="round,pad=0.12", facecolor=st.PAPER, edgecolor="none",
-                      alpha=0.85),
-            arrowprops=dict(arrowstyle="-", color=colour, linewidth=0.6, shrinkA=0,
-                            shrinkB=3.5, alpha=0.8) if far else None))
+        labels.append(lb.leader_label(amp_ax, text, (x, y), (dx, dy),
+                                      abs(dy) > 12 or abs(dx) > 10, size=size, colour=colour,
+                                      pad=0.12, leader=colour, shrink=3.5, leader_alpha=0.8))
         if phase_ax is not None:
             value = _at_speed(speeds, response.probe_values[i, :, k], peak.speed)
             phase_marks.append(phase_ax.plot([x], _lag(np.array([value])), linestyle="none",
@@ -661,39 +574,31 @@ def _draw_peaks(amp_ax, phase_ax, response, i, peaks, looks, speeds, lines):
 
 
 def _bode_legend(ax, lines, operating, with_af, without_af, with_bars, created):
-    handles, labels = list(lines), [line.get_label() for line in lines]
+    key = lb.Key()
+    for line in lines:
+        key.add(line, line.get_label())
     if with_af:
-        handles.append(Line2D([], [], linestyle="none", marker="o", markersize=5.5,
-                              markerfacecolor=st.MUTED, markeredgecolor=st.INK,
-                              markeredgewidth=0.9))
-        labels.append("peak, with its amplification factor")
+        key.add(Line2D([], [], linestyle="none", marker="o", markersize=5.5,
+                       markerfacecolor=st.MUTED, markeredgecolor=st.INK, markeredgewidth=0.9),
+                "peak, with its amplification factor")
     if without_af:
-        handles.append(Line2D([], [], linestyle="none", marker="o", markersize=5.5,
-                              markerfacecolor=st.PAPER, markeredgecolor=st.MUTED,
-                              markeredgewidth=0.9))
-        labels.append("peak without both half-power points")
+        key.add(Line2D([], [], linestyle="none", marker="o", markersize=5.5,
+                       markerfacecolor=st.PAPER, markeredgecolor=st.MUTED, markeredgewidth=0.9),
+                "peak without both half-power points")
     if with_bars:
-        handles.append(Line2D([], [], color=st.MUTED, linewidth=1.1, marker="|",
-                              markersize=6, markeredgewidth=1.1))
-        labels.append("half-power bandwidth (at 0.707 of the peak)")
+        key.add(Line2D([], [], color=st.MUTED, linewidth=1.1, marker="|", markersize=6,
+                       markeredgewidth=1.1), "half-power bandwidth (at 0.707 of the peak)")
     if operating is not None:
-        handles.append(Patch(facecolor=st.BAND_FILL, edgecolor=st.BAND_EDGE, linewidth=0.8))
-        labels.append("operating range")
-        if operating.trip_speed is not None:
-            handles.append(Line2D([], [], color=st.BAND_EDGE, linewidth=0.8,
-                                  linestyle=(0, (4, 2.5))))
-            labels.append("trip speed")
+        key.operating(operating, linewidth=0.8)
     size = st.FONT_NOTE + 0.5
     if created:
-        legend = ax.legend(handles, labels, loc="upper left", bbox_to_anchor=(1.025, 1.0),
-                           borderaxespad=0.0, frameon=False, fontsize=size, handlelength=2.6,
-                           labelspacing=0.45)
+        legend = ax.legend(key.handles, key.labels, loc="upper left",
+                           bbox_to_anchor=(1.025, 1.0), borderaxespad=0.0, frameon=False,
+                           fontsize=size, handlelength=2.6, labelspacing=0.45)
     else:
-        legend = ax.legend(handles, labels, loc="best", frameon=True, framealpha=0.9,
+        legend = ax.legend(key.handles, key.labels, loc="best", frameon=True, framealpha=0.9,
                            edgecolor=st.GRID, fontsize=size, handlelength=2.4)
-    for text in legend.get_texts():
-        text.set_color(st.INK)
-    return legend
+    return lb.ink(legend)
 
 
 # --- polar plot ---------------------------------------------------------------------
@@ -812,16 +717,12 @@ def polar(response, case_index=0, probes=None, ax=None):
                                     markerfacecolor=st.MUTED, markeredgecolor=st.INK,
                                     markeredgewidth=0.9)]
     names = [line.get_label() for line in lines] + ["peak, with its speed"]
-    size = st.FONT_NOTE + 0.5
     if created:
-        legend = fig.legend(handles, names, loc="lower center", bbox_to_anchor=(0.5, 0.01),
-                            frameon=False, fontsize=size, handlelength=2.6,
-                            ncol=_balanced_columns(len(names), 6), columnspacing=1.6)
+        legend = _figure_legend(fig, handles, names, 2.6)
     else:
-        legend = ax.legend(handles, names, loc="upper left", bbox_to_anchor=(1.08, 1.0),
-                           borderaxespad=0.0, frameon=False, fontsize=size, handlelength=2.6)
-    for text in legend.get_texts():
-        text.set_color(st.INK)
+        legend = lb.ink(ax.legend(handles, names, loc="upper left", bbox_to_anchor=(1.08, 1.0),
+                                  borderaxespad=0.0, frameon=False, fontsize=st.FONT_NOTE + 0.5,
+                                  handlelength=2.6))
     return PolarArtists(figure=fig, ax=panels[0], axes=tuple(panels),
                         probes=tuple(response.probes[k].name for k in chosen),
                         lines=tuple(lines), speed_labels=tuple(speed_labels),
@@ -871,8 +772,8 @@ def _radius_labels(ax, curves, r_top):
     boxes = []
     th = math.radians(best)
     for r in ticks:
-        q = _points(ax, (th, r))
-        w, h = _text_width(st.signed(r, "g"), size), 1.3 * size
+        q = lb.points(ax, (th, r))
+        w, h = lb.text_width(st.signed(r, "g"), size), 1.3 * size
         boxes.append((q[0] - w / 2, q[1] - h / 2, q[0] + w / 2, q[1] + h / 2))
     return boxes
 
@@ -886,9 +787,9 @@ def _polar_label(ax, theta, r, text, colour, taken, bold=False, force=True):
     outward side is used anyway).
     """
     size = st.FONT_NOTE + (0.5 if bold else 0.0)
-    w, h = _text_width(text, size, bold), 1.25 * size
-    centre = _points(ax, (0.0, 0.0))
-    q = _points(ax, (theta, r))
+    w, h = lb.text_width(text, size, bold), 1.25 * size
+    centre = lb.points(ax, (0.0, 0.0))
+    q = lb.points(ax, (theta, r))
     d = q - centre
     norm = float(np.hypot(*d))
     u = d / norm if norm > 1e-9 else np.array([0.0, 1.0])
@@ -906,7 +807,7 @@ def _polar_label(ax, theta, r, text, colour, taken, bold=False, force=True):
         rect = (x0, y0, x0 + w, y0 + h)
         if chosen is None:
             chosen = (off, ha, va, rect)     # the outward side, if nothing is free
-        if not any(_overlap(rect, t) for t in taken):
+        if not any(lb.overlap(rect, t) for t in taken):
             chosen = (off, ha, va, rect)
             break
     else:
@@ -916,21 +817,20 @@ def _polar_label(ax, theta, r, text, colour, taken, bold=False, force=True):
     label = ax.annotate(text, xy=(theta, r), xytext=tuple(off), textcoords="offset points",
                         ha=ha, va=va, fontsize=size, color=colour if bold else st.INK,
                         fontweight="bold" if bold else "normal", zorder=7,
-                        bbox=dict(boxstyle="round,pad=0.1", facecolor=st.PAPER,
-                                  edgecolor="none", alpha=0.8))
+                        bbox=st.paper_box("round"))
     return label, rect
 
 
 def _angle_label_boxes(ax, r_top):
     """Rough boxes (points) of the angle labels outside the rim."""
     boxes = []
-    centre = _points(ax, (0.0, 0.0))
+    centre = lb.points(ax, (0.0, 0.0))
     for deg in range(0, 360, 45):
-        q = _points(ax, (math.radians(deg), r_top))
+        q = lb.points(ax, (math.radians(deg), r_top))
         d = q - centre
         u = d / (float(np.hypot(*d)) or 1.0)
         c = q + 13.0 * u
-        w, h = _text_width(f"{deg}\u00b0", st.FONT_TICK), 1.3 * st.FONT_TICK
+        w, h = lb.text_width(f"{deg}\u00b0", st.FONT_TICK), 1.3 * st.FONT_TICK
         boxes.append((c[0] - w / 2, c[1] - h / 2, c[0] + w / 2, c[1] + h / 2))
     return boxes
 
@@ -1083,17 +983,12 @@ def orbits(response, case_index=0, stations=None, ax=None):
         handles += [Line2D([], [], color=st.INK, linewidth=1.5, linestyle=st.WHIRL_STYLES[k])
                     for k in ("forward", "backward")]
         names += ["forward", "backward"]
-    size = st.FONT_NOTE + 0.5
     if created:
-        legend = fig.legend(handles, names, loc="lower center", bbox_to_anchor=(0.5, 0.01),
-                            frameon=False, fontsize=size, handlelength=2.4,
-                            ncol=_balanced_columns(len(names), 6), columnspacing=1.6)
+        legend = _figure_legend(fig, handles, names, 2.4)
     else:
-        legend = panels[0].legend(handles, names, loc="upper right", frameon=True,
-                                  framealpha=0.9, edgecolor=st.GRID, fontsize=size,
-                                  handlelength=2.0)
-    for text in legend.get_texts():
-        text.set_color(st.INK)
+        legend = lb.ink(panels[0].legend(handles, names, loc="upper right", frameon=True,
+                                         framealpha=0.9, edgecolor=st.GRID,
+                                         fontsize=st.FONT_NOTE + 0.5, handlelength=2.0))
     return OrbitArtists(figure=fig, ax=panels[0], axes=tuple(panels),
                         stations=tuple(stations), speeds=tuple(float(v) for v in rpm),
                         ellipses=tuple(ellipses), keyphasor_markers=tuple(dots),
@@ -1149,9 +1044,7 @@ def _zoom_inset(ax, amplitudes, forward, largest, scale):
     arrows = _draw_orbit_set(inset, amplitudes, forward, half, small=True)[2]
     inset.text(0.5, 0.97, f"\u00b1{st.signed(half, 'g')} \u00b5m  (\u00d7{scale / half:.3g})",
                transform=inset.transAxes, ha="center", va="top", fontsize=st.FONT_NOTE - 0.5,
-               color=st.MUTED, zorder=7,
-               bbox=dict(boxstyle="square,pad=0.1", facecolor=st.PAPER, edgecolor="none",
-                         alpha=0.8))
+               color=st.MUTED, zorder=7, bbox=st.paper_box())
     return inset, arrows
 
 

@@ -12,8 +12,9 @@ from matplotlib.transforms import ScaledTranslation, offset_copy
 
 from ..analysis.modes import whirl_senses
 from ..units import to_rpm
+from . import _labels as lb
 from . import _style as st
-from ._geometry import MM, disk_size, shaft_diameter
+from ._geometry import MM, disk_size, shaft_diameter, snapshot
 
 LINE = "#2d6fb4"
 ENVELOPE = "#dce7f3"
@@ -28,7 +29,7 @@ _BOTTOM = -2.08
 _OUTLINE_HALF = 0.30   # largest outline radius, in normalised units
 
 
-@dataclass
+@dataclass(frozen=True)
 class ModeShapeArtists:
     """What :func:`mode_shape` drew.
 
@@ -56,23 +57,6 @@ class ModeShapeArtists:
     orbits: list = field(default_factory=list)
     outline: list = field(default_factory=list)
     legend: object = None
-
-
-def _snapshot(shape, peak_node):
-    """Deflection at the instant the peak node is at the end of its major axis.
-
-    For ``p(t) = Re([X, Y] e^{it})`` the squared radius is largest at
-    ``t = -arg(X^2 + Y^2) / 2``.  Returns the deflections projected on the
-    peak node's direction at that instant (signed, so nodal points show).
-    """
-    x, y = shape[peak_node]
-    t = -0.5 * np.angle(x * x + y * y)
-    at = (shape * np.exp(1j * t)).real
-    u = at[peak_node]
-    norm = np.hypot(*u)
-    if norm == 0:
-        return np.zeros(len(shape)), t
-    return at @ (u / norm), t
 
 
 def mode_shape(modes, index, ax=None, rotor=None, *, orbits=True):
@@ -109,7 +93,6 @@ def mode_shape(modes, index, ax=None, rotor=None, *, orbits=True):
     if created:
         fig.subplots_adjust(left=0.08, right=0.97, bottom=0.2, top=0.86)
     st.style_axes(ax)
-    out = ModeShapeArtists(figure=fig, ax=ax)
 
     shape = np.asarray(modes.shapes[index])
     z = np.asarray(modes.node_z, dtype=float) * MM
@@ -118,8 +101,8 @@ def mode_shape(modes, index, ax=None, rotor=None, *, orbits=True):
     major = rf + rb
     peak_node = int(np.argmax(major))
     scale = float(major[peak_node]) or 1.0
-    line, instant = _snapshot(shape, peak_node)
-    line = line / scale
+    line, instant = snapshot(shape, peak_node)
+    line = (line if line is not None else np.zeros(len(shape))) / scale
 
     span = z[-1] - z[0] if len(z) > 1 else 1.0
     x_lo, x_hi = z[0], z[-1]
@@ -133,18 +116,17 @@ def mode_shape(modes, index, ax=None, rotor=None, *, orbits=True):
     ax.set_yticks([-1.0, -0.5, 0.0, 0.5, 1.0])
     ax.axhline(0.0, color=st.MUTED, linewidth=0.6, zorder=1)
 
-    if rotor is not None:
-        out.outline = _outline(ax, rotor)
+    outline = _outline(ax, rotor) if rotor is not None else []
 
-    out.envelope = ax.fill_between(z, -major / scale, major / scale, facecolor=ENVELOPE,
-                                   edgecolor=LINE, linewidth=0.5, alpha=0.6, zorder=2)
-    out.line, = ax.plot(z, line, color=LINE, linewidth=2.0, zorder=4)
-    out.line.set_solid_capstyle("round")
+    envelope = ax.fill_between(z, -major / scale, major / scale, facecolor=ENVELOPE,
+                               edgecolor=LINE, linewidth=0.5, alpha=0.6, zorder=2)
+    shaft, = ax.plot(z, line, color=LINE, linewidth=2.0, zorder=4)
+    shaft.set_solid_capstyle("round")
 
+    station_lines = []
     for node in stations:
-        out.station_lines.append(ax.plot([z[node], z[node]], [_SHAPE_BOTTOM, 1.1],
-                                         color=st.FAINT, linewidth=0.6,
-                                         linestyle=(0, (1.5, 2.0)), zorder=1.5)[0])
+        station_lines.append(ax.plot([z[node], z[node]], [_SHAPE_BOTTOM, 1.1], color=st.FAINT,
+                                     linewidth=0.6, linestyle=(0, (1.5, 2.0)), zorder=1.5)[0])
         ax.plot([z[node]], [line[node]], linestyle="none", marker="o", markersize=3.2,
                 markerfacecolor=st.PAPER, markeredgecolor=LINE, markeredgewidth=0.9,
                 zorder=5)
@@ -153,9 +135,10 @@ def mode_shape(modes, index, ax=None, rotor=None, *, orbits=True):
     ax.grid(False)
     for y in (-1.0, -0.5, 0.5, 1.0):
         ax.axhline(y, color=st.GRID, linewidth=0.7, zorder=0)
+    drawn = []
     if orbits:
         ax.axhline(_STRIP_SPLIT, color=st.FAINT, linewidth=0.8, zorder=1)
-        out.orbits = _orbits(ax, shape, z, stations, major, scale, instant)
+        drawn = _orbits(ax, shape, z, stations, major, scale, instant)
     else:
         for k, node in enumerate(stations):
             ax.annotate(str(k), xy=(z[node], _SHAPE_BOTTOM), xytext=(0, -2),
@@ -173,8 +156,9 @@ def mode_shape(modes, index, ax=None, rotor=None, *, orbits=True):
             fontsize=st.FONT_LABEL - 0.5, color=st.MUTED, ha="left", va="bottom")
     ax.set_xlabel("Axial position (mm)", fontsize=st.FONT_LABEL, color=st.INK)
     ax.set_ylabel("Deflection, normalised", fontsize=st.FONT_LABEL, color=st.INK)
-    out.legend = _legend(ax, rotor is not None, orbits)
-    return out
+    return ModeShapeArtists(figure=fig, ax=ax, envelope=envelope, line=shaft,
+                            station_lines=station_lines, orbits=drawn, outline=outline,
+                            legend=_legend(ax, rotor is not None, orbits))
 
 
 def _outline(ax, rotor):
@@ -280,11 +264,6 @@ def _legend(ax, with_outline, with_orbits):
     if with_outline:
         handles.append(Patch(facecolor=st.FAINT, alpha=0.35, edgecolor="none"))
         labels.append("rotor outline (radius not to scale)")
-    where = offset_copy(ax.transAxes, fig=ax.figure, y=-32, units="points")
-    legend = ax.legend(handles, labels, loc="upper center", bbox_to_anchor=(0.5, 0.0),
-                       bbox_transform=where, frameon=False,
-                       ncol=st.legend_columns(ax, labels, st.FONT_NOTE + 0.5),
-                       fontsize=st.FONT_NOTE + 0.5, handlelength=2.0, columnspacing=1.4)
-    for text in legend.get_texts():
-        text.set_color(st.INK)
-    return legend
+    return lb.legend_below(ax, handles, labels, 32,
+                           st.legend_columns(ax, labels, st.FONT_NOTE + 0.5),
+                           handlelength=2.0, columnspacing=1.4)

@@ -5,6 +5,7 @@ in about a second.
 """
 
 import ast
+import dataclasses
 from pathlib import Path
 
 import matplotlib
@@ -292,6 +293,12 @@ def test_layout_on_given_axes():
     ax = fig.add_subplot()
     out = rotor_layout(_rotor(), ax=ax)
     assert out.ax is ax and out.figure is fig
+
+
+def test_whirl_map_mode_shape_and_layout_results_are_frozen():
+    for out in (whirl_speed_map(_sweep()), mode_shape(_modes(), 0), rotor_layout(_rotor())):
+        with pytest.raises(dataclasses.FrozenInstanceError):
+            out.legend = None
 
 
 # --- saving --------------------------------------------------------------------------

@@ -235,6 +235,15 @@ def test_map_of_a_tiny_computed_rotor():
     assert len(out.crossings) == len(cmap.crossings)
 
 
+def test_map_without_ranges_or_curves_scales_to_its_lowest_modes():
+    bare = dataclasses.replace(_map(), curves=(), crossings=())
+    out = critical_speed_map(bare)
+    # medians of modes 1 and 2: 2000 and 5937.5 rpm (one point of mode 2 is absent)
+    mode2 = np.delete(np.linspace(2000.0, 9000.0, 9), 3)
+    assert np.isclose(out.speed_max, pc.HEADROOM * np.median(mode2))
+    assert out.curves == () and out.crossings == () and out.crossing_labels == ()
+
+
 # --- variants overlaid ---------------------------------------------------------------------
 
 def test_variants_return_frozen_artists_one_colour_each():
@@ -342,3 +351,4 @@ def test_exported_from_the_plotting_package():
     for name in ("critical_speed_map", "variant_maps", "map_shapes", "map_point_label",
                  "CriticalMapArtists", "VariantMapArtists", "MapShapeArtists"):
         assert name in rotorcalc.plotting.__all__ and hasattr(rotorcalc.plotting, name)
+
