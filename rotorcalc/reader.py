@@ -420,11 +420,21 @@ def _unbalance_cases(table, names, n_sections, rotor_mass, max_speed):
             station = _station(w, wk, names, n_sections)
             amount = _unbalance_amount(w, wk, multiple * standards.residual_unbalance(
                 carried, max_speed))
-            phase = _quantity(w, "phase", u.ANGLE, wk, default=0.0)
+            phase = _angle(w, "phase", wk)
             weights.append(UnbalanceWeight(station, amount, phase, key=wk))
         cases.append(UnbalanceCase(case_name, tuple(weights),
                                    _string(entry, "description", where, default=""), key=where))
     return tuple(cases)
+
+
+def _angle(table, key, where):
+    """An angle with a unit; a bare number other than 0 is refused (90 would be radians)."""
+    value = table.get(key, 0.0)
+    if isinstance(value, (int, float)) and not isinstance(value, bool) and value != 0:
+        raise InputError(_path(where, key), "needs a unit", value=value,
+                         expected=f'an angle such as "{value:g} deg" or "{value:g} rad"',
+                         kind="unit")
+    return u.parse(value, u.ANGLE, _path(where, key))
 
 
 def _unbalance_amount(w, where, residual):
@@ -434,7 +444,7 @@ def _unbalance_amount(w, where, residual):
         raise InputError(f"{where}.amount", "is given together with mass and radius",
                          expected="either amount, or mass and radius", kind="conflict")
     if "amount" in w:
-        if isinstance(w["amount"], str) and w["amount"].strip() == "residual":
+        if isinstance(w["amount"], str) and w["amount"].strip().lower() == "residual":
             return residual
         return u.parse(w["amount"], u.UNBALANCE, f"{where}.amount")
     if not given:
@@ -450,7 +460,7 @@ def _probe(table, i, names, n_sections):
     where = f"probe[{i}]"
     check_keys(table, PROBE_KEYS, where)
     station = _station(table, where, names, n_sections)
-    angle = _quantity(table, "angle", u.ANGLE, where, default=0.0)
+    angle = _angle(table, "angle", where)
     return Probe(station, angle, _string(table, "name", where, default=f"P{i + 1}"), key=where)
 
 

@@ -10,6 +10,7 @@ import math
 from dataclasses import dataclass
 
 from .errors import InputError
+from .units import to_rpm
 
 
 @dataclass(frozen=True)
@@ -95,4 +96,5 @@ class ResponseSettings:
         if (self.speed_from is not None and self.speed_to is not None
                 and self.speed_to <= self.speed_from):
             raise InputError("response.speed_to", "must be above speed_from",
-                             value=self.speed_to, kind="order")
+                             value=f"{to_rpm(self.speed_to):.6g} rpm",
+                             expected=f"above {to_rpm(self.speed_from):.6g} rpm", kind="order")

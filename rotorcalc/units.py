@@ -67,7 +67,9 @@ def parse(value, dim: Dimension, key: str) -> float:
     InputError
         When the text is not a quantity, has the wrong dimension, or is not finite.
     """
-    expected = f"a {dim.name}: a number in {dim.si_unit} or text with a unit such as {dim.examples}"
+    article = "an" if dim.name[0] in "aeiou" else "a"
+    expected = (f"{article} {dim.name}: a number in {dim.si_unit} or text with a unit such as "
+                f"{dim.examples}")
     if isinstance(value, bool):
         raise InputError(key, "is a true/false value, not a number", value=value,
                          expected=expected, kind="type")
@@ -115,7 +117,8 @@ def _to_si(quantity, dim, key, text, expected):
     try:
         return float(quantity.to(dim.si_unit).magnitude)
     except pint.DimensionalityError:
-        raise InputError(key, f"has units of {quantity.dimensionality}, not a {dim.name}",
+        article = "an" if dim.name[0] in "aeiou" else "a"
+        raise InputError(key, f"has units of {quantity.dimensionality}, not {article} {dim.name}",
                          value=text, expected=expected, kind="unit") from None
 
 

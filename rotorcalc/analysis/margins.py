@@ -244,16 +244,16 @@ def separation_margins(criticals, operating: OperatingRange, rule: MarginRule,
         need = required_margin(rule, af, side)
         verdict = _verdict(rule, crit, af, margin, need, judge_backward)
         extra = {}
-        if peaks is not None:
+        if peaks is not None and crit.order == 1.0:  # unbalance drives 1X only
             mine = assigned[index]
             factors = [p.af for p in mine if p.af is not None]
             if not mine:
                 extra = dict(verdict_response="no peak" if crit.log_dec > 0 else "fail")
             elif not factors:
-                # no half-power points on any matched peak: too flat to measure
-                extra = dict(af_response=None, required_response=0.0,
-                             verdict_response="critically damped" if crit.log_dec > 0
-                             else "fail", peaks=mine)
+                # no half-power points on any matched peak (too flat, or running into a
+                # neighbouring peak): no measured AF, so the log-decrement verdict stands
+                extra = dict(af_response=None, required_response=need,
+                             verdict_response=verdict, peaks=mine)
             else:
                 af_r = max(factors)
                 need_r = required_margin(rule, af_r, side)
@@ -270,7 +270,7 @@ def separation_margins(criticals, operating: OperatingRange, rule: MarginRule,
         notes.append(f"the sweep reaches only {reach:.0f}% above the maximum continuous speed; "
                      f"criticals up to {worst_above:.0f}% above it may need checking")
     if peaks is not None and any(r.verdict_response == "no peak" and r.critical.whirl != "backward"
-                                 for r in rows):
+                                 and r.critical.order == 1.0 for r in rows):
         notes.append("some forward criticals show no response peak: the unbalance cases given "
                      "do not excite them at the probes; add a case that does")
     return MarginTable(tuple(rows), operating, rule, float(sweep_top), tuple(notes))

@@ -98,11 +98,13 @@ def unbalance_forces(system: SystemMatrices, cases):
 
 
 def default_probes(rotor):
-    """The probes given, or an x and a y probe at every bearing station."""
+    """The probes given, or an x and a y probe at every bearing station (not at seals)."""
     if rotor.probes:
         return tuple(rotor.probes)
     out = []
     for i, b in enumerate(rotor.bearings):
+        if b.kind == "seal":
+            continue
         label = b.name or f"B{i + 1}"
         out.append(Probe(b.station, 0.0, f"{label} x"))
         out.append(Probe(b.station, math.pi / 2, f"{label} y"))
@@ -118,7 +120,8 @@ def response_speeds(rotor):
     stop = base[-1] if r.speed_to is None else r.speed_to
     if stop <= start:
         raise InputError("response.speed_from", "is not below the top of the response sweep",
-                         value=f"{to_rpm(start):.6g} rpm", kind="order")
+                         value=f"{to_rpm(start):.6g} rpm",
+                         expected=f"a speed below {to_rpm(stop):.6g} rpm", kind="order")
     grid = np.linspace(start, stop, r.speed_count)
     op = rotor.operating
     extra = [v for v in (op.min_speed, op.max_speed, op.trip_speed)
