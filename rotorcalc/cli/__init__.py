@@ -17,7 +17,8 @@ matplotlib.use("Agg")  # no screen needed; pictures go to files
 
 import typer  # noqa: E402
 
-from . import check, criticals, layout, modes, response, sweep, whatif  # noqa: E402
+from . import (check, compare, criticals, layout, levers, modes, response,  # noqa: E402
+               stiffness_map, sweep, window)
 
 app = typer.Typer(
     add_completion=False, no_args_is_help=True, rich_markup_mode="rich",
@@ -26,7 +27,8 @@ app = typer.Typer(
          "Screening only: confirm against the applicable standard, the purchase specification, "
          "local codes and a licensed engineer's review.")
 
-for module in (modes, sweep, criticals, check, response, layout, whatif):
+for module in (modes, sweep, criticals, check, response, layout, stiffness_map, compare, window,
+               levers):
     module.register(app)
 
 

@@ -1,0 +1,166 @@
+"""``rotorcalc compare``: a rotor and its variants (a variants file or ``--vary``), side by
+side."""
+
+from __future__ import annotations
+
+import time
+from pathlib import Path
+from typing import List, Optional
+
+import typer
+from rich.markup import escape
+
+from ..analysis.margins import CAUTION
+from ..errors import InputError
+from ..output import file_hash
+from ..reader import load_toml
+from ..tables import comparison_columns
+from ..units import to_rpm
+from .common import (console, fail_input, input_errors, load, print_table, print_warnings,
+                     save_figure, write_outputs)
+from .criticals import apply_overrides
+from .whatif_common import (check_outputs, command_help, critical_text, plotting_function,
+                            progress_bar)
+
+COMPARE_EXAMPLE = ("[bold]Example[/]: rotorcalc compare cases/feed_pump_variants.toml "
+                   "--plot variants.png --csv variants.csv")
+
+
+def read_study(path, vary):
+    """(case file for provenance, base path, rotor, variants) from a variants file or a rotor
+    file plus ``--vary`` options."""
+    from ..variants import apply_variant, read_variants, variant_from_option
+    with input_errors():
+        try:
+            data = load_toml(path.read_text(encoding="utf-8"), str(path))
+        except OSError:
+            data = {}  # let the reader report the file
+        if "base" in data:
+            base_path, rotor, variants = read_variants(path)
+        else:
+            base_path, rotor, variants = path, load(path), ()
+        extra = tuple(variant_from_option(text, i) for i, text in enumerate(vary))
+        for i, variant in enumerate(extra):
+            try:
+                apply_variant(rotor, variant)  # a change that does not fit: report it now
+            except InputError as err:
+                if err.key.startswith("--vary"):
+                    raise
+                # the rebuilt model names its own key (operating.trip_speed): say which option
+                raise err.with_location(file=f"--vary[{i}] ({variant.name})") from None
+    variants = variants + extra
+    if not variants:
+        fail_input(InputError("--vary", "is needed: the file is a rotor, not a variants file",
+                              value=str(path), expected='a variants file (with base = "...") '
+                              'or --vary "NAME: bearing.*.k *= 0.7"', kind="missing"))
+    seen = {"base"}
+    for i, v in enumerate(variants):
+        if v.name in seen:
+            fail_input(InputError(f"variant[{i}].name", "is used twice or is 'base' (the "
+                                  "name of the rotor as described)", value=v.name,
+                                  expected="a name of its own for each variant",
+                                  kind="duplicate"))
+        seen.add(v.name)
+    return base_path, rotor, variants
+
+
+def comparison_notes(comparison):
+    """Unstable criticals, and base criticals that need a margin but have no counterpart."""
+    notes = []
+    for r in comparison.rows:
+        if r.row.critical.log_dec <= 0:
+            notes.append(f"{r.variant}: UNSTABLE critical at {critical_text(r.row.critical)}")
+    base_rows = [r for r in comparison.screenings[0].margins.rows
+                 if r.verdict in ("pass", "fail") or not r.passed]
+    for name in comparison.names[1:]:
+        matched = {r.base_speed for r in comparison.rows if r.variant == name}
+        gone = [r.critical for r in base_rows if r.critical.speed not in matched]
+        if gone:
+            notes.append(f"{name}: no critical within 30 % of the base critical"
+                         f"{'s' if len(gone) > 1 else ''} "
+                         + ", ".join(critical_text(c) for c in gone)
+                         + " with the same whirl (it moved further, changed whirl, or left "
+                           "the sweep)")
+    return notes
+
+
+def merged_warnings(comparison):
+    """The screenings' warnings, each once, naming the variants that gave it."""
+    where = {}
+    for name, s in zip(comparison.names, comparison.screenings):
+        for w in s.sweep.warnings:
+            where.setdefault(w, []).append(name)
+    out = []
+    for w, names in where.items():
+        label = "all variants" if len(names) == len(comparison.names) else ", ".join(names)
+        out.append(f"({label}) {w}")
+    return tuple(out)
+
+
+def command(
+    case: Path = typer.Argument(..., help='A variants file (TOML with base = "rotor.toml" and '
+                                          '[[variant]] tables) or a rotor file with --vary.'),
+    vary: Optional[List[str]] = typer.Option(
+        None, "--vary", help='A variant "NAME: change; change", e.g. "worn: bearing.*.k *= 0.6; '
+                             'bearing.*.c *= 0.7"; may be repeated.'),
+    points: Optional[int] = typer.Option(None, "--points", min=3,
+                                         help="Number of sweep speeds per screening."),
+    plot: Optional[Path] = typer.Option(None, "--plot",
+                                        help="Write the overlaid whirl-speed maps."),
+    json_path: Optional[Path] = typer.Option(None, "--json",
+                                             help="Write the comparison as JSON."),
+    csv_path: Optional[Path] = typer.Option(None, "--csv", help="Write the comparison as CSV."),
+):
+    """Compare variants of one rotor: every critical speed of the rotor as described ('base')
+    and of each variant, with whirl, log dec, margin, verdict and the change against the base.
+    Informational: exits 0 whatever the verdicts."""
+    check_outputs(case, {"--plot": plot, "--json": json_path, "--csv": csv_path})
+    base_path, rotor, variants = read_study(case, vary or [])
+    check_outputs(base_path, {"--plot": plot, "--json": json_path, "--csv": csv_path})
+    rotor = apply_overrides(rotor, points=points)
+    from ..analysis.whatif import compare
+    started = time.perf_counter()
+    with progress_bar(f"screening the base and {len(variants)} variant(s)",
+                      len(variants) + 1) as bar, \
+            input_errors():
+        comparison = compare(rotor, variants, progress=bar)
+    elapsed = time.perf_counter() - started
+    summary = [("base", "the rotor as described", comparison.screenings[0])] + [
+        (v.name, "; ".join(c.text for c in v.changes), s)
+        for v, s in zip(variants, comparison.screenings[1:])]
+    from ..tables import Column
+    print_table(f"{rotor.name}: variants", [
+        Column("Variant", lambda r: r[0], "{}"),
+        Column("Changes", lambda r: r[1], "{}"),
+        Column("Criticals", lambda r: len(r[2].margins.rows), "{:d}"),
+        Column("Screening", lambda r: "passes" if r[2].passed else "FAILS", "{}"),
+    ], summary, caption="Screening: every margin verdict (log dec and, with unbalance cases, "
+                        "response based) and the response limits, as 'check' judges them.")
+    op = rotor.operating
+    print_table(f"Critical speeds of each variant (base operating range "
+                f"{to_rpm(op.min_speed):.0f}-{to_rpm(op.max_speed):.0f} rpm)",
+                comparison_columns(comparison), comparison.rows,
+                caption="Change: against the base critical of the same order and whirl nearest "
+                        "in speed (within 30 % of the variant's). Margins are against each "
+                        "variant's own operating range.")
+    for note in comparison_notes(comparison):
+        console.print(f"[yellow]note[/] {escape(note)}", highlight=False)
+    warnings = merged_warnings(comparison)
+    print_warnings(warnings)
+    console.print(f"[dim]{len(comparison.names)} screenings in {elapsed:.1f} s. {CAUTION}[/]",
+                  highlight=False)
+    document = comparison.to_dict()
+    document["base_file"] = {"path": str(base_path), "sha256": file_hash(base_path)}
+    document["changes"] = {v.name: [c.text for c in v.changes] for v in variants}
+    document["caution"] = CAUTION
+    write_outputs("compare", case, document, warnings, json_path, csv_path,
+                  comparison_columns(comparison), comparison.rows)
+    if plot is not None:
+        draw = plotting_function("variant_maps")
+        if draw is not None:
+            drawing = draw(comparison, operating=op)
+            save_figure(drawing.figure, plot)
+
+
+def register(app: typer.Typer):
+    app.command("compare", help=command_help(command, COMPARE_EXAMPLE))(command)
