@@ -10,15 +10,31 @@ mass diagonal one, and ``v = q_hat' / s`` for a reference frequency ``s``,
 
 whose blocks are of like size, so the QZ/Schur step keeps its digits for the
 low modes (docs/theory.md).
+
+Two strategies share that pencil: :class:`DenseSolver` (every eigenvalue by
+LAPACK, cubic in the model size) and :class:`SparseSolver` (shift-invert
+Arnoldi for the lowest modes only, a banded LU of the shifted quadratic,
+about linear in the model size, with a check that no mode of the band was
+missed).  :class:`AutoSolver` picks one by size; :func:`make_solver` builds
+any of them by name.  Every solver is called as
+``solver(m, d_mat, k, n_modes, near=None)`` and returns :class:`Eigenpairs`;
+with ``near`` (rad/s, complex) it returns the ``n_modes`` modes nearest that
+value instead of the lowest ones.
 """
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 import numpy as np
 import scipy.linalg as la
+import scipy.linalg.lapack as lapack
 import scipy.sparse as sp
+import scipy.sparse.linalg as spla
+from scipy.sparse.csgraph import reverse_cuthill_mckee
+
+from .units import to_hz
 
 
 @dataclass(frozen=True)
@@ -28,13 +44,19 @@ class Eigenpairs:
     ``real_eigenvalues`` holds the finite non-oscillatory ones (overdamped
     motion), which have no whirl frequency; ``rigid_body`` counts the
     state-space eigenvalues that are zero to within roundoff (two per
-    rigid-body degree of freedom of an unsupported rotor).
+    rigid-body degree of freedom of an unsupported rotor).  A sparse solve
+    finds only the eigenvalues within ``complete_within`` (rad/s) of its shift
+    (every one of them; ``inf`` for the dense solve), so its real and zero
+    eigenvalues are those within that radius.  ``warnings`` says when a
+    solve could not prove that it missed no mode.
     """
 
     values: np.ndarray
     vectors: np.ndarray
     real_eigenvalues: np.ndarray
     rigid_body: int = 0
+    complete_within: float = math.inf
+    warnings: tuple = ()
 
 
 #: Eigenvalues below this fraction of the scaled pencil's reference frequency
@@ -86,6 +108,23 @@ def scaled_pencil(m, d_mat, k):
     return a, b, scale, ref
 
 
+def _classify(values, ref):
+    """Masks of the zero, oscillatory (Im > 0) and real eigenvalues."""
+    size = np.abs(values)
+    zero = size < ZERO_EIGENVALUE * ref
+    oscillatory = (values.imag > OSCILLATORY * size) & ~zero
+    real = (np.abs(values.imag) <= OSCILLATORY * size) & ~zero
+    return zero, oscillatory, real
+
+
+def _pick(values, n_modes, near):
+    """Indices of the ``n_modes`` lowest modes, or of those nearest ``near``; ascending by Im."""
+    if near is None:
+        return np.argsort(values.imag)[:n_modes]
+    order = np.argsort(np.abs(values - near), kind="stable")[:n_modes]
+    return order[np.argsort(values[order].imag, kind="stable")]
+
+
 class DenseSolver:
     """All eigenvalues of the scaled state-space pencil by LAPACK.
 
@@ -95,7 +134,7 @@ class DenseSolver:
 
     name = "dense"
 
-    def __call__(self, m, d_mat, k, n_modes):
+    def __call__(self, m, d_mat, k, n_modes, near=None):
         a, b, scale, ref = scaled_pencil(m, d_mat, k)
         n = m.shape[0]
         mass_diag = m.diagonal()
@@ -110,21 +149,294 @@ class DenseSolver:
             values, vectors = la.eig(a, b, check_finite=False)
         finite = np.isfinite(values)
         values, vectors = values[finite], vectors[:, finite]
-        size = np.abs(values)
-        zero = size < ZERO_EIGENVALUE * ref
-        oscillatory = (values.imag > OSCILLATORY * size) & ~zero
-        real = values[(np.abs(values.imag) <= OSCILLATORY * size) & ~zero].real
+        zero, oscillatory, real = _classify(values, ref)
+        real = values[real].real
         values, vectors = values[oscillatory], vectors[:, oscillatory]
-        order = np.argsort(values.imag)[:n_modes]
+        order = _pick(values, n_modes, near)
         q = vectors[:n, order] / scale[:, None]
         return Eigenpairs(values[order], q, np.sort(real), int(zero.sum()))
 
 
-SOLVERS = {"dense": DenseSolver}
+# --- sparse shift-invert ----------------------------------------------------------------
+
+#: The real shift of the lowest-modes solve, a fraction of the reference
+#: frequency: positive, so ``K + sigma D + sigma^2 M`` is regular even for a
+#: rotor with rigid-body modes, and far below any mode of interest.
+SHIFT = 1e-9
+#: The disk about the shift in which every eigenvalue must be found reaches
+#: this factor beyond the highest requested mode, so that a mode of the band
+#: can lie outside it only with a damping ratio above sqrt(1 - 1/RADIUS_RATIO^2)
+#: (0.30, log decrement 2.0, an estimated amplification factor below 1.6, where
+#: the margin rule asks no margin): see docs/theory.md, section 3.1.
+RADIUS_RATIO = 1.05
+#: Eigenvalues asked for beyond two per requested mode (a mode and its
+#: conjugate) in the first Arnoldi run: the guard band and a few real
+#: (overdamped) eigenvalues; measured to suffice at most speeds of the
+#: benchmark rotors, a retry with a larger disk costing a whole solve.
+FIRST_EXTRA = 8
+#: Relative residual tolerance of the Arnoldi iteration (ARPACK's ``tol``).
+ARNOLDI_TOL = 1e-10
+#: Largest accepted relative backward error of a returned mode.
+RESIDUAL_LIMIT = 1e-8
+#: Solves with a larger disk before the result is returned with a warning.
+ATTEMPTS = 3
+#: Eigenvalues solved beyond the requested ones in a ``near`` solve.
+NEAR_EXTRA = 2
+#: A ``near`` solve shifts this fraction of the target's size off the target.
+NEAR_OFFSET = 1e-3
+#: The deflated check estimates distances to about 1 %; a miss is one closer
+#: than this fraction of the found disk's radius.
+CHECK_SLACK = 0.98
+#: Above this half-bandwidth (after reordering) the LU is SuperLU's, not LAPACK's banded one.
+BAND_LIMIT = 64
 
 
-def make_solver(name="dense"):
-    """Return a solver by name (currently ``"dense"``)."""
+class _Pencil:
+    """The scaled quadratic in a bandwidth-reducing DOF order, and its shift-invert operator."""
+
+    def __init__(self, m, d_mat, k):
+        self.scale, self.ref = _scaling(m, k)
+        inv = sp.diags(1.0 / self.scale)
+        mats = [sp.csr_matrix(inv @ x @ inv) for x in (m, d_mat, k)]
+        pattern = abs(mats[0]) + abs(mats[1]) + abs(mats[2])
+        self.perm = reverse_cuthill_mckee(sp.csr_matrix(pattern + pattern.T),
+                                          symmetric_mode=True)
+        self.m, self.d, self.k = (x[self.perm][:, self.perm].tocsr() for x in mats)
+        coo = (abs(self.m) + abs(self.d) + abs(self.k)).tocoo()
+        self.band = int(np.abs(coo.row - coo.col).max()) if coo.nnz else 0
+        self.n = m.shape[0]
+
+    def operator(self, sigma):
+        """``T = (A - sigma B)^-1 B`` on the (reordered) state ``[q^, v]``.
+
+        With ``A - sigma B`` eliminated block-wise, one application costs one
+        solve with ``Q = K^ + sigma D^ + sigma^2 M^`` (n x n, banded):
+        ``x1 = -Q^-1 (s M^ z2 + (D^ + sigma M^) z1)``, ``x2 = (z1 + sigma x1) / s``.
+        """
+        n, s = self.n, self.ref
+        solve = _factor((self.k + sigma * self.d + sigma ** 2 * self.m).tocoo(), self.band)
+        right = sp.hstack([self.d + sigma * self.m, s * self.m]).tocsr()
+
+        def apply(z):
+            z = np.ravel(z)
+            x1 = -solve(right @ z)
+            return np.concatenate([x1, (z[:n] + sigma * x1) / s])
+
+        dtype = complex if isinstance(sigma, complex) else float
+        return spla.LinearOperator((2 * n, 2 * n), matvec=apply, dtype=dtype)
+
+    def displacements(self, z):
+        """Physical displacement vectors (original DOF order) of state vectors ``z``."""
+        q = np.empty((self.n, z.shape[1]), dtype=complex)
+        q[self.perm] = z[:self.n]
+        return q / self.scale[:, None]
+
+    def backward_errors(self, values, z):
+        """Relative backward error of each eigenpair of the quadratic."""
+        x = z[:self.n]
+        norms = [spla.norm(a, 1) for a in (self.m, self.d, self.k)]
+        res = (self.m @ x) * values ** 2 + (self.d @ x) * values + self.k @ x
+        size = np.abs(values) ** 2 * norms[0] + np.abs(values) * norms[1] + norms[2]
+        return np.linalg.norm(res, axis=0) / (size * np.linalg.norm(x, axis=0))
+
+
+def _factor(q, band):
+    """A solve function for ``q`` (COO): LAPACK's banded LU, or SuperLU for wide bands."""
+    n = q.shape[0]
+    if band > BAND_LIMIT:
+        lu = spla.splu(q.tocsc())
+        return lu.solve
+    cplx = np.iscomplexobj(q.data)
+    ab = np.zeros((3 * band + 1, n), dtype=complex if cplx else float)
+    ab[2 * band + q.row - q.col, q.col] = q.data
+    trf, trs = (lapack.zgbtrf, lapack.zgbtrs) if cplx else (lapack.dgbtrf, lapack.dgbtrs)
+    lu, piv, info = trf(ab, band, band)
+    if info != 0:
+        raise np.linalg.LinAlgError(f"shifted pencil is singular (info {info})")
+
+    def solve(b):
+        return trs(lu, band, band, b, piv)[0]
+
+    return solve
+
+
+def _arnoldi(op, nev, seed):
+    """The ``nev`` dominant eigenpairs of ``op`` (ARPACK); partial results if not converged."""
+    rng = np.random.default_rng(seed)
+    v0 = rng.standard_normal(op.shape[0])
+    if op.dtype == complex:
+        v0 = v0 + 1j * rng.standard_normal(op.shape[0])
+    try:
+        return spla.eigs(op, k=nev, which="LM", v0=v0, tol=ARNOLDI_TOL)
+    except spla.ArpackNoConvergence as err:
+        return err.eigenvalues, err.eigenvectors
+
+
+def _real_span(values, z):
+    """Real vectors spanning the (real operator's) eigenvectors ``z``, unit columns."""
+    cols = []
+    upper = values[values.imag > 0]
+    for lam, v in zip(values, z.T):
+        if lam.imag == 0:
+            cols.append(v.real)
+        elif lam.imag > 0 or not np.any(np.isclose(upper, np.conj(lam), rtol=1e-8)):
+            cols.extend([v.real, v.imag])
+    cols = np.array(cols).T
+    return cols / np.linalg.norm(cols, axis=0)
+
+
+def _projector(cols):
+    """``x -> x - P x``, ``P`` the orthogonal projector onto the span of ``cols``.
+
+    ``P = C (C^T C)^-1 C^T`` with the Cholesky factor of the small Gram
+    matrix: one Gram product instead of orthonormalizing the tall block.
+    """
+    try:
+        gram = la.cho_factor(cols.T @ cols, check_finite=False)
+    except la.LinAlgError:   # nearly dependent eigenvectors: orthonormalize instead
+        basis = np.linalg.qr(cols)[0]
+        return lambda x: x - basis @ (basis.T @ x)
+    return lambda x: x - cols @ la.cho_solve(gram, cols.T @ x, check_finite=False)
+
+
+def _nearest_missed(op, values, z, sigma, seed):
+    """Distance from ``sigma`` of the nearest eigenvalue *not* among ``values``.
+
+    The span of the found eigenvectors is invariant under ``op``; projected on
+    its orthogonal complement, ``op`` keeps exactly the eigenvalues not found
+    (Schur deflation), so the dominant one of that projection, found by a
+    second, independent Arnoldi run, is the nearest eigenvalue that was
+    missed or lies beyond the disk.
+    """
+    rest_of = _projector(_real_span(values, z))
+    n = op.shape[0]
+
+    def deflated(x):
+        # the Krylov vectors stay in the complement (start there, every output is
+        # projected), so projecting the output alone is enough
+        return rest_of(op.matvec(np.ravel(x)))
+
+    rest = spla.LinearOperator((n, n), matvec=deflated, dtype=float)
+    v0 = rest_of(np.random.default_rng(seed + 1000).standard_normal(n))
+    try:
+        mu = spla.eigs(rest, k=2, ncv=12, which="LM", v0=v0, tol=1e-2,
+                       return_eigenvectors=False)
+    except spla.ArpackNoConvergence as err:
+        if len(err.eigenvalues) == 0:
+            return 0.0   # unknown: treated as a miss
+        mu = err.eigenvalues
+    largest = float(np.abs(mu).max())
+    return 1.0 / largest if largest > 0 else math.inf   # nothing left at all
+
+
+class SparseSolver:
+    """The lowest modes by shift-invert Arnoldi on the scaled state-space pencil.
+
+    ARPACK (``scipy.sparse.linalg.eigs``) runs on ``(A - sigma B)^-1 B`` for a
+    small real shift ``sigma``; each application is one solve with the
+    banded LU of ``K + sigma D + sigma^2 M`` after a reverse Cuthill-McKee
+    reordering, so the cost grows about linearly with the model size.  The
+    disk of eigenvalues found about the shift is enlarged until it reaches
+    :data:`RADIUS_RATIO` beyond the highest requested mode, and a second,
+    deflated Arnoldi run checks that no eigenvalue inside was missed
+    (docs/theory.md, section 3.1).  A result that could not be proven
+    complete carries a warning.
+    """
+
+    name = "sparse"
+
+    def __call__(self, m, d_mat, k, n_modes, near=None):
+        n = m.shape[0]
+        if n_modes <= 0:
+            return DenseSolver()(m, d_mat, k, 0, near)
+        if 2 * (2 * n_modes + FIRST_EXTRA) >= 2 * n - 2:
+            # too few DOFs for a partial solve to pay: the dense one finds everything
+            return DenseSolver()(m, d_mat, k, n_modes, near)
+        pencil = _Pencil(m, d_mat, k)
+        if near is not None:
+            return self._near(pencil, n_modes, complex(near))
+        return self._lowest(pencil, n_modes)
+
+    def _near(self, pencil, n_modes, target):
+        # Off the target: a shift on an eigenvalue would leave the others to roundoff.
+        sigma = target + 1j * NEAR_OFFSET * max(abs(target), SHIFT * pencil.ref)
+        values, z = _arnoldi(pencil.operator(sigma), n_modes + NEAR_EXTRA, seed=0)
+        values = sigma + 1.0 / values
+        zero, oscillatory, real = _classify(values, pencil.ref)
+        found = values[oscillatory]
+        order = _pick(found, n_modes, target)
+        q = pencil.displacements(z[:, oscillatory][:, order])
+        return Eigenpairs(found[order], q, np.sort(values[real].real), int(zero.sum()),
+                          float(np.abs(values - sigma).max()))
+
+    def _lowest(self, pencil, n_modes):
+        sigma = SHIFT * pencil.ref
+        op = pencil.operator(sigma)
+        size = 2 * pencil.n
+        nev = 2 * n_modes + FIRST_EXTRA
+        for attempt in range(ATTEMPTS):
+            nev = min(nev, size - 2)
+            mu, z = _arnoldi(op, nev, seed=attempt)
+            values = sigma + 1.0 / mu
+            zero, oscillatory, real = _classify(values, pencil.ref)
+            found = values[oscillatory]
+            reach = float(np.abs(values - sigma).max()) if len(values) else 0.0
+            if len(found) < n_modes:
+                problem = f"found only {len(found)} of {n_modes} modes"
+                grow = 2.0 * n_modes / max(len(found), 1)
+            else:
+                top = np.sort(found.imag)[n_modes - 1]
+                needed = RADIUS_RATIO * abs(1j * top - sigma)
+                if reach >= needed:
+                    missed = _nearest_missed(op, mu, z, sigma, attempt)
+                    reach = reach if missed >= CHECK_SLACK * reach else CHECK_SLACK * missed
+                if reach >= needed:
+                    problem = ""
+                    break
+                problem = (f"every eigenvalue was found only to {to_hz(reach):.6g} Hz from the "
+                           f"shift, short of {to_hz(needed):.6g} Hz")
+                grow = needed / max(reach, 1e-300)
+            if nev >= size - 2:
+                break
+            # eigenvalue counts grow about linearly with the disk radius or slower
+            nev = int(math.ceil(nev * min(grow, 2.0))) + 6
+        order = _pick(found, n_modes, None)
+        zf = z[:, oscillatory][:, order]
+        warnings = []
+        if problem:
+            warnings.append(f"sparse eigen-solve: could not prove that no mode was missed "
+                            f"({problem}); the dense solver settles it")
+        errors = pencil.backward_errors(found[order], zf)
+        if len(errors) and errors.max() > RESIDUAL_LIMIT:
+            warnings.append(f"sparse eigen-solve: a mode's relative residual is "
+                            f"{errors.max():.1e} (above {RESIDUAL_LIMIT:.0e})")
+        return Eigenpairs(found[order], pencil.displacements(zf), np.sort(values[real].real),
+                          int(zero.sum()), reach, tuple(warnings))
+
+
+#: ``AutoSolver`` uses the dense solver below this many DOFs, the sparse one from
+#: it on (measured: tests/benchmarks/bench_large.py --crossover; docs/performance.md).
+AUTO_THRESHOLD = 150
+
+
+class AutoSolver:
+    """Dense below :data:`AUTO_THRESHOLD` DOFs, sparse from there on."""
+
+    name = "auto"
+
+    def __init__(self, threshold=AUTO_THRESHOLD):
+        self.threshold = threshold
+
+    def __call__(self, m, d_mat, k, n_modes, near=None):
+        solver = DenseSolver() if m.shape[0] < self.threshold else SparseSolver()
+        return solver(m, d_mat, k, n_modes, near)
+
+
+SOLVERS = {"dense": DenseSolver, "sparse": SparseSolver, "auto": AutoSolver}
+
+
+def make_solver(name="auto"):
+    """Return a solver by name: ``"dense"``, ``"sparse"`` or ``"auto"`` (by model size)."""
     try:
         return SOLVERS[name]()
     except KeyError:

@@ -2,7 +2,11 @@
 
 Each crossing is bracketed on the sweep and refined by Brent's method with
 fresh eigen-solves; at every trial speed the branch is picked out by the same
-shape-and-frequency cost the tracker uses.
+shape-and-frequency cost the tracker uses.  A trial solve asks only for the few
+modes nearest the branch (a shift-invert solve about its eigenvalue); should
+none of them match, the lowest modes are solved as in the sweep.  Brackets are
+independent, so they can be shared among worker processes like the sweep's
+speeds.
 """
 
 from __future__ import annotations
@@ -15,11 +19,14 @@ from scipy.optimize import brentq
 from ..assembly import SystemMatrices, assemble
 from ..units import to_hz, to_rpm
 from .modes import forward_fraction, log_decrement, modes_at, whirl_label
-from .sweep import TRACKING_RESERVE, Sweep, sweep as run_sweep
-from .tracking import match_cost
+from .sweep import TRACKING_RESERVE, Sweep, worker_count, worker_pool
+from .sweep import sweep as run_sweep
+from .tracking import GATE, match_cost
 
 #: Relative speed tolerance of the root refinement.
 SPEED_RTOL = 1e-9
+#: Modes solved about the branch's eigenvalue at each trial speed.
+NEAR_MODES = 4
 
 
 @dataclass(frozen=True)
@@ -76,13 +83,20 @@ class CriticalSpeed:
 
 
 def _branch_at(system, speed, ref_value, ref_shape, n_solve, solver):
-    modes = modes_at(system, speed, n_solve, solver)
-    cost = match_cost(ref_shape[None], np.array([ref_value]), modes.shapes, modes.eigenvalues)[0]
-    j = int(np.argmin(cost))
+    """Eigenvalue and shape of the branch at ``speed``: the best match to the reference."""
+    for near in (ref_value, None):
+        n = NEAR_MODES if near is not None else n_solve
+        modes = modes_at(system, speed, n, solver, near=near)
+        cost = match_cost(ref_shape[None], np.array([ref_value]), modes.shapes,
+                          modes.eigenvalues)[0]
+        j = int(np.argmin(cost))
+        if cost[j] <= GATE:
+            break
     return modes.eigenvalues[j], modes.shapes[j]
 
 
-def critical_speeds(rotor_or_system, result: Sweep | None = None, orders=None, solver=None):
+def critical_speeds(rotor_or_system, result: Sweep | None = None, orders=None, solver=None,
+                    workers=1):
     """Critical speeds of every tracked branch for each excitation order.
 
     Parameters
@@ -93,6 +107,9 @@ def critical_speeds(rotor_or_system, result: Sweep | None = None, orders=None, s
     orders : sequence of float, optional
         Excitation orders; defaults to ``settings.orders`` (1X).
     solver : callable, optional
+    workers : int
+        Worker processes sharing the brackets (and the sweep, when it is run
+        here); 1 by default, 0 for one per core.  The result does not depend on it.
 
     Returns
     -------
@@ -101,29 +118,43 @@ def critical_speeds(rotor_or_system, result: Sweep | None = None, orders=None, s
     """
     system = rotor_or_system if isinstance(rotor_or_system, SystemMatrices) \
         else assemble(rotor_or_system)
-    result = run_sweep(system, solver=solver) if result is None else result
+    result = run_sweep(system, solver=solver, workers=workers) if result is None else result
     orders = system.rotor.settings.orders if orders is None else orders
     n_solve = result.eigenvalues.shape[1] + TRACKING_RESERVE
     speeds, wd = result.speeds, result.frequency
-    found = []
+    brackets = []
     for order in orders:
         for j in range(wd.shape[1]):
             gap = wd[:, j] - order * speeds
             for k in np.nonzero(np.sign(gap[:-1]) * np.sign(gap[1:]) <= 0)[0]:
                 if gap[k] == 0.0 and k > 0:
                     continue  # counted as the end of the previous bracket
-                lo, hi = speeds[k], speeds[k + 1]
-                ref_value, ref_shape = result.eigenvalues[k, j], result.shapes[k, j]
+                brackets.append((float(order), j, speeds[k], speeds[k + 1],
+                                 result.eigenvalues[k, j], result.shapes[k, j]))
+    workers = min(worker_count(workers), len(brackets))
+    if workers <= 1:
+        found = [_refine(system, b, n_solve, solver) for b in brackets]
+    else:
+        with worker_pool(workers) as pool:
+            futures = [pool.submit(_refine, system, b, n_solve, solver) for b in brackets]
+            found = [f.result() for f in futures]
+    return sorted([c for c in found if c is not None], key=lambda c: (c.speed, c.order))
 
-                def g(w, ref_value=ref_value, ref_shape=ref_shape):
-                    value, _ = _branch_at(system, w, ref_value, ref_shape, n_solve, solver)
-                    return value.imag - order * w
 
-                g_lo, g_hi = g(lo), g(hi)
-                if g_lo * g_hi > 0:
-                    continue  # the fresh solves disagree with the bracket: no crossing
-                root = lo if g_lo == 0 else hi if g_hi == 0 else brentq(
-                    g, lo, hi, xtol=SPEED_RTOL * max(hi, 1.0), rtol=SPEED_RTOL)
-                value, shape = _branch_at(system, root, ref_value, ref_shape, n_solve, solver)
-                found.append(CriticalSpeed(float(root), float(order), j, complex(value), shape))
-    return sorted(found, key=lambda c: (c.speed, c.order))
+def _refine(system, bracket, n_solve, solver):
+    """The critical speed in one bracket, or None when fresh solves show no crossing."""
+    order, j, lo, hi, ref_value, ref_shape = bracket
+    seen = {}   # speed -> (eigenvalue, shape); Brent's root is usually its last trial speed
+
+    def g(w):
+        seen[w] = _branch_at(system, w, ref_value, ref_shape, n_solve, solver)
+        return seen[w][0].imag - order * w
+
+    g_lo, g_hi = g(lo), g(hi)
+    if g_lo * g_hi > 0:
+        return None  # the fresh solves disagree with the bracket: no crossing
+    root = lo if g_lo == 0 else hi if g_hi == 0 else brentq(
+        g, lo, hi, xtol=SPEED_RTOL * max(hi, 1.0), rtol=SPEED_RTOL)
+    value, shape = seen[root] if root in seen else _branch_at(system, root, ref_value, ref_shape,
+                                                              n_solve, solver)
+    return CriticalSpeed(float(root), order, j, complex(value), shape)

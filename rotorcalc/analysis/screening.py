@@ -34,7 +34,8 @@ class Screening:
         return out
 
 
-def screen(rotor: Rotor, speeds=None, orders=None, solver=None, progress=None) -> Screening:
+def screen(rotor: Rotor, speeds=None, orders=None, solver=None, progress=None,
+           workers=1) -> Screening:
     """Sweep the speed range, find the critical speeds and judge their margins.
 
     Parameters
@@ -46,10 +47,14 @@ def screen(rotor: Rotor, speeds=None, orders=None, solver=None, progress=None) -
         Excitation orders; ``rotor.settings.orders`` by default.
     solver, progress : optional
         Passed to :func:`~rotorcalc.analysis.sweep.sweep`.
+    workers : int
+        Worker processes for the sweep and the critical-speed refinement (1 by
+        default, 0 for one per core); the result does not depend on it.
     """
     system = assemble(rotor)
-    result = sweep(system, speeds=speeds, solver=solver, progress=progress)
-    crits = tuple(critical_speeds(system, result, orders=orders, solver=solver))
+    result = sweep(system, speeds=speeds, solver=solver, progress=progress, workers=workers)
+    crits = tuple(critical_speeds(system, result, orders=orders, solver=solver,
+                                  workers=workers))
     response = unbalance_response(system) if rotor.unbalance else None
     table = separation_margins(crits, rotor.operating, rotor.settings.margin_rule,
                                float(result.speeds[-1]),

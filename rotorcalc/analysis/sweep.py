@@ -1,7 +1,16 @@
-"""Speed sweep: modes at each speed, solved independently, then tracked."""
+"""Speed sweep: modes at each speed, solved independently, then tracked.
+
+Because every speed is solved on its own (no state carried from one speed to
+the next), the speeds can be shared among worker processes; the result is the
+same, to the last bit, whatever the number of workers.
+"""
 
 from __future__ import annotations
 
+import multiprocessing
+import os
+from concurrent.futures import ProcessPoolExecutor
+from contextlib import contextmanager
 from dataclasses import dataclass
 
 import numpy as np
@@ -108,7 +117,7 @@ def _listed(values):
     return [float(v) if np.isfinite(v) else None for v in values]
 
 
-def sweep(rotor_or_system, speeds=None, n_modes=None, solver=None, progress=None):
+def sweep(rotor_or_system, speeds=None, n_modes=None, solver=None, progress=None, workers=1):
     """Solve the modes at every speed and track the branches.
 
     Parameters
@@ -120,8 +129,15 @@ def sweep(rotor_or_system, speeds=None, n_modes=None, solver=None, progress=None
         Every branch that is among the ``n_modes`` lowest modes at some speed is
         reported; defaults to ``settings.modes``.
     solver : callable, optional
+        From :func:`rotorcalc.solvers.make_solver` (``"auto"`` by default); with
+        ``workers > 1`` it must be picklable (the package's solvers are).
     progress : callable, optional
-        Called as ``progress(done, total)`` after each speed.
+        Called as ``progress(done, total)`` after each speed (after each batch
+        of speeds with several workers).
+    workers : int
+        Worker processes sharing the speeds; 1 (the default) solves in this
+        process, 0 uses one per available core.  The result does not depend
+        on it.
 
     Returns
     -------
@@ -131,14 +147,118 @@ def sweep(rotor_or_system, speeds=None, n_modes=None, solver=None, progress=None
         else assemble(rotor_or_system)
     speeds = default_speeds(system.rotor) if speeds is None else np.asarray(speeds, dtype=float)
     n = system.rotor.settings.modes if n_modes is None else n_modes
-    solved = []
-    for i, speed in enumerate(speeds):
-        solved.append(modes_at(system, speed, n + TRACKING_RESERVE, solver))
-        if progress is not None:
-            progress(i + 1, len(speeds))
+    solved = solve_speeds(system, speeds, n + TRACKING_RESERVE, solver, progress, workers)
     values, shapes = branches_from(solved, n)
-    warnings = tuple(system.table_warnings(speeds))
-    return Sweep(speeds, values, shapes, system.mesh.node_z, system.mesh.station_nodes, warnings)
+    warnings = list(system.table_warnings(speeds))
+    warnings.extend(_solver_warnings(solved, speeds))
+    return Sweep(speeds, values, shapes, system.mesh.node_z, system.mesh.station_nodes,
+                 tuple(warnings))
+
+
+@dataclass(frozen=True)
+class Solved:
+    """What the sweep keeps of the modes at one speed (the full vectors are dropped)."""
+
+    eigenvalues: np.ndarray
+    shapes: np.ndarray
+    warnings: tuple
+
+
+def _solve_batch(system, speeds, n_solve, solver):
+    out = []
+    for speed in speeds:
+        m = modes_at(system, speed, n_solve, solver)
+        out.append(Solved(m.eigenvalues, m.shapes, m.warnings))
+    return out
+
+
+def worker_count(workers):
+    """The number of worker processes ``workers`` asks for (0: one per available core)."""
+    if not isinstance(workers, (int, np.integer)) or workers < 0:
+        raise ValueError(f"workers must be a whole number >= 0, not {workers!r}")
+    if workers == 0:
+        try:
+            return len(os.sched_getaffinity(0))
+        except AttributeError:  # not on every platform
+            return os.cpu_count() or 1
+    return int(workers)
+
+
+#: Batches per worker: enough for an even load and a moving progress bar, few
+#: enough that sending the system matrices with each batch costs nothing.
+BATCHES_PER_WORKER = 4
+
+
+def solve_speeds(system, speeds, n_solve, solver=None, progress=None, workers=1):
+    """:class:`Solved` modes at every speed, in order, with ``workers`` processes."""
+    workers = min(worker_count(workers), len(speeds))
+    if workers <= 1:
+        out = []
+        for i, speed in enumerate(speeds):
+            out.extend(_solve_batch(system, [speed], n_solve, solver))
+            if progress is not None:
+                progress(i + 1, len(speeds))
+        return out
+    batches = [b for b in np.array_split(np.asarray(speeds), workers * BATCHES_PER_WORKER)
+               if len(b)]
+    out = []
+    with worker_pool(workers) as pool:
+        futures = [pool.submit(_solve_batch, system, b, n_solve, solver) for b in batches]
+        for future in futures:
+            out.extend(future.result())
+            if progress is not None:
+                progress(len(out), len(speeds))
+    return out
+
+
+@contextmanager
+def worker_pool(workers):
+    """A pool of ``workers`` processes, each with one BLAS thread (unless set otherwise)."""
+    with _one_blas_thread(), ProcessPoolExecutor(workers, mp_context=_context()) as pool:
+        yield pool
+
+
+def _context():
+    """'fork' where it exists and BLAS is single-threaded already, else 'spawn'.
+
+    A forked worker starts at once but inherits the parent's BLAS threads; a
+    spawned one imports numpy afresh and reads ``OPENBLAS_NUM_THREADS`` then.
+    """
+    single = all(os.environ.get(v) == "1" for v in BLAS_THREAD_VARIABLES)
+    if single and "fork" in multiprocessing.get_all_start_methods():
+        return multiprocessing.get_context("fork")
+    return multiprocessing.get_context("spawn")
+
+
+BLAS_THREAD_VARIABLES = ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS", "MKL_NUM_THREADS")
+
+
+@contextmanager
+def _one_blas_thread():
+    """One BLAS thread in every worker started inside (the user's own setting wins).
+
+    Several processes each running several BLAS threads on the same cores
+    run slower than one thread each (see rotorcalc/cli/__init__.py).
+    """
+    added = [v for v in BLAS_THREAD_VARIABLES if v not in os.environ]
+    for v in added:
+        os.environ[v] = "1"
+    try:
+        yield
+    finally:
+        for v in added:
+            os.environ.pop(v, None)
+
+
+def _solver_warnings(solved, speeds):
+    """One line per distinct solver warning, with the speeds it came from."""
+    seen = {}
+    for m, speed in zip(solved, speeds):
+        for w in m.warnings:
+            if w.startswith("sparse eigen-solve"):
+                seen.setdefault(w.split(" (")[0], []).append(speed)
+    return [f"{text} at {len(at)} of {len(speeds)} speeds (first at {to_rpm(at[0]):.0f} rpm)"
+            for text, at in seen.items()]
 
 
 def branches_from(solved, n):

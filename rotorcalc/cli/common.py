@@ -100,7 +100,10 @@ class SweepProgress:
             self.bar = None
 
 
-def screen_case(rotor, case, outputs):
+JOBS_HELP = "Worker processes for the sweep (0: one per core); the results do not depend on it."
+
+
+def screen_case(rotor, case, outputs, workers=1):
     """Refuse outputs that would overwrite the case, then sweep with a progress bar."""
     from ..analysis import screen
     for option, path in outputs.items():
@@ -108,7 +111,7 @@ def screen_case(rotor, case, outputs):
     progress = SweepProgress()
     try:
         with input_errors():
-            return screen(rotor, progress=progress)
+            return screen(rotor, progress=progress, workers=workers)
     finally:
         progress.close()
 

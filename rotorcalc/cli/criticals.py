@@ -15,8 +15,8 @@ from ..errors import InputError
 from ..model import MarginRule
 from ..tables import LIMIT_COLUMNS, margin_columns
 from ..units import to_rpm
-from .common import (EXIT_CHECK_FAILED, screen_case, console, input_errors, load, print_table,
-                     print_warnings, save_figure, speed_option, write_outputs)
+from .common import (EXIT_CHECK_FAILED, JOBS_HELP, screen_case, console, input_errors, load,
+                     print_table, print_warnings, save_figure, speed_option, write_outputs)
 
 EXAMPLE = """[bold]Example[/]: rotorcalc criticals cases/feed_pump.toml --map pump-map.png --json pump.json"""
 
@@ -91,17 +91,20 @@ def print_margins(result, brief=False):
         console.print(f"[dim]{CAUTION}[/]", highlight=False)
 
 
-def run(case, map_path, json_path, csv_path, points, top, orders, rule, below, above, command):
+def run(case, map_path, json_path, csv_path, points, top, orders, rule, below, above, command,
+        workers=1):
     rotor = apply_overrides(load(case), points=points, top=top, orders=orders, rule=rule,
                             below=below, above=above)
-    result = screen_case(rotor, case, {"--map": map_path, "--json": json_path, "--csv": csv_path})
+    result = screen_case(rotor, case, {"--map": map_path, "--json": json_path, "--csv": csv_path},
+                         workers)
     print_margins(result)
     document = result.margins.to_dict()
     if result.response is not None:
         document["response_checks"] = [c.to_dict() for c in
                                        result.response.vibration + result.response.clearance]
         document["passed"] = result.passed
-    warnings = result.sweep.warnings + (result.response.warnings if result.response else ())
+    warnings = tuple(dict.fromkeys(result.sweep.warnings
+                                   + (result.response.warnings if result.response else ())))
     print_warnings(warnings)
     write_outputs(command, case, document, warnings, json_path, csv_path,
                   margin_columns(result.margins), result.margins.rows)
@@ -132,9 +135,10 @@ def make_command(name, gate):
         above: Optional[float] = typer.Option(
             None, "--above",
             help="Required margin above the maximum continuous speed, per cent (fixed rule)."),
+        jobs: int = typer.Option(1, "--jobs", min=0, help=JOBS_HELP),
     ):
         result = run(case, map_path, json_path, csv_path, points, top, orders, rule, below, above,
-                     name)
+                     name, jobs)
         if gate and not result.passed:
             raise typer.Exit(EXIT_CHECK_FAILED)
 

@@ -8,7 +8,8 @@ from typing import Optional
 import typer
 
 from ..tables import sweep_columns, sweep_rows
-from .common import console, load, print_warnings, save_figure, screen_case, write_outputs
+from .common import (JOBS_HELP, console, load, print_warnings, save_figure, screen_case,
+                     write_outputs)
 from .criticals import apply_overrides, print_margins
 
 EXAMPLE = """[bold]Example[/]: rotorcalc sweep cases/compressor.toml --map map.png --csv sweep.csv"""
@@ -21,10 +22,12 @@ def command(
     top: Optional[str] = typer.Option(None, "--to", help='Highest sweep speed, e.g. "12000 rpm".'),
     json_path: Optional[Path] = typer.Option(None, "--json", help="Write every branch as JSON."),
     csv_path: Optional[Path] = typer.Option(None, "--csv", help="Write the sweep (one row per speed and branch) as CSV."),
+    jobs: int = typer.Option(1, "--jobs", min=0, help=JOBS_HELP),
 ):
     """Sweep the speed range, track the modes and draw the whirl-speed map."""
     rotor = apply_overrides(load(case), points=points, top=top)
-    result = screen_case(rotor, case, {"--map": map_path, "--json": json_path, "--csv": csv_path})
+    result = screen_case(rotor, case, {"--map": map_path, "--json": json_path, "--csv": csv_path},
+                         jobs)
     sw = result.sweep
     console.print(f"{rotor.name}: {len(sw.speeds)} speeds, {sw.eigenvalues.shape[1]} branches")
     print_margins(result, brief=True)
