@@ -24,6 +24,8 @@ value instead of the lowest ones.
 
 from __future__ import annotations
 
+import dataclasses
+
 import math
 from dataclasses import dataclass
 
@@ -405,7 +407,7 @@ class SparseSolver:
         warnings = []
         if problem:
             warnings.append(f"sparse eigen-solve: could not prove that no mode was missed "
-                            f"({problem}); the dense solver settles it")
+                            f"({problem})")
         errors = pencil.backward_errors(found[order], zf)
         if len(errors) and errors.max() > RESIDUAL_LIMIT:
             warnings.append(f"sparse eigen-solve: a mode's relative residual is "
@@ -417,6 +419,9 @@ class SparseSolver:
 #: ``AutoSolver`` uses the dense solver below this many DOFs, the sparse one from
 #: it on (measured: tests/benchmarks/bench_large.py --crossover; docs/performance.md).
 AUTO_THRESHOLD = 150
+#: When a sparse solve is in doubt (a mode may be missed, or a residual is poor),
+#: ``AutoSolver`` repeats it densely up to this many DOFs (a few seconds per solve).
+DENSE_FALLBACK_LIMIT = 1200
 
 
 class AutoSolver:
@@ -428,8 +433,14 @@ class AutoSolver:
         self.threshold = threshold
 
     def __call__(self, m, d_mat, k, n_modes, near=None):
-        solver = DenseSolver() if m.shape[0] < self.threshold else SparseSolver()
-        return solver(m, d_mat, k, n_modes, near)
+        if m.shape[0] < self.threshold:
+            return DenseSolver()(m, d_mat, k, n_modes, near)
+        result = SparseSolver()(m, d_mat, k, n_modes, near)
+        if result.warnings and m.shape[0] <= DENSE_FALLBACK_LIMIT:
+            dense = DenseSolver()(m, d_mat, k, n_modes, near)
+            notes = tuple(f"{w}; the dense solver was used instead" for w in result.warnings)
+            return dataclasses.replace(dense, warnings=tuple(dense.warnings) + notes)
+        return result
 
 
 SOLVERS = {"dense": DenseSolver, "sparse": SparseSolver, "auto": AutoSolver}

@@ -10,6 +10,8 @@ stable on this well-scaled pencil (measured agreement ~1e-11 at these sizes).
 import importlib
 import multiprocessing
 
+import types
+
 import numpy as np
 import pytest
 
@@ -107,7 +109,8 @@ def test_make_solver_names_and_auto_choice(monkeypatch):
     used = []
     for cls in (DenseSolver, SparseSolver):
         monkeypatch.setattr(cls, "__call__",
-                            lambda self, *a, _c=cls, **kw: used.append(_c.name))
+                            lambda self, *a, _c=cls, **kw: used.append(_c.name)
+                            or types.SimpleNamespace(warnings=()))
     small = assemble(uniform_shaft(elements=4, bearings=[isotropic(0, 1e7), isotropic(1, 1e7)]))
     large = assemble(uniform_shaft(elements=60, bearings=[isotropic(0, 1e7), isotropic(1, 1e7)]))
     for s in (small, large):
@@ -160,3 +163,17 @@ def test_cli_refuses_a_negative_job_count():
     case = str(ROOT / "cases" / "overhung_fan.toml")
     for command in ("sweep", "criticals", "check"):
         assert CliRunner().invoke(app, [command, case, "--jobs", "-1"]).exit_code == 2
+
+
+def test_auto_repeats_a_doubtful_sparse_solve_densely(monkeypatch):
+    """When the sparse solve cannot prove that no mode was missed, the dense one is used."""
+    s = assemble(uniform_shaft(elements=60, bearings=[isotropic(0, 1e7), isotropic(1, 1e7)]))
+    m, d, k = _matrices(s, 0.0)
+    honest = SparseSolver()(m, d, k, 4)
+    doubtful = solvers.Eigenpairs(honest.values, honest.vectors, honest.real_eigenvalues,
+                                  honest.rigid_body, warnings=("sparse eigen-solve: test doubt",))
+    monkeypatch.setattr(SparseSolver, "__call__", lambda self, *a, **kw: doubtful)
+    result = AutoSolver()(m, d, k, 4)
+    reference = DenseSolver()(m, d, k, 4)
+    np.testing.assert_allclose(result.values, reference.values, rtol=1e-12)
+    assert any("dense solver was used" in w for w in result.warnings)
