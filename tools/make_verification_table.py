@@ -43,6 +43,8 @@ SECTIONS = (
 MODULE_SECTIONS = (
     ("test_unbalance_response.py",
      "9. Unbalance response, amplification factor and residual-unbalance rules"),
+    ("test_whatif.py",
+     "10. Critical-speed map, series supports, sensitivities and stiffness window"),
 )
 
 INTRO = """\
