@@ -100,12 +100,26 @@ class SweepProgress:
             self.bar = None
 
 
-JOBS_HELP = "Worker processes for the sweep (0: one per core); the results do not depend on it."
+JOBS_HELP = ("Worker processes for the sweep (0: one per core; default: one per core for models "
+             "of 300 elements or more, else 1); the results do not depend on it.")
+
+#: From this many shaft elements the command line shares a sweep among all cores by
+#: default: the sweep then takes ten seconds or more and starting workers pays
+#: (docs/performance.md).
+LARGE_MODEL_ELEMENTS = 300
 
 
-def screen_case(rotor, case, outputs, workers=1):
+def default_workers(rotor, workers):
+    """The worker count asked for, or by model size when none was given."""
+    if workers is not None:
+        return workers
+    return 0 if sum(s.elements for s in rotor.sections) >= LARGE_MODEL_ELEMENTS else 1
+
+
+def screen_case(rotor, case, outputs, workers=None):
     """Refuse outputs that would overwrite the case, then sweep with a progress bar."""
     from ..analysis import screen
+    workers = default_workers(rotor, workers)
     for option, path in outputs.items():
         check_output(path, case, option)
     progress = SweepProgress()

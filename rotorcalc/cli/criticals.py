@@ -92,7 +92,7 @@ def print_margins(result, brief=False):
 
 
 def run(case, map_path, json_path, csv_path, points, top, orders, rule, below, above, command,
-        workers=1):
+        workers=None):
     rotor = apply_overrides(load(case), points=points, top=top, orders=orders, rule=rule,
                             below=below, above=above)
     result = screen_case(rotor, case, {"--map": map_path, "--json": json_path, "--csv": csv_path},
@@ -135,7 +135,7 @@ def make_command(name, gate):
         above: Optional[float] = typer.Option(
             None, "--above",
             help="Required margin above the maximum continuous speed, per cent (fixed rule)."),
-        jobs: int = typer.Option(1, "--jobs", min=0, help=JOBS_HELP),
+        jobs: Optional[int] = typer.Option(None, "--jobs", min=0, help=JOBS_HELP),
     ):
         result = run(case, map_path, json_path, csv_path, points, top, orders, rule, below, above,
                      name, jobs)

@@ -22,7 +22,7 @@ def command(
     top: Optional[str] = typer.Option(None, "--to", help='Highest sweep speed, e.g. "12000 rpm".'),
     json_path: Optional[Path] = typer.Option(None, "--json", help="Write every branch as JSON."),
     csv_path: Optional[Path] = typer.Option(None, "--csv", help="Write the sweep (one row per speed and branch) as CSV."),
-    jobs: int = typer.Option(1, "--jobs", min=0, help=JOBS_HELP),
+    jobs: Optional[int] = typer.Option(None, "--jobs", min=0, help=JOBS_HELP),
 ):
     """Sweep the speed range, track the modes and draw the whirl-speed map."""
     rotor = apply_overrides(load(case), points=points, top=top)

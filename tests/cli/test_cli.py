@@ -111,3 +111,16 @@ def test_picture_with_unknown_extension_is_bad_input(tmp_path):
     result = run("layout", PUMP, "--out", tmp_path / "side.bmp")
     assert result.exit_code == 2 and "picture file" in result.output
     assert not (tmp_path / "side.bmp").exists()
+
+
+def test_workers_default_by_model_size():
+    from rotorcalc.cli.common import LARGE_MODEL_ELEMENTS, default_workers
+    from rotorcalc.reader import read_rotor
+    rotor = read_rotor(PUMP)
+    assert sum(s.elements for s in rotor.sections) < LARGE_MODEL_ELEMENTS
+    assert default_workers(rotor, None) == 1
+    assert default_workers(rotor, 3) == 3
+    import dataclasses
+    big = dataclasses.replace(rotor, sections=tuple(
+        dataclasses.replace(s, elements=40) for s in rotor.sections))
+    assert default_workers(big, None) == 0
