@@ -82,7 +82,7 @@ class CriticalSpeed:
         }
 
 
-def _branch_at(system, speed, ref_value, ref_shape, n_solve, solver):
+def branch_at(system, speed, ref_value, ref_shape, n_solve, solver):
     """Eigenvalue and shape of the branch at ``speed``: the best match to the reference."""
     for near in (ref_value, None):
         n = NEAR_MODES if near is not None else n_solve
@@ -147,7 +147,7 @@ def _refine(system, bracket, n_solve, solver):
     seen = {}   # speed -> (eigenvalue, shape); Brent's root is usually its last trial speed
 
     def g(w):
-        seen[w] = _branch_at(system, w, ref_value, ref_shape, n_solve, solver)
+        seen[w] = branch_at(system, w, ref_value, ref_shape, n_solve, solver)
         return seen[w][0].imag - order * w
 
     g_lo, g_hi = g(lo), g(hi)
@@ -155,6 +155,6 @@ def _refine(system, bracket, n_solve, solver):
         return None  # the fresh solves disagree with the bracket: no crossing
     root = lo if g_lo == 0 else hi if g_hi == 0 else brentq(
         g, lo, hi, xtol=SPEED_RTOL * max(hi, 1.0), rtol=SPEED_RTOL)
-    value, shape = seen[root] if root in seen else _branch_at(system, root, ref_value, ref_shape,
+    value, shape = seen[root] if root in seen else branch_at(system, root, ref_value, ref_shape,
                                                               n_solve, solver)
     return CriticalSpeed(float(root), order, j, complex(value), shape)

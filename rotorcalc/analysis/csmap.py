@@ -174,13 +174,25 @@ class _MapProblem:
             self.unit = sp.csr_matrix((n, n))
         self.k0 = (system.shaft_stiffness + system.support_stiffness + seals).tocsr()
         self.mass = (system.mass - 1j * system.gyroscopic).tocsr()
+        self._solved = {}
         # isotropic: the forward and backward parts decouple exactly (module docstring)
         turn = _quarter_turn(n)
         self.isotropic = (n % 2 == 0 and _invariant(self.k0, turn)
                           and _invariant(self.unit, turn) and _invariant(self.mass, turn))
 
     def solve(self, k, n_modes, whirl="forward"):
-        """Lowest ``n_modes`` critical speeds (rad/s) of the given whirl and their shapes."""
+        """Lowest ``n_modes`` critical speeds (rad/s) of the given whirl and their shapes.
+
+        Remembered per (k, n_modes, whirl): a bearing with constant coefficients puts the
+        same stiffness at every point of its curve.
+        """
+        key = (float(k), int(n_modes), whirl)
+        if key not in self._solved:
+            self._solved[key] = self._solve(k, n_modes, whirl)
+        speeds, shapes = self._solved[key]
+        return speeds.copy(), shapes.copy()
+
+    def _solve(self, k, n_modes, whirl):
         s = self.system
         kk = self.k0 + k * self.unit
         mm = self.mass

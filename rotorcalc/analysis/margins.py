@@ -183,12 +183,14 @@ def match_window(critical):
     return min(max(0.05, 3.0 * critical.damping_ratio), 0.25)
 
 
+def _in_window(critical, peak):
+    return (critical.order == 1.0
+            and abs(peak.speed / critical.speed - 1.0) <= match_window(critical))
+
+
 def matched_peaks(critical, peaks):
     """The response peaks within ``critical``'s window (synchronous criticals only)."""
-    if critical.order != 1.0:
-        return ()
-    window = match_window(critical)
-    return tuple(p for p in peaks if abs(p.speed / critical.speed - 1.0) <= window)
+    return tuple(p for p in peaks if _in_window(critical, p))
 
 
 def assign_peaks(criticals, peaks):
@@ -202,7 +204,7 @@ def assign_peaks(criticals, peaks):
     for peak in peaks:
         best, best_key = None, None
         for i, crit in enumerate(criticals):
-            if peak not in matched_peaks(crit, (peak,)):
+            if not _in_window(crit, peak):
                 continue
             key = (crit.whirl == "backward", abs(peak.speed / crit.speed - 1.0))
             if best_key is None or key < best_key:

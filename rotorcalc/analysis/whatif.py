@@ -17,7 +17,8 @@ from scipy.optimize import brentq, linear_sum_assignment, newton
 from ..assembly import assemble
 from ..units import to_rpm
 from ..variants import Variant, apply_variant, parse_change
-from .criticals import CriticalSpeed, _branch_at
+from .criticals import CriticalSpeed, branch_at
+from .sweep import TRACKING_RESERVE
 from .margins import af_from_log_dec
 from .screening import Screening, screen
 
@@ -269,9 +270,10 @@ def refine_near(rotor, critical: CriticalSpeed, window=0.1):
     """The critical speed of ``rotor`` on the branch of ``critical`` (from a nearby rotor)."""
     system = assemble(rotor)
     ref_value, ref_shape = critical.eigenvalue, critical.shape
+    n_solve = rotor.settings.modes + TRACKING_RESERVE  # as the critical-speed search solves
 
     def g(w):
-        value, _ = _branch_at(system, w, ref_value, ref_shape, 8, None)
+        value, _ = branch_at(system, w, ref_value, ref_shape, n_solve, None)
         return value.imag - critical.order * w
 
     # the perturbed critical is close: a few secant steps from the old one, and
