@@ -2,7 +2,9 @@
 
 The numeric core sees plain SI floats only (m, kg, s, N, rad/s).  Parsing is
 done by pint, whose expression parser is a small grammar of its own (no Python
-``eval``).  A bare number is taken as SI.
+``eval``).  A bare number is taken as SI, except for a rotational speed: there
+rpm, Hz and rad/s differ by factors of 6 to 60, so a speed needs its unit
+everywhere (in the rotor file and on the command line); only 0 may stand bare.
 """
 
 from __future__ import annotations
@@ -75,6 +77,8 @@ def parse(value, dim: Dimension, key: str) -> float:
                          expected=expected, kind="type")
     if isinstance(value, (int, float)):
         number = float(value)
+        if dim is SPEED and number != 0.0:
+            raise _bare_speed(key, value)
     elif isinstance(value, str):
         number = _parse_text(value, dim, key, expected)
     else:
@@ -101,10 +105,22 @@ def _parse_text(text, dim, key, expected):
                          expected=expected, kind="unit") from None
 
 
+def _bare_speed(key, value):
+    return InputError(key, "needs a unit: a bare number is not taken as any speed unit",
+                      value=value,
+                      expected='a speed with its unit, such as "3000 rpm", "50 Hz" or '
+                               '"314 rad/s" (only 0 may be written without one)', kind="unit")
+
+
 def _to_si(quantity, dim, key, text, expected):
     if not isinstance(quantity, _UREG.Quantity):
-        return float(quantity)  # plain number written as text: SI
+        number = float(quantity)  # plain number written as text: SI
+        if dim is SPEED and number != 0.0:
+            raise _bare_speed(key, text)
+        return number
     if quantity.unitless:
+        if dim is SPEED and quantity.magnitude != 0:
+            raise _bare_speed(key, text)
         return float(quantity.magnitude)
     if dim is SPEED and quantity.dimensionality == dim.dimensionality:
         names = str(quantity.units)

@@ -95,6 +95,12 @@ BAD = [
     ('[stations]\nleft = 0\nright = 2', 'stations = 5', "stations", "type"),
     ('max_speed = "3000 rpm"', 'max_speed = "3000 /s"', "operating.max_speed", "unit"),
     ('max_speed = "3000 rpm"', 'max_speed = "3000 rpm"\ntrip_speed = "2900 rpm"', "operating.trip_speed", "order"),
+    # a bare number for a speed is refused everywhere (it was once read as rad/s in
+    # [operating] only), as a number and as text, and so is a dimensionless unit
+    ('min_speed = "2000 rpm"', 'min_speed = 2000', "operating.min_speed", "unit"),
+    ('max_speed = "3000 rpm"', 'max_speed = "3000"', "operating.max_speed", "unit"),
+    ('max_speed = "3000 rpm"', 'max_speed = "1500 percent"', "operating.max_speed", "unit"),
+    ('speeds = ["1000 rpm", "3000 rpm"]', 'speeds = [1000, 3000]', "bearing[0].speeds[0]", "unit"),
     ('elements = 3', 'elements = 2.5', "section[1].elements", "type"),
     ('at = 1\nmass', 'at = "middle"\nmass', "disk[0].at", "station"),
     ('title = "test rotor"', 'title = "test rotor"\ncolour = "red"', "colour", "unknown-key"),
@@ -118,6 +124,11 @@ def test_unknown_key_suggests_nearest():
     text = mutate('outer_diameter = "60 mm"\nmaterial', 'outer_diamter = "60 mm"\nmaterial')
     with pytest.raises(InputError, match="did you mean 'outer_diameter'"):
         parse_rotor(text)
+
+
+def test_zero_is_the_one_speed_that_needs_no_unit():
+    rotor = parse_rotor(BASE + '[analysis]\nspeed_from = 0\nspeed_to = "4000 rpm"\n')
+    assert rotor.settings.speed_from == 0.0
 
 
 def test_no_shaft_and_missing_operating():
