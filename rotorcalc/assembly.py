@@ -19,6 +19,9 @@ from .model import Rotor
 from .units import to_rpm
 
 DOF_PER_NODE = 4
+#: Relative size below which a bearing stiffness (or a damping acting on a rigid
+#: motion) counts as none: far below any bearing, far above roundoff.
+RIGID_RTOL = 1e-10
 
 
 @dataclass(frozen=True)
@@ -134,6 +137,60 @@ class SystemMatrices:
     def damping(self, omega):
         """C(spin): bearings at ``omega`` (rad/s) and supports (no spin * G term)."""
         return self.support_damping + self._bearing_part(omega, "c")
+
+    def rigid_body_basis(self, omega):
+        """Orthonormal basis (n_dof, r) of the rigid-body motions the bearings leave free.
+
+        The shaft alone moves rigidly in four ways (two translations, two
+        tilts: ``x = X + z A``, ``y = Y + z B``) with its supports at rest.  Such a
+        motion strains nothing when every bearing force ``K_b u_b`` vanishes, so
+        the free ones are the null space of the stacked bearing stiffnesses
+        applied to the four motions.  The test compares bearing stiffnesses only
+        with one another (relative singular values), so it depends neither on
+        the mesh nor on the mass of shaft and disks; it replaces a test on the
+        size of computed eigenvalues, which did (docs/theory.md).
+        """
+        z = self.mesh.node_z
+        length = max(float(z[-1] - z[0]), 1e-300)
+        rigid = np.zeros((self.n_dof, 4))
+        shaft = DOF_PER_NODE * np.arange(self.mesh.n_nodes)
+        rigid[shaft, 0] = 1.0                      # X
+        rigid[shaft + 1, 1] = 1.0                  # Y
+        rigid[shaft, 2] = (z - z[0]) / length      # A (tilt scaled by the length: like units)
+        rigid[shaft + 2, 2] = 1.0 / length
+        rigid[shaft + 1, 3] = (z - z[0]) / length  # B
+        rigid[shaft + 3, 3] = 1.0 / length
+        rows = [link.bearing.matrices(omega)[0] @ rigid[link.dofs[:2]] for link in self.links]
+        if rows:
+            stack = np.vstack(rows)
+            _, sv, vt = np.linalg.svd(stack)
+            sv = np.concatenate([sv, np.zeros(4 - len(sv))])
+            free = vt[sv <= RIGID_RTOL * sv[0]] if sv[0] > 0 else vt
+        else:
+            free = np.eye(4)
+        if not len(free):
+            return np.zeros((self.n_dof, 0))
+        return np.linalg.qr(rigid @ free.T)[0]
+
+    def zero_eigenvalues(self, omega, basis=None):
+        """How many eigenvalues of the pencil at ``omega`` are exactly zero.
+
+        With ``N`` the rigid-body basis (``r`` columns), the quadratic pencil
+        has ``2 r - rank(N^T D N)`` zero eigenvalues, ``D = C + spin G``: a
+        rigid motion that a damper or the gyroscopic coupling acts on leaves one
+        zero eigenvalue, not two (the other becomes a real decay or a nutation).
+        """
+        basis = self.rigid_body_basis(omega) if basis is None else basis
+        r = basis.shape[1]
+        if r == 0:
+            return 0
+        d_mat = self.damping(omega) + omega * self.gyroscopic
+        projected = basis.T @ (d_mat @ basis)
+        scale = abs(d_mat).sum(axis=1).max() if d_mat.nnz else 0.0
+        if scale == 0.0:
+            return 2 * r
+        sv = np.linalg.svd(projected, compute_uv=False)
+        return 2 * r - int(np.sum(sv > RIGID_RTOL * scale))
 
     def table_warnings(self, speeds):
         """One warning per bearing whose coefficient table does not cover ``speeds`` (rad/s)."""

@@ -17,9 +17,10 @@ Arnoldi for the lowest modes only, a banded LU of the shifted quadratic,
 about linear in the model size, with a check that no mode of the band was
 missed).  :class:`AutoSolver` picks one by size; :func:`make_solver` builds
 any of them by name.  Every solver is called as
-``solver(m, d_mat, k, n_modes, near=None)`` and returns :class:`Eigenpairs`;
-with ``near`` (rad/s, complex) it returns the ``n_modes`` modes nearest that
-value instead of the lowest ones.
+``solver(m, d_mat, k, n_modes, near=None, zeros=None)`` and returns
+:class:`Eigenpairs`; with ``near`` (rad/s, complex) it returns the ``n_modes``
+modes nearest that value instead of the lowest ones; ``zeros`` is the number
+of eigenvalues known to be zero (rigid-body motion), from the rotor's structure.
 """
 
 from __future__ import annotations
@@ -110,10 +111,21 @@ def scaled_pencil(m, d_mat, k):
     return a, b, scale, ref
 
 
-def _classify(values, ref):
-    """Masks of the zero, oscillatory (Im > 0) and real eigenvalues."""
+def _classify(values, ref, zeros=None):
+    """Masks of the zero, oscillatory (Im > 0) and real eigenvalues.
+
+    ``zeros`` is the number of eigenvalues known to be zero (from the rotor's
+    structure: :meth:`~rotorcalc.assembly.SystemMatrices.zero_eigenvalues`): the
+    ``zeros`` smallest are taken as zero.  Without it, eigenvalues below
+    :data:`ZERO_EIGENVALUE` of the reference frequency are, a test that depends
+    on the mesh and on the mass distribution (kept for bare matrices only).
+    """
     size = np.abs(values)
-    zero = size < ZERO_EIGENVALUE * ref
+    if zeros is None:
+        zero = size < ZERO_EIGENVALUE * ref
+    else:
+        zero = np.zeros(len(values), dtype=bool)
+        zero[np.argsort(size, kind="stable")[:zeros]] = True
     oscillatory = (values.imag > OSCILLATORY * size) & ~zero
     real = (np.abs(values.imag) <= OSCILLATORY * size) & ~zero
     return zero, oscillatory, real
@@ -136,7 +148,7 @@ class DenseSolver:
 
     name = "dense"
 
-    def __call__(self, m, d_mat, k, n_modes, near=None):
+    def __call__(self, m, d_mat, k, n_modes, near=None, zeros=None):
         a, b, scale, ref = scaled_pencil(m, d_mat, k)
         n = m.shape[0]
         mass_diag = m.diagonal()
@@ -151,7 +163,7 @@ class DenseSolver:
             values, vectors = la.eig(a, b, check_finite=False)
         finite = np.isfinite(values)
         values, vectors = values[finite], vectors[:, finite]
-        zero, oscillatory, real = _classify(values, ref)
+        zero, oscillatory, real = _classify(values, ref, zeros)
         real = values[real].real
         values, vectors = values[oscillatory], vectors[:, oscillatory]
         order = _pick(values, n_modes, near)
@@ -347,17 +359,18 @@ class SparseSolver:
 
     name = "sparse"
 
-    def __call__(self, m, d_mat, k, n_modes, near=None):
+    def __call__(self, m, d_mat, k, n_modes, near=None, zeros=None):
         n = m.shape[0]
+        extra = zeros or 0
         if n_modes <= 0:
-            return DenseSolver()(m, d_mat, k, 0, near)
-        if 2 * (2 * n_modes + FIRST_EXTRA) >= 2 * n - 2:
+            return DenseSolver()(m, d_mat, k, 0, near, zeros)
+        if 2 * (2 * n_modes + FIRST_EXTRA) + extra >= 2 * n - 2:
             # too few DOFs for a partial solve to pay: the dense one finds everything
-            return DenseSolver()(m, d_mat, k, n_modes, near)
+            return DenseSolver()(m, d_mat, k, n_modes, near, zeros)
         pencil = _Pencil(m, d_mat, k)
         if near is not None:
             return self._near(pencil, n_modes, complex(near))
-        return self._lowest(pencil, n_modes)
+        return self._lowest(pencil, n_modes, zeros)
 
     def _near(self, pencil, n_modes, target):
         # Off the target: a shift on an eigenvalue would leave the others to roundoff.
@@ -371,16 +384,16 @@ class SparseSolver:
         return Eigenpairs(found[order], q, np.sort(values[real].real), int(zero.sum()),
                           float(np.abs(values - sigma).max()))
 
-    def _lowest(self, pencil, n_modes):
+    def _lowest(self, pencil, n_modes, zeros=None):
         sigma = SHIFT * pencil.ref
         op = pencil.operator(sigma)
         size = 2 * pencil.n
-        nev = 2 * n_modes + FIRST_EXTRA
+        nev = 2 * n_modes + FIRST_EXTRA + (zeros or 0)
         for attempt in range(ATTEMPTS):
             nev = min(nev, size - 2)
             mu, z = _arnoldi(op, nev, seed=attempt)
             values = sigma + 1.0 / mu
-            zero, oscillatory, real = _classify(values, pencil.ref)
+            zero, oscillatory, real = _classify(values, pencil.ref, zeros)
             found = values[oscillatory]
             reach = float(np.abs(values - sigma).max()) if len(values) else 0.0
             if len(found) < n_modes:
@@ -432,12 +445,12 @@ class AutoSolver:
     def __init__(self, threshold=AUTO_THRESHOLD):
         self.threshold = threshold
 
-    def __call__(self, m, d_mat, k, n_modes, near=None):
+    def __call__(self, m, d_mat, k, n_modes, near=None, zeros=None):
         if m.shape[0] < self.threshold:
-            return DenseSolver()(m, d_mat, k, n_modes, near)
-        result = SparseSolver()(m, d_mat, k, n_modes, near)
+            return DenseSolver()(m, d_mat, k, n_modes, near, zeros)
+        result = SparseSolver()(m, d_mat, k, n_modes, near, zeros)
         if result.warnings and m.shape[0] <= DENSE_FALLBACK_LIMIT:
-            dense = DenseSolver()(m, d_mat, k, n_modes, near)
+            dense = DenseSolver()(m, d_mat, k, n_modes, near, zeros)
             notes = tuple(f"{w}; the dense solver was used instead" for w in result.warnings)
             return dataclasses.replace(dense, warnings=tuple(dense.warnings) + notes)
         return result

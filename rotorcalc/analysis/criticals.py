@@ -25,6 +25,8 @@ from .tracking import GATE, match_cost
 
 #: Relative speed tolerance of the root refinement.
 SPEED_RTOL = 1e-9
+#: A crossing within this relative distance of a bracket end is on that end.
+END_ROUNDOFF = 1e-6
 #: Modes solved about the branch's eigenvalue at each trial speed.
 NEAR_MODES = 4
 
@@ -152,7 +154,14 @@ def _refine(system, bracket, n_solve, solver):
 
     g_lo, g_hi = g(lo), g(hi)
     if g_lo * g_hi > 0:
-        return None  # the fresh solves disagree with the bracket: no crossing
+        # The fresh solves disagree with the bracket.  A crossing on a bracket end
+        # can fall either side of it by roundoff (the sweep and a trial solve
+        # differ in their last digits): that end is the root.  Otherwise there
+        # is no crossing.
+        end, g_end = min(((lo, g_lo), (hi, g_hi)), key=lambda p: abs(p[1]))
+        if abs(g_end) > END_ROUNDOFF * max(order * end, abs(seen[end][0])):
+            return None
+        g_lo, lo, g_hi, hi = (0.0, end, 0.0, end)
     root = lo if g_lo == 0 else hi if g_hi == 0 else brentq(
         g, lo, hi, xtol=SPEED_RTOL * max(hi, 1.0), rtol=SPEED_RTOL)
     value, shape = seen[root] if root in seen else branch_at(system, root, ref_value, ref_shape,
