@@ -21,6 +21,10 @@ from .unbalance import ResponseSettings
 COEFFICIENT_NAMES = ("kxx", "kxy", "kyx", "kyy", "cxx", "cxy", "cyx", "cyy")
 BEAM_THEORIES = ("timoshenko", "rayleigh", "euler-bernoulli")
 MARGIN_RULES = ("af-curve", "fixed", "none")
+STABILITY_RULES = ("positive", "at-least", "none")
+#: Where each verdict rule comes from; printed beside every verdict it gives.
+FROM_MEMORY = ("common practice, quoted from memory from industry standards for centrifugal "
+               "machinery; confirm against the edition that applies")
 
 
 def _positive(key, value, *, allow_zero=False):
@@ -299,15 +303,20 @@ class MarginRule:
     """How the required separation margin is set (see docs/theory.md).
 
     ``"af-curve"``: the amplification-factor rule of industry standards for
-    centrifugal machinery (common practice, from memory); ``"fixed"``: the
-    ``below`` and ``above`` percentages for every critical; ``"none"``: no
-    margin required (the table still lists the margins).
+    centrifugal machinery (common practice, from memory): no margin below
+    ``af_threshold``, else ``17 (1 - 1/(AF - 1.5))`` per cent below the minimum
+    speed, at most ``cap_below``, and ``10 + 17 (1 - 1/(AF - 1.5))`` per cent
+    above the maximum continuous speed, at most ``cap_above``;
+    ``"fixed"``: the ``below`` and ``above`` percentages for every critical;
+    ``"none"``: no margin required (the table still lists the margins).
     """
 
     kind: str = "af-curve"
     below: float = 15.0
     above: float = 15.0
     af_threshold: float = 2.5
+    cap_below: float = 16.0
+    cap_above: float = 26.0
 
     def __post_init__(self):
         if self.kind not in MARGIN_RULES:
@@ -316,6 +325,80 @@ class MarginRule:
         _positive("analysis.margin_below", self.below, allow_zero=True)
         _positive("analysis.margin_above", self.above, allow_zero=True)
         _positive("analysis.af_threshold", self.af_threshold)
+        for name in ("cap_below", "cap_above"):
+            value = getattr(self, name)
+            if not (value > 0):  # inf lifts the cap
+                raise InputError(f"analysis.margin_{name}", "must be positive", value=value,
+                                 expected="a percentage such as 16, or inf for no cap",
+                                 kind="range")
+
+    @property
+    def label(self):
+        """Where the rule comes from."""
+        return FROM_MEMORY if self.kind == "af-curve" else "set by the user"
+
+    def describe(self):
+        """The rule in one sentence, for every presentation."""
+        if self.kind == "af-curve":
+            caps = []
+            if math.isfinite(self.cap_below):
+                caps.append(f"at most {self.cap_below:g}% below")
+            if math.isfinite(self.cap_above):
+                caps.append(f"at most {self.cap_above:g}% above")
+            capped = f" ({', '.join(caps)})" if caps else ""
+            return (f"amplification-factor rule: AF < {self.af_threshold:g} needs no margin; "
+                    "otherwise 17(1-1/(AF-1.5))% below the minimum speed and "
+                    f"10+17(1-1/(AF-1.5))% above the maximum continuous speed{capped}")
+        if self.kind == "fixed":
+            return f"fixed: {self.below:g}% below and {self.above:g}% above"
+        return "none: margins listed, not judged"
+
+
+@dataclass(frozen=True)
+class StabilityRule:
+    """What log decrement every mode needs from the minimum speed up to trip.
+
+    ``"positive"``: above zero (a mode at zero, an undamped model, is
+    marginal and fails); ``"at-least"``: at least ``minimum`` (0.1 is a
+    common-practice figure, from memory); ``"none"``: reported, not judged.
+    """
+
+    kind: str = "positive"
+    minimum: float = 0.1
+
+    def __post_init__(self):
+        if self.kind not in STABILITY_RULES:
+            raise InputError("analysis.stability_rule", "is not a known rule", value=self.kind,
+                             expected=" or ".join(STABILITY_RULES), kind="choice")
+        _positive("analysis.min_log_dec", self.minimum, allow_zero=True)
+
+    @property
+    def required(self):
+        """The log decrement a mode must exceed (positive) or reach (at-least)."""
+        return 0.0 if self.kind == "positive" else self.minimum
+
+    @property
+    def label(self):
+        if self.kind == "at-least":
+            return ("common practice, from memory" if self.minimum == 0.1
+                    else "set by the user")
+        return "physics: a negative log decrement grows" if self.kind == "positive" else ""
+
+    def describe(self):
+        if self.kind == "positive":
+            return ("every mode's log decrement above 0 from the minimum speed up to trip "
+                    "(0 within roundoff, an undamped mode, is marginal and fails)")
+        if self.kind == "at-least":
+            return (f"every mode's log decrement at least {self.minimum:g} from the minimum "
+                    "speed up to trip")
+        return "none: log decrements listed, not judged"
+
+    def passes(self, log_dec):
+        if self.kind == "none":
+            return True
+        if self.kind == "positive":
+            return log_dec > 0.0
+        return log_dec >= self.minimum and log_dec > 0.0
 
 
 @dataclass(frozen=True)
@@ -330,8 +413,19 @@ class Settings:
     beam_theory: str = "timoshenko"
     margin_rule: MarginRule = field(default_factory=MarginRule)
     judge_backward: bool = False
+    judge_share: float = 0.25
+    overdamped_ratio: float = 0.45
+    stability: StabilityRule = field(default_factory=StabilityRule)
 
     def __post_init__(self):
+        if not (0.0 <= self.judge_share <= 1.0):
+            raise InputError("analysis.judge_share", "must lie in [0, 1]",
+                             value=self.judge_share, expected="a forward share such as 0.25",
+                             kind="range")
+        if not (0.0 < self.overdamped_ratio <= 1.0):
+            raise InputError("analysis.overdamped_ratio", "must lie in (0, 1]",
+                             value=self.overdamped_ratio, expected="a damping ratio such as 0.45",
+                             kind="range")
         if not isinstance(self.speed_count, int) or self.speed_count < 3:
             raise InputError("analysis.speed_count", "must be a whole number of at least 3",
                              value=self.speed_count, kind="range")
@@ -410,6 +504,11 @@ class Rotor:
                                  value=b.name, expected="a name of its own for each bearing",
                                  kind="duplicate")
             seen.setdefault(b.name, i)
+
+    @property
+    def judged_share(self) -> float:
+        """Forward share from which a critical is judged (0: all, with ``judge_backward``)."""
+        return 0.0 if self.settings.judge_backward else self.settings.judge_share
 
     @property
     def station_positions(self) -> np.ndarray:

@@ -8,6 +8,7 @@ SI).  Errors carry the key path, the file and, where it can be found, the line.
 
 from __future__ import annotations
 
+import dataclasses
 import difflib
 import math
 import re
@@ -23,7 +24,7 @@ from . import standards
 from . import units as u
 from .errors import InputError
 from .model import (COEFFICIENT_NAMES, Bearing, Disk, MarginRule, Material, OperatingRange,
-                    Rotor, Section, Settings, Support)
+                    Rotor, Section, Settings, StabilityRule, Support)
 from .unbalance import Clearance, Probe, ResponseSettings, UnbalanceCase, UnbalanceWeight
 
 TOP_KEYS = {"title", "stations", "materials", "section", "disk", "bearing", "operating",
@@ -38,12 +39,14 @@ SUPPORT_KEYS = {"mass", "kx", "ky", "cx", "cy"}
 OPERATING_KEYS = {"min_speed", "max_speed", "trip_speed"}
 ANALYSIS_KEYS = {"speed_from", "speed_to", "speed_count", "modes", "orders", "beam_theory",
                  "margin_rule", "margin_below", "margin_above", "af_threshold",
-                 "judge_backward"}
+                 "margin_cap_below", "margin_cap_above", "judge_backward", "judge_share",
+                 "overdamped_ratio", "stability_rule", "min_log_dec"}
 UNBALANCE_KEYS = {"description", "residual_multiple", "residual_mass", "weight"}
 WEIGHT_KEYS = {"at", "amount", "mass", "radius", "phase"}
 PROBE_KEYS = {"at", "angle", "name"}
 CLEARANCE_KEYS = {"at", "radial", "name"}
-RESPONSE_KEYS = {"speed_from", "speed_to", "speed_count", "check_vibration", "clearance_share"}
+RESPONSE_KEYS = {"speed_from", "speed_to", "speed_count", "check_vibration", "clearance_share",
+                 "vibration_limit"}
 BEARING_KINDS = ("bearing", "seal")
 
 
@@ -186,17 +189,16 @@ def rotor_from_dict(data: dict) -> Rotor:
     operating = _operating(data["operating"])
     settings = _settings(data.get("analysis", {}))
     title = _string(data, "title", "", default="rotor")
-    mass = sum(s.mass for s in sections) + sum(d.mass for d in disks)
-    unbalance = _unbalance_cases(data.get("unbalance", {}), names, len(sections), mass,
-                                 operating.max_speed)
     probes = tuple(_probe(t, i, names, len(sections))
                    for i, t in enumerate(_array_of_tables(data, "probe")))
     clearances = tuple(_clearance(t, i, names, len(sections))
                        for i, t in enumerate(_array_of_tables(data, "clearance")))
-    return Rotor(sections=sections, operating=operating, disks=disks, bearings=bearings,
-                 settings=settings, station_names=names, name=title, unbalance=unbalance,
-                 probes=probes, clearances=clearances,
-                 response=_response(data.get("response", {})))
+    rotor = Rotor(sections=sections, operating=operating, disks=disks, bearings=bearings,
+                  settings=settings, station_names=names, name=title,
+                  probes=probes, clearances=clearances,
+                  response=_response(data.get("response", {})))
+    unbalance = _unbalance_cases(data.get("unbalance", {}), names, len(sections), rotor)
+    return dataclasses.replace(rotor, unbalance=unbalance) if unbalance else rotor
 
 
 def _materials(table):
@@ -386,19 +388,37 @@ def _settings(table):
     rule = MarginRule(kind=_string(table, "margin_rule", where, default="af-curve"),
                       below=_number(table, "margin_below", where, 15.0),
                       above=_number(table, "margin_above", where, 15.0),
-                      af_threshold=_number(table, "af_threshold", where, 2.5))
+                      af_threshold=_number(table, "af_threshold", where, 2.5),
+                      cap_below=_cap(table, "margin_cap_below", where, 16.0),
+                      cap_above=_cap(table, "margin_cap_above", where, 26.0))
+    if "judge_backward" in table and "judge_share" in table:
+        raise InputError(f"{where}.judge_share", "is given together with judge_backward",
+                         expected="one of them (judge_backward = true is judge_share = 0)",
+                         kind="conflict")
+    stability = StabilityRule(kind=_string(table, "stability_rule", where, default="positive"),
+                              minimum=_number(table, "min_log_dec", where, 0.1))
     return Settings(speed_from=_quantity(table, "speed_from", u.SPEED, where),
                     speed_to=_quantity(table, "speed_to", u.SPEED, where),
                     speed_count=_integer(table, "speed_count", where, 61),
                     modes=_integer(table, "modes", where, 8),
                     orders=tuple(float(o) for o in orders),
                     beam_theory=_string(table, "beam_theory", where, default="timoshenko"),
-                    margin_rule=rule, judge_backward=judge)
+                    margin_rule=rule, judge_backward=judge,
+                    judge_share=_number(table, "judge_share", where, 0.25),
+                    overdamped_ratio=_number(table, "overdamped_ratio", where, 0.45),
+                    stability=stability)
+
+
+def _cap(table, key, where, default):
+    """A margin cap in per cent; the text "none" lifts it."""
+    if isinstance(table.get(key), str) and table[key].strip().lower() == "none":
+        return math.inf
+    return _number(table, key, where, default)
 
 
 # --- forced response ---------------------------------------------------------------------
 
-def _unbalance_cases(table, names, n_sections, rotor_mass, max_speed):
+def _unbalance_cases(table, names, n_sections, rotor):
     if not isinstance(table, dict):
         check_keys(table, set(), "unbalance")  # raises: must be a table
     cases = []
@@ -409,8 +429,8 @@ def _unbalance_cases(table, names, n_sections, rotor_mass, max_speed):
         if multiple <= 0:
             raise InputError(f"{where}.residual_multiple", "must be positive", value=multiple,
                              kind="range")
-        carried = _quantity(entry, "residual_mass", u.MASS, where, default=rotor_mass)
-        if carried <= 0:
+        carried = _quantity(entry, "residual_mass", u.MASS, where, default=None)
+        if carried is not None and carried <= 0:
             raise InputError(f"{where}.residual_mass", "must be positive", value=carried,
                              kind="range")
         weights = []
@@ -418,8 +438,9 @@ def _unbalance_cases(table, names, n_sections, rotor_mass, max_speed):
             wk = f"{where}.weight[{j}]"
             check_keys(w, WEIGHT_KEYS, wk)
             station = _station(w, wk, names, n_sections)
+            mass = standards.residual_mass(rotor, station) if carried is None else carried
             amount = _unbalance_amount(w, wk, multiple * standards.residual_unbalance(
-                carried, max_speed))
+                mass, rotor.operating.max_speed))
             phase = _angle(w, "phase", wk)
             weights.append(UnbalanceWeight(station, amount, phase, key=wk))
         cases.append(UnbalanceCase(case_name, tuple(weights),
@@ -485,7 +506,8 @@ def _response(table):
                             speed_count=_integer(table, "speed_count", where, 201),
                             check_vibration=check,
                             clearance_share=_number(table, "clearance_share", where,
-                                                    standards.CLEARANCE_SHARE))
+                                                    standards.CLEARANCE_SHARE),
+                            vibration_limit=_quantity(table, "vibration_limit", u.LENGTH, where))
 
 
 # --- where is a key? --------------------------------------------------------------------

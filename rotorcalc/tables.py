@@ -27,6 +27,8 @@ class Column:
         value = self.get(row)
         if value is None or (isinstance(value, float) and not math.isfinite(value)):
             return "-" if value is None else ("inf" if value > 0 else "-inf")
+        if isinstance(value, str):
+            return value  # a word in a numeric column ("unbounded")
         return self.fmt.format(value)
 
     @property
@@ -66,15 +68,24 @@ def mode_columns(modes):
 
 # --- critical speeds with margins: rows are MarginRow objects --------------------------
 
+def _af_text(af):
+    """The AF as the table shows it: none for an overdamped mode, unbounded for undamped."""
+    if af is None:
+        return None
+    return "unbounded" if math.isinf(af) else af
+
+
 MARGIN_COLUMNS = [
     Column("Speed rpm", lambda r: float(to_rpm(r.critical.speed)), "{:.0f}", "speed_rpm"),
     Column("Order", lambda r: r.critical.order, "{:g}X", "order"),
     Column("Mode", lambda r: r.critical.branch + 1, "{:d}", "branch"),
     Column("Whirl", lambda r: r.critical.whirl, "{}", "whirl"),
+    Column("Fwd share", lambda r: r.critical.forward_fraction, "{:.2f}", "forward_fraction"),
     Column("Freq Hz", lambda r: float(to_hz(r.critical.eigenvalue.imag)), "{:.2f}",
            "frequency_hz"),
     Column("Log dec", lambda r: r.critical.log_dec, "{:.3f}", "log_dec"),
-    Column("AF est.", lambda r: r.amplification_factor, "{:.2f}", "amplification_factor"),
+    Column("AF est.", lambda r: _af_text(r.amplification_factor), "{:.2f}",
+           "amplification_factor"),
     Column("Where", lambda r: r.side, "{}", "side"),
     Column("Margin %", lambda r: r.margin, "{:.1f}", "margin_percent"),
     Column("Req. %", lambda r: r.required, "{:.1f}", "required_margin_percent"),
@@ -83,16 +94,49 @@ MARGIN_COLUMNS = [
 
 
 RESPONSE_MARGIN_COLUMNS = [
-    Column("AF resp.", lambda r: r.af_response, "{:.2f}", "amplification_factor_response"),
+    Column("Peak rpm", lambda r: None if r.peak is None else float(to_rpm(r.peak.speed)),
+           "{:.0f}", "peak_speed_rpm"),
+    Column("AF resp.", lambda r: _af_text(r.af_response), "{:.2f}",
+           "amplification_factor_response"),
+    Column("Margin peak %", lambda r: r.peak_margin, "{:.1f}", "peak_margin_percent"),
     Column("Req. resp. %", lambda r: r.required_response, "{:.1f}",
            "required_margin_response_percent"),
     Column("Verdict resp.", lambda r: r.verdict_response, "{}", "verdict_response"),
 ]
 
 
-def margin_columns(table):
-    """Margin columns, with the response-based ones when the table has them."""
-    return MARGIN_COLUMNS + (RESPONSE_MARGIN_COLUMNS if table.has_response else [])
+def margin_columns(table, terse=False):
+    """Margin columns, with the response-based ones when the table has them.
+
+    ``terse`` (the terminal) leaves out the order and the frequency when every
+    critical is synchronous (the frequency is then the speed).
+    """
+    columns = MARGIN_COLUMNS
+    if terse and all(r.critical.order == 1.0 for r in table.rows):
+        columns = [c for c in columns if c.key not in ("order", "frequency_hz")]
+    return columns + (RESPONSE_MARGIN_COLUMNS if table.has_response else [])
+
+
+# --- stability: rows are ModeStability objects ---------------------------------------
+
+def _onset_text(m):
+    losses = [w for w, c in m.onsets if c == "loses"]
+    return None if not losses else ", ".join(f"{to_rpm(w):.0f}" for w in losses)
+
+
+STABILITY_COLUMNS = [
+    Column("Mode", lambda m: m.branch + 1, "{:d}", "branch"),
+    Column("Whirl", lambda m: m.whirl, "{}", "whirl"),
+    Column("Min log dec, operating", lambda m: m.min_log_dec_operating, "{:.3f}",
+           "min_log_dec_operating"),
+    Column("Min log dec, to trip", lambda m: m.min_log_dec_to_trip, "{:.3f}",
+           "min_log_dec_to_trip"),
+    Column("Judged log dec", lambda m: m.judged_log_dec, "{:.3f}", "judged_log_dec"),
+    Column("At rpm", lambda m: None if m.worst_speed is None else float(to_rpm(m.worst_speed)),
+           "{:.0f}", "worst_speed_rpm"),
+    Column("Onset rpm", _onset_text, "{}", "onset_rpm"),
+    Column("Verdict", lambda m: m.verdict, "{}", "verdict"),
+]
 
 
 # --- response peaks and limit checks --------------------------------------------------
@@ -106,7 +150,7 @@ PEAK_COLUMNS = [
            "{:.0f}-{:.0f}".format(*to_rpm(np.array(p.half_power))), "{}", "half_power_rpm"),
     Column("Bandwidth rpm", lambda p: None if p.bandwidth is None else float(to_rpm(p.bandwidth)),
            "{:.0f}", "bandwidth_rpm"),
-    Column("AF", lambda p: p.af, "{:.2f}", "amplification_factor"),
+    Column("AF", lambda p: _af_text(p.af), "{:.2f}", "amplification_factor"),
     Column("Note", lambda p: p.note, "{}", "note"),
 ]
 

@@ -85,8 +85,14 @@ class ResponseSettings:
     speed_count: int = 201
     check_vibration: bool = True
     clearance_share: float = 0.75
+    vibration_limit: float | None = None   # m pk-pk; None: the common-practice formula
 
     def __post_init__(self):
+        if self.vibration_limit is not None and not (math.isfinite(self.vibration_limit)
+                                                     and self.vibration_limit > 0):
+            raise InputError("response.vibration_limit", "must be positive",
+                             value=self.vibration_limit,
+                             expected='a peak-to-peak amplitude such as "25 um"', kind="range")
         if not isinstance(self.speed_count, int) or self.speed_count < 5:
             raise InputError("response.speed_count", "must be a whole number of at least 5",
                              value=self.speed_count, kind="range")

@@ -5,24 +5,39 @@ minimum speed ``(N_min - N_c) / N_min``, above the maximum continuous speed
 ``(N_c - N_mc) / N_mc``; a critical inside the range has a negative margin
 (its distance to the nearer end, per cent of that end).
 
-The default rule (``"af-curve"``) is the amplification-factor rule of
-industry standards for centrifugal compressors, quoted here from memory as
-common practice (confirm against the edition your purchase specification
-names):
+The required margin follows a :class:`~rotorcalc.model.MarginRule`; the
+default is the amplification-factor rule of industry standards for
+centrifugal machinery, quoted from memory as common practice (confirm
+against the edition your purchase specification names):
 
 * AF < 2.5: the critical is critically damped and needs no margin;
-* AF >= 2.5, critical below the minimum speed: SM = 17 (1 - 1 / (AF - 1.5)) %;
+* AF >= 2.5, critical below the minimum speed: SM = 17 (1 - 1 / (AF - 1.5)) %,
+  at most 16 %;
 * AF >= 2.5, critical above the maximum continuous speed:
-  SM = 10 + 17 (1 - 1 / (AF - 1.5)) %.
+  SM = 10 + 17 (1 - 1 / (AF - 1.5)) %, at most 26 %.
 
-Until a forced-response amplification factor is supplied, AF is estimated
-from the log decrement as ``pi / delta`` (light damping).
+Which modes are judged (docs/theory.md, "Which modes are criticals"):
+
+* a mode with a negative log decrement is ``unstable`` and fails wherever it is;
+* a mode whose damping ratio is at least ``settings.overdamped_ratio`` is
+  ``overdamped``: no resonance, not a critical, no AF;
+* a mode whose forward share is below ``settings.judge_share`` is listed
+  with its share, ``not judged`` (unbalance drives forward whirl);
+* a log decrement of zero (an undamped mode, roundoff snapped) has an
+  unbounded AF and needs the largest margin.
+
+AF is estimated from the log decrement as ``pi / delta`` (light damping);
+when an unbalance response was run, each response peak is matched to the
+critical whose mode shape it resembles, and the margin is also measured from
+the peak speed with the AF measured there (the response-based verdict).
 """
 
 from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+
+import numpy as np
 
 from ..model import MarginRule, OperatingRange
 from ..units import to_rpm
@@ -33,7 +48,7 @@ CAUTION = ("Screening result only: confirm against the applicable standard, the 
 
 
 def af_from_log_dec(log_dec):
-    """Amplification factor estimated from the log decrement, pi / delta."""
+    """Amplification factor estimated from the log decrement, pi / delta (inf at or below 0)."""
     return math.pi / log_dec if log_dec > 0 else math.inf
 
 
@@ -61,51 +76,114 @@ def required_margin(rule: MarginRule, af, side):
     if af < rule.af_threshold:
         return 0.0
     base = 17.0 * (1.0 - 1.0 / (af - 1.5)) if math.isfinite(af) else 17.0
-    above = 10.0 + base
-    return {"below": base, "above": above}.get(side, above)
+    below = min(base, rule.cap_below)
+    above = min(10.0 + base, rule.cap_above)
+    return {"below": below, "above": above}.get(side, max(below, above))
 
 
-PASSING = ("pass", "critically damped", "not judged", "no peak")
+#: Verdicts that pass.  "overdamped" and "not judged" rows are listed, not judged.
+PASSING = ("pass", "critically damped", "not judged", "no peak", "overdamped")
+
+
+def side_and_margin(speed, operating):
+    """Where ``speed`` lies against the operating range, and its margin, per cent."""
+    lo, hi = operating.min_speed, operating.max_speed
+    if speed < lo:
+        return "below", 100.0 * (lo - speed) / lo
+    if speed > hi:
+        return "above", 100.0 * (speed - hi) / hi
+    to_lo = 100.0 * (speed - lo) / lo if lo > 0 else math.inf
+    to_hi = 100.0 * (hi - speed) / hi
+    return "inside", -min(to_lo, to_hi)
+
+
+@dataclass(frozen=True)
+class Judgement:
+    """The rules that say which criticals are judged and how (from the rotor's settings)."""
+
+    rule: MarginRule
+    judge_share: float = 0.25
+    overdamped_ratio: float = 0.45
+
+    @classmethod
+    def of(cls, rotor):
+        s = rotor.settings
+        return cls(s.margin_rule, rotor.judged_share, s.overdamped_ratio)
+
+    def kind(self, crit):
+        """What a critical is before its margin is judged: unstable, overdamped,
+        not judged, or judged."""
+        if crit.log_dec < 0:
+            return "unstable"
+        if crit.damping_ratio >= self.overdamped_ratio:
+            return "overdamped"
+        if crit.forward_fraction < self.judge_share:
+            return "not judged"
+        return "judged"
+
+    def verdict(self, crit, af, margin, need):
+        kind = self.kind(crit)
+        if kind != "judged":
+            return "fail" if kind == "unstable" else kind
+        if self.rule.kind == "af-curve" and af < self.rule.af_threshold:
+            return "critically damped"
+        return "pass" if margin >= need else "fail"
 
 
 @dataclass(frozen=True)
 class MarginRow:
     """Margin of one critical speed: where it is, what it needs, and the verdicts.
 
+    ``amplification_factor`` is the log-decrement estimate (``inf`` when the
+    mode is undamped or unstable, ``None`` when overdamped: no resonance).
     The ``*_response`` fields are filled when an unbalance response was run:
-    the amplification factor measured on the response peaks matched to this
-    critical (the largest, to be conservative), the margin it requires and
-    the verdict that follows.
+    ``peak`` is the governing response peak matched to this critical (the one
+    that leaves the least margin to spare), ``peak_margin`` its margin measured
+    from the peak speed, with the AF measured on it and the verdict that
+    follows; ``peaks`` every peak matched to this critical.
     """
 
     critical: CriticalSpeed
     side: str
     margin: float
-    amplification_factor: float
+    amplification_factor: float | None
     required: float
     verdict: str
     af_response: float | None = None
     required_response: float | None = None
     verdict_response: str | None = None
     peaks: tuple = ()
+    peak: object = None
+    peak_margin: float | None = None
 
     @property
     def passed(self):
         return self.verdict in PASSING and (self.verdict_response is None
                                             or self.verdict_response in PASSING)
 
+    @property
+    def undamped(self):
+        return self.critical.log_dec == 0.0
+
     def to_dict(self):
         out = self.critical.to_dict()
+        af = self.amplification_factor
         out.update({
             "side": self.side,
             "margin_percent": _finite_or_none(self.margin),
-            "amplification_factor": _finite_or_none(self.amplification_factor),
-            "amplification_factor_source": "log decrement (pi/delta)",
+            "amplification_factor": None if af is None else _finite_or_none(af),
+            "amplification_factor_source": ("none: overdamped, no resonance" if af is None else
+                                            "unbounded: undamped or unstable mode"
+                                            if not math.isfinite(af) else
+                                            "log decrement (pi/delta)"),
             "required_margin_percent": self.required,
             "verdict": self.verdict,
         })
         if self.verdict_response is not None:
             out.update({
+                "peak_speed_rpm": None if self.peak is None else float(to_rpm(self.peak.speed)),
+                "peak_margin_percent": (None if self.peak_margin is None
+                                        else _finite_or_none(self.peak_margin)),
                 "amplification_factor_response": (None if self.af_response is None
                                                   else _finite_or_none(self.af_response)),
                 "required_margin_response_percent": self.required_response,
@@ -128,6 +206,7 @@ class MarginTable:
     rule: MarginRule
     verified_above_to: float
     notes: tuple = ()
+    judgement: Judgement | None = None
 
     @property
     def passed(self):
@@ -138,11 +217,17 @@ class MarginTable:
         return any(row.verdict_response is not None for row in self.rows)
 
     def to_dict(self):
+        j = self.judgement or Judgement(self.rule)
         return {
             "operating_range_rpm": [float(to_rpm(self.operating.min_speed)),
                                     float(to_rpm(self.operating.max_speed))],
             "rule": {"kind": self.rule.kind, "below_percent": self.rule.below,
-                     "above_percent": self.rule.above, "af_threshold": self.rule.af_threshold},
+                     "above_percent": self.rule.above, "af_threshold": self.rule.af_threshold,
+                     "cap_below_percent": _finite_or_none(self.rule.cap_below),
+                     "cap_above_percent": _finite_or_none(self.rule.cap_above),
+                     "text": self.rule.describe(), "label": self.rule.label},
+            "judged_forward_share": j.judge_share,
+            "overdamped_damping_ratio": j.overdamped_ratio,
             "criticals": [row.to_dict() for row in self.rows],
             "passed": self.passed,
             "sweep_top_rpm": float(to_rpm(self.verified_above_to)),
@@ -151,71 +236,84 @@ class MarginTable:
         }
 
 
-def _side_and_margin(speed, operating):
-    lo, hi = operating.min_speed, operating.max_speed
-    if speed < lo:
-        return "below", 100.0 * (lo - speed) / lo
-    if speed > hi:
-        return "above", 100.0 * (speed - hi) / hi
-    to_lo = 100.0 * (speed - lo) / lo if lo > 0 else math.inf
-    to_hi = 100.0 * (hi - speed) / hi
-    return "inside", -min(to_lo, to_hi)
+# --- response peaks matched to criticals by mode shape ----------------------------------
+
+#: A response peak belongs to the critical that contributes most to its deflected
+#: shape, when that contribution is at least this share of all of them ...
+MATCH_SHARE = 0.3
+#: ... and the critical lies within this factor of the peak speed either way (the
+#: peak of a damped mode lies above its damped natural frequency, more so for heavy
+#: damping and with neighbouring modes).
+MATCH_SPEED_FACTOR = 1.6
 
 
-def _verdict(rule, crit, af, margin, need, judge_backward):
-    if crit.log_dec <= 0:
-        return "fail"  # an unstable mode fails whatever its whirl or place
-    if crit.whirl == "backward" and not judge_backward:
-        return "not judged"
-    if rule.kind == "af-curve" and af < rule.af_threshold:
-        return "critically damped"
-    return "pass" if margin >= need else "fail"
+def contributions(criticals, peak):
+    """Share of each critical's mode shape in a peak's deflected shape.
 
-
-def match_window(critical):
-    """Relative speed window in which a response peak may belong to a critical speed.
-
-    The peak of the unbalance response of a single mode lies above its damped
-    natural frequency by about 1.5 zeta^2 (displacement response to a rotating
-    unbalance); other modes and probe placement shift it further, so the
-    window is three damping ratios, at least 5 % and at most 25 %.
+    The deflected shape at the peak (complex x, y at every node) is fitted by
+    least squares with the mode shapes of the synchronous criticals within
+    :data:`MATCH_SPEED_FACTOR` of the peak speed; a critical's share is the
+    size of its term over the sum of the sizes.  Complex shapes keep forward
+    and backward whirl apart (their circular shapes are orthogonal), and a
+    peak where several modes add up goes to the one that dominates it.
+    Returns one share per critical (0 where not eligible).
     """
-    return min(max(0.05, 3.0 * critical.damping_ratio), 0.25)
+    shares = [0.0] * len(criticals)
+    if peak.shape is None:
+        return shares
+    near = [i for i, c in enumerate(criticals)
+            if c.order == 1.0
+            and 1.0 / MATCH_SPEED_FACTOR <= peak.speed / c.speed <= MATCH_SPEED_FACTOR]
+    if not near:
+        return shares
+    basis = np.stack([criticals[i].shape.ravel() for i in near], axis=1)
+    basis = basis / np.linalg.norm(basis, axis=0)
+    coef = np.linalg.lstsq(basis, peak.shape.ravel(), rcond=None)[0]
+    size = np.abs(coef)
+    total = size.sum()
+    for i, v in zip(near, size):
+        shares[i] = float(v / total) if total > 0 else 0.0
+    return shares
 
 
-def _in_window(critical, peak):
-    return (critical.order == 1.0
-            and abs(peak.speed / critical.speed - 1.0) <= match_window(critical))
+def assign_peaks(criticals, peaks, judgement=None):
+    """Give each response peak to the critical that dominates its deflected shape.
 
-
-def matched_peaks(critical, peaks):
-    """The response peaks within ``critical``'s window (synchronous criticals only)."""
-    return tuple(p for p in peaks if _in_window(critical, p))
-
-
-def assign_peaks(criticals, peaks):
-    """Give each response peak to one critical: the nearest whose window holds it.
-
-    Unbalance drives forward whirl, so a forward or mixed critical is preferred
-    to a backward one at the same distance.  Returns one tuple of peaks per
-    critical.
+    Overdamped criticals take part in the fit but take no peak; a peak whose
+    largest contribution is below :data:`MATCH_SHARE` is left unassigned.
+    Returns one tuple of peaks per critical.
     """
+    judgement = judgement or Judgement(MarginRule())
     mine = [[] for _ in criticals]
     for peak in peaks:
-        best, best_key = None, None
-        for i, crit in enumerate(criticals):
-            if not _in_window(crit, peak):
-                continue
-            key = (crit.whirl == "backward", abs(peak.speed / crit.speed - 1.0))
-            if best_key is None or key < best_key:
-                best, best_key = i, key
-        if best is not None:
-            mine[best].append(peak)
+        shares = contributions(criticals, peak)
+        best = max(range(len(criticals)), key=lambda i: shares[i], default=None)
+        if best is None or shares[best] < MATCH_SHARE \
+                or judgement.kind(criticals[best]) == "overdamped":
+            continue
+        mine[best].append(peak)
     return [tuple(m) for m in mine]
 
 
+def _response_verdict(judgement, crit, peaks, operating, af_estimate):
+    """The governing peak's margin, AF, requirement and verdict for one critical."""
+    rule = judgement.rule
+    best = None
+    for p in peaks:
+        side, margin = side_and_margin(p.speed, operating)
+        af = p.af if p.af is not None else af_estimate
+        need = required_margin(rule, af, side)
+        verdict = judgement.verdict(crit, af, margin, need)
+        key = (verdict not in PASSING, need - margin)
+        if best is None or key > best[0]:
+            best = (key, p, margin, p.af, need, verdict)
+    _, peak, margin, af, need, verdict = best
+    return dict(peak=peak, peak_margin=margin, af_response=af, required_response=need,
+                verdict_response=verdict, peaks=tuple(peaks))
+
+
 def separation_margins(criticals, operating: OperatingRange, rule: MarginRule,
-                       sweep_top, judge_backward=False, peaks=None):
+                       sweep_top, judge_backward=False, peaks=None, judgement=None):
     """Judge every critical speed against the operating range.
 
     Parameters
@@ -226,53 +324,49 @@ def separation_margins(criticals, operating: OperatingRange, rule: MarginRule,
     sweep_top : float
         Highest speed swept, rad/s: criticals above it were not looked for.
     judge_backward : bool
-        Backward-whirl criticals are listed but not judged unless this is set
-        (unbalance on isotropic supports does not excite backward whirl;
-        common practice).
+        Judge every critical whatever its whirl (else those whose forward
+        share is below the judgement's share are listed, not judged).
     peaks : sequence of Peak, optional
         Unbalance-response peaks; when given, every synchronous critical also
-        gets the amplification factor measured on its matched peaks and the
-        verdict that follows from it.
+        gets the margin from its matched peaks, the AF measured on them and
+        the verdict that follows.
+    judgement : Judgement, optional
+        Which modes are judged; by default the default settings with ``rule``.
 
     Returns
     -------
     MarginTable
     """
+    judgement = judgement or Judgement(rule)
+    if judge_backward:
+        judgement = Judgement(judgement.rule, 0.0, judgement.overdamped_ratio)
     rows = []
-    assigned = assign_peaks(criticals, peaks) if peaks is not None else None
+    assigned = assign_peaks(criticals, peaks, judgement) if peaks is not None else None
     for index, crit in enumerate(criticals):
-        side, margin = _side_and_margin(crit.speed, operating)
-        af = af_from_log_dec(crit.log_dec)
-        need = required_margin(rule, af, side)
-        verdict = _verdict(rule, crit, af, margin, need, judge_backward)
+        side, margin = side_and_margin(crit.speed, operating)
+        kind = judgement.kind(crit)
+        af = None if kind == "overdamped" else af_from_log_dec(crit.log_dec)
+        need = 0.0 if af is None else required_margin(rule, af, side)
+        verdict = judgement.verdict(crit, af, margin, need)
         extra = {}
-        if peaks is not None and crit.order == 1.0:  # unbalance drives 1X only
+        if peaks is not None and crit.order == 1.0 and kind != "overdamped":
             mine = assigned[index]
-            factors = [p.af for p in mine if p.af is not None]
-            if not mine:
-                extra = dict(verdict_response="no peak" if crit.log_dec > 0 else "fail")
-            elif not factors:
-                # no half-power points on any matched peak (too flat, or running into a
-                # neighbouring peak): no measured AF, so the log-decrement verdict stands
-                extra = dict(af_response=None, required_response=need,
-                             verdict_response=verdict, peaks=mine)
+            if kind == "unstable":
+                extra = dict(verdict_response="fail", peaks=mine)
+            elif kind == "not judged":
+                extra = dict(verdict_response="not judged", peaks=mine)
+            elif not mine:
+                extra = dict(verdict_response="no peak")
             else:
-                af_r = max(factors)
-                need_r = required_margin(rule, af_r, side)
-                extra = dict(af_response=af_r, required_response=need_r,
-                             verdict_response=_verdict(rule, crit, af_r, margin, need_r,
-                                                       judge_backward), peaks=mine)
-        if extra and crit.whirl == "backward" and not judge_backward and crit.log_dec > 0:
-            extra["verdict_response"] = "not judged"
+                extra = _response_verdict(judgement, crit, mine, operating, af)
         rows.append(MarginRow(crit, side, margin, af, need, verdict, **extra))
-    worst_above = required_margin(rule, math.inf, "above")
     notes = []
-    reach = 100.0 * (sweep_top - operating.max_speed) / operating.max_speed
-    if reach < worst_above:
-        notes.append(f"the sweep reaches only {reach:.0f}% above the maximum continuous speed; "
-                     f"criticals up to {worst_above:.0f}% above it may need checking")
-    if peaks is not None and any(r.verdict_response == "no peak" and r.critical.whirl != "backward"
-                                 and r.critical.order == 1.0 for r in rows):
-        notes.append("some forward criticals show no response peak: the unbalance cases given "
-                     "do not excite them at the probes; add a case that does")
-    return MarginTable(tuple(rows), operating, rule, float(sweep_top), tuple(notes))
+    if any(r.verdict_response == "no peak" for r in rows):
+        notes.append("some judged criticals show no response peak: the unbalance cases given "
+                     "do not excite them at the probes; add a case that does (their "
+                     "log-decrement verdict stands)")
+    if any(r.undamped and r.verdict not in ("overdamped", "not judged") for r in rows):
+        notes.append("a log decrement of 0 means the model has no damping on that mode: "
+                     "its AF is unbounded and the largest margin is required")
+    return MarginTable(tuple(rows), operating, rule, float(sweep_top), tuple(notes), judgement)
+

@@ -32,7 +32,7 @@ from ..assembly import SystemMatrices, assemble
 from ..errors import InputError
 from ..unbalance import Probe
 from ..units import to_rpm
-from .sweep import default_speeds
+from .sweep import default_speeds, with_operating_speeds
 
 HALF_POWER = 1.0 / math.sqrt(2.0)
 #: Relative speed tolerance of peak and half-power refinement.
@@ -122,13 +122,7 @@ def response_speeds(rotor):
         raise InputError("response.speed_from", "is not below the top of the response sweep",
                          value=f"{to_rpm(start):.6g} rpm",
                          expected=f"a speed below {to_rpm(stop):.6g} rpm", kind="order")
-    grid = np.linspace(start, stop, r.speed_count)
-    op = rotor.operating
-    extra = [v for v in (op.min_speed, op.max_speed, op.trip_speed)
-             if v is not None and start <= v <= stop]
-    grid = np.sort(np.concatenate([grid, extra]))
-    keep = np.concatenate([[True], np.diff(grid) > 1e-9 * grid[-1]])  # no near-duplicates
-    grid = grid[keep]
+    grid = with_operating_speeds(np.linspace(start, stop, r.speed_count), rotor.operating)
     return grid[grid > 0]  # the force vanishes at rest
 
 
@@ -138,7 +132,9 @@ class Peak:
 
     ``amplitude`` is peak-to-peak (m).  ``half_power`` is ``(low, high)`` in
     rad/s or None when the curve does not fall to 0.707 of the peak on one
-    side (``note`` says why); ``af`` is then None.
+    side (``note`` says why); ``af`` is then None.  ``shape`` is the deflected
+    shape at the peak speed, complex x and y at every shaft node (compared
+    with mode shapes to tell which critical the peak belongs to).
     """
 
     case: str
@@ -148,6 +144,7 @@ class Peak:
     half_power: tuple | None
     af: float | None
     note: str = ""
+    shape: np.ndarray | None = None
 
     @property
     def bandwidth(self):
@@ -159,7 +156,8 @@ class Peak:
                 "amplitude_pp_um": self.amplitude * 1e6,
                 "half_power_rpm": None if hp is None else [float(to_rpm(v)) for v in hp],
                 "bandwidth_rpm": None if hp is None else float(to_rpm(hp[1] - hp[0])),
-                "amplification_factor": self.af, "note": self.note}
+                "amplification_factor": (None if self.af is None or not math.isfinite(self.af)
+                                         else self.af), "note": self.note}
 
 
 @dataclass(frozen=True)
@@ -221,6 +219,9 @@ class Response:
     vibration: tuple
     clearance: tuple
     warnings: tuple = ()
+    unstable: np.ndarray | None = None
+    unstable_ranges: tuple = ()
+    checked_to: float = math.inf
 
     def probe_amplitude_pp(self, case_index, probe_index):
         """Peak-to-peak amplitude curve of one probe, m."""
@@ -236,8 +237,16 @@ class Response:
         return orbit_axes(st[..., 0], st[..., 1])
 
     @property
+    def steady(self):
+        """False when a mode is unstable at a checked speed (any analysed speed up to
+        ``checked_to``): there the response has no steady state to check."""
+        if self.unstable is None:
+            return True
+        return not self.unstable[self.speeds <= self.checked_to * (1 + 1e-12)].any()
+
+    @property
     def passed(self):
-        return all(c.passed for c in self.vibration + self.clearance)
+        return self.steady and all(c.passed for c in self.vibration + self.clearance)
 
     def to_dict(self):
         out = {"speeds_rpm": [float(v) for v in to_rpm(self.speeds)], "cases": []}
@@ -265,6 +274,9 @@ class Response:
         out["peaks"] = [p.to_dict() for p in self.peaks]
         out["vibration_checks"] = [c.to_dict() for c in self.vibration]
         out["clearance_checks"] = [c.to_dict() for c in self.clearance]
+        out["unstable_rpm"] = [[float(to_rpm(lo)), float(to_rpm(hi))]
+                               for lo, hi in self.unstable_ranges]
+        out["steady_state_exists"] = self.steady
         out["passed"] = self.passed
         out["warnings"] = list(self.warnings)
         return out
@@ -276,9 +288,16 @@ class _Evaluator:
     def __init__(self, solver, force, probe_rows):
         self.solver, self.force, self.rows = solver, force, probe_rows
 
+    def response(self, omega):
+        return self.solver.solve(omega, omega * omega * self.force[:, None])[:, 0]
+
     def probe(self, omega, j):
-        q = self.solver.solve(omega, omega * omega * self.force[:, None])[:, 0]
-        return 2.0 * abs(self.rows[j] @ q)
+        return 2.0 * abs(self.rows[j] @ self.response(omega))
+
+    def shape(self, omega):
+        """Deflected shape at ``omega``: complex (x, y) at every shaft node."""
+        q = self.response(omega)
+        return q[self.solver.system.translation_dofs]
 
 
 def _probe_rows(system, probes):
@@ -331,7 +350,7 @@ def _half_power_side(speeds, amp, k, w_peak, target, step, evaluate):
         j = nxt
 
 
-def _find_peaks(speeds, amp, evaluate, case, probe):
+def _find_peaks(speeds, amp, evaluate, case, probe, shape_at=None):
     """Refined peaks of one amplitude curve with their half-power points."""
     peaks = []
     for k in range(1, len(speeds) - 1):
@@ -346,11 +365,18 @@ def _find_peaks(speeds, amp, evaluate, case, probe):
         target = HALF_POWER * a_peak
         low, why_low = _half_power_side(speeds, amp, k, w_peak, target, -1, evaluate)
         high, why_high = _half_power_side(speeds, amp, k, w_peak, target, +1, evaluate)
+        shape = None if shape_at is None else shape_at(w_peak)
         if low is None or high is None:
             note = "; ".join(w for w in (why_low, why_high) if w)
-            peaks.append(Peak(case, probe, w_peak, a_peak, None, None, note))
+            peaks.append(Peak(case, probe, w_peak, a_peak, None, None, note, shape))
+        elif high - low <= SPEED_RTOL * w_peak:
+            # an undamped (or nearly) peak: no bandwidth, the AF is unbounded
+            peaks.append(Peak(case, probe, w_peak, a_peak, None, math.inf,
+                              "no measurable half-power bandwidth: undamped, AF unbounded",
+                              shape))
         else:
-            peaks.append(Peak(case, probe, w_peak, a_peak, (low, high), w_peak / (high - low)))
+            peaks.append(Peak(case, probe, w_peak, a_peak, (low, high), w_peak / (high - low),
+                              "", shape))
     return peaks
 
 
@@ -379,7 +405,7 @@ def _solve_speeds(system, solver, force, rows, speeds):
     return st, pv, fb, fs
 
 
-def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None):
+def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None, unstable=None):
     """Steady-state unbalance response, peaks with amplification factors, and limit checks.
 
     Parameters
@@ -392,6 +418,11 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None):
         Defaults to the rotor's cases.
     probes : sequence of Probe, optional
         Defaults to :func:`default_probes`.
+    unstable : sequence of (float, float), optional
+        Speed ranges (rad/s) where a mode is unstable (from
+        :func:`~rotorcalc.analysis.stability.stability`): the response there has
+        no steady state; those speeds are flagged and the verdict fails when
+        one of them lies where the limits are checked.
 
     Returns
     -------
@@ -419,7 +450,7 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None):
         for j, probe in enumerate(probes):
             amp = 2.0 * np.abs(pv[i, :, j])
             peaks.extend(_find_peaks(speeds, amp, lambda w, j=j, ev=ev: ev.probe(w, j),
-                                     case.name, probe.name))
+                                     case.name, probe.name, ev.shape))
     # on its own grid, add the refined peak and half-power speeds to the curves, so
     # that a sharp peak between grid points is drawn and checked at its top (speeds
     # given by the caller are kept exactly)
@@ -436,19 +467,24 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None):
     op = rotor.operating
     in_range = (speeds >= op.min_speed * (1 - 1e-12)) & (speeds <= op.max_speed * (1 + 1e-12))
     top = op.trip_speed or op.max_speed
-    to_top = (speeds >= op.min_speed * (1 - 1e-12)) & (speeds <= top * (1 + 1e-12))
+    # the close-clearance check covers every analysed speed up to trip: a flexible
+    # rotor passes its first critical on the way up (common practice, from memory)
+    to_top = speeds <= top * (1 + 1e-12)
     warnings = list(system.table_warnings(speeds))
     vibration, clearance = [], []
     if in_range.any():
-        limits = np.array([standards.allowable_vibration(w) for w in speeds])
+        limit = vibration_limit(rotor)
         if rotor.response.check_vibration:
             for i, case in enumerate(cases):
                 for j, probe in enumerate(probes):
-                    ratio = np.where(in_range, 2.0 * np.abs(pv[i, :, j]) / limits, -np.inf)
-                    k = int(np.argmax(ratio))
+                    amp = np.where(in_range, 2.0 * np.abs(pv[i, :, j]), -np.inf)
+                    k = int(np.argmax(amp))
                     vibration.append(LimitCheck(case.name, probe.name, float(speeds[k]),
-                                                float(2.0 * abs(pv[i, k, j])), float(limits[k]),
-                                                "vibration"))
+                                                float(amp[k]), limit, "vibration"))
+    else:
+        warnings.append("the response sweep does not cover the operating range: "
+                        "vibration was not checked")
+    if to_top.any():
         share = rotor.response.clearance_share
         for i, case in enumerate(cases):
             major = orbit_axes(st[i, ..., 0], st[i, ..., 1])[0]
@@ -458,9 +494,33 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None):
                 clearance.append(LimitCheck(case.name, c.name, float(speeds[k]),
                                             float(major[k, c.station]), share * c.radial,
                                             "clearance"))
-    else:
-        warnings.append("the response sweep does not cover the operating range: "
-                        "vibration and clearance were not checked")
+    unstable = tuple(unstable or ())
+    flagged = _flag_unstable(speeds, unstable)
+    if flagged.any():
+        spans = ", ".join(f"{to_rpm(lo):.0f}-{to_rpm(hi):.0f} rpm" for lo, hi in unstable)
+        warnings.append(f"a mode is unstable at {spans}: no steady state exists there, the "
+                        "response shown at those speeds is not physical")
     names = tuple(link.bearing.name or str(i) for i, link in enumerate(system.links))
     return Response(speeds, tuple(c.name for c in cases), st, probes, pv, fb, fs, names,
-                    tuple(peaks), tuple(vibration), tuple(clearance), tuple(warnings))
+                    tuple(peaks), tuple(vibration), tuple(clearance), tuple(warnings), flagged,
+                    unstable, float(top))
+
+
+def vibration_limit(rotor):
+    """Allowable peak-to-peak shaft vibration, m, one number for the operating range.
+
+    The rotor's own ``response.vibration_limit`` when given, else
+    25.4 sqrt(12000 / N) um with N the maximum continuous speed, at most 25.4 um
+    (common practice, from memory).
+    """
+    given = rotor.response.vibration_limit
+    return given if given is not None else standards.allowable_vibration(
+        rotor.operating.max_speed)
+
+
+def _flag_unstable(speeds, ranges):
+    """True at every speed inside one of the unstable ``ranges`` ((lo, hi) rad/s)."""
+    flagged = np.zeros(len(speeds), dtype=bool)
+    for lo, hi in ranges:
+        flagged |= (speeds >= lo) & (speeds <= hi)
+    return flagged

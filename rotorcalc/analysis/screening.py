@@ -1,34 +1,75 @@
-"""The main job in one call: sweep, critical speeds, unbalance response and margins."""
+"""The main job in one call: sweep, stability, critical speeds, unbalance response,
+margins, and whether the analysis covers everything it judges."""
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 from ..assembly import assemble
 from ..model import Rotor
+from ..units import to_rpm
 from .criticals import critical_speeds
-from .margins import MarginTable, separation_margins
+from .margins import Judgement, MarginTable, required_margin, separation_margins
 from .response import Response, unbalance_response
+from .stability import Stability, stability
 from .sweep import Sweep, sweep
 
 
 @dataclass(frozen=True)
+class CoverageGap:
+    """Something the screening must judge but the analysis does not reach.
+
+    ``kind``: "sweep-top", "sweep-bottom", "bearing-table" or "solver".
+    """
+
+    kind: str
+    text: str
+
+    def to_dict(self):
+        return {"kind": self.kind, "text": self.text}
+
+
+@dataclass(frozen=True)
 class Screening:
-    """Sweep, critical speeds, margin table and (when the rotor has unbalance cases)
-    the unbalance response of one rotor."""
+    """Sweep, stability, critical speeds, margin table and (when the rotor has
+    unbalance cases) the unbalance response of one rotor, with the coverage gaps.
+
+    ``verdict`` is "pass", "fail" (a check failed) or "incomplete" (nothing
+    failed, but the analysis does not cover all it must judge).
+    """
 
     rotor: Rotor
     sweep: Sweep
     criticals: tuple
     margins: MarginTable
     response: Response | None = None
+    stability: Stability | None = None
+    gaps: tuple = ()
+
+    @property
+    def failed(self):
+        return (not self.margins.passed
+                or (self.stability is not None and not self.stability.passed)
+                or (self.response is not None and not self.response.passed))
+
+    @property
+    def complete(self):
+        return not self.gaps
 
     @property
     def passed(self):
-        return self.margins.passed and (self.response is None or self.response.passed)
+        return not self.failed and self.complete
+
+    @property
+    def verdict(self):
+        return "fail" if self.failed else ("incomplete" if self.gaps else "pass")
 
     def to_dict(self):
-        out = {"margins": self.margins.to_dict(), "sweep": self.sweep.to_dict()}
+        out = {"verdict": self.verdict, "margins": self.margins.to_dict(),
+               "sweep": self.sweep.to_dict(), "coverage_gaps": [g.to_dict() for g in self.gaps]}
+        if self.stability is not None:
+            out["stability"] = self.stability.to_dict()
         if self.response is not None:
             out["response"] = self.response.to_dict()
         return out
@@ -36,7 +77,8 @@ class Screening:
 
 def screen(rotor: Rotor, speeds=None, orders=None, solver=None, progress=None,
            workers=1) -> Screening:
-    """Sweep the speed range, find the critical speeds and judge their margins.
+    """Sweep the speed range, judge stability, find the critical speeds and judge
+    their margins (and the unbalance response, when the rotor has cases).
 
     Parameters
     ----------
@@ -53,11 +95,59 @@ def screen(rotor: Rotor, speeds=None, orders=None, solver=None, progress=None,
     """
     system = assemble(rotor)
     result = sweep(system, speeds=speeds, solver=solver, progress=progress, workers=workers)
+    stab = stability(system, result, solver=solver)
     crits = tuple(critical_speeds(system, result, orders=orders, solver=solver,
                                   workers=workers))
-    response = unbalance_response(system) if rotor.unbalance else None
+    response = unbalance_response(system, unstable=stab.unstable_ranges) \
+        if rotor.unbalance else None
+    judgement = Judgement.of(rotor)
     table = separation_margins(crits, rotor.operating, rotor.settings.margin_rule,
                                float(result.speeds[-1]),
-                               judge_backward=rotor.settings.judge_backward,
-                               peaks=None if response is None else response.peaks)
-    return Screening(rotor, result, crits, table, response)
+                               peaks=None if response is None else response.peaks,
+                               judgement=judgement)
+    gaps = coverage_gaps(rotor, result, table)
+    return Screening(rotor, result, crits, table, response, stab, gaps)
+
+
+def required_span(rotor: Rotor):
+    """Speeds a screening must sweep (rad/s): from the bottom of the widest margin band
+    below the minimum speed to the top of the widest one above the maximum
+    continuous speed, and at least to trip."""
+    op, rule = rotor.operating, rotor.settings.margin_rule
+    below = required_margin(rule, math.inf, "below")
+    above = required_margin(rule, math.inf, "above")
+    top = max(op.trip_speed or op.max_speed, op.max_speed * (1.0 + above / 100.0))
+    bottom = op.min_speed * max(0.0, 1.0 - below / 100.0)
+    return bottom, top
+
+
+def coverage_gaps(rotor: Rotor, result: Sweep, table: MarginTable):
+    """What the screening must judge but did not reach (see :class:`CoverageGap`)."""
+    gaps = []
+    bottom, top = required_span(rotor)
+    first, last = float(result.speeds[0]), float(result.speeds[-1])
+    if last < top * (1 - 1e-9):
+        gaps.append(CoverageGap(
+            "sweep-top", f"the sweep stops at {to_rpm(last):.0f} rpm, below "
+            f"{to_rpm(top):.0f} rpm (trip, or the top of the widest margin band above the "
+            "maximum continuous speed): a critical up there was not looked for"))
+    if first > bottom * (1 + 1e-9):
+        gaps.append(CoverageGap(
+            "sweep-bottom", f"the sweep starts at {to_rpm(first):.0f} rpm, above "
+            f"{to_rpm(bottom):.0f} rpm (the bottom of the widest margin band below the "
+            "minimum speed): a critical down there was not looked for"))
+    for row in table.rows:
+        if row.verdict in ("overdamped", "not judged"):
+            continue
+        w = row.critical.speed
+        for i, b in enumerate(rotor.bearings):
+            if len(b.speeds) >= 2 and b.outside_table(w):
+                gaps.append(CoverageGap(
+                    "bearing-table", f"the coefficient table of {b.kind} {b.name or i} "
+                    f"({to_rpm(b.speeds[0]):.0f}-{to_rpm(b.speeds[-1]):.0f} rpm) does not "
+                    f"cover the critical at {to_rpm(w):.0f} rpm: it was judged on held end "
+                    "values"))
+    for w in result.warnings:
+        if w.startswith("sparse eigen-solve"):
+            gaps.append(CoverageGap("solver", w))
+    return tuple(gaps)

@@ -38,7 +38,17 @@ def default_speeds(rotor: Rotor):
                          value=f"{to_rpm(start):.6g} rpm",
                          expected=f"a speed below {to_rpm(stop):.6g} rpm (speed_to, or 1.5 x "
                                   "the highest operating speed by default)", kind="order")
-    return np.linspace(start, stop, s.speed_count)
+    return with_operating_speeds(np.linspace(start, stop, s.speed_count), rotor.operating)
+
+
+def with_operating_speeds(grid, operating):
+    """``grid`` with the minimum, maximum continuous and trip speeds inserted (where
+    they lie inside it), so that what is judged at those speeds is solved there."""
+    extra = [v for v in (operating.min_speed, operating.max_speed, operating.trip_speed)
+             if v is not None and grid[0] <= v <= grid[-1]]
+    grid = np.sort(np.concatenate([grid, extra]))
+    keep = np.concatenate([[True], np.diff(grid) > 1e-9 * max(grid[-1], 1e-300)])
+    return grid[keep]
 
 
 @dataclass(frozen=True)
@@ -54,6 +64,9 @@ class Sweep:
     shapes : complex ndarray (n_speeds, n_branches, n_nodes, 2)
     node_z, station_nodes : ndarray
     warnings : tuple of str
+    growth : ndarray (n_speeds,)
+        Largest non-oscillatory eigenvalue found at each speed, rad/s (-inf
+        where there is none): above zero, the rotor diverges without whirling.
     """
 
     speeds: np.ndarray
@@ -62,6 +75,7 @@ class Sweep:
     node_z: np.ndarray
     station_nodes: np.ndarray
     warnings: tuple = ()
+    growth: np.ndarray | None = None
 
     @property
     def frequency(self):
@@ -151,8 +165,9 @@ def sweep(rotor_or_system, speeds=None, n_modes=None, solver=None, progress=None
     values, shapes = branches_from(solved, n)
     warnings = list(system.table_warnings(speeds))
     warnings.extend(_solver_warnings(solved, speeds))
+    growth = np.array([m.growth for m in solved])
     return Sweep(speeds, values, shapes, system.mesh.node_z, system.mesh.station_nodes,
-                 tuple(warnings))
+                 tuple(warnings), growth)
 
 
 @dataclass(frozen=True)
@@ -162,13 +177,15 @@ class Solved:
     eigenvalues: np.ndarray
     shapes: np.ndarray
     warnings: tuple
+    growth: float = -np.inf
 
 
 def _solve_batch(system, speeds, n_solve, solver):
     out = []
     for speed in speeds:
         m = modes_at(system, speed, n_solve, solver)
-        out.append(Solved(m.eigenvalues, m.shapes, m.warnings))
+        growth = float(m.real_eigenvalues.max()) if len(m.real_eigenvalues) else -np.inf
+        out.append(Solved(m.eigenvalues, m.shapes, m.warnings, growth))
     return out
 
 

@@ -19,7 +19,7 @@ from ..units import to_rpm
 from ..variants import Variant, apply_variant, parse_change
 from .criticals import CriticalSpeed, branch_at
 from .sweep import TRACKING_RESERVE
-from .margins import af_from_log_dec
+from .margins import Judgement, af_from_log_dec
 from .screening import Screening, screen
 
 # --- variants side by side -------------------------------------------------------------
@@ -110,11 +110,16 @@ def compare(rotor, variants, progress=None):
         screenings.append(screen(model))
         if progress is not None:
             progress(i + 1, len(models))
-    base = screenings[0].criticals
+    # overdamped modes are not criticals: they are listed, never matched (a heavily
+    # damped mode near the first bending critical once took its counterpart)
+    base = [r.critical for r in screenings[0].margins.rows if r.verdict != "overdamped"]
     rows = []
     for (name, _), result in zip(models, screenings):
-        matches = match_criticals([r.critical for r in result.margins.rows], base)
-        for row, match in zip(result.margins.rows, matches):
+        real = [r for r in result.margins.rows if r.verdict != "overdamped"]
+        matches = dict(zip((id(r) for r in real),
+                           match_criticals([r.critical for r in real], base)))
+        for row in result.margins.rows:
+            match = matches.get(id(row))
             rows.append(ComparisonRow(name, row, None if match is None else match.speed))
     return Comparison(tuple(n for n, _ in models), tuple(screenings), tuple(rows))
 
@@ -125,15 +130,15 @@ def compare(rotor, variants, progress=None):
 def margin_excess(result: Screening):
     """Smallest (margin - required margin), per cent, over the judged critical speeds.
 
-    Criticals that need no margin (critically damped, not judged) do not
-    count; an unstable critical gives minus infinity.  Returns the excess and
+    Criticals that need no margin (critically damped, not judged,
+    overdamped) do not count; an unstable critical gives minus infinity.  Returns the excess and
     the limiting critical (or None).
     """
     worst, limiting = math.inf, None
     for row in result.margins.rows:
-        if row.critical.log_dec <= 0:
+        if row.critical.log_dec < 0:
             return -math.inf, row.critical
-        if row.verdict in ("critically damped", "not judged"):
+        if row.verdict in ("critically damped", "not judged", "overdamped"):
             continue
         excess = row.margin - row.required
         if excess < worst:
@@ -317,9 +322,9 @@ def sensitivities(rotor, criticals, step=0.01, near=None):
     """
     op = rotor.operating
     threshold = rotor.settings.margin_rule.af_threshold
+    judgement = Judgement.of(rotor)
     judged = [c for c in criticals
-              if (c.whirl != "backward" or rotor.settings.judge_backward)
-              and af_from_log_dec(c.log_dec) >= threshold]
+              if judgement.kind(c) == "judged" and af_from_log_dec(c.log_dec) >= threshold]
     chosen = judged if near is None else [
         c for c in judged if op.min_speed * (1 - near) <= c.speed <= op.max_speed * (1 + near)]
     out = []

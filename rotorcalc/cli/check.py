@@ -6,10 +6,16 @@ import typer
 
 from .criticals import make_command
 
-EXAMPLE = ("[bold]Example[/]: rotorcalc check cases/compressor.toml || echo 'margins not met'\n\n"
-           "Exit codes: 0 all margins met, 1 a margin fails, 2 bad input.")
+EXAMPLE = ("[bold]Example[/]: rotorcalc check cases/compressor.toml || echo 'not signed off'\n\n"
+           "Exit codes: 0 every check met; 1 a check failed (a separation margin, stability, "
+           "a response limit); 2 bad input; 3 a numerical failure; 4 an output could not be "
+           "written; 5 not covered: nothing failed, but the analysis does not reach all it "
+           "must judge (the sweep stops short of trip or of a margin band, or a bearing table "
+           "does not cover a judged critical).")
 
 
 def register(app: typer.Typer):
-    doc = "Check every separation margin; exit 1 when one fails (for scripts and CI)."
+    doc = ("Check every separation margin, the stability of every mode up to trip and the "
+           "response limits; exit non-zero when one fails or is not covered (for scripts and "
+           "CI).")
     app.command("check", help=doc + "\n\n" + EXAMPLE)(make_command("check", gate=True))

@@ -13,7 +13,7 @@ from rich.progress import BarColumn, Progress, TextColumn, TimeRemainingColumn
 from rich.table import Table
 
 from .. import units as u
-from ..errors import InputError, RotorcalcError
+from ..errors import InputError, RotorcalcError, SolverError
 from ..output import envelope, write_csv, write_json
 from ..reader import read_rotor
 from ..tables import rows_csv
@@ -23,7 +23,11 @@ if not console.is_terminal:
     console = Console(width=160)  # pipes and files: wide enough for the margin table
 errors = Console(stderr=True)
 
+#: Exit codes (docs/usage.md): 0 every check met, 1 a check failed, 2 bad input,
+#: 3 a numerical failure, 4 an output could not be written, 5 the analysis does not
+#: cover everything the check must judge (nothing failed in what it did cover).
 EXIT_OK, EXIT_CHECK_FAILED, EXIT_BAD_INPUT = 0, 1, 2
+EXIT_NUMERICAL, EXIT_OUTPUT, EXIT_NOT_COVERED = 3, 4, 5
 
 
 def fail_input(err: InputError):
@@ -39,9 +43,13 @@ def input_errors():
         yield
     except InputError as err:
         fail_input(err)
+    except SolverError as err:
+        errors.print(f"[bold red]Numerical failure[/] {escape(str(err))}", highlight=False,
+                     soft_wrap=True)
+        raise typer.Exit(EXIT_NUMERICAL)
     except RotorcalcError as err:
         errors.print(f"[bold red]Error[/] {escape(str(err))}", highlight=False, soft_wrap=True)
-        raise typer.Exit(3)
+        raise typer.Exit(EXIT_NUMERICAL)
 
 
 def load(case: Path):

@@ -11,6 +11,7 @@ import typer
 from rich.markup import escape
 
 from ..analysis.margins import CAUTION
+from ..analysis.whatif import MATCH_SHARE
 from ..errors import InputError
 from ..output import file_hash
 from ..reader import load_toml
@@ -68,7 +69,7 @@ def comparison_notes(comparison):
     """Unstable criticals, and base criticals that need a margin but have no counterpart."""
     notes = []
     for r in comparison.rows:
-        if r.row.critical.log_dec <= 0:
+        if r.row.critical.log_dec < 0:
             notes.append(f"{r.variant}: UNSTABLE critical at {critical_text(r.row.critical)}")
     base_rows = [r for r in comparison.screenings[0].margins.rows
                  if r.verdict in ("pass", "fail") or not r.passed]
@@ -76,7 +77,7 @@ def comparison_notes(comparison):
         matched = {r.base_speed for r in comparison.rows if r.variant == name}
         gone = [r.critical for r in base_rows if r.critical.speed not in matched]
         if gone:
-            notes.append(f"{name}: no critical within 30 % of the base critical"
+            notes.append(f"{name}: no critical within {MATCH_SHARE:.0%} of the base critical"
                          f"{'s' if len(gone) > 1 else ''} "
                          + ", ".join(critical_text(c) for c in gone)
                          + " with the same whirl (it moved further, changed whirl, or left "
@@ -141,8 +142,9 @@ def command(
                 f"{to_rpm(op.min_speed):.0f}-{to_rpm(op.max_speed):.0f} rpm)",
                 comparison_columns(comparison), comparison.rows,
                 caption="Change: against the base critical of the same order and whirl nearest "
-                        "in speed (within 30 % of the variant's). Margins are against each "
-                        "variant's own operating range.")
+                        f"in speed (within {MATCH_SHARE:.0%} of the variant's); overdamped modes "
+                        "are listed, never matched. Margins are against each variant's own "
+                        "operating range.")
     for note in comparison_notes(comparison):
         console.print(f"[yellow]note[/] {escape(note)}", highlight=False)
     warnings = merged_warnings(comparison)

@@ -13,15 +13,17 @@ from rich.markup import escape
 from ..analysis.margins import CAUTION
 from ..errors import InputError
 from ..model import MarginRule
-from ..tables import LIMIT_COLUMNS, margin_columns
+from ..analysis.stability import describe_mode
+from ..tables import LIMIT_COLUMNS, STABILITY_COLUMNS, margin_columns
 from ..units import to_rpm
-from .common import (EXIT_CHECK_FAILED, JOBS_HELP, screen_case, console, input_errors, load,
-                     print_table, print_warnings, save_figure, speed_option, write_outputs)
+from .common import (EXIT_CHECK_FAILED, EXIT_NOT_COVERED, EXIT_OK, JOBS_HELP, screen_case,
+                     console, input_errors, load, print_table, print_warnings, save_figure,
+                     speed_option, write_outputs)
 
 EXAMPLE = """[bold]Example[/]: rotorcalc criticals cases/feed_pump.toml --map pump-map.png --json pump.json"""
 
-RULE_HELP = ("Margin rule: af-curve (amplification-factor rule, common practice), fixed "
-             "(--below/--above per cent) or none.")
+RULE_HELP = ("Margin rule: af-curve (amplification-factor rule with its caps, common "
+             "practice, from memory), fixed (--below/--above per cent) or none.")
 
 
 def apply_overrides(rotor, points=None, top=None, orders=None, rule=None, below=None,
@@ -58,37 +60,69 @@ def print_margins(result, brief=False):
     title = (f"{rotor.name}: critical speeds, operating range {to_rpm(op.min_speed):.0f}-"
              f"{to_rpm(op.max_speed):.0f} rpm{trip}")
     rule = table.rule
+    rule_text = f"Margin rule: {rule.describe()} ({rule.label})."
     if rule.kind == "af-curve":
-        rule_text = (f"Margin rule: amplification-factor rule (AF < {rule.af_threshold:g}: no margin; "
-                     "otherwise 17(1-1/(AF-1.5))% below, 10+17(1-1/(AF-1.5))% above), common "
-                     "practice, quoted from memory. AF estimated from log dec as pi/delta.")
-    elif rule.kind == "fixed":
-        rule_text = f"Margin rule: fixed, {rule.below:g}% below and {rule.above:g}% above."
-    else:
-        rule_text = "Margin rule: none (margins listed, not judged)."
+        rule_text += " AF estimated from log dec as pi/delta."
+    j = table.judgement
+    rule_text += (f" Judged: forward share at least {j.judge_share:g}; damping ratio "
+                  f"{j.overdamped_ratio:g} or more is overdamped, not a critical.")
     if not table.rows:
         console.print(f"{escape(title)}\nNo critical speed found up to "
                       f"{to_rpm(table.verified_above_to):.0f} rpm.")
     else:
         if table.has_response:
-            rule_text += (" 'resp.' columns: AF measured on the unbalance-response peaks "
-                          "(half-power bandwidth).")
-        print_table(title, margin_columns(table), table.rows,
+            rule_text += (" 'resp.' columns: the response peak matched to each critical by mode "
+                          "shape, its AF (half-power bandwidth) and the margin from the peak.")
+        print_table(title, margin_columns(table, terse=True), table.rows,
                     caption=None if brief else rule_text)
+    stab = result.stability
+    if stab is not None:
+        print_table(f"Stability from the minimum speed up to trip: "
+                    f"{to_rpm(stab.judged_range[0]):.0f}-{to_rpm(stab.judged_range[1]):.0f} rpm",
+                    STABILITY_COLUMNS, stab.modes,
+                    caption=None if brief else
+                    f"Stability rule: {stab.rule.describe()} ({stab.rule.label}).")
+        for m in stab.failing:
+            console.print(f"[bold red]unstable[/] {escape(describe_mode(m))}", highlight=False)
+        if stab.divergent_speeds:
+            console.print("[bold red]unstable[/] a non-oscillating motion grows at "
+                          f"{len(stab.divergent_speeds)} speeds (first at "
+                          f"{to_rpm(stab.divergent_speeds[0]):.0f} rpm)", highlight=False)
     response = result.response
     if response is not None and (response.vibration or response.clearance):
-        print_table("Unbalance response at running speeds: vibration and clearance",
+        print_table("Unbalance response: vibration (operating range) and clearance (up to trip)",
                     LIMIT_COLUMNS, response.vibration + response.clearance,
-                    caption=None if brief else (
-                        "Vibration limit 25.4*sqrt(12000/N) um pk-pk, at most 25.4 um; clearance "
-                        f"limit {rotor.response.clearance_share:.0%} of the radial clearance "
-                        "(common practice, from memory)."))
+                    caption=None if brief else response_caption(rotor))
+        if not response.steady:
+            console.print("[bold red]no steady state[/] a mode is unstable at "
+                          + ", ".join(f"{to_rpm(lo):.0f}-{to_rpm(hi):.0f} rpm"
+                                      for lo, hi in response.unstable_ranges)
+                          + ": the unbalance response there is not physical", highlight=False)
     for note in table.notes:
         console.print(f"[yellow]note[/] {escape(note)}", highlight=False)
-    verdict = "[green]all margins met[/]" if result.passed else "[bold red]margin check FAILED[/]"
+    for gap in result.gaps:
+        console.print(f"[bold red]not covered[/] {escape(gap.text)}", highlight=False)
+    verdict = {"pass": "[green]every check met[/]",
+               "fail": "[bold red]a check FAILED[/]",
+               "incomplete": "[bold red]NOT COVERED[/]: the analysis does not reach all it "
+                             "must judge (see above)"}[result.verdict]
     console.print(f"Verdict: {verdict}")
     if not brief:
         console.print(f"[dim]{CAUTION}[/]", highlight=False)
+
+
+def response_caption(rotor):
+    """The vibration and clearance rules, from the same formulas the checks use."""
+    from ..analysis.response import vibration_limit
+    limit = vibration_limit(rotor) * 1e6
+    if rotor.response.vibration_limit is not None:
+        vib = f"Vibration limit {limit:.1f} um pk-pk (set in the rotor file)"
+    else:
+        vib = (f"Vibration limit 25.4*sqrt(12000/N) um pk-pk with N the maximum continuous "
+               f"speed, at most 25.4 um: {limit:.1f} um (common practice, from memory)")
+    return (f"{vib}; clearance limit {rotor.response.clearance_share:.0%} of the radial "
+            "clearance from the lowest analysed speed up to trip (common practice, from "
+            "memory).")
 
 
 def run(case, map_path, json_path, csv_path, points, top, orders, rule, below, above, command,
@@ -99,10 +133,14 @@ def run(case, map_path, json_path, csv_path, points, top, orders, rule, below, a
                          workers)
     print_margins(result)
     document = result.margins.to_dict()
+    document["verdict"] = result.verdict
+    document["stability"] = result.stability.to_dict()
+    document["coverage_gaps"] = [g.to_dict() for g in result.gaps]
     if result.response is not None:
         document["response_checks"] = [c.to_dict() for c in
                                        result.response.vibration + result.response.clearance]
-        document["passed"] = result.passed
+        document["steady_state_exists"] = result.response.steady
+    document["passed"] = result.passed
     warnings = tuple(dict.fromkeys(result.sweep.warnings
                                    + (result.response.warnings if result.response else ())))
     print_warnings(warnings)
@@ -114,6 +152,12 @@ def run(case, map_path, json_path, csv_path, points, top, orders, rule, below, a
                              rotor.settings.orders, margins=result.margins)
         save_figure(ax.figure, map_path)
     return result
+
+
+def exit_code(result):
+    """The gate's exit code: 0 pass, 1 a check failed, 5 not covered (nothing failed)."""
+    return {"pass": EXIT_OK, "fail": EXIT_CHECK_FAILED, "incomplete": EXIT_NOT_COVERED}[
+        result.verdict]
 
 
 def make_command(name, gate):
@@ -140,7 +184,7 @@ def make_command(name, gate):
         result = run(case, map_path, json_path, csv_path, points, top, orders, rule, below, above,
                      name, jobs)
         if gate and not result.passed:
-            raise typer.Exit(EXIT_CHECK_FAILED)
+            raise typer.Exit(exit_code(result))
 
     return command
 

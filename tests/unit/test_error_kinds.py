@@ -52,7 +52,7 @@ CASES = [
      mutated('speeds = ["1500 rpm", "2500 rpm"', 'speeds = ["2500 rpm", "1500 rpm"')),
     ("order", "operating minimum above maximum", mutated('min_speed = "2400 rpm"', 'min_speed = "4000 rpm"')),
     ("length", "coefficient table of another length than its speeds",
-     mutated('kxx = ["1.10e8 N/m", "1.25e8 N/m", "1.40e8 N/m", "1.55e8 N/m"]', 'kxx = ["1.10e8 N/m"]')),
+     mutated('kxx = ["1.10e8 N/m", "1.25e8 N/m", "1.40e8 N/m", "1.55e8 N/m", "1.70e8 N/m", "1.77e8 N/m"]', 'kxx = ["1.10e8 N/m"]')),
     ("station", "a part at a station that does not exist", mutated("at = 6\nkxx", "at = 60\nkxx")),
     ("station", "a part at a station name that does not exist", mutated('at = "stage_1"', 'at = "stage_one"')),
     ("duplicate", "two bearings of one name", mutated('name = "NDE"', 'name = "DE"')),
