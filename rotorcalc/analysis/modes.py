@@ -64,7 +64,7 @@ def whirl_label(fraction):
 
 def log_decrement(eigenvalues):
     """Log decrement -2 pi Re(lambda) / Im(lambda); positive is stable."""
-    return -2.0 * np.pi * eigenvalues.real / eigenvalues.imag
+    return -2.0 * np.pi * eigenvalues.real / eigenvalues.imag + 0.0  # no -0.0
 
 
 #: A real part within this many estimated roundoff errors of zero is zero.

@@ -32,7 +32,7 @@ from ..assembly import SystemMatrices, assemble
 from ..errors import InputError
 from ..unbalance import Probe
 from ..units import to_rpm
-from .sweep import default_speeds, with_operating_speeds
+from .sweep import default_speeds, sweep, with_operating_speeds
 
 HALF_POWER = 1.0 / math.sqrt(2.0)
 #: Relative speed tolerance of peak and half-power refinement.
@@ -422,7 +422,8 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None, un
         Speed ranges (rad/s) where a mode is unstable (from
         :func:`~rotorcalc.analysis.stability.stability`): the response there has
         no steady state; those speeds are flagged and the verdict fails when
-        one of them lies where the limits are checked.
+        one of them lies where the limits are checked.  By default they are
+        found here by a sweep of the rotor's settings; ``()`` skips that.
 
     Returns
     -------
@@ -494,7 +495,10 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None, un
                 clearance.append(LimitCheck(case.name, c.name, float(speeds[k]),
                                             float(major[k, c.station]), share * c.radial,
                                             "clearance"))
-    unstable = tuple(unstable or ())
+    if unstable is None:
+        from .stability import stability   # the sweep's stability, for the flags
+        unstable = stability(system, sweep(system)).unstable_ranges
+    unstable = tuple(unstable)
     flagged = _flag_unstable(speeds, unstable)
     if flagged.any():
         spans = ", ".join(f"{to_rpm(lo):.0f}-{to_rpm(hi):.0f} rpm" for lo, hi in unstable)

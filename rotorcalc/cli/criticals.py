@@ -83,7 +83,8 @@ def print_margins(result, brief=False):
                     caption=None if brief else
                     f"Stability rule: {stab.rule.describe()} ({stab.rule.label}).")
         for m in stab.failing:
-            console.print(f"[bold red]unstable[/] {escape(describe_mode(m))}", highlight=False)
+            console.print(f"[bold red]stability fails[/] {escape(describe_mode(m))}",
+                          highlight=False)
         if stab.divergent_speeds:
             console.print("[bold red]unstable[/] a non-oscillating motion grows at "
                           f"{len(stab.divergent_speeds)} speeds (first at "

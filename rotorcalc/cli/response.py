@@ -10,6 +10,8 @@ import typer
 from ..analysis.response import unbalance_response
 from ..errors import InputError
 from ..tables import LIMIT_COLUMNS, PEAK_COLUMNS, response_columns, response_rows
+from ..units import to_rpm
+from .criticals import response_caption
 from .common import (check_output, console, fail_input, input_errors, load, print_table,
                      print_warnings, save_figure, speed_option, write_outputs)
 
@@ -49,12 +51,18 @@ def command(
     print_table(f"{rotor.name}: unbalance response peaks", PEAK_COLUMNS, result.peaks,
                 caption="AF = peak speed / half-power bandwidth (0.707 of the peak).")
     if result.vibration or result.clearance:
-        print_table("Response at running speeds", LIMIT_COLUMNS,
+        print_table("Vibration (operating range) and clearance (up to trip)", LIMIT_COLUMNS,
                     result.vibration + result.clearance,
-                    caption="Vibration limit 25.4*sqrt(12000/N) um pk-pk, at most 25.4 um; "
-                            f"clearance limit {rotor.response.clearance_share:.0%} of the radial "
-                            "clearance (common practice, from memory).")
-    verdict = "[green]within limits[/]" if result.passed else "[bold red]limits EXCEEDED[/]"
+                    caption=response_caption(rotor))
+    if not result.steady:
+        console.print("[bold red]no steady state[/] a mode is unstable at "
+                      + ", ".join(f"{to_rpm(lo):.0f}-{to_rpm(hi):.0f} rpm"
+                                  for lo, hi in result.unstable_ranges)
+                      + ": the response there is not physical and the limits cannot be "
+                        "judged", highlight=False)
+    verdict = ("[green]within limits[/]" if result.passed else
+               "[bold red]limits EXCEEDED[/]" if result.steady else
+               "[bold red]NOT VALID[/]: unstable, no steady state")
     console.print(f"Verdict: {verdict}")
     print_warnings(result.warnings)
     rows = [r for i in range(len(result.cases)) for r in response_rows(result, i)]
@@ -69,7 +77,7 @@ def command(
         if orbits is not None:
             with input_errors():
                 at_speeds = unbalance_response(rotor, speeds=speeds,
-                                               cases=[rotor.unbalance[index]])
+                                               cases=[rotor.unbalance[index]], unstable=())
             save_figure(plotting.orbits(at_speeds, 0).figure, orbits)
 
 

@@ -42,6 +42,7 @@ VERDICT_STYLES = {
     "fail": {"marker": "X", "facecolor": "#c4161c", "label": "fail"},
     "critically damped": {"marker": "D", "facecolor": "#c3cad2", "label": "critically damped"},
     "not judged": {"marker": "o", "facecolor": "none", "label": "not judged"},
+    "overdamped": {"marker": "s", "facecolor": "none", "label": "overdamped, not a critical"},
 }
 NEUTRAL_MARKER = {"marker": "o", "facecolor": PAPER, "label": ""}
 

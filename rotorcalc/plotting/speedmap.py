@@ -47,6 +47,9 @@ class SpeedMapArtists:
         Upper limit of the frequency axis, cpm.
     hidden_branches : int
         Branches lying wholly above ``freq_max``.
+    unstable_labels : list of Annotation
+        The word "unstable" at the start of every stretch of a branch whose log
+        decrement is below zero (colour alone does not say it in black and white).
     """
 
     figure: object
@@ -63,6 +66,7 @@ class SpeedMapArtists:
     legend: object = None
     freq_max: float = 0.0
     hidden_branches: int = 0
+    unstable_labels: list = field(default_factory=list)
 
 
 def whirl_speed_map(sweep, criticals=(), operating=None, orders=(1.0,), ax=None, margins=None,
@@ -151,6 +155,10 @@ def whirl_speed_map(sweep, criticals=(), operating=None, orders=(1.0,), ax=None,
         lowest = np.where(present, freq, np.inf).min(axis=0)
         hidden = int(np.sum(np.isfinite(lowest) & (lowest > top)))
 
+    unstable = []
+    for j in range(freq.shape[1] if freq.ndim == 2 else 0):
+        unstable.extend(_label_unstable(ax, speed, freq[:, j], log_dec[:, j], top))
+
     markers = []
     for crit, verdict in zip(criticals, verdicts):
         style = st.VERDICT_STYLES.get(verdict, st.NEUTRAL_MARKER)
@@ -173,7 +181,19 @@ def whirl_speed_map(sweep, criticals=(), operating=None, orders=(1.0,), ax=None,
         figure=fig, ax=ax, branches=branches, branch_whirl=branch_whirl,
         order_lines=order_lines, order_labels=order_labels, band=band, band_labels=band_labels,
         trip_line=trip_line, critical_markers=markers, critical_labels=labels, legend=legend,
-        freq_max=top, hidden_branches=hidden)
+        freq_max=top, hidden_branches=hidden, unstable_labels=unstable)
+
+
+def _label_unstable(ax, speed, freq, log_dec, top):
+    """"unstable" in words at the start of each stretch with a negative log decrement."""
+    bad = np.isfinite(freq) & np.isfinite(log_dec) & (log_dec < 0) & (freq <= top)
+    out = []
+    for k in np.nonzero(bad & ~np.concatenate([[False], bad[:-1]]))[0]:
+        out.append(ax.annotate(
+            "unstable", (speed[k], freq[k]), xytext=(4, 5), textcoords="offset points",
+            fontsize=st.FONT_NOTE, color=st.LOG_DEC_COLOURS[0], fontweight="bold",
+            zorder=7, clip_on=True))
+    return out
 
 
 def _verdicts(criticals, margins):
