@@ -45,6 +45,9 @@ MODULE_SECTIONS = (
      "9. Unbalance response, amplification factor and residual-unbalance rules"),
     ("test_whatif.py",
      "10. Critical-speed map, series supports, sensitivities and stiffness window"),
+    ("test_verdicts.py",
+     "11. Verdicts: stability onset, rigid-body count, whirl share, undamped models, "
+     "rules of industry practice"),
 )
 
 INTRO = """\
