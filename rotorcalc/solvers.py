@@ -40,6 +40,13 @@ from scipy.sparse.csgraph import reverse_cuthill_mckee
 from .units import to_hz
 
 
+#: What LAPACK, SuperLU and ARPACK raise when a solve fails on its numbers (not on
+#: a programming error): callers turn these into SolverError.
+NUMERICAL_FAILURES = (np.linalg.LinAlgError, la.LinAlgError, spla.ArpackError,
+                      spla.ArpackNoConvergence, RuntimeError, ValueError, FloatingPointError,
+                      ZeroDivisionError)
+
+
 @dataclass(frozen=True)
 class Eigenpairs:
     """Eigenvalues (rad/s, complex) and displacement eigenvectors (columns).

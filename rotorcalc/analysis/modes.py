@@ -7,7 +7,8 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..assembly import SystemMatrices, assemble
-from ..solvers import make_solver
+from ..errors import SolverError
+from ..solvers import NUMERICAL_FAILURES, make_solver
 from ..units import to_hz, to_rpm
 from .circular import split_degenerate
 
@@ -227,10 +228,17 @@ def modes_at(rotor_or_system, speed, n_modes=None, solver=None, near=None):
     d_mat = system.damping(speed) + speed * system.gyroscopic
     basis = system.rigid_body_basis(speed)
     zeros = system.zero_eigenvalues(speed, basis)
-    if near is None:
-        pairs = solve(system.mass, d_mat, system.stiffness(speed), n, zeros=zeros)
-    else:
-        pairs = solve(system.mass, d_mat, system.stiffness(speed), n, near=near, zeros=zeros)
+    try:
+        if near is None:
+            pairs = solve(system.mass, d_mat, system.stiffness(speed), n, zeros=zeros)
+        else:
+            pairs = solve(system.mass, d_mat, system.stiffness(speed), n, near=near, zeros=zeros)
+    except NUMERICAL_FAILURES as exc:
+        raise SolverError(f"the eigen-solve at {to_rpm(speed):.6g} rpm failed "
+                          f"({type(exc).__name__}: {exc})") from None
+    if not (np.all(np.isfinite(pairs.values)) and np.all(np.isfinite(pairs.vectors))):
+        raise SolverError(f"the eigen-solve at {to_rpm(speed):.6g} rpm returned values that "
+                          "are not finite (the model's numbers span too many decades?)")
     values, q = split_degenerate(pairs.values, pairs.vectors, system.mass, d_mat,
                                  system.stiffness(speed))
     order = np.argsort(values.imag, kind="stable")

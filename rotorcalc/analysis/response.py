@@ -29,7 +29,8 @@ from scipy.sparse.csgraph import reverse_cuthill_mckee
 
 from .. import standards
 from ..assembly import SystemMatrices, assemble
-from ..errors import InputError
+from ..errors import InputError, SolverError
+from ..solvers import NUMERICAL_FAILURES
 from ..unbalance import Probe
 from ..units import to_rpm
 from .sweep import default_speeds, sweep, with_operating_speeds
@@ -75,12 +76,32 @@ class HarmonicSolver:
                 + 1j * omega * (s.damping(omega) + omega * s.gyroscopic))
 
     def solve(self, omega, rhs):
-        """Solve ``Z(omega) Q = rhs`` (``rhs`` (n_dof, k) complex)."""
+        """Solve ``Z(omega) Q = rhs`` (``rhs`` (n_dof, k) complex).
+
+        An undamped system is singular exactly at a natural frequency (the
+        response is unbounded there); the solve then moves by one part in 1e9
+        of the speed, where the response is finite and huge, as it should be.
+        """
         p = self.order
-        z = self.dynamic_stiffness(omega).tocsc()[p][:, p].tocsc()
-        lu = spla.splu(z, permc_spec="NATURAL")
+        for shift in (0.0, 1e-9, -1e-9):
+            w = omega * (1.0 + shift)
+            z = self.dynamic_stiffness(w).tocsc()[p][:, p].tocsc()
+            try:
+                lu = spla.splu(z, permc_spec="NATURAL")
+                break
+            except RuntimeError:  # "Factor is exactly singular"
+                continue
+            except NUMERICAL_FAILURES as exc:
+                raise SolverError(f"the harmonic solve at {to_rpm(omega):.6g} rpm failed "
+                                  f"({type(exc).__name__}: {exc})") from None
+        else:
+            raise SolverError(f"the harmonic solve at {to_rpm(omega):.6g} rpm failed: the "
+                              "dynamic stiffness is singular")
         out = np.empty_like(rhs, dtype=complex)
         out[p] = lu.solve(np.ascontiguousarray(rhs[p], dtype=complex))
+        if not np.all(np.isfinite(out)):
+            raise SolverError(f"the harmonic solve at {to_rpm(omega):.6g} rpm returned values "
+                              "that are not finite")
         return out
 
 

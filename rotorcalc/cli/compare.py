@@ -134,9 +134,11 @@ def command(
         Column("Variant", lambda r: r[0], "{}"),
         Column("Changes", lambda r: r[1], "{}"),
         Column("Criticals", lambda r: len(r[2].margins.rows), "{:d}"),
-        Column("Screening", lambda r: "passes" if r[2].passed else "FAILS", "{}"),
-    ], summary, caption="Screening: every margin verdict (log dec and, with unbalance cases, "
-                        "response based) and the response limits, as 'check' judges them.")
+        Column("Screening", lambda r: {"pass": "passes", "fail": "FAILS",
+                                       "incomplete": "NOT COVERED"}[r[2].verdict], "{}"),
+    ], summary, caption="Screening: every verdict 'check' gives (separation margins by log dec "
+                        "and, with unbalance cases, by response; stability up to trip; response "
+                        "limits; coverage).")
     op = rotor.operating
     print_table(f"Critical speeds of each variant (base operating range "
                 f"{to_rpm(op.min_speed):.0f}-{to_rpm(op.max_speed):.0f} rpm)",

@@ -12,7 +12,7 @@ from rich.markup import escape
 
 from ..analysis.margins import CAUTION
 from ..errors import InputError
-from ..model import MarginRule
+from ..model import MARGIN_RULES, STABILITY_RULES, MarginRule, StabilityRule
 from ..analysis.stability import describe_mode
 from ..tables import LIMIT_COLUMNS, STABILITY_COLUMNS, margin_columns
 from ..units import to_rpm
@@ -22,12 +22,15 @@ from .common import (EXIT_CHECK_FAILED, EXIT_NOT_COVERED, EXIT_OK, JOBS_HELP, sc
 
 EXAMPLE = """[bold]Example[/]: rotorcalc criticals cases/feed_pump.toml --map pump-map.png --json pump.json"""
 
+STABILITY_HELP = ("Stability rule from the minimum speed up to trip: positive (every log "
+                  "decrement above 0; undamped is marginal and fails), at-least (--min-log-dec) "
+                  "or none.")
 RULE_HELP = ("Margin rule: af-curve (amplification-factor rule with its caps, common "
              "practice, from memory), fixed (--below/--above per cent) or none.")
 
 
 def apply_overrides(rotor, points=None, top=None, orders=None, rule=None, below=None,
-                    above=None):
+                    above=None, stability=None, min_log_dec=None):
     """Copy of ``rotor`` with command-line overrides of its analysis settings."""
     s = rotor.settings
     changes = {}
@@ -44,10 +47,20 @@ def apply_overrides(rotor, points=None, top=None, orders=None, rule=None, below=
                                  expected="e.g. 1 or 0.5,1,2", kind="type") from None
         if rule is not None or below is not None or above is not None:
             r = s.margin_rule
-            changes["margin_rule"] = MarginRule(kind=rule or r.kind,
-                                                below=r.below if below is None else below,
-                                                above=r.above if above is None else above,
-                                                af_threshold=r.af_threshold)
+            changes["margin_rule"] = dataclasses.replace(
+                r, kind=rule or r.kind, below=r.below if below is None else below,
+                above=r.above if above is None else above)
+        if stability is not None and stability not in STABILITY_RULES:
+            raise InputError("--stability", "is not a known rule", value=stability,
+                             expected=" or ".join(STABILITY_RULES), kind="choice")
+        if rule is not None and rule not in MARGIN_RULES:
+            raise InputError("--rule", "is not a known rule", value=rule,
+                             expected=" or ".join(MARGIN_RULES), kind="choice")
+        if stability is not None or min_log_dec is not None:
+            r = s.stability
+            changes["stability"] = StabilityRule(
+                kind=stability or ("at-least" if min_log_dec is not None else r.kind),
+                minimum=r.minimum if min_log_dec is None else min_log_dec)
         if changes:
             rotor = dataclasses.replace(rotor, settings=dataclasses.replace(s, **changes))
     return rotor
@@ -127,9 +140,10 @@ def response_caption(rotor):
 
 
 def run(case, map_path, json_path, csv_path, points, top, orders, rule, below, above, command,
-        workers=None):
+        workers=None, stability=None, min_log_dec=None):
     rotor = apply_overrides(load(case), points=points, top=top, orders=orders, rule=rule,
-                            below=below, above=above)
+                            below=below, above=above, stability=stability,
+                            min_log_dec=min_log_dec)
     result = screen_case(rotor, case, {"--map": map_path, "--json": json_path, "--csv": csv_path},
                          workers)
     print_margins(result)
@@ -180,10 +194,15 @@ def make_command(name, gate):
         above: Optional[float] = typer.Option(
             None, "--above",
             help="Required margin above the maximum continuous speed, per cent (fixed rule)."),
+        stability: Optional[str] = typer.Option(None, "--stability", help=STABILITY_HELP),
+        min_log_dec: Optional[float] = typer.Option(
+            None, "--min-log-dec",
+            help="Least log decrement every mode needs up to trip (implies --stability "
+                 "at-least; 0.1 is common practice, from memory)."),
         jobs: Optional[int] = typer.Option(None, "--jobs", min=0, help=JOBS_HELP),
     ):
         result = run(case, map_path, json_path, csv_path, points, top, orders, rule, below, above,
-                     name, jobs)
+                     name, jobs, stability, min_log_dec)
         if gate and not result.passed:
             raise typer.Exit(exit_code(result))
 

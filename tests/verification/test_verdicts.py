@@ -558,6 +558,22 @@ def test_verdict_clearance_check_covers_run_up():
     assert 5000 * RPM < eye.speed < 6500 * RPM
 
 
+def test_verdict_stability_rule_from_the_command_line(tmp_path):
+    text = (ROOT / "cases" / "overhung_fan.toml").read_text()
+    undamped = "\n".join(line for line in text.splitlines()
+                         if not line.startswith(("cxx", "cyy", "cx ", "cy ")))
+    path = tmp_path / "fan.toml"
+    path.write_text(undamped)
+    assert runner.invoke(app, ["check", str(path)]).exit_code == 1          # marginal
+    assert runner.invoke(app, ["check", str(path), "--stability", "none"]).exit_code == 0
+    fan = ROOT / "cases" / "overhung_fan.toml"
+    assert runner.invoke(app, ["check", str(fan)]).exit_code == 0
+    strict = runner.invoke(app, ["check", str(fan), "--min-log-dec", "0.1"])
+    assert strict.exit_code == 1 and "below minimum" in strict.output
+    bad = runner.invoke(app, ["check", str(fan), "--stability", "sometimes"])
+    assert bad.exit_code == 2 and "--stability" in bad.output
+
+
 def test_verdict_stability_rules_are_selectable():
     assert StabilityRule().passes(0.01) and not StabilityRule().passes(0.0)
     common = StabilityRule("at-least", 0.1)
