@@ -13,6 +13,7 @@ from typing import Callable
 
 import numpy as np
 
+from .analysis.margins import side_and_margin
 from .units import to_hz, to_rpm
 
 
@@ -219,18 +220,9 @@ N_PER_M_PER_KLBF_IN = 4.4482216152605e3 / 0.0254
 
 
 def separation(speed, operating):
-    """Where a speed lies against the operating range and its margin, per cent.
-
-    The same definition as the margin table: per cent of the nearer end,
-    negative inside the range.
-    """
-    lo, hi = operating.min_speed, operating.max_speed
-    if speed < lo:
-        return "below", 100.0 * (lo - speed) / lo
-    if speed > hi:
-        return "above", 100.0 * (speed - hi) / hi
-    to_lo = 100.0 * (speed - lo) / lo if lo > 0 else math.inf
-    return "inside", -min(to_lo, 100.0 * (hi - speed) / hi)
+    """Where a speed lies against the operating range and its margin, per cent (the
+    margin table's own definition)."""
+    return side_and_margin(speed, operating)
 
 
 def crossing_columns(operating):

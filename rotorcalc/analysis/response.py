@@ -33,6 +33,7 @@ from ..errors import InputError, SolverError
 from ..solvers import NUMERICAL_FAILURES
 from ..unbalance import Probe
 from ..units import to_rpm
+from .stability import stability
 from .sweep import default_speeds, sweep, with_operating_speeds
 
 HALF_POWER = 1.0 / math.sqrt(2.0)
@@ -516,8 +517,7 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None, un
                 clearance.append(LimitCheck(case.name, c.name, float(speeds[k]),
                                             float(major[k, c.station]), share * c.radial,
                                             "clearance"))
-    if unstable is None:
-        from .stability import stability   # the sweep's stability, for the flags
+    if unstable is None:   # the sweep's stability, for the flags
         unstable = stability(system, sweep(system)).unstable_ranges
     unstable = tuple(unstable)
     flagged = _flag_unstable(speeds, unstable)

@@ -87,6 +87,9 @@ class BodeArtists:
         half-power points have none, so this may be shorter than the markers.
     phase_markers : tuple of Line2D
         The phase lag at each peak speed, parallel to ``peak_markers``.
+    unstable_spans : tuple
+        Hatched spans (and their "unstable: no steady state" label) where a mode
+        is unstable: the response drawn there is not physical.
     legend : Legend
     """
 
@@ -104,6 +107,7 @@ class BodeArtists:
     half_power_bars: tuple = ()
     phase_markers: tuple = ()
     legend: object = None
+    unstable_spans: tuple = ()
 
 
 @dataclass(frozen=True)
@@ -468,6 +472,7 @@ def bode(response, case_index=0, probes=None, operating=None, ax=None, *, log_am
 
     markers, labels, bars, phase_marks = _draw_peaks(amp_ax, phase_ax, response, i, peaks,
                                                      looks, speeds, amp_lines)
+    unstable = _unstable_spans(panels, response)
 
     if phase_ax is not None:
         phase_ax.set_ylim(0.0, 360.0)
@@ -490,7 +495,23 @@ def bode(response, case_index=0, probes=None, operating=None, ax=None, *, log_am
                        bands=tuple(bands), band_labels=tuple(band_labels),
                        trip_lines=tuple(trips), peak_markers=tuple(markers),
                        peak_labels=tuple(labels), half_power_bars=tuple(bars),
-                       phase_markers=tuple(phase_marks), legend=legend)
+                       phase_markers=tuple(phase_marks), legend=legend,
+                       unstable_spans=tuple(unstable))
+
+
+def _unstable_spans(panels, response):
+    """Hatch the speeds where a mode is unstable, and say so in words once."""
+    out = []
+    for lo, hi in getattr(response, "unstable_ranges", ()):
+        for a in panels:
+            out.append(a.axvspan(to_rpm(lo), to_rpm(hi), facecolor="none", hatch="///",
+                                 edgecolor=st.LOG_DEC_COLOURS[0], linewidth=0.0, alpha=0.45,
+                                 zorder=1))
+        out.append(panels[0].text(to_rpm(lo), 0.97, " unstable: no steady state",
+                                  transform=panels[0].get_xaxis_transform(), ha="left",
+                                  va="top", fontsize=st.FONT_NOTE, fontweight="bold",
+                                  color=st.LOG_DEC_COLOURS[0], clip_on=True, zorder=7))
+    return out
 
 
 def _break_wraps(x, lag):

@@ -26,6 +26,7 @@ exists:
 import json
 import math
 
+import matplotlib
 import numpy as np
 import pytest
 from typer.testing import CliRunner
@@ -48,6 +49,7 @@ FROM_MEMORY = "common practice, from memory (industry standards for centrifugal 
 CROSS = ("isotropic Jeffcott with cross-coupling q: onset q = c sqrt(k/m) "
          "(Friswell et al. 2010, ch. 5, from memory)")
 runner = CliRunner()
+matplotlib.use("Agg")
 
 # ---------------------------------------------------------------------------
 # A Jeffcott rotor whose cross-coupled stiffness grows with speed
@@ -99,6 +101,10 @@ def test_verdict_stability_onset_of_cross_coupled_jeffcott():
     assert lo == pytest.approx(onset, rel=1e-4) and hi == pytest.approx(result.sweep.speeds[-1])
     # the backward mode stays stable (cross-coupling damps backward whirl)
     assert all(m.verdict == "stable" for m in stab.modes if m.whirl == "backward")
+    # the whirl-speed map says it in words, not only by colour
+    from rotorcalc.plotting import whirl_speed_map
+    drawn = whirl_speed_map(result.sweep, result.criticals, op, margins=result.margins)
+    assert [t.get_text() for t in drawn.unstable_labels] == ["unstable"]
 
 
 def test_verdict_unstable_below_the_range_is_reported_not_judged():
@@ -120,6 +126,9 @@ def test_verdict_unbalance_response_of_an_unstable_rotor_is_flagged():
     assert not res.steady and not res.passed
     assert res.unstable[res.speeds > 1250.0].all() and not res.unstable[res.speeds < 1150].any()
     assert any("no steady state" in w for w in res.warnings)
+    from rotorcalc.plotting import bode
+    drawn = bode(res)
+    assert drawn.unstable_spans and "no steady state" in drawn.unstable_spans[-1].get_text()
 
 
 # ---------------------------------------------------------------------------
@@ -340,12 +349,17 @@ def test_verdict_undamped_model_reads_zero_and_judges_consistently():
     assert result.verdict == "fail"
 
 
-def test_verdict_undamped_response_has_no_bandwidth(tmp_path):
+def undamped_fan(tmp_path):
+    """The bundled fan with every damping coefficient removed."""
     text = (ROOT / "cases" / "overhung_fan.toml").read_text()
-    undamped = "\n".join(line for line in text.splitlines()
-                         if not line.startswith(("cxx", "cyy", "cx ", "cy ")))
     path = tmp_path / "fan.toml"
-    path.write_text(undamped)
+    path.write_text("\n".join(line for line in text.splitlines()
+                              if not line.startswith(("cxx", "cyy", "cx ", "cy "))))
+    return path
+
+
+def test_verdict_undamped_response_has_no_bandwidth(tmp_path):
+    path = undamped_fan(tmp_path)
     for command in ("check", "response"):
         result = runner.invoke(app, [command, str(path)])
         assert result.exception is None or isinstance(result.exception, SystemExit), \
@@ -559,11 +573,7 @@ def test_verdict_clearance_check_covers_run_up():
 
 
 def test_verdict_stability_rule_from_the_command_line(tmp_path):
-    text = (ROOT / "cases" / "overhung_fan.toml").read_text()
-    undamped = "\n".join(line for line in text.splitlines()
-                         if not line.startswith(("cxx", "cyy", "cx ", "cy ")))
-    path = tmp_path / "fan.toml"
-    path.write_text(undamped)
+    path = undamped_fan(tmp_path)
     assert runner.invoke(app, ["check", str(path)]).exit_code == 1          # marginal
     assert runner.invoke(app, ["check", str(path), "--stability", "none"]).exit_code == 0
     fan = ROOT / "cases" / "overhung_fan.toml"
