@@ -172,7 +172,7 @@ class SystemMatrices:
             return np.zeros((self.n_dof, 0))
         return np.linalg.qr(rigid @ free.T)[0]
 
-    def zero_eigenvalues(self, omega, basis=None):
+    def zero_eigenvalues(self, omega, basis=None, d_mat=None):
         """How many eigenvalues of the pencil at ``omega`` are exactly zero.
 
         With ``N`` the rigid-body basis (``r`` columns), the quadratic pencil
@@ -184,7 +184,8 @@ class SystemMatrices:
         r = basis.shape[1]
         if r == 0:
             return 0
-        d_mat = self.damping(omega) + omega * self.gyroscopic
+        if d_mat is None:
+            d_mat = self.damping(omega) + omega * self.gyroscopic
         projected = basis.T @ (d_mat @ basis)
         scale = abs(d_mat).sum(axis=1).max() if d_mat.nnz else 0.0
         if scale == 0.0:

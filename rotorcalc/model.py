@@ -329,7 +329,7 @@ class MarginRule:
             value = getattr(self, name)
             if not (value > 0):  # inf lifts the cap
                 raise InputError(f"analysis.margin_{name}", "must be positive", value=value,
-                                 expected="a percentage such as 16, or inf for no cap",
+                                 expected='a percentage such as 16, or "none" for no cap',
                                  kind="range")
 
     @property
@@ -440,10 +440,10 @@ class Settings:
             raise InputError("analysis.beam_theory", "is not a known beam theory",
                              value=self.beam_theory, expected=" or ".join(BEAM_THEORIES),
                              kind="choice")
-        for name in ("speed_from", "speed_to"):
-            value = getattr(self, name)
-            if value is not None:
-                _positive(f"analysis.{name}", value, allow_zero=True)
+        if self.speed_from is not None:
+            _positive("analysis.speed_from", self.speed_from, allow_zero=True)
+        if self.speed_to is not None:
+            _positive("analysis.speed_to", self.speed_to)
         if (self.speed_from is not None and self.speed_to is not None
                 and self.speed_to <= self.speed_from):
             raise InputError("analysis.speed_to", "must be above speed_from", value=self.speed_to,

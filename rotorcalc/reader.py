@@ -395,8 +395,13 @@ def _settings(table):
         raise InputError(f"{where}.judge_share", "is given together with judge_backward",
                          expected="one of them (judge_backward = true is judge_share = 0)",
                          kind="conflict")
-    stability = StabilityRule(kind=_string(table, "stability_rule", where, default="positive"),
-                              minimum=_number(table, "min_log_dec", where, 0.1))
+    kind = _string(table, "stability_rule", where,
+                   default="at-least" if "min_log_dec" in table else "positive")
+    if "min_log_dec" in table and kind != "at-least":
+        raise InputError(f"{where}.min_log_dec", f"has no effect with stability_rule = {kind!r}",
+                         expected='stability_rule = "at-least" (or leave min_log_dec out)',
+                         kind="conflict")
+    stability = StabilityRule(kind=kind, minimum=_number(table, "min_log_dec", where, 0.1))
     return Settings(speed_from=_quantity(table, "speed_from", u.SPEED, where),
                     speed_to=_quantity(table, "speed_to", u.SPEED, where),
                     speed_count=_integer(table, "speed_count", where, 61),
@@ -411,7 +416,7 @@ def _settings(table):
 
 def _cap(table, key, where, default):
     """A margin cap in per cent; the text "none" lifts it."""
-    if isinstance(table.get(key), str) and table[key].strip().lower() == "none":
+    if table.get(key) == "none":
         return math.inf
     return _number(table, key, where, default)
 
@@ -438,9 +443,18 @@ def _unbalance_cases(table, names, n_sections, rotor):
             wk = f"{where}.weight[{j}]"
             check_keys(w, WEIGHT_KEYS, wk)
             station = _station(w, wk, names, n_sections)
-            mass = standards.residual_mass(rotor, station) if carried is None else carried
-            amount = _unbalance_amount(w, wk, multiple * standards.residual_unbalance(
-                mass, rotor.operating.max_speed))
+
+            def residual(station=station, wk=wk):
+                mass = standards.residual_mass(rotor, station) if carried is None else carried
+                if not mass > 0:
+                    raise InputError(f"{wk}.amount", "cannot be the residual amount: the "
+                                     "journal nearer the weight carries no static load "
+                                     f"({mass:.3g} kg; the overhang lifts it)",
+                                     value="residual", expected="an amount such as \"12 g*mm\","
+                                     " or residual_mass for the case", kind="range")
+                return multiple * standards.residual_unbalance(mass, rotor.operating.max_speed)
+
+            amount = _unbalance_amount(w, wk, residual)
             phase = _angle(w, "phase", wk)
             weights.append(UnbalanceWeight(station, amount, phase, key=wk))
         cases.append(UnbalanceCase(case_name, tuple(weights),
@@ -451,22 +465,31 @@ def _unbalance_cases(table, names, n_sections, rotor):
 def _angle(table, key, where):
     """An angle with a unit; a bare number other than 0 is refused (90 would be radians)."""
     value = table.get(key, 0.0)
-    if isinstance(value, (int, float)) and not isinstance(value, bool) and value != 0:
+    number = None
+    if isinstance(value, (int, float)) and not isinstance(value, bool):
+        number = float(value)
+    elif isinstance(value, str):
+        try:
+            number = float(value.strip())   # a number written as text has no unit either
+        except ValueError:
+            pass
+    if number is not None and number != 0 and math.isfinite(number):
         raise InputError(_path(where, key), "needs a unit", value=value,
-                         expected=f'an angle such as "{value:g} deg" or "{value:g} rad"',
+                         expected=f'an angle such as "{number:g} deg" or "{number:g} rad"',
                          kind="unit")
     return u.parse(value, u.ANGLE, _path(where, key))
 
 
 def _unbalance_amount(w, where, residual):
-    """An explicit amount, mass times radius, or "residual" (the common-practice amount)."""
+    """An explicit amount, mass times radius, or "residual" (the common-practice amount,
+    from ``residual()``, computed only when asked for)."""
     given = {"amount", "mass", "radius"} & set(w)
     if "amount" in given and len(given) > 1:
         raise InputError(f"{where}.amount", "is given together with mass and radius",
                          expected="either amount, or mass and radius", kind="conflict")
     if "amount" in w:
         if isinstance(w["amount"], str) and w["amount"].strip().lower() == "residual":
-            return residual
+            return residual()
         return u.parse(w["amount"], u.UNBALANCE, f"{where}.amount")
     if not given:
         raise InputError(f"{where}.amount", "is missing",

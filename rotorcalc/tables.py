@@ -163,7 +163,7 @@ LIMIT_COLUMNS = [
     Column("Value um", lambda c: c.value * 1e6, "{:.2f}", "value_um"),
     Column("Limit um", lambda c: c.limit * 1e6, "{:.2f}", "limit_um"),
     Column("Ratio", lambda c: c.ratio, "{:.2f}", "ratio"),
-    Column("Verdict", lambda c: "pass" if c.passed else "fail", "{}", "verdict"),
+    Column("Verdict", lambda c: c.verdict, "{}", "verdict"),
 ]
 
 

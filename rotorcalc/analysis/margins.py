@@ -117,14 +117,16 @@ class Judgement:
             return "unstable"
         if crit.damping_ratio >= self.overdamped_ratio:
             return "overdamped"
-        if crit.forward_fraction < self.judge_share:
-            return "not judged"
+        if self.judge_share > 0 and crit.forward_fraction <= self.judge_share:
+            return "not judged"   # judged: forward share above the threshold (0: all)
         return "judged"
 
     def verdict(self, crit, af, margin, need):
         kind = self.kind(crit)
         if kind != "judged":
             return "fail" if kind == "unstable" else kind
+        if self.rule.kind == "none":
+            return "not judged"   # margins listed, not judged
         if self.rule.kind == "af-curve" and af < self.rule.af_threshold:
             return "critically damped"
         return "pass" if margin >= need else "fail"

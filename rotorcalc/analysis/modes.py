@@ -225,27 +225,25 @@ def modes_at(rotor_or_system, speed, n_modes=None, solver=None, near=None):
     n = system.rotor.settings.modes if n_modes is None else n_modes
     solve = solver if solver is not None else make_solver()
     speed = float(speed)
-    d_mat = system.damping(speed) + speed * system.gyroscopic
+    c_mat, k_mat = system.damping(speed), system.stiffness(speed)
+    d_mat = c_mat + speed * system.gyroscopic
     basis = system.rigid_body_basis(speed)
-    zeros = system.zero_eigenvalues(speed, basis)
+    zeros = system.zero_eigenvalues(speed, basis, d_mat)
     try:
         if near is None:
-            pairs = solve(system.mass, d_mat, system.stiffness(speed), n, zeros=zeros)
+            pairs = solve(system.mass, d_mat, k_mat, n, zeros=zeros)
         else:
-            pairs = solve(system.mass, d_mat, system.stiffness(speed), n, near=near, zeros=zeros)
+            pairs = solve(system.mass, d_mat, k_mat, n, near=near, zeros=zeros)
     except NUMERICAL_FAILURES as exc:
         raise SolverError(f"the eigen-solve at {to_rpm(speed):.6g} rpm failed "
                           f"({type(exc).__name__}: {exc})") from None
     if not (np.all(np.isfinite(pairs.values)) and np.all(np.isfinite(pairs.vectors))):
         raise SolverError(f"the eigen-solve at {to_rpm(speed):.6g} rpm returned values that "
                           "are not finite (the model's numbers span too many decades?)")
-    values, q = split_degenerate(pairs.values, pairs.vectors, system.mass, d_mat,
-                                 system.stiffness(speed))
+    values, q = split_degenerate(pairs.values, pairs.vectors, system.mass, d_mat, k_mat)
     order = np.argsort(values.imag, kind="stable")
     values, q = values[order], q[:, order]
-    k_mat = system.stiffness(speed)
-    values = snap_roundoff(values, q, system.mass, d_mat, k_mat,
-                           is_conservative(system.damping(speed), k_mat))
+    values = snap_roundoff(values, q, system.mass, d_mat, k_mat, is_conservative(c_mat, k_mat))
     tdofs = system.translation_dofs
     shapes = np.stack([q[tdofs[:, 0], :].T, q[tdofs[:, 1], :].T], axis=-1)
     peak = _peak(shapes)

@@ -184,7 +184,11 @@ class Peak:
 
 @dataclass(frozen=True)
 class LimitCheck:
-    """Worst ratio of a response to its limit over the operating range."""
+    """Worst ratio of a response to its limit over the speeds it checks.
+
+    ``valid`` is False when a mode is unstable at one of those speeds: there
+    is no steady state to compare with the limit, and the check fails.
+    """
 
     case: str
     where: str
@@ -192,6 +196,7 @@ class LimitCheck:
     value: float
     limit: float
     kind: str  # "vibration" (pk-pk at a probe) or "clearance" (orbit radius at a station)
+    valid: bool = True
 
     @property
     def ratio(self):
@@ -199,12 +204,19 @@ class LimitCheck:
 
     @property
     def passed(self):
-        return self.ratio <= 1.0
+        return self.valid and self.ratio <= 1.0
+
+    @property
+    def verdict(self):
+        if not self.valid:
+            return "no steady state"
+        return "pass" if self.passed else "fail"
 
     def to_dict(self):
         return {"case": self.case, "where": self.where, "kind": self.kind,
                 "speed_rpm": float(to_rpm(self.speed)), "value_um": self.value * 1e6,
-                "limit_um": self.limit * 1e6, "ratio": self.ratio, "passed": self.passed}
+                "limit_um": self.limit * 1e6, "ratio": self.ratio,
+                "steady_state": self.valid, "verdict": self.verdict, "passed": self.passed}
 
 
 @dataclass(frozen=True)
@@ -243,7 +255,6 @@ class Response:
     warnings: tuple = ()
     unstable: np.ndarray | None = None
     unstable_ranges: tuple = ()
-    checked_to: float = math.inf
 
     def probe_amplitude_pp(self, case_index, probe_index):
         """Peak-to-peak amplitude curve of one probe, m."""
@@ -260,11 +271,9 @@ class Response:
 
     @property
     def steady(self):
-        """False when a mode is unstable at a checked speed (any analysed speed up to
-        ``checked_to``): there the response has no steady state to check."""
-        if self.unstable is None:
-            return True
-        return not self.unstable[self.speeds <= self.checked_to * (1 + 1e-12)].any()
+        """False when a mode is unstable at a speed some check reads: there the
+        response has no steady state to compare with a limit."""
+        return all(c.valid for c in self.vibration + self.clearance)
 
     @property
     def passed(self):
@@ -494,29 +503,6 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None, un
     # rotor passes its first critical on the way up (common practice, from memory)
     to_top = speeds <= top * (1 + 1e-12)
     warnings = list(system.table_warnings(speeds))
-    vibration, clearance = [], []
-    if in_range.any():
-        limit = vibration_limit(rotor)
-        if rotor.response.check_vibration:
-            for i, case in enumerate(cases):
-                for j, probe in enumerate(probes):
-                    amp = np.where(in_range, 2.0 * np.abs(pv[i, :, j]), -np.inf)
-                    k = int(np.argmax(amp))
-                    vibration.append(LimitCheck(case.name, probe.name, float(speeds[k]),
-                                                float(amp[k]), limit, "vibration"))
-    else:
-        warnings.append("the response sweep does not cover the operating range: "
-                        "vibration was not checked")
-    if to_top.any():
-        share = rotor.response.clearance_share
-        for i, case in enumerate(cases):
-            major = orbit_axes(st[i, ..., 0], st[i, ..., 1])[0]
-            for c in rotor.clearances:
-                values = np.where(to_top, major[:, c.station], -np.inf)
-                k = int(np.argmax(values))
-                clearance.append(LimitCheck(case.name, c.name, float(speeds[k]),
-                                            float(major[k, c.station]), share * c.radial,
-                                            "clearance"))
     if unstable is None:   # the sweep's stability, for the flags
         unstable = stability(system, sweep(system)).unstable_ranges
     unstable = tuple(unstable)
@@ -525,10 +511,35 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None, un
         spans = ", ".join(f"{to_rpm(lo):.0f}-{to_rpm(hi):.0f} rpm" for lo, hi in unstable)
         warnings.append(f"a mode is unstable at {spans}: no steady state exists there, the "
                         "response shown at those speeds is not physical")
+    vibration, clearance = [], []
+    if in_range.any():
+        limit = vibration_limit(rotor)
+        steady = not (flagged & in_range).any()
+        if rotor.response.check_vibration:
+            for i, case in enumerate(cases):
+                for j, probe in enumerate(probes):
+                    amp = np.where(in_range, 2.0 * np.abs(pv[i, :, j]), -np.inf)
+                    k = int(np.argmax(amp))
+                    vibration.append(LimitCheck(case.name, probe.name, float(speeds[k]),
+                                                float(amp[k]), limit, "vibration", steady))
+    else:
+        warnings.append("the response sweep does not cover the operating range: "
+                        "vibration was not checked")
+    if to_top.any():
+        share = rotor.response.clearance_share
+        steady = not (flagged & to_top).any()
+        for i, case in enumerate(cases):
+            major = orbit_axes(st[i, ..., 0], st[i, ..., 1])[0]
+            for c in rotor.clearances:
+                values = np.where(to_top, major[:, c.station], -np.inf)
+                k = int(np.argmax(values))
+                clearance.append(LimitCheck(case.name, c.name, float(speeds[k]),
+                                            float(major[k, c.station]), share * c.radial,
+                                            "clearance", steady))
     names = tuple(link.bearing.name or str(i) for i, link in enumerate(system.links))
     return Response(speeds, tuple(c.name for c in cases), st, probes, pv, fb, fs, names,
                     tuple(peaks), tuple(vibration), tuple(clearance), tuple(warnings), flagged,
-                    unstable, float(top))
+                    unstable)
 
 
 def vibration_limit(rotor):

@@ -20,7 +20,7 @@ from .sweep import Sweep, sweep
 class CoverageGap:
     """Something the screening must judge but the analysis does not reach.
 
-    ``kind``: "sweep-top", "sweep-bottom", "bearing-table" or "solver".
+    ``kind``: "sweep-top", "sweep-bottom", "bearing-table", "response" or "solver".
     """
 
     kind: str
@@ -105,7 +105,7 @@ def screen(rotor: Rotor, speeds=None, orders=None, solver=None, progress=None,
                                float(result.speeds[-1]),
                                peaks=None if response is None else response.peaks,
                                judgement=judgement)
-    gaps = coverage_gaps(rotor, result, table)
+    gaps = coverage_gaps(rotor, result, table, response)
     return Screening(rotor, result, crits, table, response, stab, gaps)
 
 
@@ -121,9 +121,18 @@ def required_span(rotor: Rotor):
     return bottom, top
 
 
-def coverage_gaps(rotor: Rotor, result: Sweep, table: MarginTable):
+def coverage_gaps(rotor: Rotor, result: Sweep, table: MarginTable, response=None):
     """What the screening must judge but did not reach (see :class:`CoverageGap`)."""
     gaps = []
+    if response is not None:
+        op = rotor.operating
+        trip = op.trip_speed or op.max_speed
+        lo, hi = float(response.speeds[0]), float(response.speeds[-1])
+        if lo > op.min_speed * (1 + 1e-9) or hi < trip * (1 - 1e-9):
+            gaps.append(CoverageGap(
+                "response", f"the unbalance response sweep ({to_rpm(lo):.0f}-{to_rpm(hi):.0f} "
+                f"rpm) does not cover the minimum speed up to trip ({to_rpm(op.min_speed):.0f}-"
+                f"{to_rpm(trip):.0f} rpm): its limits were not checked there"))
     bottom, top = required_span(rotor)
     first, last = float(result.speeds[0]), float(result.speeds[-1])
     if last < top * (1 - 1e-9):

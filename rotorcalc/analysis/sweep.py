@@ -33,6 +33,11 @@ def default_speeds(rotor: Rotor):
     top = max(rotor.operating.max_speed, rotor.operating.trip_speed or 0.0)
     start = 0.0 if s.speed_from is None else s.speed_from
     stop = 1.5 * top if s.speed_to is None else s.speed_to
+    if stop <= start and s.speed_to is not None:
+        raise InputError("analysis.speed_to", "is not above the start of the sweep",
+                         value=f"{to_rpm(stop):.6g} rpm",
+                         expected=f"a speed above {to_rpm(start):.6g} rpm (speed_from, or 0 by "
+                                  "default)", kind="order")
     if stop <= start:
         raise InputError("analysis.speed_from", "is not below the top of the sweep",
                          value=f"{to_rpm(start):.6g} rpm",

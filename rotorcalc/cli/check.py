@@ -10,8 +10,9 @@ EXAMPLE = ("[bold]Example[/]: rotorcalc check cases/compressor.toml || echo 'not
            "Exit codes: 0 every check met; 1 a check failed (a separation margin, stability, "
            "a response limit); 2 bad input; 3 a numerical failure; 4 an output could not be "
            "written; 5 not covered: nothing failed, but the analysis does not reach all it "
-           "must judge (the sweep stops short of trip or of a margin band, or a bearing table "
-           "does not cover a judged critical).")
+           "must judge (the sweep stops short of trip or of a margin band, a bearing table "
+           "does not cover a judged critical, the response sweep misses the minimum speed to "
+           "trip, or a sparse eigen-solve could not prove it missed no mode).")
 
 
 def register(app: typer.Typer):

@@ -143,13 +143,27 @@ def print_table(title, columns, rows, caption=None):
     console.print(table)
 
 
+@contextmanager
+def output_errors(path):
+    """An output that cannot be written: one line naming the file and why, exit code 4."""
+    try:
+        yield
+    except OSError as exc:
+        why = exc.strerror or str(exc) or type(exc).__name__
+        errors.print(f"[bold red]Output error[/] cannot write {escape(str(path))}: "
+                     f"{escape(why)}", highlight=False, soft_wrap=True)
+        raise typer.Exit(EXIT_OUTPUT)
+
+
 def write_outputs(command, case, result_dict, warnings, json_path, csv_path, columns, rows):
     if json_path is not None:
-        write_json(json_path, envelope(command, case, result_dict, warnings))
+        with output_errors(json_path):
+            write_json(json_path, envelope(command, case, result_dict, warnings))
         console.print(f"wrote {json_path}")
     if csv_path is not None:
         header, body = rows_csv(columns, rows)
-        write_csv(csv_path, header, body)
+        with output_errors(csv_path):
+            write_csv(csv_path, header, body)
         console.print(f"wrote {csv_path}")
 
 
@@ -161,7 +175,8 @@ def print_warnings(warnings):
 def save_figure(fig, path: Path):
     from ..plotting import save
     try:
-        save(fig, path)
+        with output_errors(path):
+            save(fig, path)
     except ValueError as exc:
         fail_input(InputError("picture file", str(exc), value=str(path),
                               expected="a .png, .svg or .pdf file name", kind="output"))

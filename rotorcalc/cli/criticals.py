@@ -77,7 +77,8 @@ def print_margins(result, brief=False):
     if rule.kind == "af-curve":
         rule_text += " AF estimated from log dec as pi/delta."
     j = table.judgement
-    rule_text += (f" Judged: forward share at least {j.judge_share:g}; damping ratio "
+    judged = ("every whirl" if j.judge_share == 0 else f"forward share above {j.judge_share:g}")
+    rule_text += (f" Judged: {judged}; damping ratio "
                   f"{j.overdamped_ratio:g} or more is overdamped, not a critical.")
     if not table.rows:
         console.print(f"{escape(title)}\nNo critical speed found up to "
@@ -121,8 +122,7 @@ def print_margins(result, brief=False):
                "incomplete": "[bold red]NOT COVERED[/]: the analysis does not reach all it "
                              "must judge (see above)"}[result.verdict]
     console.print(f"Verdict: {verdict}")
-    if not brief:
-        console.print(f"[dim]{CAUTION}[/]", highlight=False)
+    console.print(f"[dim]{CAUTION}[/]", highlight=False)
 
 
 def response_caption(rotor):

@@ -101,6 +101,9 @@ BAD = [
     ('max_speed = "3000 rpm"', 'max_speed = "3000"', "operating.max_speed", "unit"),
     ('max_speed = "3000 rpm"', 'max_speed = "1500 percent"', "operating.max_speed", "unit"),
     ('speeds = ["1000 rpm", "3000 rpm"]', 'speeds = [1000, 3000]', "bearing[0].speeds[0]", "unit"),
+    ('max_speed = "3000 rpm"', 'max_speed = "3000 rpm"\n[analysis]\nmin_log_dec = 0.2\nstability_rule = "none"', "analysis.min_log_dec", "conflict"),
+    ('max_speed = "3000 rpm"', 'max_speed = "3000 rpm"\n[analysis]\nspeed_to = 0', "analysis.speed_to", "range"),
+    ('max_speed = "3000 rpm"', 'max_speed = "3000 rpm"\n[analysis]\nmargin_cap_above = "None"', "analysis.margin_cap_above", "type"),
     ('elements = 3', 'elements = 2.5', "section[1].elements", "type"),
     ('at = 1\nmass', 'at = "middle"\nmass', "disk[0].at", "station"),
     ('title = "test rotor"', 'title = "test rotor"\ncolour = "red"', "colour", "unknown-key"),
@@ -124,6 +127,13 @@ def test_unknown_key_suggests_nearest():
     text = mutate('outer_diameter = "60 mm"\nmaterial', 'outer_diamter = "60 mm"\nmaterial')
     with pytest.raises(InputError, match="did you mean 'outer_diameter'"):
         parse_rotor(text)
+
+
+def test_min_log_dec_alone_means_at_least_and_caps_can_be_lifted():
+    rotor = parse_rotor(BASE + '[analysis]\nmin_log_dec = 0.2\nmargin_cap_above = "none"\n')
+    assert rotor.settings.stability.kind == "at-least"
+    assert rotor.settings.stability.minimum == 0.2
+    assert rotor.settings.margin_rule.cap_above == math.inf
 
 
 def test_zero_is_the_one_speed_that_needs_no_unit():

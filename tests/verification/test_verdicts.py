@@ -584,6 +584,82 @@ def test_verdict_stability_rule_from_the_command_line(tmp_path):
     assert bad.exit_code == 2 and "--stability" in bad.output
 
 
+def test_verdict_lifted_journal_needs_an_explicit_amount(tmp_path):
+    """A heavy overhang lifts the far journal (negative static load): the residual
+    amount is refused with a message, an explicit amount is read (the file once
+    crashed every command with a traceback)."""
+    text = (ROOT / "cases" / "overhung_fan.toml").read_text()
+    heavy = text.replace('mass = "300 kg"', 'mass = "900 kg"', 1)
+    weight = ('\n[unbalance.between]\n[[unbalance.between.weight]]\nat = "mid_span"\n'
+              'amount = "{}"\n')
+    path = tmp_path / "fan.toml"
+    path.write_text(heavy + weight.format("residual"))
+    loads = standards.journal_static_loads(parse_rotor(heavy))
+    assert min(loads.values()) < 0                      # the drive-end journal lifts
+    result = runner.invoke(app, ["check", str(path)])
+    assert result.exit_code == 2 and "carries no static load" in result.output
+    path.write_text(heavy + weight.format("50 g*mm"))
+    assert runner.invoke(app, ["criticals", str(path)]).exit_code == 0
+
+
+def test_verdict_output_that_cannot_be_written_exits_4(tmp_path):
+    blocker = tmp_path / "afile"
+    blocker.write_text("")
+    fan = ROOT / "cases" / "overhung_fan.toml"
+    result = runner.invoke(app, ["check", str(fan), "--json", str(blocker / "x.json")])
+    assert result.exit_code == 4 and "Output error" in result.output
+    assert "Traceback" not in result.output
+
+
+def test_verdict_response_sweep_must_cover_the_range(tmp_path):
+    text = (ROOT / "cases" / "overhung_fan.toml").read_text()
+    path = tmp_path / "fan.toml"
+    path.write_text(text + '\n[response]\nspeed_from = "1000 rpm"\n')
+    result = runner.invoke(app, ["check", str(path)])
+    assert result.exit_code == 5 and "unbalance response sweep" in result.output
+
+
+def test_verdict_instability_below_the_range_fails_the_run_up_clearance_check():
+    from rotorcalc.analysis.response import unbalance_response
+    from rotorcalc.unbalance import Clearance, Probe, UnbalanceCase, UnbalanceWeight
+    slope = C_DISK * W_N / 1200.0
+    rotor = cross_coupled_jeffcott(slope, OperatingRange(1500.0, 1700.0, 1750.0),
+                                   speed_to=1800.0)
+    # q falling with speed: unstable from rest up to 800 rad/s, stable in the range
+    source = rotor.bearings[2]
+    q_top = slope * TOP
+    falling = Bearing(1, {**source.coefficients, "kxy": (q_top, 0.0), "kyx": (-q_top, 0.0)},
+                      speeds=(0.0, TOP), name="gas", kind="seal")
+    rotor = Rotor(rotor.sections, OperatingRange(1500.0, 1700.0, 1750.0), disks=rotor.disks,
+                  bearings=rotor.bearings[:2] + (falling,), settings=rotor.settings,
+                  clearances=(Clearance(1, 1e-3, "disk seal"),))
+    result = screen(rotor)
+    # no mode unstable from the minimum speed up (the anti-symmetric mode has no motion
+    # at the damper and reads marginal, which is right and beside the point here)
+    assert all(m.verdict != "unstable" for m in result.stability.modes)
+    lo, hi = result.stability.unstable_ranges[0]
+    assert lo == pytest.approx(0.0, abs=1.0) and hi == pytest.approx(TOP - 1200.0, rel=1e-3)
+    case = UnbalanceCase("disk", (UnbalanceWeight(1, 1e-4),))
+    res = unbalance_response(rotor, cases=(case,), probes=(Probe(1, 0.0, "disk x"),),
+                             unstable=result.stability.unstable_ranges)
+    vib = res.vibration[0]
+    seal = res.clearance[0]
+    assert vib.valid and vib.verdict == "pass"           # the operating range is steady
+    assert not seal.valid and seal.verdict == "no steady state" and not res.passed
+
+
+def test_verdict_rule_none_lists_margins_without_judging_them():
+    rotor = read_rotor(ROOT / "cases" / "overhung_fan.toml")
+    settings = rotor.settings
+    import dataclasses
+    fan = dataclasses.replace(rotor, operating=OperatingRange(1800 * RPM, 2200 * RPM),
+                              settings=dataclasses.replace(
+                                  settings, margin_rule=MarginRule(kind="none")))
+    rows = screen(fan).margins.rows
+    inside = [r for r in rows if r.side == "inside"]
+    assert inside and all(r.verdict == "not judged" for r in inside)
+
+
 def test_verdict_stability_rules_are_selectable():
     assert StabilityRule().passes(0.01) and not StabilityRule().passes(0.0)
     common = StabilityRule("at-least", 0.1)
