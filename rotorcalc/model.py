@@ -358,19 +358,24 @@ class MarginRule:
 class StabilityRule:
     """What log decrement every mode needs from the minimum speed up to trip.
 
-    ``"positive"``: above zero (a mode at zero, an undamped model, is
-    marginal and fails); ``"at-least"``: at least ``minimum`` (0.1 is a
+    ``"positive"``: above zero; ``"at-least"``: at least ``minimum`` (0.1 is a
     common-practice figure, from memory); ``"none"``: reported, not judged.
+    A log decrement within ``marginal_band`` of zero (0.001 by default: an
+    amplification factor of 3000 or more) cannot be told from zero by the
+    model; it is *marginal* and fails either rule, so a verdict never rests on
+    a digit the model does not resolve (an undamped model is marginal).
     """
 
     kind: str = "positive"
     minimum: float = 0.1
+    marginal_band: float = 1e-3
 
     def __post_init__(self):
         if self.kind not in STABILITY_RULES:
             raise InputError("analysis.stability_rule", "is not a known rule", value=self.kind,
                              expected=" or ".join(STABILITY_RULES), kind="choice")
         _positive("analysis.min_log_dec", self.minimum, allow_zero=True)
+        _positive("analysis.marginal_band", self.marginal_band, allow_zero=True)
 
     @property
     def required(self):
@@ -385,20 +390,25 @@ class StabilityRule:
         return "physics: a negative log decrement grows" if self.kind == "positive" else ""
 
     def describe(self):
+        band = (f"; within {self.marginal_band:g} of 0 (an undamped mode included) is "
+                "marginal and fails")
         if self.kind == "positive":
-            return ("every mode's log decrement above 0 from the minimum speed up to trip "
-                    "(0 within roundoff, an undamped mode, is marginal and fails)")
+            return ("every mode's log decrement above 0 from the minimum speed up to trip"
+                    + band)
         if self.kind == "at-least":
             return (f"every mode's log decrement at least {self.minimum:g} from the minimum "
-                    "speed up to trip")
+                    "speed up to trip" + band)
         return "none: log decrements listed, not judged"
+
+    def is_marginal(self, log_dec):
+        return abs(log_dec) <= self.marginal_band
 
     def passes(self, log_dec):
         if self.kind == "none":
             return True
-        if self.kind == "positive":
-            return log_dec > 0.0
-        return log_dec >= self.minimum and log_dec > 0.0
+        if self.is_marginal(log_dec) or log_dec <= 0.0:
+            return False
+        return self.kind == "positive" or log_dec >= self.minimum
 
 
 @dataclass(frozen=True)

@@ -40,7 +40,7 @@ OPERATING_KEYS = {"min_speed", "max_speed", "trip_speed"}
 ANALYSIS_KEYS = {"speed_from", "speed_to", "speed_count", "modes", "orders", "beam_theory",
                  "margin_rule", "margin_below", "margin_above", "af_threshold",
                  "margin_cap_below", "margin_cap_above", "judge_backward", "judge_share",
-                 "overdamped_ratio", "stability_rule", "min_log_dec"}
+                 "overdamped_ratio", "stability_rule", "min_log_dec", "marginal_band"}
 UNBALANCE_KEYS = {"description", "residual_multiple", "residual_mass", "weight"}
 WEIGHT_KEYS = {"at", "amount", "mass", "radius", "phase"}
 PROBE_KEYS = {"at", "angle", "name"}
@@ -401,7 +401,8 @@ def _settings(table):
         raise InputError(f"{where}.min_log_dec", f"has no effect with stability_rule = {kind!r}",
                          expected='stability_rule = "at-least" (or leave min_log_dec out)',
                          kind="conflict")
-    stability = StabilityRule(kind=kind, minimum=_number(table, "min_log_dec", where, 0.1))
+    stability = StabilityRule(kind=kind, minimum=_number(table, "min_log_dec", where, 0.1),
+                              marginal_band=_number(table, "marginal_band", where, 1e-3))
     return Settings(speed_from=_quantity(table, "speed_from", u.SPEED, where),
                     speed_to=_quantity(table, "speed_to", u.SPEED, where),
                     speed_count=_integer(table, "speed_count", where, 61),
@@ -444,8 +445,12 @@ def _unbalance_cases(table, names, n_sections, rotor):
             check_keys(w, WEIGHT_KEYS, wk)
             station = _station(w, wk, names, n_sections)
 
-            def residual(station=station, wk=wk):
-                mass = standards.residual_mass(rotor, station) if carried is None else carried
+            basis = []
+
+            def residual(station=station, wk=wk, basis=basis):
+                mass, what = (standards.residual_weight(rotor, station) if carried is None
+                              else (carried, "residual_mass of the case"))
+                basis.append(f"{multiple:g} x residual, W = {mass:.4g} kg: {what}")
                 if not mass > 0:
                     raise InputError(f"{wk}.amount", "cannot be the residual amount: the "
                                      "journal nearer the weight carries no static load "
@@ -456,7 +461,8 @@ def _unbalance_cases(table, names, n_sections, rotor):
 
             amount = _unbalance_amount(w, wk, residual)
             phase = _angle(w, "phase", wk)
-            weights.append(UnbalanceWeight(station, amount, phase, key=wk))
+            weights.append(UnbalanceWeight(station, amount, phase, key=wk,
+                                           basis=basis[0] if basis else ""))
         cases.append(UnbalanceCase(case_name, tuple(weights),
                                    _string(entry, "description", where, default=""), key=where))
     return tuple(cases)

@@ -9,8 +9,7 @@ from __future__ import annotations
 
 import math
 
-import numpy as np
-
+from .statics import journal_static_loads
 from .units import to_rpm
 
 #: Residual-unbalance constant: U = 6350 W / N  g*mm with W in kg, N in rpm
@@ -42,14 +41,6 @@ def residual_unbalance(mass, max_speed):
     return RESIDUAL_CONSTANT_G_MM * mass / to_rpm(max_speed) * 1e-6
 
 
-def _mass_items(rotor):
-    """(axial position of the centre of mass, mass) of every section and disk, m and kg."""
-    z = rotor.station_positions
-    items = [((z[i] + z[i + 1]) / 2.0, s.mass) for i, s in enumerate(rotor.sections)]
-    items += [(z[d.station], d.mass) for d in rotor.disks]
-    return items
-
-
 def _outboard_mass(rotor, z_bearing, side):
     """Mass outboard of ``z_bearing`` (side -1: towards station 0, +1: the other end), kg.
 
@@ -68,43 +59,9 @@ def _outboard_mass(rotor, z_bearing, side):
     return total
 
 
-def journal_static_loads(rotor):
-    """Static load of each journal bearing under the rotor's weight, as a mass (kg).
-
-    Journals are the bearings of kind "bearing" (seals carry no static load
-    here).  On two journals the rotor is statically determinate: moment
-    balance about each (lever rule; rigid or flexible shaft alike).  On three
-    or more, the shaft is taken as rigid on the journals' vertical stiffness
-    ``kyy`` at the maximum continuous speed (a screening split; a statics
-    analysis on the flexible shaft is more exact).  Returns ``{bearing
-    index: mass}``; empty with fewer than two journals.
-    """
-    z = rotor.station_positions
-    journals = [(i, float(z[b.station])) for i, b in enumerate(rotor.bearings)
-                if b.kind == "bearing"]
-    if len(journals) < 2 or len({zj for _, zj in journals}) < 2:
-        return {}
-    items = _mass_items(rotor)
-    weight = sum(m for _, m in items)
-    moment = sum(m * zc for zc, m in items)   # about z = 0
-    if len(journals) == 2:
-        (i1, z1), (i2, z2) = journals
-        r2 = (moment - weight * z1) / (z2 - z1)
-        return {i1: float(weight - r2), i2: float(r2)}
-    k = np.array([max(rotor.bearings[i].matrices(rotor.operating.max_speed)[0][1, 1], 0.0)
-                  for i, _ in journals])
-    zs = np.array([zj for _, zj in journals])
-    # rigid shaft y = Y + A z on springs k: force and moment balance
-    mat = np.array([[k.sum(), (k * zs).sum()], [(k * zs).sum(), (k * zs * zs).sum()]])
-    try:
-        y, a = np.linalg.solve(mat, [weight, moment])
-    except np.linalg.LinAlgError:
-        return {}
-    return {i: float(kk * (y + a * zj)) for (i, zj), kk in zip(journals, k)}
-
-
-def residual_mass(rotor, station):
-    """The mass W of the residual-unbalance rule for an unbalance at ``station``, kg.
+def residual_weight(rotor, station):
+    """The mass W of the residual-unbalance rule for an unbalance at ``station`` (kg),
+    and what it is, in words.
 
     Between the journals: the static load of the nearer journal; outboard of
     them (an overhung disk): the mass outboard of the nearer journal (common
@@ -113,17 +70,23 @@ def residual_mass(rotor, station):
     """
     loads = journal_static_loads(rotor)
     if not loads:
-        return rotor.mass
+        return rotor.mass, "rotor mass (fewer than two journals)"
     z = rotor.station_positions
     zw = float(z[station])
     zj = {i: float(z[rotor.bearings[i].station]) for i in loads}
     lo, hi = min(zj.values()), max(zj.values())
-    if zw < lo:
-        return _outboard_mass(rotor, lo, -1)
-    if zw > hi:
-        return _outboard_mass(rotor, hi, +1)
+    name = {i: rotor.bearings[i].name or f"bearing[{i}]" for i in loads}
+    if zw < lo or zw > hi:
+        i = min(loads, key=lambda i: abs(zj[i] - zw))
+        return (_outboard_mass(rotor, zj[i], -1 if zw < lo else +1),
+                f"mass outboard of journal {name[i]} (overhung)")
     nearest = min(loads, key=lambda i: (abs(zj[i] - zw), i))
-    return loads[nearest]
+    return loads[nearest], f"static load of journal {name[nearest]} (the nearer)"
+
+
+def residual_mass(rotor, station):
+    """The mass W of :func:`residual_weight` alone, kg."""
+    return residual_weight(rotor, station)[0]
 
 
 def allowable_vibration(speed):

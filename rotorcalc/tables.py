@@ -121,8 +121,8 @@ def margin_columns(table, terse=False):
 # --- stability: rows are ModeStability objects ---------------------------------------
 
 def _onset_text(m):
-    losses = [w for w, c in m.onsets if c == "loses"]
-    return None if not losses else ", ".join(f"{to_rpm(w):.0f}" for w in losses)
+    """Every change of sign of the damping, going up in speed: "loses 3359, regains 6020"."""
+    return None if not m.onsets else ", ".join(f"{c} {to_rpm(w):.0f}" for w, c in m.onsets)
 
 
 STABILITY_COLUMNS = [
@@ -130,12 +130,12 @@ STABILITY_COLUMNS = [
     Column("Whirl", lambda m: m.whirl, "{}", "whirl"),
     Column("Min log dec, operating", lambda m: m.min_log_dec_operating, "{:.3f}",
            "min_log_dec_operating"),
-    Column("Min log dec, to trip", lambda m: m.min_log_dec_to_trip, "{:.3f}",
+    Column("Min log dec, sweep start to trip", lambda m: m.min_log_dec_to_trip, "{:.3f}",
            "min_log_dec_to_trip"),
     Column("Judged log dec", lambda m: m.judged_log_dec, "{:.3f}", "judged_log_dec"),
     Column("At rpm", lambda m: None if m.worst_speed is None else float(to_rpm(m.worst_speed)),
            "{:.0f}", "worst_speed_rpm"),
-    Column("Onset rpm", _onset_text, "{}", "onset_rpm"),
+    Column("Stability changes, rpm", _onset_text, "{}", "onsets_rpm"),
     Column("Verdict", lambda m: m.verdict, "{}", "verdict"),
 ]
 
@@ -153,6 +153,20 @@ PEAK_COLUMNS = [
            "{:.0f}", "bandwidth_rpm"),
     Column("AF", lambda p: _af_text(p.af), "{:.2f}", "amplification_factor"),
     Column("Note", lambda p: p.note, "{}", "note"),
+]
+
+def unbalance_rows(rotor):
+    """Rows (case name, station label, weight) of every unbalance weight of a rotor."""
+    return [(case.name, rotor.station_label(w.station), w)
+            for case in rotor.unbalance for w in case.weights]
+
+
+UNBALANCE_COLUMNS = [
+    Column("Case", lambda r: r[0], "{}", "case"),
+    Column("Station", lambda r: r[1], "{}", "station"),
+    Column("Amount g*mm", lambda r: r[2].amount * 1e6, "{:.1f}", "amount_g_mm"),
+    Column("Phase deg", lambda r: math.degrees(r[2].phase), "{:.0f}", "phase_deg"),
+    Column("Set by", lambda r: r[2].basis or "given in the file", "{}", "basis"),
 ]
 
 LIMIT_COLUMNS = [

@@ -25,6 +25,7 @@ class UnbalanceWeight:
     amount: float
     phase: float = 0.0
     key: str = "unbalance"
+    basis: str = ""   # how the amount was set, when it was derived (the residual rule)
 
     def __post_init__(self):
         if not (math.isfinite(self.amount) and self.amount > 0):

@@ -82,7 +82,7 @@ def required_margin(rule: MarginRule, af, side):
 
 
 #: Verdicts that pass.  "overdamped" and "not judged" rows are listed, not judged.
-PASSING = ("pass", "critically damped", "not judged", "no peak", "overdamped")
+PASSING = ("pass", "critically damped", "not judged", "no peak", "not reached", "overdamped")
 
 
 def side_and_margin(speed, operating):
@@ -94,7 +94,7 @@ def side_and_margin(speed, operating):
         return "above", 100.0 * (speed - hi) / hi
     to_lo = 100.0 * (speed - lo) / lo if lo > 0 else math.inf
     to_hi = 100.0 * (hi - speed) / hi
-    return "inside", -min(to_lo, to_hi)
+    return "inside", -min(to_lo, to_hi) + 0.0   # no -0.0 on the range's end
 
 
 @dataclass(frozen=True)
@@ -110,19 +110,21 @@ class Judgement:
         s = rotor.settings
         return cls(s.margin_rule, rotor.judged_share, s.overdamped_ratio)
 
-    def kind(self, crit):
+    def kind(self, crit, excited=False):
         """What a critical is before its margin is judged: unstable, overdamped,
-        not judged, or judged."""
+        not judged, or judged.  ``excited``: an unbalance-response peak belongs to
+        it, which proves it is excited whatever its whirl: it is judged."""
         if crit.log_dec < 0:
             return "unstable"
         if crit.damping_ratio >= self.overdamped_ratio:
             return "overdamped"
-        if self.judge_share > 0 and crit.forward_fraction <= self.judge_share:
+        if (not excited and self.judge_share > 0
+                and crit.forward_fraction <= self.judge_share):
             return "not judged"   # judged: forward share above the threshold (0: all)
         return "judged"
 
-    def verdict(self, crit, af, margin, need):
-        kind = self.kind(crit)
+    def verdict(self, crit, af, margin, need, excited=False):
+        kind = self.kind(crit, excited)
         if kind != "judged":
             return "fail" if kind == "unstable" else kind
         if self.rule.kind == "none":
@@ -305,7 +307,7 @@ def _response_verdict(judgement, crit, peaks, operating, af_estimate):
         side, margin = side_and_margin(p.speed, operating)
         af = p.af if p.af is not None else af_estimate
         need = required_margin(rule, af, side)
-        verdict = judgement.verdict(crit, af, margin, need)
+        verdict = judgement.verdict(crit, af, margin, need, excited=True)
         key = (verdict not in PASSING, need - margin)
         if best is None or key > best[0]:
             best = (key, p, margin, p.af, need, verdict)
@@ -315,7 +317,8 @@ def _response_verdict(judgement, crit, peaks, operating, af_estimate):
 
 
 def separation_margins(criticals, operating: OperatingRange, rule: MarginRule,
-                       sweep_top, judge_backward=False, peaks=None, judgement=None):
+                       sweep_top, judge_backward=False, peaks=None, judgement=None,
+                       response_span=None):
     """Judge every critical speed against the operating range.
 
     Parameters
@@ -334,6 +337,9 @@ def separation_margins(criticals, operating: OperatingRange, rule: MarginRule,
         the verdict that follows.
     judgement : Judgement, optional
         Which modes are judged; by default the default settings with ``rule``.
+    response_span : (float, float), optional
+        Speeds (rad/s) the unbalance response covered: a critical outside it
+        with no peak is "not reached" rather than "no peak".
 
     Returns
     -------
@@ -353,20 +359,28 @@ def separation_margins(criticals, operating: OperatingRange, rule: MarginRule,
         extra = {}
         if peaks is not None and crit.order == 1.0 and kind != "overdamped":
             mine = assigned[index]
+            reached = response_span is None or \
+                response_span[0] <= crit.speed <= response_span[1]
             if kind == "unstable":
                 extra = dict(verdict_response="fail", peaks=mine)
+            elif mine:
+                # a peak proves the mode is excited: judged by the response even when its
+                # forward share is low (elliptical modes on anisotropic supports)
+                extra = _response_verdict(judgement, crit, mine, operating,
+                                          af_from_log_dec(crit.log_dec))
             elif kind == "not judged":
-                extra = dict(verdict_response="not judged", peaks=mine)
-            elif not mine:
-                extra = dict(verdict_response="no peak")
+                extra = dict(verdict_response="not judged")
             else:
-                extra = _response_verdict(judgement, crit, mine, operating, af)
+                extra = dict(verdict_response="no peak" if reached else "not reached")
         rows.append(MarginRow(crit, side, margin, af, need, verdict, **extra))
     notes = []
     if any(r.verdict_response == "no peak" for r in rows):
         notes.append("some judged criticals show no response peak: the unbalance cases given "
                      "do not excite them at the probes; add a case that does (their "
                      "log-decrement verdict stands)")
+    if any(r.verdict_response == "not reached" for r in rows):
+        notes.append("some judged criticals lie outside the unbalance-response sweep: their "
+                     "response was not computed (their log-decrement verdict stands)")
     if any(r.undamped and r.verdict not in ("overdamped", "not judged") for r in rows):
         notes.append("a log decrement of 0 means the model has no damping on that mode: "
                      "its AF is unbounded and the largest margin is required")

@@ -68,6 +68,10 @@ def log_decrement(eigenvalues):
     return -2.0 * np.pi * eigenvalues.real / eigenvalues.imag + 0.0  # no -0.0
 
 
+#: A positive real eigenvalue below this share of the lowest modal frequency is
+#: roundoff; above it, a motion grows without whirling.
+GROWTH_RTOL = 1e-8
+
 #: A real part within this many estimated roundoff errors of zero is zero.
 ROUNDOFF_FACTOR = 10.0
 
@@ -250,6 +254,12 @@ def modes_at(rotor_or_system, speed, n_modes=None, solver=None, near=None):
     shapes = shapes / peak[:, None, None]
     vectors = q / peak[None, :]
     warnings = list(system.table_warnings(speed)) + list(getattr(pairs, "warnings", ()))
+    scale = float(np.abs(values).min()) if len(values) else 1.0
+    growing = pairs.real_eigenvalues[pairs.real_eigenvalues > GROWTH_RTOL * scale]
+    if len(growing):
+        warnings.append(f"a non-oscillating motion grows at {to_rpm(speed):.0f} rpm (real "
+                        f"eigenvalue +{growing.max():.4g} 1/s): the rotor is unstable there "
+                        "without whirling")
     rigid = basis.shape[1]
     if rigid:
         warnings.append(f"{rigid} rigid-body mode(s) at zero frequency: the rotor is not fully "

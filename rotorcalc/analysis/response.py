@@ -255,6 +255,7 @@ class Response:
     warnings: tuple = ()
     unstable: np.ndarray | None = None
     unstable_ranges: tuple = ()
+    weights: tuple = ()      # per case, its UnbalanceWeight objects
 
     def probe_amplitude_pp(self, case_index, probe_index):
         """Peak-to-peak amplitude curve of one probe, m."""
@@ -283,8 +284,12 @@ class Response:
         out = {"speeds_rpm": [float(v) for v in to_rpm(self.speeds)], "cases": []}
         for i, name in enumerate(self.cases):
             major, minor, fwd = self.orbits(i)
+            weights = self.weights[i] if i < len(self.weights) else ()
             out["cases"].append({
                 "case": name,
+                "weights": [{"station": w.station, "amount_g_mm": w.amount * 1e6,
+                             "phase_deg": math.degrees(w.phase), "basis": w.basis}
+                            for w in weights],
                 "probes": [{"probe": p.name, "station": p.station,
                             "angle_deg": math.degrees(p.angle),
                             "amplitude_pp_um": [float(v) for v in
@@ -381,11 +386,19 @@ def _half_power_side(speeds, amp, k, w_peak, target, step, evaluate):
         j = nxt
 
 
-def _find_peaks(speeds, amp, evaluate, case, probe, shape_at=None):
-    """Refined peaks of one amplitude curve with their half-power points."""
+#: A local maximum below this share of the case's largest orbit anywhere on the rotor
+#: is roundoff (a probe at a node of the excited modes reads 1e-15 of it), not a peak.
+PEAK_FLOOR = 1e-6
+
+
+def _find_peaks(speeds, amp, evaluate, case, probe, shape_at=None, floor=0.0):
+    """Refined peaks of one amplitude curve with their half-power points.
+
+    Local maxima below ``floor`` (pk-pk, m) are not peaks.
+    """
     peaks = []
     for k in range(1, len(speeds) - 1):
-        if not (amp[k] > amp[k - 1] and amp[k] >= amp[k + 1]):
+        if not (amp[k] > amp[k - 1] and amp[k] >= amp[k + 1]) or amp[k] <= floor:
             continue
         lo, hi = speeds[k - 1], speeds[k + 1]
         best = minimize_scalar(lambda w: -evaluate(w), bounds=(lo, hi), method="bounded",
@@ -479,10 +492,11 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None, un
     peaks = []
     for i, case in enumerate(cases):
         ev = _Evaluator(solver, force[:, i], rows)
+        floor = PEAK_FLOOR * 2.0 * float(orbit_axes(st[i, ..., 0], st[i, ..., 1])[0].max())
         for j, probe in enumerate(probes):
             amp = 2.0 * np.abs(pv[i, :, j])
             peaks.extend(_find_peaks(speeds, amp, lambda w, j=j, ev=ev: ev.probe(w, j),
-                                     case.name, probe.name, ev.shape))
+                                     case.name, probe.name, ev.shape, floor))
     # on its own grid, add the refined peak and half-power speeds to the curves, so
     # that a sharp peak between grid points is drawn and checked at its top (speeds
     # given by the caller are kept exactly)
@@ -539,7 +553,7 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None, un
     names = tuple(link.bearing.name or str(i) for i, link in enumerate(system.links))
     return Response(speeds, tuple(c.name for c in cases), st, probes, pv, fb, fs, names,
                     tuple(peaks), tuple(vibration), tuple(clearance), tuple(warnings), flagged,
-                    unstable)
+                    unstable, tuple(tuple(c.weights) for c in cases))
 
 
 def vibration_limit(rotor):

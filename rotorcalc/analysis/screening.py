@@ -104,7 +104,9 @@ def screen(rotor: Rotor, speeds=None, orders=None, solver=None, progress=None,
     table = separation_margins(crits, rotor.operating, rotor.settings.margin_rule,
                                float(result.speeds[-1]),
                                peaks=None if response is None else response.peaks,
-                               judgement=judgement)
+                               judgement=judgement,
+                               response_span=None if response is None else
+                               (float(response.speeds[0]), float(response.speeds[-1])))
     gaps = coverage_gaps(rotor, result, table, response)
     return Screening(rotor, result, crits, table, response, stab, gaps)
 
@@ -124,15 +126,27 @@ def required_span(rotor: Rotor):
 def coverage_gaps(rotor: Rotor, result: Sweep, table: MarginTable, response=None):
     """What the screening must judge but did not reach (see :class:`CoverageGap`)."""
     gaps = []
+    op = rotor.operating
+    trip = op.trip_speed or op.max_speed
     if response is not None:
-        op = rotor.operating
-        trip = op.trip_speed or op.max_speed
+        # the clearance check covers run-up: from the lowest analysed speed (the force
+        # vanishes at rest, so the response sweep may start just above it) up to trip
         lo, hi = float(response.speeds[0]), float(response.speeds[-1])
-        if lo > op.min_speed * (1 + 1e-9) or hi < trip * (1 - 1e-9):
+        first_grid = max(float(result.speeds[0]), float(result.speeds[1]) if
+                         result.speeds[0] == 0.0 else 0.0)
+        if lo > max(first_grid, 0.0) * (1 + 1e-9) or hi < trip * (1 - 1e-9):
             gaps.append(CoverageGap(
                 "response", f"the unbalance response sweep ({to_rpm(lo):.0f}-{to_rpm(hi):.0f} "
-                f"rpm) does not cover the minimum speed up to trip ({to_rpm(op.min_speed):.0f}-"
-                f"{to_rpm(trip):.0f} rpm): its limits were not checked there"))
+                f"rpm) does not cover the lowest analysed speed up to trip "
+                f"({to_rpm(result.speeds[0]):.0f}-{to_rpm(trip):.0f} rpm): its limits (the "
+                "clearances through run-up) were not checked there"))
+    for i, b in enumerate(rotor.bearings):
+        if len(b.speeds) >= 2 and (b.outside_table(op.min_speed) or b.outside_table(trip)):
+            gaps.append(CoverageGap(
+                "bearing-table", f"the coefficient table of {b.kind} {b.name or i} "
+                f"({to_rpm(b.speeds[0]):.0f}-{to_rpm(b.speeds[-1]):.0f} rpm) does not cover "
+                f"the minimum speed up to trip ({to_rpm(op.min_speed):.0f}-{to_rpm(trip):.0f} "
+                "rpm): stability there was judged on held end values"))
     bottom, top = required_span(rotor)
     first, last = float(result.speeds[0]), float(result.speeds[-1])
     if last < top * (1 - 1e-9):

@@ -22,11 +22,9 @@ from scipy.optimize import brentq
 from ..model import OperatingRange, StabilityRule
 from ..units import to_hz, to_rpm
 from .criticals import SPEED_RTOL, branch_at
+from .modes import GROWTH_RTOL
 from .sweep import TRACKING_RESERVE, Sweep
 
-#: Relative tolerance of a non-oscillatory growth rate against the lowest modal
-#: frequency: below it, a positive real eigenvalue is roundoff.
-GROWTH_RTOL = 1e-8
 
 
 @dataclass(frozen=True)
@@ -185,10 +183,10 @@ def stability(system, result: Sweep, rule: StabilityRule | None = None, solver=N
             verdict = "not judged"
         elif worst is None:
             verdict = "absent"
+        elif rule.is_marginal(worst):
+            verdict = "marginal"
         elif worst < 0:
             verdict = "unstable"
-        elif worst == 0:
-            verdict = "marginal"
         elif not rule.passes(worst):
             verdict = "below minimum"
         else:

@@ -43,13 +43,26 @@ def default_speeds(rotor: Rotor):
                          value=f"{to_rpm(start):.6g} rpm",
                          expected=f"a speed below {to_rpm(stop):.6g} rpm (speed_to, or 1.5 x "
                                   "the highest operating speed by default)", kind="order")
-    return with_operating_speeds(np.linspace(start, stop, s.speed_count), rotor.operating)
+    return with_operating_speeds(np.linspace(start, stop, s.speed_count), rotor.operating,
+                                 table_speeds(rotor))
 
 
-def with_operating_speeds(grid, operating):
-    """``grid`` with the minimum, maximum continuous and trip speeds inserted (where
-    they lie inside it), so that what is judged at those speeds is solved there."""
-    extra = [v for v in (operating.min_speed, operating.max_speed, operating.trip_speed)
+def table_speeds(rotor):
+    """Every speed of every bearing and seal coefficient table (rad/s).
+
+    Coefficients are linear between table speeds, so a sharp feature of a table
+    (a spike of cross-coupling, say) has its extreme on one of them: the sweep
+    solves there, and stability is not judged between samples that straddle it.
+    """
+    return sorted({float(v) for b in rotor.bearings for v in b.speeds})
+
+
+def with_operating_speeds(grid, operating, more=()):
+    """``grid`` with the minimum, maximum continuous and trip speeds (and ``more``)
+    inserted where they lie inside it, so that what is judged at those speeds is
+    solved there."""
+    extra = [v for v in (operating.min_speed, operating.max_speed, operating.trip_speed,
+                         *more)
              if v is not None and grid[0] <= v <= grid[-1]]
     grid = np.sort(np.concatenate([grid, extra]))
     keep = np.concatenate([[True], np.diff(grid) > 1e-9 * max(grid[-1], 1e-300)])

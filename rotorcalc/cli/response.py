@@ -9,7 +9,8 @@ import typer
 
 from ..analysis.response import unbalance_response
 from ..errors import InputError
-from ..tables import LIMIT_COLUMNS, PEAK_COLUMNS, response_columns, response_rows
+from ..tables import (LIMIT_COLUMNS, PEAK_COLUMNS, UNBALANCE_COLUMNS, response_columns,
+                      response_rows, unbalance_rows)
 from ..units import to_rpm
 from .criticals import response_caption
 from .common import (check_output, console, fail_input, input_errors, load, print_table,
@@ -48,6 +49,9 @@ def command(
     speeds = [rotor.operating.max_speed]
     if at:
         speeds = [speed_option(part, "--at") for part in at.split(",")]
+    print_table(f"{rotor.name}: unbalance applied", UNBALANCE_COLUMNS, unbalance_rows(rotor),
+                caption="Residual: U = 6350 W/N g*mm per weight, N the maximum continuous "
+                        "speed in rpm (common practice, from memory).")
     print_table(f"{rotor.name}: unbalance response peaks", PEAK_COLUMNS, result.peaks,
                 caption="AF = peak speed / half-power bandwidth (0.707 of the peak).")
     if result.vibration or result.clearance:

@@ -127,6 +127,10 @@ def whirl_speed_map(sweep, criticals=(), operating=None, orders=(1.0,), ax=None,
 
     x_lo, x_hi = (float(np.nanmin(speed)), float(np.nanmax(speed))) if speed.size else (0.0, 1.0)
     x_lo = min(x_lo, 0.0)
+    if operating is not None:
+        # a sweep that stops short of trip shows it: the axis reaches trip, the curves do not
+        top_speed = to_rpm(operating.trip_speed or operating.max_speed)
+        x_hi = max(x_hi, 1.03 * float(top_speed))
     top = frequency_top([freq], x_hi, criticals) if freq_max is None else float(freq_max)
     ax.set_xlim(x_lo, x_hi)
     ax.set_ylim(0.0, top)
