@@ -19,6 +19,7 @@ import typer  # noqa: E402
 
 from . import (check, compare, criticals, layout, levers, modes, response,  # noqa: E402
                stiffness_map, sweep, window)
+from .common import guarded  # noqa: E402
 
 app = typer.Typer(
     add_completion=False, no_args_is_help=True, rich_markup_mode="rich",
@@ -30,6 +31,8 @@ app = typer.Typer(
 for module in (modes, sweep, criticals, check, response, layout, stiffness_map, compare, window,
                levers):
     module.register(app)
+for _command in app.registered_commands:   # no traceback from any command, ever
+    _command.callback = guarded(_command.callback)
 
 
 def main():

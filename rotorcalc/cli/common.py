@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import functools
 import time
 from contextlib import contextmanager
 from pathlib import Path
@@ -28,6 +29,51 @@ errors = Console(stderr=True)
 #: cover everything the check must judge (nothing failed in what it did cover).
 EXIT_OK, EXIT_CHECK_FAILED, EXIT_BAD_INPUT = 0, 1, 2
 EXIT_NUMERICAL, EXIT_OUTPUT, EXIT_NOT_COVERED = 3, 4, 5
+#: An error of rotorcalc itself (a defect): never 1, which a script reads as "a check failed".
+EXIT_INTERNAL = 70
+
+REPORT = ("This is a defect of rotorcalc, not of your rotor: please report it with the command "
+          "line, the rotor file and this message (rotorcalc {version}, Python {python}).")
+
+
+def guarded(command):
+    """Wrap a command so that no exception ends in a traceback.
+
+    The package's own errors keep their exit codes (bad input 2, numerical
+    failure 3); an output that cannot be written is 4; anything else is a
+    defect of the tool: one paragraph saying so, and exit code 70.
+    """
+    @functools.wraps(command)
+    def run(*args, **kwargs):
+        try:
+            return command(*args, **kwargs)
+        except (typer.Exit, typer.Abort, SystemExit, KeyboardInterrupt):
+            raise
+        except InputError as err:
+            fail_input(err)
+        except SolverError as err:
+            errors.print(f"[bold red]Numerical failure[/] {escape(str(err))}", highlight=False,
+                         soft_wrap=True)
+            raise typer.Exit(EXIT_NUMERICAL)
+        except RotorcalcError as err:
+            errors.print(f"[bold red]Error[/] {escape(str(err))}", highlight=False,
+                         soft_wrap=True)
+            raise typer.Exit(EXIT_NUMERICAL)
+        except MemoryError:
+            errors.print("[bold red]Out of memory[/] the model is too large for this machine; "
+                         "use fewer elements or speeds.", highlight=False, soft_wrap=True)
+            raise typer.Exit(EXIT_NUMERICAL)
+        except Exception as exc:  # a defect: said plainly, never a traceback
+            import platform
+            from .. import __version__
+            what = f"{type(exc).__name__}: {exc}"
+            if len(what) > 300:
+                what = what[:297] + "..."
+            errors.print(f"[bold red]Internal error[/] {escape(what)}. " + escape(REPORT.format(
+                version=__version__, python=platform.python_version())), highlight=False,
+                soft_wrap=True)
+            raise typer.Exit(EXIT_INTERNAL)
+    return run
 
 
 def fail_input(err: InputError):
@@ -139,7 +185,8 @@ def print_table(title, columns, rows, caption=None):
     for column in columns:
         table.add_column(column.heading, justify="right" if column.fmt not in ("{}",) else "left")
     for row in rows:
-        table.add_row(*[column.text(row) for column in columns])
+        # cells hold users' names: printed as written, never read as markup
+        table.add_row(*[escape(column.text(row)) for column in columns])
     console.print(table)
 
 
@@ -159,12 +206,12 @@ def write_outputs(command, case, result_dict, warnings, json_path, csv_path, col
     if json_path is not None:
         with output_errors(json_path):
             write_json(json_path, envelope(command, case, result_dict, warnings))
-        console.print(f"wrote {json_path}")
+        console.print(f"wrote {escape(str(json_path))}", highlight=False)
     if csv_path is not None:
         header, body = rows_csv(columns, rows)
         with output_errors(csv_path):
             write_csv(csv_path, header, body)
-        console.print(f"wrote {csv_path}")
+        console.print(f"wrote {escape(str(csv_path))}", highlight=False)
 
 
 def print_warnings(warnings):
@@ -180,4 +227,4 @@ def save_figure(fig, path: Path):
     except ValueError as exc:
         fail_input(InputError("picture file", str(exc), value=str(path),
                               expected="a .png, .svg or .pdf file name", kind="output"))
-    console.print(f"wrote {path}")
+    console.print(f"wrote {escape(str(path))}", highlight=False)

@@ -5,6 +5,7 @@ from __future__ import annotations
 from pathlib import Path
 
 import typer
+from rich.markup import escape
 
 from .common import check_output, console, load, save_figure
 
@@ -20,7 +21,7 @@ def command(
     check_output(out, case, "--out")
     from ..plotting import rotor_layout
     ax = rotor_layout(rotor)
-    console.print(f"{rotor.name}: {len(rotor.sections)} sections, {len(rotor.disks)} disks, "
+    console.print(f"{escape(rotor.name)}: {len(rotor.sections)} sections, {len(rotor.disks)} disks, "
                   f"{len(rotor.bearings)} bearings/seals, mass {rotor.mass:.1f} kg, "
                   f"length {rotor.length * 1e3:.0f} mm")
     save_figure(ax.figure, out)

@@ -6,6 +6,7 @@ from pathlib import Path
 from typing import Optional
 
 import typer
+from rich.markup import escape
 
 from ..tables import sweep_columns, sweep_rows
 from .common import (JOBS_HELP, console, load, print_warnings, save_figure, screen_case,
@@ -29,7 +30,8 @@ def command(
     result = screen_case(rotor, case, {"--map": map_path, "--json": json_path, "--csv": csv_path},
                          jobs)
     sw = result.sweep
-    console.print(f"{rotor.name}: {len(sw.speeds)} speeds, {sw.eigenvalues.shape[1]} branches")
+    console.print(f"{escape(rotor.name)}: {len(sw.speeds)} speeds, "
+                  f"{sw.eigenvalues.shape[1]} branches", highlight=False)
     print_margins(result, brief=True)
     print_warnings(sw.warnings)
     rows = list(sweep_rows(sw))

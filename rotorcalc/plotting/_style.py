@@ -6,6 +6,9 @@ it is made, so a caller's own style for other figures is left alone.
 
 from __future__ import annotations
 
+import functools
+
+import matplotlib
 import numpy as np
 from matplotlib.figure import Figure
 from matplotlib.patches import Rectangle
@@ -59,6 +62,17 @@ FONT_TICK = 8.5
 FONT_LABEL = 9.5
 FONT_TITLE = 11.0
 FONT_NOTE = 7.5
+
+
+def literal_text(func):
+    """Run a plotting function with math text off: every label it draws is the literal
+    text it holds, so a user's name or title with '$' signs is drawn as written (an
+    unbalanced one once broke the picture)."""
+    @functools.wraps(func)
+    def drawing(*args, **kwargs):
+        with matplotlib.rc_context({"text.parse_math": False}):
+            return func(*args, **kwargs)
+    return drawing
 
 
 def axes_for(ax, figsize):

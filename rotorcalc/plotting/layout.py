@@ -72,6 +72,7 @@ def _auto_scale(rotor, disk_sizes):
     return float(_SCALE_STEPS[-1])
 
 
+@st.literal_text
 def rotor_layout(rotor, ax=None, *, radial_scale=None):
     """Draw a side view of a rotor model.
 

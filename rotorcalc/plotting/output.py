@@ -2,21 +2,30 @@
 
 from __future__ import annotations
 
-import os
-import secrets
 from pathlib import Path
+
+import matplotlib
+
+from ..output import open_replacement
 
 #: File formats by extension, and the resolution of raster output.
 FORMATS = {".png": "png", ".svg": "svg", ".pdf": "pdf"}
 PNG_DPI = 150
 
+#: Metadata left out so that the same figure gives the same bytes: the time of saving.
+_UNDATED = {"svg": {"Date": None}, "pdf": {"CreationDate": None, "ModDate": None}}
+#: SVG element ids are hashes salted at random unless a salt is set.
+_FIXED_IDS = {"svg.hashsalt": "rotorcalc"}
+
 
 def save(fig, path):
     """Save a figure, the format chosen by the file extension.
 
-    The picture is written to a temporary file in the target folder and then
-    renamed over ``path``, so a reader never sees a half-written file and a
-    failed save leaves any earlier file untouched.
+    The picture is written through :func:`rotorcalc.output.open_replacement`:
+    a temporary file in the target folder, renamed over ``path`` once on disk,
+    so a reader never sees a half-written file and a failed save leaves any
+    earlier file untouched. SVG and PDF files carry no date and fixed element
+    ids, so the same figure saved twice gives the same bytes.
 
     Parameters
     ----------
@@ -33,29 +42,17 @@ def save(fig, path):
     ------
     ValueError
         When the extension is not one of ``.png``, ``.svg``, ``.pdf``.
+    OSError
+        When ``path`` is a folder, a device, pipe or socket, or cannot be
+        written.
     """
     path = Path(path)
     fmt = FORMATS.get(path.suffix.lower())
     if fmt is None:
         raise ValueError(f"cannot save a figure as {path.name!r}: the file name must end in "
                          + ", ".join(FORMATS))
-    folder = path.parent if str(path.parent) else Path(".")
-    folder.mkdir(parents=True, exist_ok=True)
-    # Exclusive creation under a random name: no clash with a parallel save, and
-    # the file gets the permissions any ordinary new file would.
-    tmp = folder / f".{path.name}.{secrets.token_hex(6)}.tmp"
-    stream = open(tmp, "xb")
-    try:
-        with stream:
-            fig.savefig(stream, format=fmt, dpi=PNG_DPI if fmt == "png" else None,
-                        bbox_inches="tight", pad_inches=0.12,
-                        facecolor=fig.get_facecolor())
-        os.replace(tmp, path)
-    except BaseException:
-        try:
-            os.unlink(tmp)
-        except FileNotFoundError:
-            pass
-        raise
+    with open_replacement(path) as stream, matplotlib.rc_context(_FIXED_IDS):
+        fig.savefig(stream, format=fmt, dpi=PNG_DPI if fmt == "png" else None,
+                    metadata=_UNDATED.get(fmt), bbox_inches="tight", pad_inches=0.12,
+                    facecolor=fig.get_facecolor())
     return path
-

@@ -59,6 +59,7 @@ class ModeShapeArtists:
     legend: object = None
 
 
+@st.literal_text
 def mode_shape(modes, index, ax=None, rotor=None, *, orbits=True):
     """Draw the shape of one mode of a :class:`~rotorcalc.analysis.Modes` result.
 

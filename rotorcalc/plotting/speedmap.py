@@ -69,6 +69,7 @@ class SpeedMapArtists:
     unstable_labels: list = field(default_factory=list)
 
 
+@st.literal_text
 def whirl_speed_map(sweep, criticals=(), operating=None, orders=(1.0,), ax=None, margins=None,
                     *, freq_max=None):
     """Draw the whirl-speed map (Campbell diagram) of a speed sweep.
