@@ -15,6 +15,7 @@ import scipy.sparse as sp
 from .fe import bearing as fe_bearing
 from .fe.disk import disk_gyroscopic, disk_mass
 from .fe.shaft import ShaftElement
+from .errors import InputError
 from .model import Rotor
 from .units import to_rpm
 
@@ -165,12 +166,34 @@ class SystemMatrices:
             stack = np.vstack(rows)
             _, sv, vt = np.linalg.svd(stack)
             sv = np.concatenate([sv, np.zeros(4 - len(sv))])
-            free = vt[sv <= RIGID_RTOL * sv[0]] if sv[0] > 0 else vt
+            # against the bearings and the shaft's own bending stiffness: bearings of 1e-3
+            # N/m under a steel shaft leave it free, not "supported" at 0.00 Hz
+            scale = max(sv[0], self.shaft_scale())
+            free = vt[sv <= RIGID_RTOL * scale] if scale > 0 else vt
         else:
             free = np.eye(4)
         if not len(free):
             return np.zeros((self.n_dof, 0))
         return np.linalg.qr(rigid @ free.T)[0]
+
+    def require_support(self):
+        """Raise an InputError when the bearings leave a rigid-body motion free at the
+        minimum or the maximum continuous speed: a rotor that is not held up has no
+        critical speeds to judge (``modes`` may still look at one, free-free)."""
+        op = self.rotor.operating
+        free = max(self.rigid_body_basis(w).shape[1] for w in (op.min_speed, op.max_speed))
+        if free:
+            raise InputError("bearing", f"leaves the rotor free in {free} rigid-body "
+                             "motion(s): it is not held up", value=len(self.rotor.bearings),
+                             expected="bearings with stiffness in x and y at two stations "
+                                      "at least", kind="physics")
+
+    def shaft_scale(self):
+        """Bending stiffness of the whole shaft, 48 E I / L^3 with its stiffest section
+        (N/m): the scale a bearing's stiffness is compared with (mesh independent)."""
+        length = max(float(self.mesh.node_z[-1] - self.mesh.node_z[0]), 1e-300)
+        ei = max(s.material.youngs_modulus * s.second_moment for s in self.rotor.sections)
+        return 48.0 * ei / length**3
 
     def zero_eigenvalues(self, omega, basis=None, d_mat=None):
         """How many eigenvalues of the pencil at ``omega`` are exactly zero.

@@ -19,6 +19,16 @@ from .units import to_rpm
 from .unbalance import ResponseSettings
 
 COEFFICIENT_NAMES = ("kxx", "kxy", "kyx", "kyy", "cxx", "cxy", "cyx", "cyy")
+#: A disk's polar inertia may exceed twice its transverse inertia by this share
+#: (rounded input) before it is refused.
+INERTIA_RTOL = 1e-3
+#: A principal stiffness or damping below minus this share of the largest
+#: coefficient is negative (not roundoff of a symmetric pair).
+PRINCIPAL_RTOL = 1e-9
+#: Sizes: each keeps memory and time bounded (docs/robustness.md).
+LIMITS = {"elements per section": 1000, "elements": 5000, "sections": 2000, "parts": 1000,
+          "speed count": 2001, "response speed count": 5001, "modes": 100, "orders": 20,
+          "order": 100.0}
 BEAM_THEORIES = ("timoshenko", "rayleigh", "euler-bernoulli")
 MARGIN_RULES = ("af-curve", "fixed", "none")
 STABILITY_RULES = ("positive", "at-least", "none")
@@ -60,6 +70,13 @@ class Material:
         _positive(f"{key}.youngs_modulus", self.youngs_modulus)
         _positive(f"{key}.shear_modulus", self.shear_modulus)
         _positive(f"{key}.density", self.density)
+        nu = self.poisson_ratio
+        if not -1.0 < nu <= 0.5 + 1e-6:
+            raise InputError(f"{key}.shear_modulus", "implies a Poisson's ratio outside "
+                             f"(-1, 0.5] ({nu:.4g}): no isotropic material has it",
+                             value=self.shear_modulus,
+                             expected=f"at least E/3 = {self.youngs_modulus / 3:.4g} Pa "
+                                      "(G = E / (2 (1 + nu)))", kind="physics")
 
     @property
     def poisson_ratio(self) -> float:
@@ -101,6 +118,10 @@ class Section:
         if isinstance(self.elements, bool) or not isinstance(self.elements, int) or self.elements < 1:
             raise InputError(f"{self.key}.elements", "must be a whole number of at least 1",
                              value=self.elements, expected="a whole number such as 1, 2 or 3", kind="range")
+        if self.elements > LIMITS["elements per section"]:
+            raise InputError(f"{self.key}.elements", "is more than any section needs",
+                             value=self.elements,
+                             expected=f"at most {LIMITS['elements per section']}", kind="size")
         _positive(f"{self.key}.added_mass", self.added_mass, allow_zero=True)
 
     @property
@@ -138,11 +159,20 @@ class Disk:
     transverse_inertia: float
     name: str = ""
     key: str = "disk"
+    inertia_as_given: bool = False
 
     def __post_init__(self):
         _positive(f"{self.key}.mass", self.mass)
         _positive(f"{self.key}.polar_inertia", self.polar_inertia, allow_zero=True)
         _positive(f"{self.key}.transverse_inertia", self.transverse_inertia, allow_zero=True)
+        # a rigid body of revolution has I_t = I_p / 2 + (integral of z^2 dm) >= I_p / 2
+        if not self.inertia_as_given and \
+                self.polar_inertia > 2.0 * self.transverse_inertia * (1.0 + INERTIA_RTOL):
+            raise InputError(f"{self.key}.polar_inertia", "is more than twice the transverse "
+                             "inertia, which no rigid disk has", value=self.polar_inertia,
+                             expected=f"at most {2.0 * self.transverse_inertia:.6g} kg*m^2 (2 x "
+                                      "transverse); or inertia_as_given = true if meant",
+                             kind="physics")
 
     @classmethod
     def from_geometry(cls, station, outer_diameter, inner_diameter, width, density, name="",
@@ -241,10 +271,32 @@ class Bearing:
                                      kind="not-finite")
             if name in ("kxx", "kyy", "cxx", "cyy"):
                 for i, v in enumerate(values):
-                    if v < 0.0 and name[0] == "k":
+                    if v < 0.0:
+                        what = "stiffness" if name[0] == "k" else "damping"
                         raise InputError(f"{self.key}.{name}[{i}]",
-                                         "direct stiffness must not be negative", value=v,
+                                         f"direct {what} must not be negative", value=v,
                                          kind="range")
+        self._check_principal(speeds)
+
+    def _check_principal(self, speeds):
+        """The symmetric part of the stiffness and of the damping matrix must not have a
+        negative principal value at any table speed: that is a static divergence or a
+        source of energy, which a bearing or seal is not."""
+        points = list(speeds) if len(speeds) else [0.0]
+        for i, w in enumerate(points):
+            k, c = self.matrices(w)
+            for name, mat in (("stiffness", k), ("damping", c)):
+                sym = (mat + mat.T) / 2.0
+                low = float(np.linalg.eigvalsh(sym)[0])
+                if low < -PRINCIPAL_RTOL * max(float(np.abs(mat).max()), 1e-300):
+                    at = f"[{i}]" if len(speeds) else ""
+                    first = "kxy" if name == "stiffness" else "cxy"
+                    raise InputError(f"{self.key}.{first}{at}", f"makes a principal {name} "
+                                     f"negative ({low:.4g}): the cross-coupled terms' "
+                                     "symmetric part outweighs the direct ones", value=None,
+                                     expected="cross-coupled terms whose symmetric part "
+                                              "(kxy + kyx)/2 stays below sqrt(kxx kyy)",
+                                     kind="physics")
 
     def table(self, name) -> tuple:
         return tuple(self.coefficients.get(name, (0.0,)))
@@ -292,10 +344,11 @@ class OperatingRange:
         if self.trip_speed is not None:
             _positive("operating.trip_speed", self.trip_speed)
             if self.trip_speed < self.max_speed:
-                raise InputError("operating.trip_speed", "is below max_speed",
-                                 value=f"{to_rpm(self.trip_speed):.6g} rpm",
-                                 expected=f"at least max_speed ({to_rpm(self.max_speed):.6g} rpm)",
-                                 kind="order")
+                raise InputError("operating.trip_speed", "is below max_speed: one of the two "
+                                 "is wrong", value=f"{to_rpm(self.trip_speed):.6g} rpm",
+                                 expected=f"a trip speed at least max_speed "
+                                          f"({to_rpm(self.max_speed):.6g} rpm), or a lower "
+                                          "max_speed", kind="order")
 
 
 @dataclass(frozen=True)
@@ -439,13 +492,27 @@ class Settings:
         if not isinstance(self.speed_count, int) or self.speed_count < 3:
             raise InputError("analysis.speed_count", "must be a whole number of at least 3",
                              value=self.speed_count, kind="range")
+        if self.speed_count > LIMITS["speed count"]:
+            raise InputError("analysis.speed_count", "is more speeds than a sweep needs",
+                             value=self.speed_count, expected=f"at most {LIMITS['speed count']}",
+                             kind="size")
         if not isinstance(self.modes, int) or self.modes < 1:
             raise InputError("analysis.modes", "must be a whole number of at least 1",
                              value=self.modes, kind="range")
+        if self.modes > LIMITS["modes"]:
+            raise InputError("analysis.modes", "is more modes than a screening needs",
+                             value=self.modes, expected=f"at most {LIMITS['modes']}", kind="size")
         if not self.orders:
             raise InputError("analysis.orders", "must list at least one order", kind="range")
+        if len(self.orders) > LIMITS["orders"]:
+            raise InputError("analysis.orders", "lists too many orders", value=len(self.orders),
+                             expected=f"at most {LIMITS['orders']}", kind="size")
         for i, order in enumerate(self.orders):
             _positive(f"analysis.orders[{i}]", order)
+            if order > LIMITS["order"]:
+                raise InputError(f"analysis.orders[{i}]", "is a higher excitation order than any "
+                                 "machine has", value=order,
+                                 expected=f"at most {LIMITS['order']:g}", kind="range")
         if self.beam_theory not in BEAM_THEORIES:
             raise InputError("analysis.beam_theory", "is not a known beam theory",
                              value=self.beam_theory, expected=" or ".join(BEAM_THEORIES),
@@ -495,6 +562,20 @@ class Rotor:
             raise InputError("section", "the rotor has no shaft sections",
                              expected="at least one [[section]] table", kind="missing")
         last = len(self.sections)
+        if last > LIMITS["sections"]:
+            raise InputError("section", "has more sections than any rotor needs", value=last,
+                             expected=f"at most {LIMITS['sections']}", kind="size")
+        total = sum(s.elements for s in self.sections)
+        if total > LIMITS["elements"]:
+            raise InputError("section", "has more elements in all than the solvers are sized "
+                             "for", value=total, expected=f"at most {LIMITS['elements']} "
+                             "(lower 'elements' in some sections)", kind="size")
+        for label, group in (("disk", self.disks), ("bearing", self.bearings),
+                             ("unbalance", self.unbalance), ("probe", self.probes),
+                             ("clearance", self.clearances)):
+            if len(group) > LIMITS["parts"]:
+                raise InputError(label, "has more entries than any rotor needs", value=len(group),
+                                 expected=f"at most {LIMITS['parts']}", kind="size")
         weights = tuple(w for case in self.unbalance for w in case.weights)
         for group in (self.disks, self.bearings, weights, self.probes, self.clearances):
             for part in group:

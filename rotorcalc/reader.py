@@ -32,7 +32,8 @@ TOP_KEYS = {"title", "stations", "materials", "section", "disk", "bearing", "ope
 MATERIAL_KEYS = {"youngs_modulus", "shear_modulus", "poisson_ratio", "density"}
 SECTION_KEYS = {"length", "outer_diameter", "inner_diameter", "material", "elements",
                 "added_mass"}
-DISK_KEYS = {"at", "name", "mass", "polar_inertia", "transverse_inertia", "outer_diameter",
+DISK_KEYS = {"at", "name", "mass", "polar_inertia", "transverse_inertia", "inertia_as_given",
+             "outer_diameter",
              "inner_diameter", "width", "material"}
 BEARING_KEYS = {"at", "name", "kind", "speeds", "support", *COEFFICIENT_NAMES}
 SUPPORT_KEYS = {"mass", "kx", "ky", "cx", "cy"}
@@ -60,7 +61,12 @@ def read_rotor(path) -> Rotor:
     """
     path = Path(path)
     try:
-        text = path.read_text(encoding="utf-8")
+        if path.is_file() and path.stat().st_size > FILE_LIMIT:
+            raise InputError("file", f"is larger than {FILE_LIMIT // 1_000_000} MB",
+                             value=str(path), expected="a rotor description of a few kB",
+                             file=str(path), kind="size")
+        # utf-8-sig: a byte-order mark (some editors write one) is not part of the text
+        text = path.read_text(encoding="utf-8-sig")
     except OSError as exc:
         raise InputError("file", f"cannot be read ({exc.strerror})", value=str(path),
                          expected="a readable TOML file", file=str(path), kind="file") from None
@@ -81,8 +87,14 @@ def parse_rotor(text: str, source: str = "<text>") -> Rotor:
 
 def load_toml(text, source):
     """Parse TOML, turning syntax errors into an InputError with line and column."""
+    if text.startswith("\ufeff"):
+        text = text[1:]
     try:
         return tomllib.loads(text)
+    except RecursionError:
+        raise InputError("(syntax)", "nests arrays or tables too deeply", file=source,
+                         expected="TOML nested a few levels, see docs/input.md",
+                         kind="size") from None
     except tomllib.TOMLDecodeError as exc:
         msg = str(exc)
         match = re.search(r"line (\d+), column (\d+)", msg)
@@ -155,6 +167,28 @@ def _string(table, key, where, default=None, required=False):
     value = table[key]
     if not isinstance(value, str):
         raise InputError(_path(where, key), "must be text", value=value, kind="type")
+    return plain_text(value, _path(where, key),
+                      LONG_TEXT if key in ("title", "description") else NAME_LENGTH)
+
+
+#: Longest name (bearing, disk, probe, case ...) and longest title or description.
+NAME_LENGTH = 200
+LONG_TEXT = 1000
+#: Largest rotor file read, bytes.
+FILE_LIMIT = 5_000_000
+
+
+def plain_text(value, key, limit=NAME_LENGTH):
+    """A name or title as given, refused when too long or holding control characters
+    (they would garble tables and pictures); every other character is kept as
+    written, markup and '$' included."""
+    if len(value) > limit:
+        raise InputError(key, f"is longer than {limit} characters", value=value[:40] + "...",
+                         expected=f"at most {limit} characters", kind="size")
+    bad = next((c for c in value if ord(c) < 32 or 127 <= ord(c) < 160), None)
+    if bad is not None:
+        raise InputError(key, f"holds a control character (code {ord(bad)})",
+                         value=value[:60], expected="printable text", kind="type")
     return value
 
 
@@ -207,6 +241,7 @@ def _materials(table):
     out = {}
     for name, entry in table.items():
         where = f"materials.{name}"
+        plain_text(name, where)
         check_keys(entry, MATERIAL_KEYS, where)
         e = _quantity(entry, "youngs_modulus", u.PRESSURE, where, required=True)
         rho = _quantity(entry, "density", u.DENSITY, where, required=True)
@@ -306,7 +341,11 @@ def _disk(table, i, materials, names, n_sections):
     mass = _quantity(table, "mass", u.MASS, where, required=True)
     polar = _quantity(table, "polar_inertia", u.INERTIA, where, default=0.0)
     transverse = _quantity(table, "transverse_inertia", u.INERTIA, where, default=polar / 2.0)
-    return Disk(station, mass, polar, transverse, name=name, key=where)
+    as_given = table.get("inertia_as_given", False)
+    if not isinstance(as_given, bool):
+        raise InputError(f"{where}.inertia_as_given", "must be true or false", value=as_given,
+                         kind="type")
+    return Disk(station, mass, polar, transverse, name=name, key=where, inertia_as_given=as_given)
 
 
 def _bearing(table, i, names, n_sections):
@@ -430,6 +469,7 @@ def _unbalance_cases(table, names, n_sections, rotor):
     cases = []
     for case_name, entry in table.items():
         where = f"unbalance.{case_name}"
+        plain_text(case_name, where)
         check_keys(entry, UNBALANCE_KEYS, where)
         multiple = _number(entry, "residual_multiple", where, standards.RESIDUAL_MULTIPLE)
         if multiple <= 0:

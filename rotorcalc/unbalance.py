@@ -97,6 +97,9 @@ class ResponseSettings:
         if not isinstance(self.speed_count, int) or self.speed_count < 5:
             raise InputError("response.speed_count", "must be a whole number of at least 5",
                              value=self.speed_count, kind="range")
+        if self.speed_count > 5001:
+            raise InputError("response.speed_count", "is more speeds than a response needs",
+                             value=self.speed_count, expected="at most 5001", kind="size")
         if not (0 < self.clearance_share <= 1):
             raise InputError("response.clearance_share", "must lie in (0, 1]",
                              value=self.clearance_share, kind="range")

@@ -10,6 +10,7 @@ everywhere (in the rotor file and on the command line); only 0 may stand bare.
 from __future__ import annotations
 
 import math
+import re
 from dataclasses import dataclass
 
 import pint
@@ -29,27 +30,43 @@ _ANGLE_NAMES = ("radian", "revolution", "cycles_per_minute", "degree", "turn")
 
 @dataclass(frozen=True)
 class Dimension:
-    """A physical dimension an input value must have, with its SI unit."""
+    """A physical dimension an input value must have, with its SI unit.
+
+    ``low`` and ``high`` bound the magnitude of a non-zero value (SI): wide
+    enough for any machine and for the usual modelling devices (a nearly
+    massless shaft, a very stiff pin), narrow enough that no float in the
+    analysis overflows or underflows (docs/robustness.md lists them).
+    """
 
     name: str
     si_unit: str
     examples: str
+    low: float = 1e-30
+    high: float = 1e30
 
     @property
     def dimensionality(self):
         return _UREG.Quantity(1.0, self.si_unit).dimensionality
 
 
-LENGTH = Dimension("length", "m", '"80 mm", "3.5 in"')
-MASS = Dimension("mass", "kg", '"12 kg", "26 lb"')
-INERTIA = Dimension("mass moment of inertia", "kg*m**2", '"0.8 kg*m^2", "2700 lb*in^2"')
-STIFFNESS = Dimension("stiffness", "N/m", '"1.2e8 N/m", "650 klbf/in"')
-DAMPING = Dimension("damping", "N*s/m", '"2.5e4 N*s/m", "120 lbf*s/in"')
-SPEED = Dimension("rotational speed", "rad/s", '"3600 rpm", "60 Hz", "377 rad/s"')
-PRESSURE = Dimension("modulus", "Pa", '"211 GPa", "30e6 psi"')
-DENSITY = Dimension("density", "kg/m**3", '"7850 kg/m^3", "0.283 lb/in^3"')
-UNBALANCE = Dimension("unbalance", "kg*m", '"12 g*mm", "0.05 oz*in"')
-ANGLE = Dimension("angle", "rad", '"30 deg", "0.5 rad"')
+LENGTH = Dimension("length", "m", '"80 mm", "3.5 in"', 1e-6, 1e3)          # 1 um to 1 km
+MASS = Dimension("mass", "kg", '"12 kg", "26 lb"', 1e-6, 1e7)
+INERTIA = Dimension("mass moment of inertia", "kg*m**2", '"0.8 kg*m^2", "2700 lb*in^2"',
+                    1e-12, 1e8)
+# the stiffness that loses the digits that matter is decided by the eigen-solve's own
+# error estimate (docs/theory.md); this range only keeps the arithmetic finite
+STIFFNESS = Dimension("stiffness", "N/m", '"1.2e8 N/m", "650 klbf/in"', 1e-6, 1e16)
+DAMPING = Dimension("damping", "N*s/m", '"2.5e4 N*s/m", "120 lbf*s/in"', 1e-6, 1e12)
+SPEED = Dimension("rotational speed", "rad/s", '"3600 rpm", "60 Hz", "377 rad/s"',
+                  1e-3, 1e6 * 2.0 * math.pi / 60.0)                          # to 1e6 rpm
+PRESSURE = Dimension("modulus", "Pa", '"211 GPa", "30e6 psi"', 1e5, 1e13)
+DENSITY = Dimension("density", "kg/m**3", '"7850 kg/m^3", "0.283 lb/in^3"', 1e-6, 1e6)
+UNBALANCE = Dimension("unbalance", "kg*m", '"12 g*mm", "0.05 oz*in"', 1e-12, 1e3)
+ANGLE = Dimension("angle", "rad", '"30 deg", "0.5 rad"', 1e-12, 1e4)
+
+#: Longest text a quantity may be written with, and the largest power in a unit.
+TEXT_LIMIT = 100
+POWER_LIMIT = 4
 
 
 def parse(value, dim: Dimension, key: str) -> float:
@@ -87,10 +104,41 @@ def parse(value, dim: Dimension, key: str) -> float:
     if not math.isfinite(number):
         raise InputError(key, "is not a finite number", value=value,
                          expected=expected, kind="not-finite")
+    if dim is SPEED and number < 0:
+        raise InputError(key, "is a negative speed", value=value,
+                         expected="a speed of 0 or more, with its unit", kind="range")
+    if number != 0 and not dim.low <= abs(number) <= dim.high:
+        raise InputError(key, f"is outside the range of any machine ({dim.low:g} to "
+                         f"{dim.high:g} {dim.si_unit})", value=value,
+                         expected=f"{article} {dim.name} inside that range", kind="range")
     return number
 
 
+_POWER = re.compile(r"(\*\*|\^)\s*\(?\s*([-+]?[0-9.eE]*)")
+
+
+def _bounded(text, key, expected):
+    """Refuse text that would cost unbounded work to evaluate: very long text, or
+    powers that are large, fractional or chained ("9**9**9 mm" once hung)."""
+    if len(text) > TEXT_LIMIT:
+        raise InputError(key, f"is longer than {TEXT_LIMIT} characters", value=text[:40] + "...",
+                         expected=expected, kind="size")
+    powers = _POWER.findall(text)
+    for _, exponent in powers:
+        try:
+            ok = float(exponent) == int(float(exponent)) and abs(float(exponent)) <= POWER_LIMIT
+        except ValueError:
+            ok = False
+        if not ok:
+            raise InputError(key, f"has a power other than a whole number up to {POWER_LIMIT}",
+                             value=text, expected=expected, kind="unit")
+    if re.search(r"(\*\*|\^)[^*^]*(\*\*|\^)\s*[-+]?[0-9]", text) and \
+            re.search(r"[0-9)]\s*(\*\*|\^)[^a-zA-Z]*(\*\*|\^)", text):
+        raise InputError(key, "has chained powers", value=text, expected=expected, kind="unit")
+
+
 def _parse_text(text, dim, key, expected):
+    _bounded(text, key, expected)
     try:
         quantity = _UREG.Quantity(text.strip())
     except Exception as exc:  # pint raises a zoo of parser errors
@@ -118,18 +166,24 @@ def _to_si(quantity, dim, key, text, expected):
         if dim is SPEED and number != 0.0:
             raise _bare_speed(key, text)
         return number
-    if quantity.unitless:
+    if str(quantity.units) == "dimensionless":   # a plain number: SI (speeds excepted)
         if dim is SPEED and quantity.magnitude != 0:
             raise _bare_speed(key, text)
         return float(quantity.magnitude)
+    if quantity.dimensionless and dim is not ANGLE:
+        # "50 percent", "500 mm/m", "500000 ppm": a ratio, not a length or a speed
+        raise InputError(key, f"has a dimensionless unit ({quantity.units}), not a unit of "
+                         f"{dim.name}", value=text, expected=expected, kind="unit")
     if dim is SPEED and quantity.dimensionality == dim.dimensionality:
         names = str(quantity.units)
-        if any(name in names for name in _HZ_NAMES):
-            quantity = quantity * _UREG.Quantity(2.0 * math.pi, "rad")
-        elif not any(name in names for name in _ANGLE_NAMES):
+        has_angle = any(name in names for name in _ANGLE_NAMES)
+        if any(name in names for name in _HZ_NAMES) and not has_angle:
+            quantity = quantity * _UREG.Quantity(2.0 * math.pi, "rad")   # Hz: rev/s
+        elif not has_angle:
             # "50 /s" or "50 cps" (pint: counts per second) would silently lose 2 pi
             raise InputError(key, "has no angle or revolution in its unit", value=text,
                              expected=expected, kind="unit")
+        # with an angle in the unit, Hz is 1/s: "150 rad*Hz" is 150 rad/s
     try:
         return float(quantity.to(dim.si_unit).magnitude)
     except pint.DimensionalityError:

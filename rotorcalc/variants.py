@@ -249,10 +249,19 @@ def _change_bearings(rotor, change, parts, head_index):
 
 
 def apply_variant(rotor: Rotor, variant: Variant) -> Rotor:
-    """A copy of ``rotor`` with every change of ``variant`` applied in order."""
+    """A copy of ``rotor`` with every change of ``variant`` applied in order.
+
+    A disk's inertias are checked against each other once every change is in:
+    scaling the polar inertia before the transverse one passes through a state
+    no rigid disk has, which is no fault of the variant.
+    """
+    flags = [d.inertia_as_given for d in rotor.disks]
+    rotor = dataclasses.replace(rotor, disks=tuple(
+        dataclasses.replace(d, inertia_as_given=True) for d in rotor.disks))
     for change in variant.changes:
         rotor = apply_change(rotor, change)
-    return rotor
+    return dataclasses.replace(rotor, disks=tuple(
+        dataclasses.replace(d, inertia_as_given=flag) for d, flag in zip(rotor.disks, flags)))
 
 
 VARIANTS_TOP = {"base", "variant"}

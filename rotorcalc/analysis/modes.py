@@ -90,25 +90,36 @@ def is_conservative(c_mat, k_mat):
     return abs(k_mat - k_mat.T).max() <= 1e-14 * abs(k_mat).max()
 
 
-def snap_roundoff(values, vectors, m, d, k, conservative):
-    """Eigenvalues with real parts that are roundoff set to exactly zero.
+def eigenvalue_errors(values, vectors, m, d, k):
+    """Estimated absolute error of each computed eigenvalue, rad/s.
 
-    The error of a computed eigenvalue is estimated from its residual,
-    ``|Q(lam) x| / |x^H Q'(lam) x|`` with ``Q(lam) = lam^2 M + lam D + K``; a real
-    part within :data:`ROUNDOFF_FACTOR` of that is zero, so an undamped model
-    reads log decrement 0 (not +-1e-18 with a verdict that follows its sign).
-    A conservative model (:func:`is_conservative`) gets zero real parts outright.
+    First-order perturbation with the right vector standing in for the left
+    one: ``|Q(lam) x| |x| / |x^H Q'(lam) x|``, ``Q(lam) = lam^2 M + lam D + K``.
+    The residual is computed in the original (unscaled) matrices, so it holds
+    whatever digits the solve lost.
     """
-    values = np.array(values, dtype=complex)
-    if conservative:
-        return 1j * values.imag
+    out = np.empty(len(values))
     for i, lam in enumerate(values):
         x = vectors[:, i]
         r = (lam * lam) * (m @ x) + lam * (d @ x) + k @ x
         slope = abs(np.conj(x) @ (2.0 * lam * (m @ x) + d @ x))
-        if slope > 0 and abs(lam.real) <= ROUNDOFF_FACTOR * np.linalg.norm(r) * \
-                np.linalg.norm(x) / slope:
-            values[i] = 1j * lam.imag
+        out[i] = np.linalg.norm(r) * np.linalg.norm(x) / slope if slope > 0 else np.inf
+    return out
+
+
+def snap_roundoff(values, errors, conservative):
+    """Eigenvalues with real parts that are roundoff set to exactly zero.
+
+    A real part within :data:`ROUNDOFF_FACTOR` of the eigenvalue's estimated
+    error (:func:`eigenvalue_errors`) is zero, so an undamped model reads log
+    decrement 0 (not +-1e-18 with a verdict that follows its sign).  A
+    conservative model (:func:`is_conservative`) gets zero real parts outright.
+    """
+    values = np.array(values, dtype=complex)
+    if conservative:
+        return 1j * values.imag
+    small = np.abs(values.real) <= ROUNDOFF_FACTOR * errors
+    values[small] = 1j * values[small].imag
     return values
 
 
@@ -247,7 +258,8 @@ def modes_at(rotor_or_system, speed, n_modes=None, solver=None, near=None):
     values, q = split_degenerate(pairs.values, pairs.vectors, system.mass, d_mat, k_mat)
     order = np.argsort(values.imag, kind="stable")
     values, q = values[order], q[:, order]
-    values = snap_roundoff(values, q, system.mass, d_mat, k_mat, is_conservative(c_mat, k_mat))
+    errors = eigenvalue_errors(values, q, system.mass, d_mat, k_mat)
+    values = snap_roundoff(values, errors, is_conservative(c_mat, k_mat))
     tdofs = system.translation_dofs
     shapes = np.stack([q[tdofs[:, 0], :].T, q[tdofs[:, 1], :].T], axis=-1)
     peak = _peak(shapes)

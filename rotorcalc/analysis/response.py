@@ -476,6 +476,7 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None, un
     system = rotor_or_system if isinstance(rotor_or_system, SystemMatrices) \
         else assemble(rotor_or_system)
     rotor = system.rotor
+    system.require_support()
     cases = tuple(rotor.unbalance if cases is None else cases)
     if not cases:
         raise InputError("unbalance", "no unbalance case is given",

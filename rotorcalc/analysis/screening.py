@@ -94,6 +94,7 @@ def screen(rotor: Rotor, speeds=None, orders=None, solver=None, progress=None,
         default, 0 for one per core); the result does not depend on it.
     """
     system = assemble(rotor)
+    system.require_support()
     result = sweep(system, speeds=speeds, solver=solver, progress=progress, workers=workers)
     stab = stability(system, result, solver=solver)
     crits = tuple(critical_speeds(system, result, orders=orders, solver=solver,

@@ -20,8 +20,10 @@ finite = dict(allow_nan=False, allow_infinity=False)
 
 @st.composite
 def rotors(draw, isotropic=False):
-    material = Material("m", draw(st.floats(7e10, 2.2e11, **finite)),
-                        draw(st.floats(2.6e10, 8.5e10, **finite)),
+    # valid physics only: a Poisson's ratio of metals, disks with I_p <= 2 I_t
+    modulus = draw(st.floats(7e10, 2.2e11, **finite))
+    material = Material("m", modulus,
+                        modulus / (2.0 * (1.0 + draw(st.floats(0.25, 0.35, **finite)))),
                         draw(st.floats(2700, 8900, **finite)))
     n = draw(st.integers(1, 4))
     sections = []
@@ -31,9 +33,12 @@ def rotors(draw, isotropic=False):
                                 inner_diameter=draw(st.sampled_from([0.0, 0.5 * od])),
                                 elements=draw(st.integers(1, 3)),
                                 added_mass=draw(st.sampled_from([0.0, 2.0]))))
-    disks = tuple(Disk(draw(st.integers(0, n)), draw(st.floats(1, 80, **finite)),
-                       draw(st.floats(0.01, 2, **finite)), draw(st.floats(0.005, 1, **finite)))
-                  for _ in range(draw(st.integers(0, 2))))
+    disks = []
+    for _ in range(draw(st.integers(0, 2))):
+        polar = draw(st.floats(0.01, 2, **finite))
+        disks.append(Disk(draw(st.integers(0, n)), draw(st.floats(1, 80, **finite)), polar,
+                          polar / 2.0 + draw(st.floats(0.0, 1, **finite))))
+    disks = tuple(disks)
     bearings = []
     for station in sorted({0, n, draw(st.integers(0, n))}):
         kx = draw(st.floats(1e6, 1e9, **finite))

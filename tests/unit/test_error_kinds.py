@@ -62,6 +62,27 @@ CASES = [
      mutated("poisson_ratio = 0.29", 'poisson_ratio = 0.29\nshear_modulus = "80 GPa"')),
     ("choice", "an unknown choice", mutated("modes = 6", 'modes = 6\nbeam_theory = "thick"')),
     ("file", "a file that cannot be read", lambda: read_rotor(ROOT / "cases" / "no-such.toml")),
+    # round two: impossible physics, dimensionless units, magnitudes, sizes, plain text
+    ("range", "negative direct damping", mutated('cxx = "2.0e4 N*s/m"', 'cxx = "-2.0e4 N*s/m"')),
+    ("physics", "cross-coupled stiffness making a principal stiffness negative",
+     mutated('kxy = "4.0e6 N/m"\nkyx = "-4.0e6 N/m"', 'kxy = "4.0e7 N/m"\nkyx = "4.0e7 N/m"')),
+    ("physics", "a disk with polar inertia over twice its transverse inertia",
+     mutated('polar_inertia = "0.062 kg*m^2"', 'polar_inertia = "0.62 kg*m^2"')),
+    ("physics", "a shear modulus implying a Poisson ratio above 0.5",
+     mutated("poisson_ratio = 0.29", 'shear_modulus = "1 GPa"')),
+    ("unit", "a dimensionless unit where a length is expected",
+     mutated('length = "140 mm"', 'length = "50 percent"')),
+    ("range", "a length outside the range of any machine",
+     mutated('length = "140 mm"', 'length = "1e-300 m"')),
+    ("range", "a stiffness outside the range of any machine",
+     mutated('kxx = "1.5e7 N/m"', 'kxx = "1e60 N/m"')),
+    ("range", "a negative speed", mutated('min_speed = "2400 rpm"', 'min_speed = "-2400 rpm"')),
+    ("unit", "a power tower in a unit", mutated('length = "140 mm"', 'length = "9**9**9 mm"')),
+    ("size", "more sweep speeds than a sweep needs",
+     mutated("speed_count = 41", "speed_count = 1000000000000")),
+    ("size", "a title of a megabyte",
+     mutated('title = "Six-stage', 'title = "' + "x" * 1_000_000 + '')),
+    ("type", "a control character in a name", mutated('name = "DE"', 'name = "DE\\u0007"')),
 ]
 
 #: Kinds raised only by the command line (tested in tests/cli): refusing to

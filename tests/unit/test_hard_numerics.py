@@ -17,6 +17,7 @@ import pytest
 
 from rotorcalc.analysis import modes_at, screen, sweep
 from rotorcalc.assembly import assemble
+from rotorcalc.errors import InputError
 from rotorcalc.model import Bearing, Disk, MarginRule, OperatingRange, Rotor, Section, Settings
 from tests.conftest import STEEL, isotropic, uniform_shaft
 
@@ -92,9 +93,15 @@ def test_cross_coupling_destabilises_and_is_kept_and_flagged():
     assert unstable.whirl[int(np.argmin(unstable.log_dec))] == "forward"
 
 
-def test_negative_damping_is_kept_and_fails_the_check():
-    rotor = jeffcott(1e6, 1e6, c=-50.0)
-    result = screen(rotor)
+def test_negative_damping_is_refused_and_an_unstable_critical_fails_the_check():
+    # negative direct damping is a source of energy no bearing is: refused at the model
+    with pytest.raises(InputError) as info:
+        jeffcott(1e6, 1e6, c=-50.0)
+    assert info.value.key.endswith("cxx[0]") and "damping" in info.value.problem
+    # an unstable critical comes from destabilising cross-coupling (q > c w_n) instead
+    k_shaft = 48 * STEEL.youngs_modulus * SECOND / 1.0
+    wn = math.sqrt((k_shaft + 1e6) / 50.0)
+    result = screen(jeffcott(1e6, 1e6, kxy=3.0 * 50.0 * wn, c=50.0))
     assert any(c.log_dec < 0 for c in result.criticals)
     assert not result.passed
     assert any(r.verdict == "fail" and r.critical.log_dec < 0 for r in result.margins.rows)
