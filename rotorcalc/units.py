@@ -138,6 +138,8 @@ def _bounded(text, key, expected):
 
 
 def _parse_text(text, dim, key, expected):
+    if not text.strip():
+        raise InputError(key, "is empty", value=text, expected=expected, kind="missing")
     _bounded(text, key, expected)
     try:
         quantity = _UREG.Quantity(text.strip())

@@ -307,10 +307,13 @@ def read_variants(path):
     """
     path = Path(path)
     try:
-        text = path.read_text(encoding="utf-8")
+        text = path.read_text(encoding="utf-8-sig")
     except OSError as exc:
         raise InputError("file", f"cannot be read ({exc.strerror})", value=str(path),
                          file=str(path), kind="file") from None
+    except UnicodeDecodeError:
+        raise InputError("file", "is not UTF-8 text", value=str(path), file=str(path),
+                         kind="file") from None
     data = load_toml(text, str(path))
     try:
         check_keys(data, VARIANTS_TOP, "")
@@ -335,7 +338,11 @@ def read_variants(path):
 
 def variant_from_option(text, index=0):
     """A variant from the command line: ``"NAME: change; change"`` (the name is optional)."""
-    name, _, body = text.partition(":") if ":" in text.split("=")[0] else ("", "", text)
+    head, colon, rest = text.partition(":")
+    # a name comes before the first ':' unless that part is already a change (it holds
+    # an operator); a name may hold any other character, '=' and brackets included
+    is_change = re.search(r"(\*=|\+=|-=|/=|\s=\s|\s=$)", head)
+    name, body = (head, rest) if colon and not is_change else ("", text)
     name = name.strip() or f"option {index + 1}"
     changes = [c for c in (part.strip() for part in body.split(";")) if c]
     if not changes:

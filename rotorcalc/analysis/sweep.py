@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import multiprocessing
 import os
+import re
 from concurrent.futures import ProcessPoolExecutor
 from contextlib import contextmanager
 from dataclasses import dataclass
@@ -291,7 +292,9 @@ def _solver_warnings(solved, speeds):
     for m, speed in zip(solved, speeds):
         for w in m.warnings:
             if w.startswith("sparse eigen-solve"):
-                seen.setdefault(w.split(" (")[0], []).append(speed)
+                # drop the numbers in parentheses (they differ per speed), keep the rest
+                text = re.sub(r" \([^)]*\)", "", w)
+                seen.setdefault(text, []).append(speed)
     return [f"{text} at {len(at)} of {len(speeds)} speeds (first at {to_rpm(at[0]):.0f} rpm)"
             for text, at in seen.items()]
 

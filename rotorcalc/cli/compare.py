@@ -33,8 +33,8 @@ def read_study(path, vary):
     from ..variants import apply_variant, read_variants, variant_from_option
     with input_errors():
         try:
-            data = load_toml(path.read_text(encoding="utf-8"), str(path))
-        except OSError:
+            data = load_toml(path.read_text(encoding="utf-8-sig"), str(path))
+        except (OSError, UnicodeDecodeError):
             data = {}  # let the reader report the file
         if "base" in data:
             base_path, rotor, variants = read_variants(path)

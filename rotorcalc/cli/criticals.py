@@ -12,7 +12,7 @@ from rich.markup import escape
 
 from ..analysis.margins import CAUTION
 from ..errors import InputError
-from ..model import MARGIN_RULES, STABILITY_RULES, MarginRule, StabilityRule
+from ..model import LIMITS, MARGIN_RULES, STABILITY_RULES, MarginRule, StabilityRule
 from ..analysis.stability import describe_mode
 from ..tables import LIMIT_COLUMNS, STABILITY_COLUMNS, margin_columns
 from ..units import to_rpm
@@ -36,6 +36,9 @@ def apply_overrides(rotor, points=None, top=None, orders=None, rule=None, below=
     changes = {}
     with input_errors():
         if points is not None:
+            if points > LIMITS["speed count"]:
+                raise InputError("--points", "is more speeds than a sweep needs", value=points,
+                                 expected=f"at most {LIMITS['speed count']}", kind="option")
             changes["speed_count"] = points
         if top is not None:
             changes["speed_to"] = speed_option(top, "--to")
@@ -45,11 +48,21 @@ def apply_overrides(rotor, points=None, top=None, orders=None, rule=None, below=
             except ValueError:
                 raise InputError("--orders", "must be numbers separated by commas", value=orders,
                                  expected="e.g. 1 or 0.5,1,2", kind="type") from None
+            if not changes["orders"] or len(changes["orders"]) > LIMITS["orders"] or not all(
+                    0 < o <= LIMITS["order"] for o in changes["orders"]):
+                raise InputError("--orders", "must be up to "
+                                 f"{LIMITS['orders']} orders above 0 and at most "
+                                 f"{LIMITS['order']:g}", value=orders, expected="e.g. 1 or 0.5,1,2",
+                                 kind="option")
         if rule is not None or below is not None or above is not None:
             r = s.margin_rule
             changes["margin_rule"] = dataclasses.replace(
                 r, kind=rule or r.kind, below=r.below if below is None else below,
                 above=r.above if above is None else above)
+        if min_log_dec is not None and stability not in (None, "at-least"):
+            raise InputError("--min-log-dec", f"has no effect with --stability {stability}",
+                             value=min_log_dec, expected="--stability at-least, or no "
+                             "--stability", kind="option")
         if stability is not None and stability not in STABILITY_RULES:
             raise InputError("--stability", "is not a known rule", value=stability,
                              expected=" or ".join(STABILITY_RULES), kind="choice")

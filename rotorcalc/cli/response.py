@@ -47,7 +47,7 @@ def command(
         fail_input(InputError("--case", "names no unbalance case of the file", value=name,
                               expected="one of " + ", ".join(result.cases), kind="choice"))
     speeds = [rotor.operating.max_speed]
-    if at:
+    if at is not None:
         speeds = [speed_option(part, "--at") for part in at.split(",")]
     print_table(f"{rotor.name}: unbalance applied", UNBALANCE_COLUMNS, unbalance_rows(rotor),
                 caption="Residual: U = 6350 W/N g*mm per weight, N the maximum continuous "
