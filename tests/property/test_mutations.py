@@ -7,6 +7,7 @@ the package's InputError.
 """
 
 import copy
+import io
 import math
 import sys
 
@@ -30,6 +31,9 @@ BAD_VALUES = st.sampled_from([
     -1, 0, -0.0, 1e308 * 10, math.nan, "nan", "inf m", "-3 mm", "3 kg", "3 N/m", "12 rpm",
     "abc", "", "1 +", "__import__('os')", "().__class__", True, [], {}, [1, "a"], "3 m/s",
     "1e400 N/m", "5 /s", 2**70, "0 rpm", "residual",
+    # round two: dimensionless units, extreme magnitudes, power towers, odd speed units
+    "50 percent", "500 mm/m", "500000 ppm", "1e300 N/m", "1e-300 m", "1e300 rpm", "9**9**9 mm",
+    "150 rad*Hz", "-3000 rpm", "[/]", "$x", "x" * 300,
 ])
 
 
@@ -127,3 +131,29 @@ def test_load_toml_reports_line_and_column():
     with pytest.raises(InputError) as info:
         load_toml('a = 1\nb = [1, 2\n', "x.toml")  # unclosed at the end: the last line
     assert info.value.line == 3
+
+
+@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(st.text(min_size=0, max_size=80))
+def test_any_name_is_text_or_an_input_error(name):
+    """A bearing name and a title of any characters: read as written or refused with an
+    input error (control characters, length), and printed in a table without markup
+    errors."""
+    from rich.console import Console
+
+    from rotorcalc.cli import common
+    from rotorcalc.tables import Column
+    doc = copy.deepcopy(DOCS["feed_pump"])
+    doc["bearing"][0]["name"] = name
+    doc["title"] = name
+    try:
+        rotor = rotor_from_dict(doc)
+    except InputError:
+        return
+    assert rotor.bearings[0].name == name and rotor.name == name
+    quiet = Console(file=io.StringIO(), width=120)
+    old, common.console = common.console, quiet
+    try:
+        common.print_table(rotor.name, [Column("Bearing", lambda r: r, "{}")], [name])
+    finally:
+        common.console = old
