@@ -129,3 +129,20 @@ def test_variants_scale_disk_inertias_in_any_order():
     impossible = Variant("flat", (parse_change("disk.impeller 1.polar_inertia *= 1.5"),))
     with pytest.raises(InputError):
         apply_variant(rotor, impossible)
+
+
+def test_a_mode_that_disagrees_with_its_own_shape_fails_the_solve():
+    """The guard on lost digits: a computed eigenvalue must agree with the Rayleigh
+    value of its own vector in the unscaled matrices (1e-12 on a sound solve)."""
+    from rotorcalc.analysis.modes import DIGITS_LOST, _check_digits
+    from rotorcalc.assembly import assemble
+    from rotorcalc.errors import SolverError
+    from rotorcalc.solvers import make_solver
+    system = assemble(read_rotor(FAN))
+    w = 1000 * RPM
+    d, k = system.damping(w) + w * system.gyroscopic, system.stiffness(w)
+    pairs = make_solver()(system.mass, d, k, 4, zeros=0)
+    _check_digits(pairs.values, pairs.vectors, system.mass, d, k, w)        # sound: silent
+    wrong = pairs.values * (1 + 100 * DIGITS_LOST)
+    with pytest.raises(SolverError, match="lost the digits"):
+        _check_digits(wrong, pairs.vectors, system.mass, d, k, w)
