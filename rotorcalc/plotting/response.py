@@ -7,7 +7,7 @@ sweep speeds, the ellipse traced over one turn).
 Conventions shared by the three pictures:
 
 * amplitudes of probes are peak-to-peak, in micrometres;
-* phase is the phase lag behind the keyphasor instant ``t = 0``, in degrees
+* phase is the phase lag behind the once-per-turn mark ``t = 0``, in degrees
   from 0 to 360 (``x(t) = Re(X e^{iwt})``, lag = ``-arg X``);
 * a probe keeps one colour per station and one line style per direction at
   that station, in every picture;
@@ -165,7 +165,7 @@ class OrbitArtists:
     ellipses : tuple of tuple of Line2D
         ``ellipses[k][j]``: the orbit at station ``stations[k]`` and speed ``j``
         in µm, solid when forward, dashed when backward.
-    keyphasor_markers : tuple of tuple of Line2D
+    mark_dots : tuple of tuple of Line2D
         The position at ``t = 0``, same layout as ``ellipses``.
     arrows : tuple of FancyArrowPatch
         Direction of travel, on orbits large enough to carry one (in the
@@ -185,7 +185,7 @@ class OrbitArtists:
     stations: tuple = ()
     speeds: tuple = ()
     ellipses: tuple = ()
-    keyphasor_markers: tuple = ()
+    mark_dots: tuple = ()
     arrows: tuple = ()
     insets: tuple = ()
     scale: float = 0.0
@@ -365,7 +365,7 @@ def bode(response, case_index=0, probes=None, operating=None, ax=None, *, log_am
     """Draw the Bode plot of one unbalance case: amplitude and phase lag over speed.
 
     The top axes has the peak-to-peak amplitude of each probe in µm, the
-    bottom one its phase lag behind the keyphasor in degrees (0 to 360, the
+    bottom one its phase lag behind the once-per-turn mark in degrees (0 to 360, the
     curve broken where it wraps).  Each peak of the case on a drawn probe is
     marked with its amplification factor (``"AF 3.9"``) and, where both
     half-power speeds were found, a bar at 0.707 of the peak between them:
@@ -630,7 +630,7 @@ def polar(response, case_index=0, probes=None, ax=None):
     """Draw the polar plot of one unbalance case: each probe's response as a curve over speed.
 
     The radius is the peak-to-peak amplitude in µm and the angle the phase
-    lag behind the keyphasor, 0\u00b0 at the top and increasing clockwise; so
+    lag behind the once-per-turn mark, 0\u00b0 at the top and increasing clockwise; so
     a point turns clockwise as its lag grows through a resonance.  A few
     speeds are written along each curve (rpm) and each peak of the case on a
     drawn probe is marked with its speed.
@@ -896,7 +896,7 @@ def orbits(response, case_index=0, stations=None, ax=None):
     Each orbit is the path ``(Re(X e^{iwt}), Re(Y e^{iwt}))`` over one turn,
     seen from the +z end with x to the right and y up (the spin, from +x
     towards +y, is anticlockwise).  A dot marks the position at ``t = 0``,
-    the keyphasor instant, and an arrow the direction of travel; forward
+    the once-per-turn mark, and an arrow the direction of travel; forward
     orbits (turning with the spin) are solid, backward ones dashed.  There is
     one panel per station and one colour per speed in ``response.speeds``
     (meant for a Response run at a few chosen speeds); every panel has the
@@ -948,7 +948,7 @@ def orbits(response, case_index=0, stations=None, ax=None):
         rows, cols = _grid(len(stations))
         fig = Figure(figsize=(0.5 + 3.15 * cols, 1.55 + 3.25 * rows), facecolor=st.PAPER)
         note = ("seen from the +z end: x to the right, y up, spin anticlockwise  \u00b7  "
-                "every panel to the same scale, \u00b5m\n\u25cf position at t = 0 (keyphasor)"
+                "every panel to the same scale, \u00b5m\n\u25cf position at t = 0 (once-per-turn mark)"
                 "  \u00b7  arrow: direction of travel  \u00b7  solid forward, dashed backward")
         top = _figure_title(fig, f"Orbits, case {case}", note, 1.1)
         grid = fig.add_gridspec(rows, cols, left=0.1 if cols > 1 else 0.16, right=0.97,
@@ -1015,7 +1015,7 @@ def orbits(response, case_index=0, stations=None, ax=None):
                                          fontsize=st.FONT_NOTE + 0.5, handlelength=2.0))
     return OrbitArtists(figure=fig, ax=panels[0], axes=tuple(panels),
                         stations=tuple(stations), speeds=tuple(float(v) for v in rpm),
-                        ellipses=tuple(ellipses), keyphasor_markers=tuple(dots),
+                        ellipses=tuple(ellipses), mark_dots=tuple(dots),
                         arrows=tuple(arrows), insets=tuple(insets), scale=scale,
                         legend=legend)
 
@@ -1024,7 +1024,7 @@ _TURN = np.exp(1j * np.linspace(0.0, 2.0 * math.pi, 121))
 
 
 def _draw_orbit_set(ax, amplitudes, forward, half_width, small=False):
-    """The orbits of one station at every speed: ellipse, keyphasor dot, arrow.
+    """The orbits of one station at every speed: ellipse, once-per-turn dot, arrow.
 
     ``amplitudes`` is (n_speeds, 2) complex x, y in µm; ``half_width`` the axes'
     half-width, which sets whether an orbit is big enough to carry an arrow.
@@ -1043,7 +1043,7 @@ def _draw_orbit_set(ax, amplitudes, forward, half_width, small=False):
                             markeredgecolor=st.PAPER, markeredgewidth=0.6, zorder=6)[0])
         size = float(np.max(np.hypot(xs, ys)))
         if size >= ARROW_MIN * half_width:
-            # A sixth of a turn after the keyphasor dot, clear of it.
+            # A sixth of a turn after the once-per-turn dot, clear of it.
             arrow = FancyArrowPatch((xs[17], ys[17]), (xs[20], ys[20]), arrowstyle="-|>",
                                     mutation_scale=8 if small else 11, color=colour,
                                     linewidth=1.0, shrinkA=0, shrinkB=0, zorder=5)

@@ -295,7 +295,7 @@ def test_orbits_draw_the_ellipse_from_the_complex_amplitudes():
     t = np.linspace(0.0, 2.0 * math.pi, len(xs))
     assert np.allclose(xs, (x_amp * np.exp(1j * t)).real)
     assert np.allclose(ys, (y_amp * np.exp(1j * t)).real)
-    kx, ky = out.keyphasor_markers[1][1].get_data()
+    kx, ky = out.mark_dots[1][1].get_data()
     assert np.isclose(kx[0], x_amp.real) and np.isclose(ky[0], y_amp.real)
     # One colour per speed, the same in every panel.
     colours = [[line.get_color() for line in row] for row in out.ellipses]
