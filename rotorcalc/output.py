@@ -28,6 +28,7 @@ from contextlib import contextmanager
 from pathlib import Path
 
 from . import __version__
+from .errors import InputError
 
 FORMAT = "rotorcalc-results-1"
 
@@ -250,7 +251,7 @@ def read_json(path) -> dict:
     """Read back a results file written by :func:`write_json`."""
     data = json.loads(Path(path).read_text(encoding="utf-8"))
     if data.get("format") != FORMAT:
-        raise ValueError(f"{path} is not a rotorcalc results file")
+        raise InputError("file", f"{path} is not a rotorcalc results file", kind="file")
     return data
 
 

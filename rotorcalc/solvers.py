@@ -38,6 +38,7 @@ import scipy.sparse.linalg as spla
 from scipy.sparse.csgraph import reverse_cuthill_mckee
 
 from .units import to_hz
+from .errors import InputError
 
 
 #: What LAPACK, SuperLU and ARPACK raise when a solve fails on its numbers (not on
@@ -471,4 +472,5 @@ def make_solver(name="auto"):
     try:
         return SOLVERS[name]()
     except KeyError:
-        raise ValueError(f"unknown solver {name!r}; choose from {sorted(SOLVERS)}") from None
+        raise InputError("solver", "is not a known solver", value=name,
+                         expected=" or ".join(sorted(SOLVERS)), kind="choice") from None

@@ -11,6 +11,7 @@ import math
 
 from .statics import journal_static_loads
 from .units import to_rpm
+from .errors import InputError
 
 #: Residual-unbalance constant: U = 6350 W / N  g*mm with W in kg, N in rpm
 #: (4 W / N oz*in in US units; common practice, from memory).  W is the static
@@ -37,7 +38,7 @@ def residual_unbalance(mass, max_speed):
     U = 6350 W / N g*mm (W in kg, N in rpm); common practice, from memory.
     """
     if mass <= 0 or max_speed <= 0:
-        raise ValueError("mass and speed must be positive")
+        raise InputError("residual", "mass and speed must be positive", kind="range")
     return RESIDUAL_CONSTANT_G_MM * mass / to_rpm(max_speed) * 1e-6
 
 

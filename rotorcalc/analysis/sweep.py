@@ -211,7 +211,7 @@ def _solve_batch(system, speeds, n_solve, solver):
 def worker_count(workers):
     """The number of worker processes ``workers`` asks for (0: one per available core)."""
     if not isinstance(workers, (int, np.integer)) or workers < 0:
-        raise ValueError(f"workers must be a whole number >= 0, not {workers!r}")
+        raise InputError("workers", f"workers must be a whole number >= 0, not {workers!r}", kind="option")
     if workers == 0:
         try:
             return len(os.sched_getaffinity(0))

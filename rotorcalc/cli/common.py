@@ -224,7 +224,6 @@ def save_figure(fig, path: Path):
     try:
         with output_errors(path):
             save(fig, path)
-    except ValueError as exc:
-        fail_input(InputError("picture file", str(exc), value=str(path),
-                              expected="a .png, .svg or .pdf file name", kind="output"))
+    except InputError as err:
+        fail_input(err)
     console.print(f"wrote {escape(str(path))}", highlight=False)

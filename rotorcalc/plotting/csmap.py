@@ -21,6 +21,7 @@ from . import _labels as lb
 from . import _style as st
 from ._geometry import snapshot
 from .speedmap import branch_runs, frequency_top
+from ..errors import InputError
 
 #: N/m per klbf/in (1 lbf = 4.4482216152605 N, 1 in = 0.0254 m), for the top axis.
 N_PER_KLBF_IN = 4.4482216152605e3 / 0.0254
@@ -244,11 +245,11 @@ def critical_speed_map(cmap, operating=None, window=None, base_stiffness=None, a
     if base_stiffness is not None:
         base_stiffness = float(base_stiffness)
         if not (math.isfinite(base_stiffness) and base_stiffness > 0):
-            raise ValueError(f"base_stiffness must be a positive stiffness in N/m, "
-                             f"not {base_stiffness!r}")
+            raise InputError("plot arguments", f"base_stiffness must be a positive stiffness in N/m, "
+                             f"not {base_stiffness!r}", kind="option")
     if window is not None and base_stiffness is None:
-        raise ValueError("a stiffness window is drawn at base_stiffness x its factors: "
-                         "give base_stiffness (N/m) with the window")
+        raise InputError("plot arguments", "a stiffness window is drawn at base_stiffness x its factors: "
+                         "give base_stiffness (N/m) with the window", kind="option")
     fig, ax, created = st.axes_for(ax, figsize=(10.0, 6.2))
     if created:
         fig.subplots_adjust(left=0.08, right=0.66, bottom=0.10, top=0.83)
@@ -787,8 +788,8 @@ def variant_maps(comparison, operating=None, orders=(1.0,), ax=None, *, freq_max
     names = tuple(comparison.names)
     screenings = tuple(comparison.screenings)
     if len(names) != len(screenings):
-        raise ValueError(f"the comparison has {len(names)} names but {len(screenings)} "
-                         "screenings")
+        raise InputError("plot arguments", f"the comparison has {len(names)} names but {len(screenings)} "
+                         "screenings", kind="option")
     fig, ax, created = st.axes_for(ax, figsize=(10.0, 6.0))
     if created:
         fig.subplots_adjust(left=0.08, right=0.68, bottom=0.10, top=0.86)
@@ -939,12 +940,12 @@ def map_shapes(node_z, shapes, labels, ax=None, *, station_nodes=None):
     shapes = [np.asarray(s, dtype=complex) for s in shapes]
     labels = [str(t) for t in labels]
     if len(shapes) != len(labels):
-        raise ValueError(f"{len(shapes)} shapes but {len(labels)} labels: give one label "
-                         "per shape")
+        raise InputError("plot arguments", f"{len(shapes)} shapes but {len(labels)} labels: give one label "
+                         "per shape", kind="option")
     for i, s in enumerate(shapes):
         if s.shape != (len(z), 2):
-            raise ValueError(f"shape {i} has shape {s.shape}, expected ({len(z)}, 2): one "
-                             "(x, y) pair per node")
+            raise InputError("plot arguments", f"shape {i} has shape {s.shape}, expected ({len(z)}, 2): one "
+                             "(x, y) pair per node", kind="option")
     fig, ax, created = st.axes_for(ax, figsize=(10.0, 5.0))
     if created:
         fig.subplots_adjust(left=0.08, right=0.97, bottom=0.24, top=0.88)

@@ -12,6 +12,7 @@ from matplotlib.patches import Patch, Polygon, Rectangle
 from . import _labels as lb
 from . import _style as st
 from ._geometry import MM, disk_size, shaft_diameter
+from ..errors import InputError
 
 #: Below this ratio of largest diameter to length, the radial scale is stretched.
 THIN_RATIO = 0.08
@@ -101,7 +102,7 @@ def rotor_layout(rotor, ax=None, *, radial_scale=None):
     disk_sizes = [disk_size(d, rotor) for d in rotor.disks]
     f = _auto_scale(rotor, disk_sizes) if radial_scale is None else float(radial_scale)
     if not (math.isfinite(f) and f > 0):
-        raise ValueError(f"radial_scale must be a positive number, not {radial_scale!r}")
+        raise InputError("plot arguments", f"radial_scale must be a positive number, not {radial_scale!r}", kind="option")
 
     length = z[-1]
     if ax is None:

@@ -7,6 +7,7 @@ from pathlib import Path
 import matplotlib
 
 from ..output import open_replacement
+from ..errors import InputError
 
 #: File formats by extension, and the resolution of raster output.
 FORMATS = {".png": "png", ".svg": "svg", ".pdf": "pdf"}
@@ -49,8 +50,9 @@ def save(fig, path):
     path = Path(path)
     fmt = FORMATS.get(path.suffix.lower())
     if fmt is None:
-        raise ValueError(f"cannot save a figure as {path.name!r}: the file name must end in "
-                         + ", ".join(FORMATS))
+        raise InputError("picture file", "has an extension no picture is written in",
+                         value=str(path), expected="a file name ending in " + ", ".join(FORMATS),
+                         kind="output")
     with open_replacement(path) as stream, matplotlib.rc_context(_FIXED_IDS):
         fig.savefig(stream, format=fmt, dpi=PNG_DPI if fmt == "png" else None,
                     metadata=_UNDATED.get(fmt), bbox_inches="tight", pad_inches=0.12,

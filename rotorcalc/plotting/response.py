@@ -30,6 +30,7 @@ from matplotlib.ticker import FuncFormatter, MaxNLocator, NullFormatter
 from ..units import to_rpm
 from . import _labels as lb
 from . import _style as st
+from ..errors import InputError
 
 #: One colour per probe station (and per speed in the orbit picture).
 COLOURS = ("#2d6fb4", "#c8571b", "#3a9467", "#7a4fa0", "#b1172f", "#8c6d1f", "#2f8f9d",
@@ -206,7 +207,7 @@ def _probe_indices(response, probes):
     """Probe indices from indices, names, a mix of both, or a single one (None: all)."""
     names = [p.name for p in response.probes]
     if not names:
-        raise ValueError("the response has no probes to draw")
+        raise InputError("plot arguments", "the response has no probes to draw", kind="option")
     if probes is None:
         return list(range(len(names)))
     if isinstance(probes, (str, int, np.integer)):
@@ -215,8 +216,8 @@ def _probe_indices(response, probes):
     for p in probes:
         if isinstance(p, str):
             if p not in names:
-                raise ValueError(f"no probe is named {p!r}: the probes are "
-                                 + ", ".join(repr(n) for n in names))
+                raise InputError("plot arguments", f"no probe is named {p!r}: the probes are "
+                                 + ", ".join(repr(n) for n in names), kind="option")
             k = names.index(p)
         elif isinstance(p, (int, np.integer)) and not isinstance(p, bool):
             if not -len(names) <= p < len(names):
@@ -228,7 +229,7 @@ def _probe_indices(response, probes):
         if k not in out:
             out.append(k)
     if not out:
-        raise ValueError("no probe is chosen")
+        raise InputError("plot arguments", "no probe is chosen", kind="option")
     return out
 
 
@@ -414,8 +415,8 @@ def bode(response, case_index=0, probes=None, operating=None, ax=None, *, log_am
     elif isinstance(ax, (tuple, list, np.ndarray)):
         ax = list(np.ravel(np.asarray(ax, dtype=object)))
         if len(ax) != 2:
-            raise ValueError(f"ax must be one axes or a pair (amplitude, phase), "
-                             f"not {len(ax)} axes")
+            raise InputError("plot arguments", f"ax must be one axes or a pair (amplitude, phase), "
+                             f"not {len(ax)} axes", kind="option")
         amp_ax, phase_ax = ax
         fig = amp_ax.figure
         created = False
@@ -667,8 +668,8 @@ def polar(response, case_index=0, probes=None, ax=None):
 
     if ax is not None:
         if getattr(ax, "name", "") != "polar":
-            raise ValueError("the polar plot needs a polar axes: make it with "
-                             "add_subplot(projection='polar')")
+            raise InputError("plot arguments", "the polar plot needs a polar axes: make it with "
+                             "add_subplot(projection='polar')", kind="option")
         fig, panels, groups, created = ax.figure, [ax], [chosen], False
     else:
         stations = sorted({response.probes[k].station for k in chosen})
@@ -936,7 +937,7 @@ def orbits(response, case_index=0, stations=None, ax=None):
             raise IndexError(f"station {s} is out of range: the response has stations "
                              f"0 to {n_st - 1}")
     if not stations:
-        raise ValueError("no station is chosen")
+        raise InputError("plot arguments", "no station is chosen", kind="option")
     case = response.cases[i]
     rpm = to_rpm(np.asarray(response.speeds, dtype=float))
     major, _, forward = response.orbits(i)
@@ -964,8 +965,8 @@ def orbits(response, case_index=0, stations=None, ax=None):
         panels = list(ax) if isinstance(ax, (tuple, list, np.ndarray)) else [ax]
         panels = list(np.ravel(panels))
         if len(panels) != len(stations):
-            raise ValueError(f"{len(stations)} station{'s' if len(stations) != 1 else ''} "
-                             f"to draw but {len(panels)} axes given: give one axes per station")
+            raise InputError("plot arguments", f"{len(stations)} station{'s' if len(stations) != 1 else ''} "
+                             f"to draw but {len(panels)} axes given: give one axes per station", kind="option")
         fig, created, rows, cols = panels[0].figure, False, 1, len(panels)
 
     ellipses, dots, arrows, insets = [], [], [], []

@@ -104,7 +104,7 @@ def test_make_solver_names_and_auto_choice(monkeypatch):
     assert isinstance(make_solver(), AutoSolver)
     assert isinstance(make_solver("dense"), DenseSolver)
     assert isinstance(make_solver("sparse"), SparseSolver)
-    with pytest.raises(ValueError, match="unknown solver"):
+    with pytest.raises(ValueError, match="not a known solver"):
         make_solver("qz")
     used = []
     for cls in (DenseSolver, SparseSolver):
