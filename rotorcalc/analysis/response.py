@@ -30,7 +30,7 @@ from scipy.sparse.csgraph import reverse_cuthill_mckee
 from .. import standards
 from ..assembly import SystemMatrices, assemble
 from ..errors import InputError, SolverError
-from ..solvers import NUMERICAL_FAILURES
+from ..solvers import NUMERICAL_FAILURES, one_blas_thread
 from ..unbalance import Probe
 from ..units import to_rpm
 from .stability import stability
@@ -76,6 +76,7 @@ class HarmonicSolver:
         return (s.stiffness(omega) - omega * omega * s.mass
                 + 1j * omega * (s.damping(omega) + omega * s.gyroscopic))
 
+    @one_blas_thread
     def solve(self, omega, rhs):
         """Solve ``Z(omega) Q = rhs`` (``rhs`` (n_dof, k) complex).
 
