@@ -70,7 +70,8 @@ def mutated(draw):
         key = path[-1]
         action = draw(st.sampled_from(["value", "delete", "rename", "wrap", "duplicate"]))
         if action == "value":
-            holder[key] = draw(BAD_VALUES)
+            # a copy: the sampled list or table must not be mutated by a later action
+            holder[key] = copy.deepcopy(draw(BAD_VALUES))
         elif action == "delete":
             del holder[key]
         elif action == "rename" and isinstance(holder, dict):
