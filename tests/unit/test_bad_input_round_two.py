@@ -146,3 +146,21 @@ def test_a_mode_that_disagrees_with_its_own_shape_fails_the_solve():
     wrong = pairs.values * (1 + 100 * DIGITS_LOST)
     with pytest.raises(SolverError, match="lost the digits"):
         _check_digits(wrong, pairs.vectors, system.mass, d, k, w)
+
+
+def test_a_growing_motion_without_whirl_is_an_instability():
+    """A positive real eigenvalue (static divergence) fails the stability verdict in
+    the judged range, whatever the whirling modes do (it was once visible only in the
+    JSON of `modes`)."""
+    import dataclasses
+
+    from rotorcalc.analysis import stability, sweep
+    from rotorcalc.assembly import assemble
+    system = assemble(read_rotor(FAN))
+    op = system.rotor.operating
+    result = sweep(system, speeds=np.linspace(0.0, 1.2 * op.trip_speed, 13))
+    stable = stability(system, result)
+    assert stable.passed and not stable.divergent_speeds
+    growth = np.where(result.speeds >= op.min_speed, 5.0, -np.inf)   # +5 1/s from min speed
+    diverging = stability(system, dataclasses.replace(result, growth=growth))
+    assert not diverging.passed and diverging.divergent_speeds[0] >= op.min_speed
