@@ -10,6 +10,7 @@ range and the analysis settings.  Change one through copies
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -35,6 +36,49 @@ STABILITY_RULES = ("positive", "at-least", "none")
 #: Where each verdict rule comes from; printed beside every verdict it gives.
 FROM_MEMORY = ("common practice, quoted from memory from industry standards for centrifugal "
                "machinery; confirm against the edition that applies")
+
+
+class FrozenMap(Mapping):
+    """A mapping that cannot be changed and can be hashed: the model's tables.
+
+    A frozen dataclass holding a plain dict could still be changed in place
+    (``bearing.coefficients["kxx"] = ...``) and could not be hashed.
+    """
+
+    __slots__ = ("_items",)
+
+    def __init__(self, items=()):
+        object.__setattr__(self, "_items", dict(items))
+
+    def __getitem__(self, key):
+        return self._items[key]
+
+    def __iter__(self):
+        return iter(self._items)
+
+    def __len__(self):
+        return len(self._items)
+
+    def __hash__(self):
+        return hash(tuple(sorted(self._items.items())))
+
+    def __eq__(self, other):
+        return isinstance(other, Mapping) and dict(self._items) == dict(other)
+
+    def __repr__(self):
+        return f"FrozenMap({self._items!r})"
+
+    def __setattr__(self, name, value):
+        raise AttributeError("a FrozenMap cannot be changed")
+
+    def __reduce__(self):
+        return (FrozenMap, (self._items,))
+
+
+def _freeze(obj, name, value):
+    """Set a frozen dataclass's mapping field to its frozen copy."""
+    if not isinstance(value, FrozenMap):
+        object.__setattr__(obj, name, FrozenMap(value))
 
 
 def _positive(key, value, *, allow_zero=False):
@@ -244,6 +288,7 @@ class Bearing:
     key: str = "bearing"
 
     def __post_init__(self):
+        _freeze(self, "coefficients", {k: tuple(v) for k, v in self.coefficients.items()})
         unknown = set(self.coefficients) - set(COEFFICIENT_NAMES)
         if unknown:
             raise InputError(f"{self.key}.{sorted(unknown)[0]}", "is not a bearing coefficient",
@@ -550,7 +595,7 @@ class Rotor:
     disks: tuple = ()
     bearings: tuple = ()
     settings: Settings = field(default_factory=Settings)
-    station_names: dict = field(default_factory=dict)
+    station_names: Mapping = field(default_factory=FrozenMap)
     name: str = "rotor"
     unbalance: tuple = ()
     probes: tuple = ()
@@ -558,6 +603,7 @@ class Rotor:
     response: ResponseSettings = field(default_factory=ResponseSettings)
 
     def __post_init__(self):
+        _freeze(self, "station_names", self.station_names)
         if not self.sections:
             raise InputError("section", "the rotor has no shaft sections",
                              expected="at least one [[section]] table", kind="missing")

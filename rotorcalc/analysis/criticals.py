@@ -18,7 +18,7 @@ from scipy.optimize import brentq
 
 from ..assembly import SystemMatrices, assemble
 from ..units import to_hz, to_rpm
-from .modes import forward_fraction, log_decrement, modes_at, whirl_label
+from .modes import forward_fraction, log_decrement, modes_at, read_only, whirl_label
 from .sweep import TRACKING_RESERVE, Sweep, worker_count, worker_pool
 from .sweep import sweep as run_sweep
 from .tracking import GATE, match_cost
@@ -53,6 +53,9 @@ class CriticalSpeed:
     branch: int
     eigenvalue: complex
     shape: np.ndarray
+
+    def __post_init__(self):
+        read_only(self)
 
     @property
     def log_dec(self):

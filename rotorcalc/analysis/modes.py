@@ -19,6 +19,17 @@ from .circular import rayleigh_eigenvalue, split_degenerate
 WHIRL_PURITY = 0.75
 
 
+def read_only(obj):
+    """Make every numpy array field of a frozen result read-only (and its own copy
+    where it is a view of another's memory): frozen means frozen."""
+    for name, value in vars(obj).items():
+        if isinstance(value, np.ndarray) and value.flags.writeable:
+            if value.base is not None:
+                value = value.copy()
+                object.__setattr__(obj, name, value)
+            value.flags.writeable = False
+
+
 def whirl_senses(shapes):
     """Forward and backward circle radii of each node's orbit.
 
@@ -184,6 +195,9 @@ class Modes:
     real_eigenvalues: np.ndarray
     warnings: tuple = ()
     rigid_body_modes: int = 0
+
+    def __post_init__(self):
+        read_only(self)
 
     @property
     def frequency(self):

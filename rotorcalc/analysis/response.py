@@ -33,6 +33,7 @@ from ..errors import InputError, SolverError
 from ..solvers import NUMERICAL_FAILURES, one_blas_thread
 from ..unbalance import Probe
 from ..units import to_rpm
+from .modes import read_only
 from .stability import stability
 from .sweep import default_speeds, sweep, with_operating_speeds
 
@@ -169,6 +170,9 @@ class Peak:
     note: str = ""
     shape: np.ndarray | None = None
 
+    def __post_init__(self):
+        read_only(self)
+
     @property
     def bandwidth(self):
         return None if self.half_power is None else self.half_power[1] - self.half_power[0]
@@ -257,6 +261,9 @@ class Response:
     unstable: np.ndarray | None = None
     unstable_ranges: tuple = ()
     weights: tuple = ()      # per case, its UnbalanceWeight objects
+
+    def __post_init__(self):
+        read_only(self)
 
     def probe_amplitude_pp(self, case_index, probe_index):
         """Peak-to-peak amplitude curve of one probe, m."""

@@ -20,7 +20,7 @@ from ..assembly import SystemMatrices, assemble
 from ..errors import InputError
 from ..model import Rotor
 from ..units import to_hz, to_rpm
-from .modes import forward_fraction, log_decrement, modes_at, whirl_label
+from .modes import forward_fraction, log_decrement, modes_at, read_only, whirl_label
 from .tracking import track
 
 #: Modes solved beyond the ones reported, so a branch that climbs past the
@@ -95,6 +95,9 @@ class Sweep:
     station_nodes: np.ndarray
     warnings: tuple = ()
     growth: np.ndarray | None = None
+
+    def __post_init__(self):
+        read_only(self)
 
     @property
     def frequency(self):

@@ -35,3 +35,21 @@ def test_solves_take_one_blas_thread_without_environment_variables(monkeypatch):
     # the user's own setting wins: nothing is limited when it is set
     monkeypatch.setenv("OPENBLAS_NUM_THREADS", "2")
     assert os.environ["OPENBLAS_NUM_THREADS"] == "2" and inside() is not None
+
+
+def test_frozen_means_frozen():
+    import pickle
+
+    import numpy as np
+    import pytest
+    rotor = rc.read_rotor(ROOT / "cases" / "feed_pump.toml")
+    assert hash(rotor) == hash(pickle.loads(pickle.dumps(rotor)))
+    with pytest.raises(TypeError):
+        rotor.bearings[0].coefficients["kxx"] = (1.0,)
+    with pytest.raises(TypeError):
+        rotor.station_names["coupling"] = 3
+    modes = rc.modes_at(rotor, 300.0, 2)
+    for array in (modes.eigenvalues, modes.shapes, modes.vectors):
+        with pytest.raises(ValueError):
+            array[...] = 0
+    assert isinstance(modes.eigenvalues, np.ndarray)
