@@ -20,6 +20,7 @@ def test_there_are_the_three_kinds_of_case():
     assert {"feed_pump", "overhung_fan", "compressor"} <= names
 
 
+@pytest.mark.slow
 @pytest.mark.parametrize("case", CASES, ids=[c.stem for c in CASES])
 def test_case_end_to_end(case, tmp_path):
     png, js = tmp_path / "map.png", tmp_path / "margins.json"
@@ -34,12 +35,14 @@ def test_case_end_to_end(case, tmp_path):
     assert layout.exit_code == 0 and (tmp_path / "side.svg").read_text().startswith("<?xml")
 
 
+@pytest.mark.slow
 def test_bundled_cases_pass_their_check():
     """The examples are meant as designs that keep their margins."""
     for case in CASES:
         assert runner.invoke(app, ["check", str(case)]).exit_code == 0, case.name
 
 
+@pytest.mark.slow
 def test_usage_python_example_runs(tmp_path):
     text = (ROOT / "docs" / "usage.md").read_text()
     blocks = re.findall(r"```python\n(.*?)```", text, re.S)

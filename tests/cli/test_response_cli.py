@@ -86,6 +86,7 @@ def test_file_without_unbalance_exit_2(tmp_path):
     assert "AF resp." not in check.output
 
 
+@pytest.mark.slow
 def test_check_exit_1_when_a_clearance_is_tiny(tmp_path):
     tight = edited_pump(tmp_path, 'radial = "0.30 mm"', 'radial = "2 um"')
     assert run("check", PUMP).exit_code == 0

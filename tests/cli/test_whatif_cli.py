@@ -99,6 +99,7 @@ def test_compare_is_informational_even_when_a_variant_fails(tmp_path):
     assert (tmp_path / "maps.png").read_bytes()[:4] == b"\x89PNG"
 
 
+@pytest.mark.slow
 def test_window_finds_an_end_and_names_its_critical(tmp_path):
     js, table = tmp_path / "win.json", tmp_path / "win.csv"
     result = run("window", FAN, "--from", "0.1", "--to", "1.5", "--factors", "2", *SHORT,

@@ -248,6 +248,7 @@ def test_verdict_numerical_failure_exits_3_in_one_line(monkeypatch, tmp_path):
 # Which modes are criticals
 # ---------------------------------------------------------------------------
 
+@pytest.mark.slow
 def test_verdict_overdamped_modes_are_not_criticals():
     """The compressor's end-mass modes cross 1X with log decrements of 18 to 46:
     they were once judged with AF estimates below 1 and taken by `compare` as the
@@ -263,6 +264,7 @@ def test_verdict_overdamped_modes_are_not_criticals():
                if c["verdict"] == "overdamped")
 
 
+@pytest.mark.slow
 def test_verdict_compare_matches_the_first_bending_critical():
     base_path, rotor, variants = read_variants(ROOT / "cases" / "compressor_variants.toml")
     chosen = [v for v in variants if v.name == "heavier impellers"]
@@ -301,6 +303,7 @@ def test_verdict_free_rotor_still_has_its_rigid_body_modes():
     assert m.rigid_body_modes == 4 and np.all(m.frequency > 1.0)
 
 
+@pytest.mark.slow
 @pytest.mark.parametrize("ratio", [1e2, 1e3, 1e4, 1e5, 1e6, 1e7])
 @pytest.mark.parametrize("elements", [2, 8, 20])
 @pytest.mark.parametrize("zeta", [0.0, 0.02])
@@ -359,6 +362,7 @@ def undamped_fan(tmp_path):
     return path
 
 
+@pytest.mark.slow
 def test_verdict_undamped_response_has_no_bandwidth(tmp_path):
     path = undamped_fan(tmp_path)
     for command in ("check", "response"):
@@ -432,6 +436,7 @@ def test_verdict_judge_share_threshold():
 # Response-based margins: peaks matched by shape, margin from the peak
 # ---------------------------------------------------------------------------
 
+@pytest.mark.slow
 def test_verdict_peak_goes_to_the_forward_critical_and_margin_is_from_the_peak():
     """Compressor, first bending pair at 5563 rpm (backward) and 5638 rpm
     (forward): the mid-span unbalance peaks belong to the forward one, and the
@@ -582,6 +587,7 @@ def test_verdict_reader_uses_the_journal_load_for_residual():
     assert w < 0.6 * rotor.mass
 
 
+@pytest.mark.slow
 def test_verdict_clearance_check_covers_run_up():
     """The close-clearance check reads every analysed speed up to trip: the
     compressor passes its first critical (about 5700 rpm) on the way up, where
@@ -592,6 +598,7 @@ def test_verdict_clearance_check_covers_run_up():
     assert 5000 * RPM < eye.speed < 6500 * RPM
 
 
+@pytest.mark.slow
 def test_verdict_stability_rule_from_the_command_line(tmp_path):
     path = undamped_fan(tmp_path)
     assert runner.invoke(app, ["check", str(path)]).exit_code == 1          # marginal

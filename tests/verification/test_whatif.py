@@ -497,6 +497,7 @@ BELOW, ABOVE = 10.0, 10.0                  # fixed margin rule, per cent
 RTOL = 1e-6                                # in ln(factor)
 
 
+@pytest.mark.slow
 def test_stiffness_window_jeffcott():
     """The x-direction critical (about 247 rad/s) lies below the range, the
     y-direction one (about 335 rad/s) above it.  Stiffening the bearings lifts
