@@ -179,8 +179,12 @@ class StiffnessWindow:
                 "low": self.low.to_dict(), "high": self.high.to_dict()}
 
 
+#: What a stiffness window scales when no target is named (the help text reads it).
+WINDOW_DEFAULT = "every bearing together (seals kept as they are)"
+
+
 def window_targets(rotor, target=None):
-    """Change paths of the bearings a window scales: every bearing (seals kept) by default."""
+    """Change paths of the bearings a window scales: :data:`WINDOW_DEFAULT` by default."""
     if target is None:
         return [f"bearing[{i}]" for i, b in enumerate(rotor.bearings) if b.kind == "bearing"]
     return [target]

@@ -14,6 +14,7 @@ from ..analysis.margins import CAUTION
 from ..errors import InputError
 from ..tables import WINDOW_END_COLUMNS, WINDOW_SCAN_COLUMNS
 from ..units import to_rpm
+from ..analysis.whatif import WINDOW_DEFAULT
 from .common import console, fail_input, input_errors, load, print_table, write_outputs
 from .criticals import apply_overrides
 from .whatif_common import (bearing_target, check_outputs, command_help, critical_text, heading,
@@ -89,7 +90,7 @@ def command(
     case: Path = typer.Argument(..., help="Rotor description (TOML)."),
     bearing: Optional[str] = typer.Option(
         None, "--bearing", help="Scale this bearing only (its name, or its 0-based index); "
-                                "default: every bearing and seal together."),
+                                f"default: {WINDOW_DEFAULT}."),
     low: float = typer.Option(0.1, "--from", help="Lowest stiffness factor searched (below 1)."),
     high: float = typer.Option(10.0, "--to", help="Highest stiffness factor searched (above 1)."),
     factors: int = typer.Option(9, "--factors", min=2, max=60,

@@ -234,3 +234,18 @@ def test_bad_options_exit_2(args, key):
     result = run(*args)
     assert result.exit_code == 2, result.output
     assert key in result.output and "Traceback" not in result.output
+
+
+def test_help_texts_state_what_the_analysis_does():
+    """Two drifts between the command line's words and the analysis once: compare
+    said "within 30 %" while it matched within 35 %, and window said it scaled
+    "every bearing and seal" while it scales the bearings only."""
+    from rotorcalc.analysis.whatif import MATCH_SHARE, WINDOW_DEFAULT, window_targets
+    from rotorcalc.reader import read_rotor
+    window_help = runner.invoke(app, ["window", "--help"]).output
+    assert " ".join(WINDOW_DEFAULT.split()[:2]) in " ".join(window_help.split())
+    assert "bearing and seal" not in window_help
+    pump = read_rotor(ROOT / "cases" / "feed_pump.toml")     # two bearings and a seal
+    assert len(window_targets(pump)) == sum(b.kind == "bearing" for b in pump.bearings) == 2
+    result = runner.invoke(app, ["compare", str(ROOT / "cases" / "overhung_fan_variants.toml")])
+    assert f"within {MATCH_SHARE:.0%}" in " ".join(result.output.split())
