@@ -46,19 +46,10 @@ def guarded(command):
     @functools.wraps(command)
     def run(*args, **kwargs):
         try:
-            return command(*args, **kwargs)
+            with input_errors():   # the package's own errors: codes 2 and 3
+                return command(*args, **kwargs)
         except (typer.Exit, typer.Abort, SystemExit, KeyboardInterrupt):
             raise
-        except InputError as err:
-            fail_input(err)
-        except SolverError as err:
-            errors.print(f"[bold red]Numerical failure[/] {escape(str(err))}", highlight=False,
-                         soft_wrap=True)
-            raise typer.Exit(EXIT_NUMERICAL)
-        except RotorcalcError as err:
-            errors.print(f"[bold red]Error[/] {escape(str(err))}", highlight=False,
-                         soft_wrap=True)
-            raise typer.Exit(EXIT_NUMERICAL)
         except MemoryError:
             errors.print("[bold red]Out of memory[/] the model is too large for this machine; "
                          "use fewer elements or speeds.", highlight=False, soft_wrap=True)
