@@ -16,6 +16,7 @@ from .fe import bearing as fe_bearing
 from .fe.disk import disk_gyroscopic, disk_mass
 from .fe.shaft import ShaftElement
 from .errors import InputError
+from .notices import Notice
 from .model import Rotor
 from .units import to_rpm
 
@@ -231,8 +232,10 @@ class SystemMatrices:
             if np.any(speeds > hi * (1 + 1e-12)):
                 parts.append(f"above {to_rpm(hi):.0f} rpm")
             if parts:
-                out.append(f"bearing {b.name or i}: speeds {' and '.join(parts)} lie outside its "
-                           f"coefficient table; the end values were held")
+                outside = speeds[(speeds < lo * (1 - 1e-12)) | (speeds > hi * (1 + 1e-12))]
+                out.append(Notice(f"bearing {b.name or i}: speeds {' and '.join(parts)} lie "
+                                  "outside its coefficient table; the end values were held",
+                                  "table-range", outside))
         return out
 
     def element_matrices(self, index):

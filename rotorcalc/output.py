@@ -28,6 +28,7 @@ from contextlib import contextmanager
 from pathlib import Path
 
 from . import __version__
+from .notices import record
 from .errors import InputError
 
 FORMAT = "rotorcalc-results-1"
@@ -234,7 +235,7 @@ def envelope(command: str, input_path, result: dict, warnings=()):
         "version": __version__,
         "command": command,
         "input": {"path": str(input_path), "sha256": file_hash(input_path)},
-        "warnings": list(warnings),
+        "warnings": [record(w) for w in warnings],
         "result": result,
     }
 

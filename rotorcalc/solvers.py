@@ -40,6 +40,7 @@ from scipy.sparse.csgraph import reverse_cuthill_mckee
 
 from .units import to_hz
 from .errors import InputError
+from .notices import Notice
 
 
 @functools.lru_cache(maxsize=1)
@@ -456,12 +457,12 @@ class SparseSolver:
         zf = z[:, oscillatory][:, order]
         warnings = []
         if problem:
-            warnings.append(f"sparse eigen-solve: could not prove that no mode was missed "
-                            f"({problem})")
+            warnings.append(Notice(f"sparse eigen-solve: could not prove that no mode was missed "
+                                   f"({problem})", "solver-doubt"))
         errors = pencil.backward_errors(found[order], zf)
         if len(errors) and errors.max() > RESIDUAL_LIMIT:
-            warnings.append(f"sparse eigen-solve: a mode's relative residual is "
-                            f"{errors.max():.1e} (above {RESIDUAL_LIMIT:.0e})")
+            warnings.append(Notice(f"sparse eigen-solve: a mode's relative residual is "
+                            f"{errors.max():.1e} (above {RESIDUAL_LIMIT:.0e})", "solver-doubt"))
         return Eigenpairs(found[order], pencil.displacements(zf), np.sort(values[real].real),
                           int(zero.sum()), reach, tuple(warnings))
 
@@ -488,7 +489,8 @@ class AutoSolver:
         result = SparseSolver()(m, d_mat, k, n_modes, near, zeros)
         if result.warnings and m.shape[0] <= DENSE_FALLBACK_LIMIT:
             dense = DenseSolver()(m, d_mat, k, n_modes, near, zeros)
-            notes = tuple(f"{w}; the dense solver was used instead" for w in result.warnings)
+            notes = tuple(Notice(f"{w}; the dense solver was used instead", "solver-doubt")
+                          for w in result.warnings)
             return dataclasses.replace(dense, warnings=tuple(dense.warnings) + notes)
         return result
 

@@ -8,6 +8,7 @@ import numpy as np
 
 from ..assembly import SystemMatrices, assemble
 from ..errors import SolverError
+from ..notices import Notice, record
 from ..solvers import NUMERICAL_FAILURES, make_solver
 from ..units import to_hz, to_rpm
 from .circular import rayleigh_eigenvalue, split_degenerate
@@ -258,7 +259,7 @@ class Modes:
             ],
             "non_oscillatory_eigenvalues": [float(v) for v in self.real_eigenvalues],
             "rigid_body_modes": self.rigid_body_modes,
-            "warnings": list(self.warnings),
+            "warnings": [record(w) for w in self.warnings],
         }
 
 
@@ -317,13 +318,13 @@ def modes_at(rotor_or_system, speed, n_modes=None, solver=None, near=None):
     scale = float(np.abs(values).min()) if len(values) else 1.0
     growing = pairs.real_eigenvalues[pairs.real_eigenvalues > GROWTH_RTOL * scale]
     if len(growing):
-        warnings.append(f"a non-oscillating motion grows at {to_rpm(speed):.0f} rpm (real "
+        warnings.append(Notice(f"a non-oscillating motion grows at {to_rpm(speed):.0f} rpm (real "
                         f"eigenvalue +{growing.max():.4g} 1/s): the rotor is unstable there "
-                        "without whirling")
+                        "without whirling", "growth", (speed,)))
     rigid = basis.shape[1]
     if rigid:
-        warnings.append(f"{rigid} rigid-body mode(s) at zero frequency: the rotor is not fully "
-                        "supported; they are not listed as modes")
+        warnings.append(Notice(f"{rigid} rigid-body mode(s) at zero frequency: the rotor is not fully "
+                        "supported; they are not listed as modes", "rigid-body"))
     return Modes(speed, values, shapes, vectors, system.mesh.node_z,
                  system.mesh.station_nodes, pairs.real_eigenvalues, tuple(warnings), rigid)
 

@@ -30,6 +30,7 @@ from scipy.sparse.csgraph import reverse_cuthill_mckee
 from .. import standards
 from ..assembly import SystemMatrices, assemble
 from ..errors import InputError, SolverError
+from ..notices import Notice, record
 from ..solvers import NUMERICAL_FAILURES, one_blas_thread
 from ..unbalance import Probe
 from ..units import to_rpm
@@ -322,7 +323,7 @@ class Response:
                                for lo, hi in self.unstable_ranges]
         out["steady_state_exists"] = self.steady
         out["passed"] = self.passed
-        out["warnings"] = list(self.warnings)
+        out["warnings"] = [record(w) for w in self.warnings]
         return out
 
 
@@ -532,8 +533,9 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None, un
     flagged = _flag_unstable(speeds, unstable)
     if flagged.any():
         spans = ", ".join(f"{to_rpm(lo):.0f}-{to_rpm(hi):.0f} rpm" for lo, hi in unstable)
-        warnings.append(f"a mode is unstable at {spans}: no steady state exists there, the "
-                        "response shown at those speeds is not physical")
+        warnings.append(Notice(f"a mode is unstable at {spans}: no steady state exists there, "
+                               "the response shown at those speeds is not physical",
+                               "unstable-response", speeds[flagged]))
     vibration, clearance = [], []
     if in_range.any():
         limit = vibration_limit(rotor)
@@ -546,8 +548,8 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None, un
                     vibration.append(LimitCheck(case.name, probe.name, float(speeds[k]),
                                                 float(amp[k]), limit, "vibration", steady))
     else:
-        warnings.append("the response sweep does not cover the operating range: "
-                        "vibration was not checked")
+        warnings.append(Notice("the response sweep does not cover the operating range: "
+                               "vibration was not checked", "response-coverage"))
     if to_top.any():
         share = rotor.response.clearance_share
         steady = not (flagged & to_top).any()

@@ -172,6 +172,6 @@ def coverage_gaps(rotor: Rotor, result: Sweep, table: MarginTable, response=None
                     f"cover the critical at {to_rpm(w):.0f} rpm: it was judged on held end "
                     "values"))
     for w in result.warnings:
-        if w.startswith("sparse eigen-solve"):
+        if getattr(w, "code", None) == "solver-doubt":
             gaps.append(CoverageGap("solver", w))
     return tuple(gaps)

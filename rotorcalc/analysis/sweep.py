@@ -19,6 +19,7 @@ import numpy as np
 from ..assembly import SystemMatrices, assemble
 from ..errors import InputError
 from ..model import Rotor
+from ..notices import Notice, record
 from ..units import to_hz, to_rpm
 from .modes import forward_fraction, log_decrement, modes_at, read_only, whirl_label
 from .tracking import track
@@ -144,7 +145,7 @@ class Sweep:
                 }
                 for j in range(self.eigenvalues.shape[1])
             ],
-            "warnings": list(self.warnings),
+            "warnings": [record(w) for w in self.warnings],
         }
 
 
@@ -294,11 +295,12 @@ def _solver_warnings(solved, speeds):
     seen = {}
     for m, speed in zip(solved, speeds):
         for w in m.warnings:
-            if w.startswith("sparse eigen-solve"):
+            if getattr(w, "code", None) == "solver-doubt":
                 # drop the numbers in parentheses (they differ per speed), keep the rest
                 text = re.sub(r" \([^)]*\)", "", w)
                 seen.setdefault(text, []).append(speed)
-    return [f"{text} at {len(at)} of {len(speeds)} speeds (first at {to_rpm(at[0]):.0f} rpm)"
+    return [Notice(f"{text} at {len(at)} of {len(speeds)} speeds (first at "
+                   f"{to_rpm(at[0]):.0f} rpm)", "solver-doubt", at)
             for text, at in seen.items()]
 
 

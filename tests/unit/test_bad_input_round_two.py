@@ -105,12 +105,17 @@ def test_options_are_named_as_options():
 
 
 def test_a_solver_warning_keeps_its_ending():
+    from rotorcalc.notices import Notice
+
     class Solved:
-        warnings = ("sparse eigen-solve: could not prove that no mode was missed (found only "
-                    "3 of 4 modes); the dense solver was used instead",)
+        warnings = (Notice("sparse eigen-solve: could not prove that no mode was missed (found "
+                           "only 3 of 4 modes); the dense solver was used instead",
+                           "solver-doubt"),)
     text = _solver_warnings([Solved(), Solved()], np.array([10.0, 20.0]))[0]
     assert text.startswith("sparse eigen-solve: could not prove")
     assert "the dense solver was used instead" in text and "2 of 2 speeds" in text
+    # grouped by its code, not its words: a record with the speeds it concerns
+    assert text.code == "solver-doubt" and text.speeds == (10.0, 20.0)
 
 
 def test_a_bad_maximum_speed_is_not_blamed_on_trip_alone():

@@ -49,3 +49,26 @@ def test_public_api_user_mistakes_are_input_errors():
         make_solver("qz")
     with pytest.raises(InputError):
         worker_count(-1)
+
+
+def test_warnings_are_records_grouped_by_code(tmp_path):
+    """Warnings carry a code and the speeds they concern; the JSON writes records, so a
+    reader groups them without parsing words."""
+    import json
+
+    from typer.testing import CliRunner
+
+    from rotorcalc.cli import app
+    from rotorcalc.notices import Notice, codes
+    from tests.conftest import ROOT
+    notice = Notice("bearing DE: speeds below 1500 rpm lie outside", "table-range", (10.0,))
+    back = pickle.loads(pickle.dumps(notice))
+    assert back == notice and back.code == "table-range" and back.speeds == (10.0,)
+    out = tmp_path / "s.json"
+    result = CliRunner().invoke(app, ["sweep", str(ROOT / "cases" / "feed_pump.toml"),
+                                      "--json", str(out)])
+    assert result.exit_code == 0, result.output
+    warnings = json.loads(out.read_text())["warnings"]
+    assert warnings and {w["code"] for w in warnings} == {"table-range"}
+    assert all(w["speeds_rpm"] and w["message"].startswith("bearing ") for w in warnings)
+    assert codes([notice, "plain text"]) == ["table-range", "note"]
