@@ -234,6 +234,11 @@ class Modes:
         """(n, n_stations, 2) complex translations at the stations."""
         return self.shapes[:, self.station_nodes, :]
 
+    def plot(self, index=0, *, ax=None):
+        """The shape of mode ``index`` (0-based) (:func:`rotorcalc.plotting.mode_shape`)."""
+        from ..plotting import mode_shape
+        return mode_shape(self, index, ax=ax)
+
     def to_dict(self):
         """Plain-Python summary for JSON (SI units, speeds also in rpm)."""
         return {

@@ -266,6 +266,11 @@ class Response:
     def __post_init__(self):
         read_only(self)
 
+    def plot(self, case_index=0, *, ax=None, operating=None):
+        """The Bode plot of one case (:func:`rotorcalc.plotting.bode`)."""
+        from ..plotting import bode
+        return bode(self, case_index, operating=operating, ax=ax)
+
     def probe_amplitude_pp(self, case_index, probe_index):
         """Peak-to-peak amplitude curve of one probe, m."""
         return 2.0 * np.abs(self.probe_values[case_index, :, probe_index])

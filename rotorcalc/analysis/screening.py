@@ -65,6 +65,13 @@ class Screening:
     def verdict(self):
         return "fail" if self.failed else ("incomplete" if self.gaps else "pass")
 
+    def plot(self, *, ax=None):
+        """The whirl-speed map of this screening, criticals marked by verdict
+        (:func:`rotorcalc.plotting.whirl_speed_map`); returns its artists record."""
+        from ..plotting import whirl_speed_map
+        return whirl_speed_map(self.sweep, self.criticals, self.rotor.operating,
+                               self.rotor.settings.orders, ax=ax, margins=self.margins)
+
     def to_dict(self):
         out = {"verdict": self.verdict, "margins": self.margins.to_dict(),
                "sweep": self.sweep.to_dict(), "coverage_gaps": [g.to_dict() for g in self.gaps]}

@@ -130,6 +130,11 @@ class Sweep:
         mean = np.nanmean(np.where(self.present, self.forward_fraction, np.nan), axis=0)
         return [whirl_label(f) for f in mean]
 
+    def plot(self, *, ax=None, criticals=(), operating=None, orders=(1.0,)):
+        """The whirl-speed map of this sweep (:func:`rotorcalc.plotting.whirl_speed_map`)."""
+        from ..plotting import whirl_speed_map
+        return whirl_speed_map(self, criticals, operating, orders, ax=ax)
+
     def to_dict(self):
         ff = self.forward_fraction
         return {

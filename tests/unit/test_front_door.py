@@ -53,3 +53,15 @@ def test_frozen_means_frozen():
         with pytest.raises(ValueError):
             array[...] = 0
     assert isinstance(modes.eigenvalues, np.ndarray)
+
+
+def test_results_draw_themselves():
+    import matplotlib
+    matplotlib.use("Agg")
+    rotor = rc.read_rotor(ROOT / "cases" / "overhung_fan.toml")
+    result = rc.screen(rotor)
+    drawn = result.plot()                    # one call instead of five arguments
+    assert drawn.critical_markers and drawn.band is not None
+    assert result.sweep.plot(operating=rotor.operating).branches
+    assert rc.modes_at(rotor, 100.0, 2).plot(1).figure is not None
+    assert result.response.plot(operating=rotor.operating).amplitude_lines
