@@ -73,12 +73,20 @@ class Screening:
                                self.rotor.settings.orders, ax=ax, margins=self.margins)
 
     def to_dict(self):
-        out = {"verdict": self.verdict, "margins": self.margins.to_dict(),
-               "sweep": self.sweep.to_dict(), "coverage_gaps": [g.to_dict() for g in self.gaps]}
+        """The screening's one document, written by ``criticals``, ``check`` and ``sweep``
+        alike: the margin table's fields at the top, then the verdict, stability,
+        coverage gaps, the response checks and the whole sweep and response."""
+        out = self.margins.to_dict()
+        out.update({"verdict": self.verdict, "passed": self.passed,
+                    "coverage_gaps": [g.to_dict() for g in self.gaps]})
         if self.stability is not None:
             out["stability"] = self.stability.to_dict()
         if self.response is not None:
+            out["response_checks"] = [c.to_dict() for c in
+                                      self.response.vibration + self.response.clearance]
+            out["steady_state_exists"] = self.response.steady
             out["response"] = self.response.to_dict()
+        out["sweep"] = self.sweep.to_dict()
         return out
 
 

@@ -160,15 +160,7 @@ def run(case, map_path, json_path, csv_path, points, top, orders, rule, below, a
     result = screen_case(rotor, case, {"--map": map_path, "--json": json_path, "--csv": csv_path},
                          workers)
     print_margins(result)
-    document = result.margins.to_dict()
-    document["verdict"] = result.verdict
-    document["stability"] = result.stability.to_dict()
-    document["coverage_gaps"] = [g.to_dict() for g in result.gaps]
-    if result.response is not None:
-        document["response_checks"] = [c.to_dict() for c in
-                                       result.response.vibration + result.response.clearance]
-        document["steady_state_exists"] = result.response.steady
-    document["passed"] = result.passed
+    document = result.to_dict()   # the same document as `sweep` writes
     warnings = tuple(dict.fromkeys(result.sweep.warnings
                                    + (result.response.warnings if result.response else ())))
     print_warnings(warnings)

@@ -124,3 +124,14 @@ def test_workers_default_by_model_size():
     big = dataclasses.replace(rotor, sections=tuple(
         dataclasses.replace(s, elements=40) for s in rotor.sections))
     assert default_workers(big, None) == 0
+
+
+def test_sweep_and_criticals_write_one_document_for_one_screening(tmp_path):
+    """They once wrote two different documents for the same screening."""
+    fan = str(ROOT / "cases" / "overhung_fan.toml")
+    assert run("sweep", fan, "--json", tmp_path / "s.json").exit_code == 0
+    assert run("criticals", fan, "--json", tmp_path / "c.json").exit_code == 0
+    swept, judged = read_json(tmp_path / "s.json"), read_json(tmp_path / "c.json")
+    assert swept["result"] == judged["result"]
+    assert {"criticals", "verdict", "stability", "coverage_gaps", "sweep",
+            "response"} <= set(judged["result"])
