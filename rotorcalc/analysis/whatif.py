@@ -313,7 +313,7 @@ def parameters(rotor):
     return out
 
 
-def sensitivities(rotor, criticals, step=0.01, near=None):
+def sensitivities(rotor, criticals, step=0.01, near=None, every=False):
     """Sensitivity of critical speeds to each bearing's direct stiffness and each disk's mass.
 
     Central difference with relative step ``step`` and, as a check, with
@@ -322,13 +322,17 @@ def sensitivities(rotor, criticals, step=0.01, near=None):
     whirl, or any whirl when the rotor judges backward criticals) and not
     critically damped (estimated AF at least the rule's threshold); with
     ``near`` (a fraction) only those within that fraction of the operating
-    range's ends.
+    range's ends.  With ``every``, every critical that is not overdamped, judged or
+    not, whatever its AF.
     """
     op = rotor.operating
     threshold = rotor.settings.margin_rule.af_threshold
     judgement = Judgement.of(rotor)
-    judged = [c for c in criticals
-              if judgement.kind(c) == "judged" and af_from_log_dec(c.log_dec) >= threshold]
+    if every:
+        judged = [c for c in criticals if judgement.kind(c) != "overdamped"]
+    else:
+        judged = [c for c in criticals
+                  if judgement.kind(c) == "judged" and af_from_log_dec(c.log_dec) >= threshold]
     chosen = judged if near is None else [
         c for c in judged if op.min_speed * (1 - near) <= c.speed <= op.max_speed * (1 + near)]
     out = []

@@ -3,7 +3,6 @@ mass."""
 
 from __future__ import annotations
 
-import dataclasses
 import math
 import time
 from pathlib import Path
@@ -60,15 +59,9 @@ def command(
     from ..analysis.whatif import sensitivities
     started = time.perf_counter()
     chosen = without_response(rotor)
-    if every:
-        s = chosen.settings
-        chosen = dataclasses.replace(chosen, settings=dataclasses.replace(
-            s, judge_backward=True,
-            # the levers skip criticals whose AF is below the threshold: a tiny one keeps all
-            margin_rule=dataclasses.replace(s.margin_rule, af_threshold=1e-9)))
     with busy("finding the critical speeds and their levers"), input_errors():
         result = screen(chosen)
-        levers = sensitivities(chosen, result.criticals, step=step, near=near)
+        levers = sensitivities(chosen, result.criticals, step=step, near=near, every=every)
     elapsed = time.perf_counter() - started
     rows = ranked(levers)
     op = rotor.operating
