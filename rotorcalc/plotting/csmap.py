@@ -195,7 +195,7 @@ class MapShapeArtists:
 # --- the critical-speed map ---------------------------------------------------------------
 
 @st.literal_text
-def critical_speed_map(cmap, operating=None, window=None, base_stiffness=None, ax=None, *,
+def critical_speed_map(cmap, operating=None, window=None, base_stiffness=None, *, ax=None,
                        speed_max=None):
     """Draw a critical-speed map with the bearings' own stiffness curves on it.
 
@@ -760,7 +760,7 @@ def _map_legend(ax, whirl, curves, colour_of, aliases, crossings, operating, win
 # --- variants' whirl-speed maps overlaid -------------------------------------------------
 
 @st.literal_text
-def variant_maps(comparison, operating=None, orders=(1.0,), ax=None, *, freq_max=None):
+def variant_maps(comparison, operating=None, orders=(1.0,), *, ax=None, freq_max=None):
     """Overlay the whirl-speed maps of a base rotor and its variants.
 
     Each variant keeps one colour (the base in ink) for its branches and its
@@ -904,7 +904,7 @@ def _variant_legend(ax, names, colours, screenings, orders, operating, hidden, t
 # --- mode shapes at map points ------------------------------------------------------------
 
 @st.literal_text
-def map_shapes(node_z, shapes, labels, ax=None, *, station_nodes=None):
+def map_shapes(node_z, shapes, labels, *, ax=None, station_nodes=None):
     """Draw mode shapes of chosen critical-speed-map points along the shaft.
 
     Each shape is drawn as the shaft's deflection at the instant its largest

@@ -362,7 +362,8 @@ def _figure_title(fig, title, note, top_in):
 # --- Bode plot ----------------------------------------------------------------------
 
 @st.literal_text
-def bode(response, case_index=0, probes=None, operating=None, ax=None, *, log_amplitude=False):
+def bode(response, case_index=0, probes=None, operating=None, *, ax=None,
+         log_amplitude=False):
     """Draw the Bode plot of one unbalance case: amplitude and phase lag over speed.
 
     The top axes has the peak-to-peak amplitude of each probe in µm, the
@@ -627,7 +628,7 @@ def _bode_legend(ax, lines, operating, with_af, without_af, with_bars, created):
 # --- polar plot ---------------------------------------------------------------------
 
 @st.literal_text
-def polar(response, case_index=0, probes=None, ax=None):
+def polar(response, case_index=0, probes=None, *, ax=None):
     """Draw the polar plot of one unbalance case: each probe's response as a curve over speed.
 
     The radius is the peak-to-peak amplitude in µm and the angle the phase
@@ -891,7 +892,7 @@ def _speed_labels(ax, speeds, rpm, values, colour, r_top, taken):
 # --- orbits -------------------------------------------------------------------------
 
 @st.literal_text
-def orbits(response, case_index=0, stations=None, ax=None):
+def orbits(response, case_index=0, stations=None, *, ax=None):
     """Draw the orbits of one unbalance case: an ellipse per station and speed.
 
     Each orbit is the path ``(Re(X e^{iwt}), Re(Y e^{iwt}))`` over one turn,

@@ -60,7 +60,7 @@ class ModeShapeArtists:
 
 
 @st.literal_text
-def mode_shape(modes, index, ax=None, rotor=None, *, orbits=True):
+def mode_shape(modes, index, *, ax=None, rotor=None, orbits=True):
     """Draw the shape of one mode of a :class:`~rotorcalc.analysis.Modes` result.
 
     The shaded band is the major semi-axis of each node's orbit (the room the

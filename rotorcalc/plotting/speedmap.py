@@ -70,8 +70,8 @@ class SpeedMapArtists:
 
 
 @st.literal_text
-def whirl_speed_map(sweep, criticals=(), operating=None, orders=(1.0,), ax=None, margins=None,
-                    *, freq_max=None):
+def whirl_speed_map(sweep, criticals=(), operating=None, orders=(1.0,), *, ax=None,
+                    margins=None, freq_max=None):
     """Draw the whirl-speed map (Campbell diagram) of a speed sweep.
 
     Each tracked branch is drawn as a curve of damped natural frequency over
