@@ -147,10 +147,11 @@ class SystemMatrices:
         tilts: ``x = X + z A``, ``y = Y + z B``) with its supports at rest.  Such a
         motion strains nothing when every bearing force ``K_b u_b`` vanishes, so
         the free ones are the null space of the stacked bearing stiffnesses
-        applied to the four motions.  The test compares bearing stiffnesses only
-        with one another (relative singular values), so it depends neither on
-        the mesh nor on the mass of shaft and disks; it replaces a test on the
-        size of computed eigenvalues, which did (docs/theory.md).
+        applied to the four motions.  The test compares bearing stiffnesses with
+        one another and with the whole shaft's bending stiffness
+        (:meth:`shaft_scale`), so it depends neither on the mesh nor on the mass
+        of shaft and disks; it replaces a test on the size of computed
+        eigenvalues, which did (docs/theory.md).
         """
         z = self.mesh.node_z
         length = max(float(z[-1] - z[0]), 1e-300)

@@ -81,6 +81,12 @@ def _freeze(obj, name, value):
         object.__setattr__(obj, name, FrozenMap(value))
 
 
+def _one_of(key, value, choices):
+    if value not in choices:
+        raise InputError(key, "is not a known choice", value=value,
+                         expected=" or ".join(choices), kind="choice")
+
+
 def _positive(key, value, *, allow_zero=False):
     ok = value >= 0.0 if allow_zero else value > 0.0
     if not (math.isfinite(value) and ok):
@@ -417,9 +423,7 @@ class MarginRule:
     cap_above: float = 26.0
 
     def __post_init__(self):
-        if self.kind not in MARGIN_RULES:
-            raise InputError("analysis.margin_rule", "is not a known rule", value=self.kind,
-                             expected=" or ".join(MARGIN_RULES), kind="choice")
+        _one_of("analysis.margin_rule", self.kind, MARGIN_RULES)
         _positive("analysis.margin_below", self.below, allow_zero=True)
         _positive("analysis.margin_above", self.above, allow_zero=True)
         _positive("analysis.af_threshold", self.af_threshold)
@@ -469,9 +473,7 @@ class StabilityRule:
     marginal_band: float = 1e-3
 
     def __post_init__(self):
-        if self.kind not in STABILITY_RULES:
-            raise InputError("analysis.stability_rule", "is not a known rule", value=self.kind,
-                             expected=" or ".join(STABILITY_RULES), kind="choice")
+        _one_of("analysis.stability_rule", self.kind, STABILITY_RULES)
         _positive("analysis.min_log_dec", self.minimum, allow_zero=True)
         _positive("analysis.marginal_band", self.marginal_band, allow_zero=True)
 
@@ -558,10 +560,7 @@ class Settings:
                 raise InputError(f"analysis.orders[{i}]", "is a higher excitation order than any "
                                  "machine has", value=order,
                                  expected=f"at most {LIMITS['order']:g}", kind="range")
-        if self.beam_theory not in BEAM_THEORIES:
-            raise InputError("analysis.beam_theory", "is not a known beam theory",
-                             value=self.beam_theory, expected=" or ".join(BEAM_THEORIES),
-                             kind="choice")
+        _one_of("analysis.beam_theory", self.beam_theory, BEAM_THEORIES)
         if self.speed_from is not None:
             _positive("analysis.speed_from", self.speed_from, allow_zero=True)
         if self.speed_to is not None:

@@ -73,11 +73,21 @@ def _residual(m, d, k, lam, x):
     return np.linalg.norm(r) / (scale * max(np.linalg.norm(x), 1e-300))
 
 
-def rayleigh_eigenvalue(m, d, k, x, near):
-    """Root nearest ``near`` of ``(x^H M x) lam^2 + (x^H D x) lam + x^H K x = 0``."""
-    xh = np.conj(x)
-    roots = np.roots([xh @ (m @ x), xh @ (d @ x), xh @ (k @ x)])
-    return complex(roots[np.argmin(np.abs(roots - near))]) if len(roots) else complex(near)
+def rayleigh_values(m, d, k, vectors, near, products=None):
+    """Rayleigh value of each column ``x``: the root nearest ``near`` of
+    ``(x^H M x) lam^2 + (x^H D x) lam + x^H K x = 0``.
+
+    ``products`` may pass ``(M X, D X, K X)`` already computed.
+    """
+    mx, dx, kx = products if products is not None else (m @ vectors, d @ vectors,
+                                                        k @ vectors)
+    xh = np.conj(vectors)
+    a, b, c = (np.sum(xh * mx, axis=0), np.sum(xh * dx, axis=0), np.sum(xh * kx, axis=0))
+    near = np.broadcast_to(np.asarray(near, dtype=complex), a.shape)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        root = np.sqrt(b * b - 4.0 * a * c + 0j)
+        pair = np.stack([(-b + root) / (2.0 * a), (-b - root) / (2.0 * a)])
+    return pair[np.argmin(np.abs(pair - near), axis=0), np.arange(len(near))]
 
 
 def mixing(vector):
@@ -118,8 +128,7 @@ def split_degenerate(values, vectors, m, d, k):
         if min(np.linalg.norm(fwd), np.linalg.norm(bwd)) == 0:
             continue
         mean = (values[i] + values[j]) / 2.0
-        lam_f = rayleigh_eigenvalue(m, d, k, fwd, mean)
-        lam_b = rayleigh_eigenvalue(m, d, k, bwd, mean)
+        lam_f, lam_b = rayleigh_values(m, d, k, np.stack([fwd, bwd], axis=1), mean)
         before = max(_residual(m, d, k, values[i], out[:, i]),
                      _residual(m, d, k, values[j], out[:, j]))
         after = max(_residual(m, d, k, lam_f, fwd), _residual(m, d, k, lam_b, bwd))

@@ -11,7 +11,7 @@ from ..errors import SolverError
 from ..notices import Notice, record
 from ..solvers import NUMERICAL_FAILURES, make_solver
 from ..units import to_hz, to_rpm
-from .circular import rayleigh_eigenvalue, split_degenerate
+from .circular import rayleigh_values, split_degenerate
 
 #: Whirl labels from the forward share (see :func:`forward_fraction`): forward at
 #: or above this share, backward at or below one minus it, mixed between.  With
@@ -102,28 +102,38 @@ def is_conservative(c_mat, k_mat):
     return abs(k_mat - k_mat.T).max() <= 1e-14 * abs(k_mat).max()
 
 
-def eigenvalue_errors(values, vectors, m, d, k):
-    """Estimated absolute error of each computed eigenvalue, rad/s.
+def mode_checks(values, vectors, m, d, k):
+    """Estimated error and Rayleigh value of every computed eigenpair, in one pass.
 
-    First-order perturbation with the right vector standing in for the left
-    one: ``|Q(lam) x| |x| / |x^H Q'(lam) x|``, ``Q(lam) = lam^2 M + lam D + K``.
-    The residual is computed in the original (unscaled) matrices, so it holds
-    whatever digits the solve lost.
+    With ``X`` the vectors and ``MX, DX, KX`` their products (computed once, in
+    the original unscaled matrices, so they hold whatever digits the solve
+    lost): the error estimate is first-order perturbation with the right vector
+    standing in for the left one, ``|Q(lam) x| |x| / |x^H Q'(lam) x|``, and the
+    Rayleigh value the root nearest ``lam`` of ``x^H Q(rho) x = 0``, with
+    ``Q(lam) = lam^2 M + lam D + K``.
+
+    Returns
+    -------
+    errors : ndarray (n,)
+        rad/s.
+    rayleigh : complex ndarray (n,)
     """
-    out = np.empty(len(values))
-    for i, lam in enumerate(values):
-        x = vectors[:, i]
-        r = (lam * lam) * (m @ x) + lam * (d @ x) + k @ x
-        slope = abs(np.conj(x) @ (2.0 * lam * (m @ x) + d @ x))
-        out[i] = np.linalg.norm(r) * np.linalg.norm(x) / slope if slope > 0 else np.inf
-    return out
+    mx, dx, kx = m @ vectors, d @ vectors, k @ vectors
+    lam = np.asarray(values)
+    residual = np.linalg.norm(lam**2 * mx + lam * dx + kx, axis=0)
+    size = np.linalg.norm(vectors, axis=0)
+    xh = np.conj(vectors)
+    slope = np.abs(2.0 * lam * np.sum(xh * mx, axis=0) + np.sum(xh * dx, axis=0))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        errors = np.where(slope > 0, residual * size / slope, np.inf)
+    return errors, rayleigh_values(m, d, k, vectors, lam, (mx, dx, kx))
 
 
 def snap_roundoff(values, errors, conservative):
     """Eigenvalues with real parts that are roundoff set to exactly zero.
 
     A real part within :data:`ROUNDOFF_FACTOR` of the eigenvalue's estimated
-    error (:func:`eigenvalue_errors`) is zero, so an undamped model reads log
+    error (:func:`mode_checks`) is zero, so an undamped model reads log
     decrement 0 (not +-1e-18 with a verdict that follows its sign).  A
     conservative model (:func:`is_conservative`) gets zero real parts outright.
     """
@@ -144,28 +154,26 @@ DIGITS_LOST = 1e-4
 DIGITS_DAMPING = 0.45
 
 
-def _check_digits(values, vectors, m, d, k, speed):
+def _check_digits(values, rayleigh, speed):
     """Raise SolverError when a computed mode disagrees with its own vector.
 
-    The Rayleigh value of a computed vector, evaluated in the original (unscaled)
-    matrices, agrees with the computed eigenvalue to second order in the
-    vector's error on a sound solve (measured: 1e-12 on the bundled cases), and
-    not at all when the pencil lost its digits (bearings of 1e60 N/m under a
-    steel shaft once gave frequencies and unstable modes out of roundoff).
+    The Rayleigh value of a computed vector (:func:`mode_checks`) agrees with
+    the computed eigenvalue to second order in the vector's error on a sound
+    solve (measured: 1e-12 on the bundled cases), and not at all when the
+    pencil lost its digits.
     """
     damping = -values.real / np.maximum(np.abs(values), 1e-300)
-    for lam, x, zeta in zip(values, vectors.T, damping):
-        if zeta >= DIGITS_DAMPING:
-            continue
-        rho = rayleigh_eigenvalue(m, d, k, x, lam)
-        if not abs(rho - lam) <= DIGITS_LOST * abs(lam):   # also catches NaN
-            raise SolverError(
-                f"the eigen-solve at {to_rpm(speed):.6g} rpm lost the digits that matter: the "
-                f"mode at {to_hz(lam.imag):.4g} Hz disagrees with its own shape by "
-                f"{abs(rho - lam) / abs(lam):.1e} of itself. The model's stiffnesses or masses "
-                "span too many decades for double precision (a bearing far stiffer than the "
-                "shaft, or a near-massless part): bring them closer, e.g. a stiff bearing as a "
-                "pin of 1e3 x the shaft's stiffness")
+    lost = ~(np.abs(rayleigh - values) <= DIGITS_LOST * np.abs(values))   # NaN too
+    lost &= damping < DIGITS_DAMPING
+    if lost.any():
+        i = int(np.argmax(lost))
+        raise SolverError(
+            f"the eigen-solve at {to_rpm(speed):.6g} rpm lost the digits that matter: the "
+            f"mode at {to_hz(values[i].imag):.4g} Hz disagrees with its own shape by "
+            f"{abs(rayleigh[i] - values[i]) / abs(values[i]):.1e} of itself. The model's "
+            "stiffnesses or masses span too many decades for double precision (a bearing far "
+            "stiffer than the shaft, or a near-massless part): bring them closer, e.g. a "
+            "stiff bearing as a pin of 1e3 x the shaft's stiffness")
 
 
 @dataclass(frozen=True)
@@ -311,8 +319,8 @@ def modes_at(rotor_or_system, speed, n_modes=None, solver=None, near=None):
     values, q = split_degenerate(pairs.values, pairs.vectors, system.mass, d_mat, k_mat)
     order = np.argsort(values.imag, kind="stable")
     values, q = values[order], q[:, order]
-    errors = eigenvalue_errors(values, q, system.mass, d_mat, k_mat)
-    _check_digits(values, q, system.mass, d_mat, k_mat, speed)
+    errors, rayleigh = mode_checks(values, q, system.mass, d_mat, k_mat)
+    _check_digits(values, rayleigh, speed)
     values = snap_roundoff(values, errors, is_conservative(c_mat, k_mat))
     tdofs = system.translation_dofs
     shapes = np.stack([q[tdofs[:, 0], :].T, q[tdofs[:, 1], :].T], axis=-1)

@@ -332,14 +332,25 @@ class Response:
         return out
 
 
+#: Fresh solves an evaluator keeps (oldest dropped first).
+MEMO_SPEEDS = 64
+
+
 class _Evaluator:
     """Fresh solves of one case at any speed, for the refinement steps."""
 
     def __init__(self, solver, force, probe_rows):
         self.solver, self.force, self.rows = solver, force, probe_rows
+        self.solved = {}
 
     def response(self, omega):
-        return self.solver.solve(omega, omega * omega * self.force[:, None])[:, 0]
+        # one solve per speed serves every probe and the peak's shape (the peak and
+        # half-power searches of each probe visit the same speeds)
+        if omega not in self.solved:
+            if len(self.solved) >= MEMO_SPEEDS:
+                self.solved.pop(next(iter(self.solved)))
+            self.solved[omega] = self.solver.solve(omega, omega * omega * self.force[:, None])[:, 0]
+        return self.solved[omega]
 
     def probe(self, omega, j):
         return 2.0 * abs(self.rows[j] @ self.response(omega))

@@ -146,23 +146,26 @@ def coverage_gaps(rotor: Rotor, result: Sweep, table: MarginTable, response=None
     trip = op.trip_speed or op.max_speed
     if response is not None:
         # the clearance check covers run-up: from the lowest analysed speed (the force
-        # vanishes at rest, so the response sweep may start just above it) up to trip
+        # vanishes at rest, so the response sweep may start at the next one) up to trip
         lo, hi = float(response.speeds[0]), float(response.speeds[-1])
-        first_grid = max(float(result.speeds[0]), float(result.speeds[1]) if
-                         result.speeds[0] == 0.0 else 0.0)
-        if lo > max(first_grid, 0.0) * (1 + 1e-9) or hi < trip * (1 - 1e-9):
+        start = float(result.speeds[1] if result.speeds[0] == 0.0 else result.speeds[0])
+        if lo > start * (1 + 1e-9) or hi < trip * (1 - 1e-9):
             gaps.append(CoverageGap(
                 "response", f"the unbalance response sweep ({to_rpm(lo):.0f}-{to_rpm(hi):.0f} "
                 f"rpm) does not cover the lowest analysed speed up to trip "
                 f"({to_rpm(result.speeds[0]):.0f}-{to_rpm(trip):.0f} rpm): its limits (the "
                 "clearances through run-up) were not checked there"))
+    judged = [((op.min_speed, trip), f"the minimum speed up to trip ({to_rpm(op.min_speed):.0f}-"
+               f"{to_rpm(trip):.0f} rpm): stability there")]
+    judged += [((row.critical.speed,) * 2, f"the critical at {to_rpm(row.critical.speed):.0f} "
+                "rpm: it") for row in table.rows if row.verdict not in ("overdamped", "not judged")]
     for i, b in enumerate(rotor.bearings):
-        if len(b.speeds) >= 2 and (b.outside_table(op.min_speed) or b.outside_table(trip)):
-            gaps.append(CoverageGap(
-                "bearing-table", f"the coefficient table of {b.kind} {b.name or i} "
-                f"({to_rpm(b.speeds[0]):.0f}-{to_rpm(b.speeds[-1]):.0f} rpm) does not cover "
-                f"the minimum speed up to trip ({to_rpm(op.min_speed):.0f}-{to_rpm(trip):.0f} "
-                "rpm): stability there was judged on held end values"))
+        for (lo, hi), what in judged:
+            if len(b.speeds) >= 2 and (b.outside_table(lo) or b.outside_table(hi)):
+                gaps.append(CoverageGap(
+                    "bearing-table", f"the coefficient table of {b.kind} {b.name or i} "
+                    f"({to_rpm(b.speeds[0]):.0f}-{to_rpm(b.speeds[-1]):.0f} rpm) does not "
+                    f"cover {what} was judged on held end values"))
     bottom, top = required_span(rotor)
     first, last = float(result.speeds[0]), float(result.speeds[-1])
     if last < top * (1 - 1e-9):
@@ -175,17 +178,6 @@ def coverage_gaps(rotor: Rotor, result: Sweep, table: MarginTable, response=None
             "sweep-bottom", f"the sweep starts at {to_rpm(first):.0f} rpm, above "
             f"{to_rpm(bottom):.0f} rpm (the bottom of the widest margin band below the "
             "minimum speed): a critical down there was not looked for"))
-    for row in table.rows:
-        if row.verdict in ("overdamped", "not judged"):
-            continue
-        w = row.critical.speed
-        for i, b in enumerate(rotor.bearings):
-            if len(b.speeds) >= 2 and b.outside_table(w):
-                gaps.append(CoverageGap(
-                    "bearing-table", f"the coefficient table of {b.kind} {b.name or i} "
-                    f"({to_rpm(b.speeds[0]):.0f}-{to_rpm(b.speeds[-1]):.0f} rpm) does not "
-                    f"cover the critical at {to_rpm(w):.0f} rpm: it was judged on held end "
-                    "values"))
     for w in result.warnings:
         if getattr(w, "code", None) == "solver-doubt":
             gaps.append(CoverageGap("solver", w))

@@ -139,7 +139,7 @@ def test_variants_scale_disk_inertias_in_any_order():
 def test_a_mode_that_disagrees_with_its_own_shape_fails_the_solve():
     """The guard on lost digits: a computed eigenvalue must agree with the Rayleigh
     value of its own vector in the unscaled matrices (1e-12 on a sound solve)."""
-    from rotorcalc.analysis.modes import DIGITS_LOST, _check_digits
+    from rotorcalc.analysis.modes import DIGITS_LOST, _check_digits, mode_checks
     from rotorcalc.assembly import assemble
     from rotorcalc.errors import SolverError
     from rotorcalc.solvers import make_solver
@@ -147,10 +147,13 @@ def test_a_mode_that_disagrees_with_its_own_shape_fails_the_solve():
     w = 1000 * RPM
     d, k = system.damping(w) + w * system.gyroscopic, system.stiffness(w)
     pairs = make_solver()(system.mass, d, k, 4, zeros=0)
-    _check_digits(pairs.values, pairs.vectors, system.mass, d, k, w)        # sound: silent
+    _, rayleigh = mode_checks(pairs.values, pairs.vectors, system.mass, d, k)
+    _check_digits(pairs.values, rayleigh, w)                                 # sound: silent
+    assert np.max(np.abs(rayleigh / pairs.values - 1)) < 1e-9
     wrong = pairs.values * (1 + 100 * DIGITS_LOST)
+    _, rayleigh = mode_checks(wrong, pairs.vectors, system.mass, d, k)
     with pytest.raises(SolverError, match="lost the digits"):
-        _check_digits(wrong, pairs.vectors, system.mass, d, k, w)
+        _check_digits(wrong, rayleigh, w)
 
 
 def test_a_growing_motion_without_whirl_is_an_instability():
