@@ -17,6 +17,7 @@ import numpy as np
 
 from .errors import InputError
 from .units import to_rpm
+from .vocabulary import BearingRole, old_keywords
 from .unbalance import ResponseSettings
 
 COEFFICIENT_NAMES = ("kxx", "kxy", "kyx", "kyy", "cxx", "cxy", "cyx", "cyy")
@@ -263,6 +264,7 @@ class Support:
         _positive(f"{self.key}.cy", self.cy, allow_zero=True)
 
 
+@old_keywords(kind="role")
 @dataclass(frozen=True)
 class Bearing:
     """Linear bearing (or seal) coefficients, each constant or tabulated over speed.
@@ -289,11 +291,13 @@ class Bearing:
     coefficients: dict
     speeds: tuple = ()
     name: str = ""
-    kind: str = "bearing"
+    role: BearingRole = BearingRole.BEARING
     support: Support | None = None
     key: str = "bearing"
 
     def __post_init__(self):
+        _one_of(f"{self.key}.role", self.role, tuple(BearingRole))
+        object.__setattr__(self, "role", BearingRole(self.role))
         _freeze(self, "coefficients", {k: tuple(v) for k, v in self.coefficients.items()})
         unknown = set(self.coefficients) - set(COEFFICIENT_NAMES)
         if unknown:
@@ -402,6 +406,8 @@ class OperatingRange:
                                           "max_speed", kind="order")
 
 
+@old_keywords(kind="name", below="margin_below", above="margin_above",
+              cap_below="margin_cap_below", cap_above="margin_cap_above")
 @dataclass(frozen=True)
 class MarginRule:
     """How the required separation margin is set (see docs/theory.md).
@@ -409,58 +415,59 @@ class MarginRule:
     ``"af-curve"``: the amplification-factor rule of industry standards for
     centrifugal machinery (common practice, from memory): no margin below
     ``af_threshold``, else ``17 (1 - 1/(AF - 1.5))`` per cent below the minimum
-    speed, at most ``cap_below``, and ``10 + 17 (1 - 1/(AF - 1.5))`` per cent
-    above the maximum continuous speed, at most ``cap_above``;
-    ``"fixed"``: the ``below`` and ``above`` percentages for every critical;
+    speed, at most ``margin_cap_below``, and ``10 + 17 (1 - 1/(AF - 1.5))`` per cent
+    above the maximum continuous speed, at most ``margin_cap_above``;
+    ``"fixed"``: the ``margin_below`` and ``margin_above`` percentages for every critical;
     ``"none"``: no margin required (the table still lists the margins).
     """
 
-    kind: str = "af-curve"
-    below: float = 15.0
-    above: float = 15.0
+    name: str = "af-curve"
+    margin_below: float = 15.0
+    margin_above: float = 15.0
     af_threshold: float = 2.5
-    cap_below: float = 16.0
-    cap_above: float = 26.0
+    margin_cap_below: float = 16.0
+    margin_cap_above: float = 26.0
 
     def __post_init__(self):
-        _one_of("analysis.margin_rule", self.kind, MARGIN_RULES)
-        _positive("analysis.margin_below", self.below, allow_zero=True)
-        _positive("analysis.margin_above", self.above, allow_zero=True)
+        _one_of("analysis.margin_rule", self.name, MARGIN_RULES)
+        _positive("analysis.margin_below", self.margin_below, allow_zero=True)
+        _positive("analysis.margin_above", self.margin_above, allow_zero=True)
         _positive("analysis.af_threshold", self.af_threshold)
-        for name in ("cap_below", "cap_above"):
+        for name in ("margin_cap_below", "margin_cap_above"):
             value = getattr(self, name)
             if not (value > 0):  # inf lifts the cap
-                raise InputError(f"analysis.margin_{name}", "must be positive", value=value,
+                raise InputError(f"analysis.{name}", "must be positive", value=value,
                                  expected='a percentage such as 16, or "none" for no cap',
                                  kind="range")
 
     @property
     def label(self):
         """Where the rule comes from."""
-        return FROM_MEMORY if self.kind == "af-curve" else "set by the user"
+        return FROM_MEMORY if self.name == "af-curve" else "set by the user"
 
     def describe(self):
         """The rule in one sentence, for every presentation."""
-        if self.kind == "af-curve":
+        if self.name == "af-curve":
             caps = []
-            if math.isfinite(self.cap_below):
-                caps.append(f"at most {self.cap_below:g}% below")
-            if math.isfinite(self.cap_above):
-                caps.append(f"at most {self.cap_above:g}% above")
+            if math.isfinite(self.margin_cap_below):
+                caps.append(f"at most {self.margin_cap_below:g}% below")
+            if math.isfinite(self.margin_cap_above):
+                caps.append(f"at most {self.margin_cap_above:g}% above")
             capped = f" ({', '.join(caps)})" if caps else ""
             return (f"amplification-factor rule: AF < {self.af_threshold:g} needs no margin; "
                     "otherwise 17(1-1/(AF-1.5))% below the minimum speed and "
                     f"10+17(1-1/(AF-1.5))% above the maximum continuous speed{capped}")
-        if self.kind == "fixed":
-            return f"fixed: {self.below:g}% below and {self.above:g}% above"
+        if self.name == "fixed":
+            return f"fixed: {self.margin_below:g}% below and {self.margin_above:g}% above"
         return "none: margins listed, not judged"
 
 
+@old_keywords(kind="name", minimum="min_log_dec")
 @dataclass(frozen=True)
 class StabilityRule:
     """What log decrement every mode needs from the minimum speed up to trip.
 
-    ``"positive"``: above zero; ``"at-least"``: at least ``minimum`` (0.1 is a
+    ``"positive"``: above zero; ``"at-least"``: at least ``min_log_dec`` (0.1 is a
     common-practice figure, from memory); ``"none"``: reported, not judged.
     A log decrement within ``marginal_band`` of zero (0.001 by default: an
     amplification factor of 3000 or more) cannot be told from zero by the
@@ -468,35 +475,35 @@ class StabilityRule:
     a digit the model does not resolve (an undamped model is marginal).
     """
 
-    kind: str = "positive"
-    minimum: float = 0.1
+    name: str = "positive"
+    min_log_dec: float = 0.1
     marginal_band: float = 1e-3
 
     def __post_init__(self):
-        _one_of("analysis.stability_rule", self.kind, STABILITY_RULES)
-        _positive("analysis.min_log_dec", self.minimum, allow_zero=True)
+        _one_of("analysis.stability_rule", self.name, STABILITY_RULES)
+        _positive("analysis.min_log_dec", self.min_log_dec, allow_zero=True)
         _positive("analysis.marginal_band", self.marginal_band, allow_zero=True)
 
     @property
     def required(self):
         """The log decrement a mode must exceed (positive) or reach (at-least)."""
-        return 0.0 if self.kind == "positive" else self.minimum
+        return 0.0 if self.name == "positive" else self.min_log_dec
 
     @property
     def label(self):
-        if self.kind == "at-least":
-            return ("common practice, from memory" if self.minimum == 0.1
+        if self.name == "at-least":
+            return ("common practice, from memory" if self.min_log_dec == 0.1
                     else "set by the user")
-        return "physics: a negative log decrement grows" if self.kind == "positive" else ""
+        return "physics: a negative log decrement grows" if self.name == "positive" else ""
 
     def describe(self):
         band = (f"; within {self.marginal_band:g} of 0 (an undamped mode included) is "
                 "marginal and fails")
-        if self.kind == "positive":
+        if self.name == "positive":
             return ("every mode's log decrement above 0 from the minimum speed up to trip"
                     + band)
-        if self.kind == "at-least":
-            return (f"every mode's log decrement at least {self.minimum:g} from the minimum "
+        if self.name == "at-least":
+            return (f"every mode's log decrement at least {self.min_log_dec:g} from the minimum "
                     "speed up to trip" + band)
         return "none: log decrements listed, not judged"
 
@@ -504,13 +511,14 @@ class StabilityRule:
         return abs(log_dec) <= self.marginal_band
 
     def passes(self, log_dec):
-        if self.kind == "none":
+        if self.name == "none":
             return True
         if self.is_marginal(log_dec) or log_dec <= 0.0:
             return False
-        return self.kind == "positive" or log_dec >= self.minimum
+        return self.name == "positive" or log_dec >= self.min_log_dec
 
 
+@old_keywords(modes="mode_count", stability="stability_rule")
 @dataclass(frozen=True)
 class Settings:
     """Analysis settings: sweep, number of modes, excitation orders, beam theory."""
@@ -518,14 +526,14 @@ class Settings:
     speed_from: float | None = None
     speed_to: float | None = None
     speed_count: int = 61
-    modes: int = 8
+    mode_count: int = 8
     orders: tuple = (1.0,)
     beam_theory: str = "timoshenko"
     margin_rule: MarginRule = field(default_factory=MarginRule)
     judge_backward: bool = False
     judge_share: float = 0.25
     overdamped_ratio: float = 0.45
-    stability: StabilityRule = field(default_factory=StabilityRule)
+    stability_rule: StabilityRule = field(default_factory=StabilityRule)
 
     def __post_init__(self):
         if not (0.0 <= self.judge_share <= 1.0):
@@ -543,12 +551,12 @@ class Settings:
             raise InputError("analysis.speed_count", "is more speeds than a sweep needs",
                              value=self.speed_count, expected=f"at most {LIMITS['speed count']}",
                              kind="size")
-        if not isinstance(self.modes, int) or self.modes < 1:
-            raise InputError("analysis.modes", "must be a whole number of at least 1",
-                             value=self.modes, kind="range")
-        if self.modes > LIMITS["modes"]:
-            raise InputError("analysis.modes", "is more modes than a screening needs",
-                             value=self.modes, expected=f"at most {LIMITS['modes']}", kind="size")
+        if not isinstance(self.mode_count, int) or self.mode_count < 1:
+            raise InputError("analysis.mode_count", "must be a whole number of at least 1",
+                             value=self.mode_count, kind="range")
+        if self.mode_count > LIMITS["modes"]:
+            raise InputError("analysis.mode_count", "is more modes than a screening needs",
+                             value=self.mode_count, expected=f"at most {LIMITS['modes']}", kind="size")
         if not self.orders:
             raise InputError("analysis.orders", "must list at least one order", kind="range")
         if len(self.orders) > LIMITS["orders"]:

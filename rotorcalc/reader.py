@@ -12,6 +12,7 @@ import dataclasses
 import difflib
 import math
 import re
+import warnings
 import sys
 from pathlib import Path
 
@@ -25,6 +26,8 @@ from . import units as u
 from .errors import InputError
 from .model import (COEFFICIENT_NAMES, Bearing, Disk, MarginRule, Material, OperatingRange,
                     Rotor, Section, Settings, StabilityRule, Support)
+from .vocabulary import (OLD_SPELLINGS_UNTIL, RENAMED_KEYS, BearingRole, RenamedWarning,
+                         renamed)
 from .unbalance import Clearance, Probe, ResponseSettings, UnbalanceCase, UnbalanceWeight
 
 TOP_KEYS = {"title", "stations", "materials", "section", "disk", "bearing", "operating",
@@ -35,10 +38,10 @@ SECTION_KEYS = {"length", "outer_diameter", "inner_diameter", "material", "eleme
 DISK_KEYS = {"at", "name", "mass", "polar_inertia", "transverse_inertia", "inertia_as_given",
              "outer_diameter",
              "inner_diameter", "width", "material"}
-BEARING_KEYS = {"at", "name", "kind", "speeds", "support", *COEFFICIENT_NAMES}
+BEARING_KEYS = {"at", "name", "role", "speeds", "support", *COEFFICIENT_NAMES}
 SUPPORT_KEYS = {"mass", "kx", "ky", "cx", "cy"}
 OPERATING_KEYS = {"min_speed", "max_speed", "trip_speed"}
-ANALYSIS_KEYS = {"speed_from", "speed_to", "speed_count", "modes", "orders", "beam_theory",
+ANALYSIS_KEYS = {"speed_from", "speed_to", "speed_count", "mode_count", "orders", "beam_theory",
                  "margin_rule", "margin_below", "margin_above", "af_threshold",
                  "margin_cap_below", "margin_cap_above", "judge_backward", "judge_share",
                  "overdamped_ratio", "stability_rule", "min_log_dec", "marginal_band"}
@@ -48,7 +51,6 @@ PROBE_KEYS = {"at", "angle", "name"}
 CLEARANCE_KEYS = {"at", "radial", "name"}
 RESPONSE_KEYS = {"speed_from", "speed_to", "speed_count", "check_vibration", "clearance_share",
                  "vibration_limit"}
-BEARING_KINDS = ("bearing", "seal")
 
 
 def read_rotor(path) -> Rotor:
@@ -350,13 +352,14 @@ def _disk(table, i, materials, names, n_sections):
 
 def _bearing(table, i, names, n_sections):
     where = f"bearing[{i}]"
+    table = _renamed_keys(table, "bearing", where)
     check_keys(table, BEARING_KEYS, where)
     station = _station(table, where, names, n_sections)
     name = _string(table, "name", where, default=f"B{i + 1}")
-    kind = _string(table, "kind", where, default="bearing")
-    if kind not in BEARING_KINDS:
-        raise InputError(f"{where}.kind", "is not a known kind", value=kind,
-                         expected=" or ".join(BEARING_KINDS), kind="choice")
+    role = _string(table, "role", where, default=BearingRole.BEARING)
+    if role not in tuple(BearingRole):
+        raise InputError(f"{where}.role", "is not a known role", value=role,
+                         expected=" or ".join(BearingRole), kind="choice")
     speeds = ()
     if "speeds" in table:
         raw = table["speeds"]
@@ -398,7 +401,7 @@ def _bearing(table, i, names, n_sections):
                           cx=_quantity(st, "cx", u.DAMPING, sw, default=0.0),
                           cy=_quantity(st, "cy", u.DAMPING, sw, default=0.0), key=sw)
     return Bearing(station=station, coefficients=coefficients, speeds=speeds, name=name,
-                   kind=kind, support=support, key=where)
+                   role=role, support=support, key=where)
 
 
 def _operating(table):
@@ -412,6 +415,7 @@ def _operating(table):
 
 def _settings(table):
     where = "analysis"
+    table = _renamed_keys(table, "analysis", where)
     check_keys(table, ANALYSIS_KEYS, where)
     orders = table.get("orders", [1.0])
     if not isinstance(orders, list):
@@ -424,12 +428,12 @@ def _settings(table):
     if not isinstance(judge, bool):
         raise InputError(f"{where}.judge_backward", "must be true or false", value=judge,
                          kind="type")
-    rule = MarginRule(kind=_string(table, "margin_rule", where, default="af-curve"),
-                      below=_number(table, "margin_below", where, 15.0),
-                      above=_number(table, "margin_above", where, 15.0),
+    rule = MarginRule(name=_string(table, "margin_rule", where, default="af-curve"),
+                      margin_below=_number(table, "margin_below", where, 15.0),
+                      margin_above=_number(table, "margin_above", where, 15.0),
                       af_threshold=_number(table, "af_threshold", where, 2.5),
-                      cap_below=_cap(table, "margin_cap_below", where, 16.0),
-                      cap_above=_cap(table, "margin_cap_above", where, 26.0))
+                      margin_cap_below=_cap(table, "margin_cap_below", where, 16.0),
+                      margin_cap_above=_cap(table, "margin_cap_above", where, 26.0))
     if "judge_backward" in table and "judge_share" in table:
         raise InputError(f"{where}.judge_share", "is given together with judge_backward",
                          expected="one of them (judge_backward = true is judge_share = 0)",
@@ -440,18 +444,35 @@ def _settings(table):
         raise InputError(f"{where}.min_log_dec", f"has no effect with stability_rule = {kind!r}",
                          expected='stability_rule = "at-least" (or leave min_log_dec out)',
                          kind="conflict")
-    stability = StabilityRule(kind=kind, minimum=_number(table, "min_log_dec", where, 0.1),
+    stability = StabilityRule(name=kind, min_log_dec=_number(table, "min_log_dec", where, 0.1),
                               marginal_band=_number(table, "marginal_band", where, 1e-3))
     return Settings(speed_from=_quantity(table, "speed_from", u.SPEED, where),
                     speed_to=_quantity(table, "speed_to", u.SPEED, where),
                     speed_count=_integer(table, "speed_count", where, 61),
-                    modes=_integer(table, "modes", where, 8),
+                    mode_count=_integer(table, "mode_count", where, 8),
                     orders=tuple(float(o) for o in orders),
                     beam_theory=_string(table, "beam_theory", where, default="timoshenko"),
                     margin_rule=rule, judge_backward=judge,
                     judge_share=_number(table, "judge_share", where, 0.25),
                     overdamped_ratio=_number(table, "overdamped_ratio", where, 0.45),
-                    stability=stability)
+                    stability_rule=stability)
+
+
+def _renamed_keys(table, section, where):
+    """The table with the old spellings of its keys (:data:`~rotorcalc.vocabulary.RENAMED_KEYS`)
+    replaced by the new ones, each with a :class:`~rotorcalc.vocabulary.RenamedWarning`."""
+    if not isinstance(table, dict):
+        return table
+    out = dict(table)
+    for (part, old), new in RENAMED_KEYS.items():
+        if part != section or old not in out:
+            continue
+        if new in out:
+            raise InputError(f"{where}.{old}", f"is given together with {new}",
+                             expected=f"only {new} ({old} is its old spelling)", kind="conflict")
+        renamed(f"{where}.{old}", f"{where}.{new}")
+        out[new] = out.pop(old)
+    return out
 
 
 def _cap(table, key, where, default):
@@ -488,6 +509,13 @@ def _unbalance_cases(table, names, n_sections, rotor):
             basis = []
 
             def residual(station=station, wk=wk, basis=basis):
+                if "residual_multiple" not in entry:
+                    warnings.warn(f'{where}: amount = "residual" without residual_multiple is '
+                                  f"read as {multiple:g} x the residual amount (the common-"
+                                  "practice multiple) until version "
+                                  f"{OLD_SPELLINGS_UNTIL}, and refused after it: state "
+                                  f"residual_multiple = {multiple:g} in [{where}]",
+                                  RenamedWarning, stacklevel=2)
                 mass, what = (standards.residual_weight(rotor, station) if carried is None
                               else (carried, "residual_mass of the case"))
                 basis.append(f"{multiple:g} x residual, W = {mass:.4g} kg: {what}")

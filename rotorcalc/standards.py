@@ -23,6 +23,11 @@ RESIDUAL_CONSTANT_G_MM = 6350.0
 #: (common practice, from memory: twice the allowable residual).
 RESIDUAL_MULTIPLE = 2.0
 
+#: The residual-unbalance rule in words (the formula of :func:`residual_unbalance`).
+RESIDUAL_RULE_TEXT = (f"U = {RESIDUAL_CONSTANT_G_MM:g} W/N g*mm per weight, W the static load of "
+                      "the journal nearer the weight (or the overhung mass), N the maximum "
+                      "continuous speed in rpm (common practice, from memory)")
+
 #: Allowable shaft vibration A = 25.4 sqrt(12000 / N) micrometres peak-to-peak,
 #: N in rpm, at most 25.4 micrometres (1 mil) (common practice, from memory).
 VIBRATION_CONSTANT_UM = 25.4
@@ -88,6 +93,11 @@ def residual_weight(rotor, station):
 def residual_mass(rotor, station):
     """The mass W of :func:`residual_weight` alone, kg."""
     return residual_weight(rotor, station)[0]
+
+
+#: The vibration rule in words (the formula of :func:`allowable_vibration`).
+VIBRATION_RULE_TEXT = (f"{VIBRATION_CONSTANT_UM:g}*sqrt(12000/N) um pk-pk with N the maximum "
+                       f"continuous speed, at most {VIBRATION_CAP_UM:g} um")
 
 
 def allowable_vibration(speed):

@@ -42,7 +42,7 @@ def journal_static_loads(rotor, speed=None):
         with fewer than two journals at distinct stations, or when the journals
         leave the rotor free (no vertical stiffness).
     """
-    journals = [i for i, b in enumerate(rotor.bearings) if b.kind == "bearing"]
+    journals = [i for i, b in enumerate(rotor.bearings) if b.role == "bearing"]
     if len({rotor.bearings[i].station for i in journals}) < 2:
         return {}
     hanging = dataclasses.replace(rotor, bearings=tuple(rotor.bearings[i] for i in journals),

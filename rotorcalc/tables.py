@@ -79,7 +79,7 @@ def _af_text(af):
 MARGIN_COLUMNS = [
     Column("Speed rpm", lambda r: float(to_rpm(r.critical.speed)), "{:.0f}", "speed_rpm"),
     Column("Order", lambda r: r.critical.order, "{:g}X", "order"),
-    Column("Mode", lambda r: r.critical.branch + 1, "{:d}", "branch"),
+    Column("Branch", lambda r: r.critical.branch, "{:d}", "branch"),
     Column("Whirl", lambda r: r.critical.whirl, "{}", "whirl"),
     Column("Fwd share", lambda r: r.critical.forward_fraction, "{:.2f}", "forward_fraction"),
     Column("Freq Hz", lambda r: float(to_hz(r.critical.eigenvalue.imag)), "{:.2f}",
@@ -118,7 +118,7 @@ def margin_columns(table, terse=False):
     return columns + (RESPONSE_MARGIN_COLUMNS if table.has_response else [])
 
 
-# --- stability: rows are ModeStability objects ---------------------------------------
+# --- stability: rows are BranchStability objects ---------------------------------------
 
 def _onset_text(m):
     """Every change of sign of the damping, going up in speed: "loses 3359, regains 6020"."""
@@ -126,7 +126,7 @@ def _onset_text(m):
 
 
 STABILITY_COLUMNS = [
-    Column("Mode", lambda m: m.branch + 1, "{:d}", "branch"),
+    Column("Branch", lambda m: m.branch, "{:d}", "branch"),
     Column("Whirl", lambda m: m.whirl, "{}", "whirl"),
     Column("Min log dec, operating", lambda m: m.min_log_dec_operating, "{:.3f}",
            "min_log_dec_operating"),
@@ -172,7 +172,7 @@ UNBALANCE_COLUMNS = [
 LIMIT_COLUMNS = [
     Column("Case", lambda c: c.case, "{}", "case"),
     Column("Where", lambda c: c.where, "{}", "where"),
-    Column("Check", lambda c: c.kind, "{}", "kind"),
+    Column("Check", lambda c: c.check, "{}", "check"),
     Column("Worst at rpm", lambda c: float(to_rpm(c.speed)), "{:.0f}", "speed_rpm"),
     Column("Value um", lambda c: c.value * 1e6, "{:.2f}", "value_um"),
     Column("Limit um", lambda c: c.limit * 1e6, "{:.2f}", "limit_um"),
@@ -244,7 +244,7 @@ def crossing_columns(operating):
     return [
         Column("Bearing", lambda c: c.bearing, "{}", "bearing"),
         Column("Direction", lambda c: c.direction, "{}", "direction"),
-        Column("Map mode", lambda c: c.mode + 1, "{:d}", "mode"),
+        Column("Map mode", lambda c: c.mode, "{:d}", "mode"),
         Column("Speed rpm", lambda c: float(to_rpm(c.speed)), "{:.0f}", "speed_rpm"),
         Column("Where", lambda c: separation(c.speed, operating)[0], "{}", "side"),
         Column("Margin %", lambda c: separation(c.speed, operating)[1], "{:.1f}",
@@ -268,10 +268,10 @@ def map_end_columns(cmap):
 
 #: Rows: (stiffness N/m, mode index, critical speed rad/s, bearing share 0..1).
 MAP_SHAPE_COLUMNS = [
-    Column("Stiffness N/m", lambda r: r[0], "{:.3e}", "stiffness_n_m"),
-    Column("Map mode", lambda r: r[1] + 1, "{:d}", "mode"),
-    Column("Critical rpm", lambda r: float(to_rpm(r[2])), "{:.0f}", "speed_rpm"),
-    Column("Largest bearing motion", lambda r: r[3], "{:.0%}", "bearing_motion_share"),
+    Column("Stiffness N/m", lambda r: r.stiffness, "{:.3e}", "stiffness_n_m"),
+    Column("Map mode", lambda r: r.mode, "{:d}", "mode"),
+    Column("Critical rpm", lambda r: float(to_rpm(r.speed)), "{:.0f}", "speed_rpm"),
+    Column("Largest bearing motion", lambda r: r.bearing_share, "{:.0%}", "bearing_motion_share"),
 ]
 
 

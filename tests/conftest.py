@@ -19,11 +19,11 @@ STEEL = Material("steel", 2.11e11, 2.11e11 / 2.6, 7810.0)
 
 
 def uniform_shaft(length=1.0, diameter=0.05, elements=20, bearings=(), disks=(),
-                  theory="timoshenko", material=STEEL, modes=8, inner=0.0):
+                  theory="timoshenko", material=STEEL, mode_count=8, inner=0.0):
     """One uniform section, stations 0 and 1 at its ends."""
     section = Section(length, diameter, material, inner_diameter=inner, elements=elements)
     return Rotor((section,), OperatingRange(100.0, 200.0), disks=tuple(disks),
-                 bearings=tuple(bearings), settings=Settings(beam_theory=theory, modes=modes))
+                 bearings=tuple(bearings), settings=Settings(beam_theory=theory, mode_count=mode_count))
 
 
 def isotropic(station, k, c=0.0, name=""):

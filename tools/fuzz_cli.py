@@ -101,15 +101,15 @@ GRACE = 5.0          # seconds past the time limit before the supervisor kills t
 RESTART = 75         # worker exit code: restart me after a hang (fresh interpreter state)
 
 # Which options of each command take a speed, write a file, or draw a picture.
-SPEED_OPT = {"modes": "--speed", "sweep": "--to", "criticals": "--to", "check": "--to",
-             "response": "--at", "stiffness-map": "--curves-to"}
-OUT_OPTS = {"modes": ["--json", "--csv", "--plot"], "sweep": ["--map", "--json", "--csv"],
-            "criticals": ["--map", "--json", "--csv"], "check": ["--map", "--json", "--csv"],
-            "response": ["--json", "--csv", "--bode", "--polar", "--orbits"],
-            "layout": ["--out"], "stiffness-map": ["--plot", "--json", "--csv", "--shapes-plot"],
+SPEED_OPT = {"modes": "--speed", "sweep": "--speed-to", "criticals": "--speed-to", "check": "--speed-to",
+             "response": "--orbit-speeds", "stiffness-map": "--curve-speed-to"}
+OUT_OPTS = {"modes": ["--json", "--csv", "--plot"], "sweep": ["--plot", "--json", "--csv"],
+            "criticals": ["--plot", "--json", "--csv"], "check": ["--plot", "--json", "--csv"],
+            "response": ["--json", "--csv", "--plot-bode", "--plot-polar", "--plot-orbits"],
+            "layout": ["--plot"], "stiffness-map": ["--plot", "--json", "--csv", "--plot-shapes"],
             "compare": ["--plot", "--json", "--csv"], "window": ["--json", "--csv"],
             "levers": ["--json", "--csv"]}
-PICTURE_OPTS = {"--plot", "--map", "--bode", "--polar", "--orbits", "--out", "--shapes-plot"}
+PICTURE_OPTS = {"--plot", "--plot", "--plot-bode", "--plot-polar", "--plot-orbits", "--plot", "--plot-shapes"}
 
 
 # ---------------------------------------------------------------- TOML writing (own, minimal)
@@ -334,7 +334,7 @@ def gen_names(rng, t, tokens):
         d[where][0]["name"] = name
     if t.command in ("modes", "sweep", "criticals", "check", "response", "stiffness-map",
                      "compare") and rng.random() < 0.7:
-        opt = [o for o in OUT_OPTS[t.command] if o in PICTURE_OPTS and o != "--shapes-plot"]
+        opt = [o for o in OUT_OPTS[t.command] if o in PICTURE_OPTS and o != "--plot-shapes"]
         t.extra += [rng.choice(opt), str(WORK / rng.choice(["pic.png", "pic.png", "pic.svg"]))]
     t.expect = frozenset({0, 1, 5})
 
@@ -352,8 +352,8 @@ def cli_or_file(rng, t, cli_values, file_targets, file_value):
     if t.command in SPEED_OPT and cli_values and rng.random() < 0.4:
         value = rng.choice(cli_values)
         if t.command == "stiffness-map" and rng.random() < 0.5:    # a stiffness range needs both ends
-            t.extra += rng.choice([["--from", value[1], "--to", "1e10 N/m"],
-                                   ["--from", "1e6 N/m", "--to", value[1]]])
+            t.extra += rng.choice([["--stiffness-from", value[1], "--stiffness-to", "1e10 N/m"],
+                                   ["--stiffness-from", "1e6 N/m", "--stiffness-to", value[1]]])
             t.variant = f"{t.extra[-4]}={t.extra[-3]} {t.extra[-2]}={t.extra[-1]}"
         else:
             t.extra += [SPEED_OPT[t.command], value[0]]
@@ -389,9 +389,9 @@ def gen_odd_speed(rng, t):
         return [f"{radps:.4g} rad*Hz", f"{radps:.4g} Hz*rad", f"{rpm * 6:g} deg/s"]
     cli_or_file(rng, t, [(v, "1e8 N/m") for v in values()], speed_targets(t),
                 lambda cls, path: rng.choice(values(path)))
-    if t.command == "stiffness-map" and t.variant.startswith("--from"):   # a speed option instead
-        t.extra[-4:] = ["--curves-to", rng.choice(values())]
-        t.variant = f"--curves-to={t.extra[-1]}"
+    if t.command == "stiffness-map" and t.variant.startswith("--stiffness-from"):   # a speed option instead
+        t.extra[-4:] = ["--curve-speed-to", rng.choice(values())]
+        t.variant = f"--curve-speed-to={t.extra[-1]}"
     # an angle with Hz is exact: "188.5 rad*Hz" is 188.5 rad/s, as "188.5 rad/s" is
     # (Hz alone means rev/s); so every one of these is a clean run (docs/input.md, Units)
     t.expect = CLEAN
@@ -445,7 +445,7 @@ def gen_impossible(rng, t):
         t.variant += " --vary min_speed=-100 rpm"
     else:
         opt = SPEED_OPT[t.command]
-        t.extra += [opt, "-3000 rpm" if opt in ("--speed", "--at") else "-1 rpm"]
+        t.extra += [opt, "-3000 rpm" if opt in ("--speed", "--orbit-speeds") else "-1 rpm"]
         t.variant += f" {opt}={t.extra[-1]}"
     t.expect = frozenset({2})
 
@@ -526,31 +526,31 @@ def gen_encoding(rng, t):
 
 
 OPTION_ERRORS = {
-    "modes": [["--speed", "abc"], ["--speed", ""], ["--speed", "3000"], ["--count", "0"],
-              ["--shape", "0"], ["--shape", "99", "--plot", "{W}/s.png"], ["--speed", "1e999 rpm"]],
-    "sweep": [["--points", "1"], ["--points", str(10 ** 9)], ["--jobs", "-1"], ["--to", "abc"],
-              ["--to", "3000"], ["--points", "abc"]],
+    "modes": [["--speed", "abc"], ["--speed", ""], ["--speed", "3000"], ["--mode-count", "0"],
+              ["--plot-mode", "0"], ["--plot-mode", "99", "--plot", "{W}/s.png"], ["--speed", "1e999 rpm"]],
+    "sweep": [["--speed-count", "1"], ["--speed-count", str(10 ** 9)], ["--jobs", "-1"], ["--speed-to", "abc"],
+              ["--speed-to", "3000"], ["--speed-count", "abc"]],
     "criticals": [["--orders", "0"], ["--orders", "1e308"], ["--orders", "abc"], ["--orders", "1,,2"],
-                  ["--orders", "-1"], ["--orders", "nan"], ["--rule", "bogus"], ["--below", "-5"],
-                  ["--above", "nan"], ["--stability", "bogus"], ["--min-log-dec", "-1"],
-                  ["--min-log-dec", "nan"], ["--points", "1"], ["--points", str(10 ** 9)],
-                  ["--jobs", "-1"], ["--stability", "none", "--min-log-dec", "0.2"]],
-    "response": [["--case", "nope"], ["--at", "3000"], ["--at", "abc rpm"], ["--at", ""],
-                 ["--at", "3000 rpm,,"]],
-    "layout": [["--out"], ["NOOUT"]],
-    "stiffness-map": [["--points", "0"], ["--points", "401"], ["--modes", "0"], ["--modes", "99"],
-                      ["--whirl", "sideways"], ["--from", "abc"], ["--from", "-1e7 N/m"],
-                      ["--from", "1e9 N/m", "--to", "1e7 N/m"], ["--shapes", "garbage"],
-                      ["--shapes", "1e8 N/m:99"], ["--bearing", "nope", "--window"],
-                      ["--curves-to", "3000"], ["--from", "1e7 kg"]],
+                  ["--orders", "-1"], ["--orders", "nan"], ["--margin-rule", "bogus"], ["--margin-below", "-5"],
+                  ["--margin-above", "nan"], ["--stability-rule", "bogus"], ["--min-log-dec", "-1"],
+                  ["--min-log-dec", "nan"], ["--speed-count", "1"], ["--speed-count", str(10 ** 9)],
+                  ["--jobs", "-1"], ["--stability-rule", "none", "--min-log-dec", "0.2"]],
+    "response": [["--unbalance", "nope"], ["--orbit-speeds", "3000"], ["--orbit-speeds", "abc rpm"], ["--orbit-speeds", ""],
+                 ["--orbit-speeds", "3000 rpm,,"]],
+    "layout": [["--plot"], ["NOOUT"]],
+    "stiffness-map": [["--stiffness-count", "0"], ["--stiffness-count", "401"], ["--mode-count", "0"], ["--mode-count", "99"],
+                      ["--whirl", "sideways"], ["--stiffness-from", "abc"], ["--stiffness-from", "-1e7 N/m"],
+                      ["--stiffness-from", "1e9 N/m", "--stiffness-to", "1e7 N/m"], ["--shapes-at", "garbage"],
+                      ["--shapes-at", "1e8 N/m:99"], ["--bearing", "nope", "--window"],
+                      ["--curve-speed-to", "3000"], ["--stiffness-from", "1e7 kg"]],
     "compare": [["--vary", "x: nonsense"], ["--vary", "x: bearing.*.k *= -1"], ["--vary", ":"],
-                ["--points", "1"], ["--vary", "x: bearing.nope.k *= 2"],
+                ["--speed-count", "1"], ["--vary", "x: bearing.nope.k *= 2"],
                 ["--vary", "x: __import__('os')"], ["--vary", "x: section[99].length *= 2"]],
-    "window": [["--from", "2", "--to", "0.5"], ["--from", "0"], ["--to", "inf"], ["--to", "nan"],
-               ["--factors", "1"], ["--factors", "1000"], ["--bearing", "nope"],
-               ["--bearing", "99"], ["--from", "nan"]],
-    "levers": [["--step", "0"], ["--step", "1"], ["--near", "-1"], ["--near", "nan"],
-               ["--points", "1"], ["--step", "nan"]],
+    "window": [["--factor-from", "2", "--factor-to", "0.5"], ["--factor-from", "0"], ["--factor-to", "inf"], ["--factor-to", "nan"],
+               ["--factor-count", "1"], ["--factor-count", "1000"], ["--bearing", "nope"],
+               ["--bearing", "99"], ["--factor-from", "nan"]],
+    "levers": [["--relative-step", "0"], ["--relative-step", "1"], ["--near-fraction", "-1"], ["--near-fraction", "nan"],
+               ["--speed-count", "1"], ["--relative-step", "nan"]],
 }
 OPTION_ERRORS["check"] = OPTION_ERRORS["criticals"]
 COMMON_OPTION_ERRORS = [["--bogus"], ["--json"], ["NOCASE"]]
@@ -596,8 +596,8 @@ def gen_output(rng, t):
     else:
         path = WORK / rng.choice(["x.bmp", "x", "x.png.txt"]); t.expect = frozenset({2})
     t.extra += [opt, str(path)]
-    if opt == "--shapes-plot":
-        t.extra += ["--shapes", "1e8 N/m:1"]
+    if opt == "--plot-shapes":
+        t.extra += ["--shapes-at", "1e8 N/m:1"]
     if t.command == "compare":
         t.variants = default_variants(t)
 
@@ -729,7 +729,7 @@ def make_try(seed, index):
             t.files.setdefault("variants.toml", to_toml(t.variants).encode())
         t.case_name = "variants.toml"
     # the options a command cannot run without, unless the try sets (or drops) them itself
-    pre = {"modes": ["--speed", f"{t.rpm} rpm"], "layout": ["--out", str(WORK / "layout.png")]
+    pre = {"modes": ["--speed", f"{t.rpm} rpm"], "layout": ["--plot", str(WORK / "layout.png")]
            }.get(command, [])
     if (pre and pre[0] in t.extra) or "NOOUT" in t.extra:
         pre = []
@@ -1042,7 +1042,7 @@ def main(argv=None):
     ap = argparse.ArgumentParser(description=__doc__.split("\n\n")[0])
     ap.add_argument("--tries", type=int, default=300)
     ap.add_argument("--seed", type=int, default=1)
-    ap.add_argument("--out", default="/tmp/fuzz/report.json")
+    ap.add_argument("--plot", default="/tmp/fuzz/report.json")
     ap.add_argument("--scratch", default="/tmp/fuzz", help="work folder, journal and examples")
     ap.add_argument("--timeout", type=float, default=10.0, help="seconds per try")
     ap.add_argument("--mem-gb", type=float, default=4.0, help="address-space limit of the worker")

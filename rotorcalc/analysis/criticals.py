@@ -42,7 +42,8 @@ class CriticalSpeed:
     order : float
         Excitation order (1.0 for synchronous).
     branch : int
-        Index of the tracked branch (0-based) in the sweep.
+        Number of the tracked branch in the sweep, from 1 (column ``branch - 1`` of
+        the sweep's arrays).
     eigenvalue : complex
         At the critical speed; its imaginary part equals ``order * speed``.
     shape : complex ndarray (n_nodes, 2)
@@ -78,7 +79,7 @@ class CriticalSpeed:
             "speed_rpm": float(to_rpm(self.speed)),
             "speed_rad_s": float(self.speed),
             "order": float(self.order),
-            "branch": int(self.branch) + 1,
+            "branch": int(self.branch),
             "frequency_hz": float(to_hz(self.eigenvalue.imag)),
             "whirl": self.whirl,
             "forward_fraction": self.forward_fraction,
@@ -169,4 +170,4 @@ def _refine(system, bracket, n_solve, solver):
         g, lo, hi, xtol=SPEED_RTOL * max(hi, 1.0), rtol=SPEED_RTOL)
     value, shape = seen[root] if root in seen else branch_at(system, root, ref_value, ref_shape,
                                                               n_solve, solver)
-    return CriticalSpeed(float(root), order, j, complex(value), shape)
+    return CriticalSpeed(float(root), order, j + 1, complex(value), shape)

@@ -41,6 +41,7 @@ from scipy.optimize import brentq
 from ..assembly import SystemMatrices, assemble
 from ..fe import bearing as fe_bearing
 from ..units import to_rpm
+from ..vocabulary import old_keywords
 from .modes import forward_fraction
 from .sweep import default_speeds
 
@@ -93,12 +94,12 @@ class Crossing:
 
     bearing: str
     direction: str
-    mode: int
+    mode: int          # the map curve, from 1 (lowest critical speed at each stiffness)
     speed: float
     stiffness: float
 
     def to_dict(self):
-        return {"bearing": self.bearing, "direction": self.direction, "mode": self.mode + 1,
+        return {"bearing": self.bearing, "direction": self.direction, "mode": self.mode,
                 "speed_rpm": float(to_rpm(self.speed)), "stiffness_n_m": self.stiffness}
 
 
@@ -153,7 +154,7 @@ class _MapProblem:
         at_speed = system.rotor.operating.max_speed
         for link in system.links:
             d = link.dofs
-            if link.bearing.kind == "seal":
+            if link.bearing.role == "seal":
                 # a seal keeps its own direct stiffness (at the maximum continuous speed)
                 k2 = np.diag(np.diag(link.bearing.matrices(at_speed)[0]))
                 block = fe_bearing.grounded(k2) if len(d) == 2 else fe_bearing.linked(k2)
@@ -264,7 +265,7 @@ def bearing_curves(rotor, speeds):
     """Direct stiffness (kxx and kyy) of every bearing over ``speeds`` (end values held)."""
     out = []
     for i, b in enumerate(rotor.bearings):
-        if b.kind == "seal":
+        if b.role == "seal":
             continue  # a seal is not a support: its curve would not mean a critical
         for j, name in enumerate(("kxx", "kyy")):
             k = np.array([b.matrices(w)[0][j, j] for w in speeds])
@@ -272,7 +273,8 @@ def bearing_curves(rotor, speeds):
     return tuple(out)
 
 
-def critical_speed_map(rotor_or_system, stiffness=None, n_modes=4, whirl="forward",
+@old_keywords(n_modes="mode_count")
+def critical_speed_map(rotor_or_system, stiffness=None, mode_count=4, whirl="forward",
                        speeds=None):
     """The critical-speed map and the crossings with the bearings' own curves.
 
@@ -282,7 +284,7 @@ def critical_speed_map(rotor_or_system, stiffness=None, n_modes=4, whirl="forwar
     stiffness : array_like, optional
         Support stiffness values, N/m; by default 41 values log-spaced over
         four decades around the bearings' mean direct stiffness.
-    n_modes : int
+    mode_count : int
         Number of critical-speed curves.
     whirl : {"forward", "backward"}
     speeds : array_like, optional
@@ -297,10 +299,10 @@ def critical_speed_map(rotor_or_system, stiffness=None, n_modes=4, whirl="forwar
         speeds = np.linspace(sweep_speeds[0], sweep_speeds[-1], CURVE_POINTS)
     curves = bearing_curves(rotor, np.asarray(speeds, dtype=float))
     if stiffness is None:
-        mean = np.exp(np.mean([np.log(np.maximum(c.stiffness, 1.0)) for c in curves])) \
-            if curves else 1e8
-        stiffness = np.logspace(np.log10(mean) - 2, np.log10(mean) + 2, 41)
+        from .stiffness_study import default_stiffness
+        stiffness = default_stiffness(rotor, speeds=speeds)
     stiffness = np.asarray(stiffness, dtype=float)
+    n_modes = mode_count
     problem = _MapProblem(system)
     solved = [problem.solve(k, n_modes, whirl) for k in stiffness]
     crit = np.array([s[0] for s in solved])
@@ -317,14 +319,15 @@ def critical_speed_map(rotor_or_system, stiffness=None, n_modes=4, whirl="forwar
                     return problem.solve(k, j + 1, whirl)[0][j] - w
                 w = brentq(g, curve.speeds[a], curve.speeds[a + 1], rtol=1e-10)
                 k = float(np.interp(w, curve.speeds, curve.stiffness))
-                crossings.append(Crossing(curve.bearing, curve.direction, j, float(w), k))
+                crossings.append(Crossing(curve.bearing, curve.direction, j + 1, float(w), k))
     crossings.sort(key=lambda c: (c.speed, c.bearing, c.direction))
     return CriticalSpeedMap(stiffness, crit, shapes, system.mesh.node_z, system.mesh.station_nodes,
                             whirl, curves, tuple(crossings))
 
 
 def map_mode_shape(rotor_or_system, stiffness, mode, whirl="forward"):
-    """Critical speed (rad/s) and shape (n_nodes, 2) of one map curve at one stiffness."""
+    """Critical speed (rad/s) and shape (n_nodes, 2) of one map curve at one stiffness;
+    ``mode`` is the curve's position (0-based: curve ``mode + 1``)."""
     system = rotor_or_system if isinstance(rotor_or_system, SystemMatrices) \
         else assemble(rotor_or_system)
     speeds, shapes = _MapProblem(system).solve(float(stiffness), mode + 1, whirl)

@@ -39,6 +39,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..vocabulary import Side, Verdict
 from ..model import MarginRule, OperatingRange
 from ..units import to_rpm
 from .criticals import CriticalSpeed
@@ -69,15 +70,16 @@ def required_margin(rule: MarginRule, af, side):
     float
         Per cent; 0 when no margin is required.
     """
-    if rule.kind == "none":
+    if rule.name == "none":
         return 0.0
-    if rule.kind == "fixed":
-        return {"below": rule.below, "above": rule.above}.get(side, max(rule.below, rule.above))
+    if rule.name == "fixed":
+        return {"below": rule.margin_below, "above": rule.margin_above}.get(
+            side, max(rule.margin_below, rule.margin_above))
     if af < rule.af_threshold:
         return 0.0
     base = 17.0 * (1.0 - 1.0 / (af - 1.5)) if math.isfinite(af) else 17.0
-    below = min(base, rule.cap_below)
-    above = min(10.0 + base, rule.cap_above)
+    below = min(base, rule.margin_cap_below)
+    above = min(10.0 + base, rule.margin_cap_above)
     return {"below": below, "above": above}.get(side, max(below, above))
 
 
@@ -89,12 +91,12 @@ def side_and_margin(speed, operating):
     """Where ``speed`` lies against the operating range, and its margin, per cent."""
     lo, hi = operating.min_speed, operating.max_speed
     if speed < lo:
-        return "below", 100.0 * (lo - speed) / lo
+        return Side.BELOW, 100.0 * (lo - speed) / lo
     if speed > hi:
-        return "above", 100.0 * (speed - hi) / hi
+        return Side.ABOVE, 100.0 * (speed - hi) / hi
     to_lo = 100.0 * (speed - lo) / lo if lo > 0 else math.inf
     to_hi = 100.0 * (hi - speed) / hi
-    return "inside", -min(to_lo, to_hi) + 0.0   # no -0.0 on the range's end
+    return Side.INSIDE, -min(to_lo, to_hi) + 0.0   # no -0.0 on the range's end
 
 
 @dataclass(frozen=True)
@@ -110,7 +112,7 @@ class Judgement:
         s = rotor.settings
         return cls(s.margin_rule, rotor.judged_share, s.overdamped_ratio)
 
-    def kind(self, crit, excited=False):
+    def category(self, crit, excited=False):
         """What a critical is before its margin is judged: unstable, overdamped,
         not judged, or judged.  ``excited``: an unbalance-response peak belongs to
         it, which proves it is excited whatever its whirl: it is judged."""
@@ -124,14 +126,14 @@ class Judgement:
         return "judged"
 
     def verdict(self, crit, af, margin, need, excited=False):
-        kind = self.kind(crit, excited)
+        kind = self.category(crit, excited)
         if kind != "judged":
-            return "fail" if kind == "unstable" else kind
-        if self.rule.kind == "none":
-            return "not judged"   # margins listed, not judged
-        if self.rule.kind == "af-curve" and af < self.rule.af_threshold:
+            return Verdict.FAIL if kind == "unstable" else Verdict(kind)
+        if self.rule.name == "none":
+            return Verdict.NOT_JUDGED   # margins listed, not judged
+        if self.rule.name == "af-curve" and af < self.rule.af_threshold:
             return "critically damped"
-        return "pass" if margin >= need else "fail"
+        return Verdict.PASS if margin >= need else Verdict.FAIL
 
 
 @dataclass(frozen=True)
@@ -220,15 +222,31 @@ class MarginTable:
     def has_response(self):
         return any(row.verdict_response is not None for row in self.rows)
 
+    def caption(self):
+        """The rule, its label and what is judged, in the words every presentation uses."""
+        text = f"Margin rule: {self.rule.describe()} ({self.rule.label})."
+        if self.rule.name == "af-curve":
+            text += " AF estimated from log dec as pi/delta."
+        j = self.judgement or Judgement(self.rule)
+        judged = ("every whirl" if j.judge_share == 0
+                  else f"forward share above {j.judge_share:g}")
+        text += (f" Judged: {judged}; damping ratio {j.overdamped_ratio:g} or more is "
+                 "overdamped, not a critical.")
+        if self.has_response:
+            text += (" 'resp.' columns: the response peak matched to each critical by mode "
+                     "shape, its AF (half-power bandwidth) and the margin from the peak.")
+        return text
+
     def to_dict(self):
         j = self.judgement or Judgement(self.rule)
         return {
             "operating_range_rpm": [float(to_rpm(self.operating.min_speed)),
                                     float(to_rpm(self.operating.max_speed))],
-            "rule": {"kind": self.rule.kind, "below_percent": self.rule.below,
-                     "above_percent": self.rule.above, "af_threshold": self.rule.af_threshold,
-                     "cap_below_percent": _finite_or_none(self.rule.cap_below),
-                     "cap_above_percent": _finite_or_none(self.rule.cap_above),
+            "rule": {"name": self.rule.name, "margin_below_percent": self.rule.margin_below,
+                     "margin_above_percent": self.rule.margin_above,
+                     "af_threshold": self.rule.af_threshold,
+                     "margin_cap_below_percent": _finite_or_none(self.rule.margin_cap_below),
+                     "margin_cap_above_percent": _finite_or_none(self.rule.margin_cap_above),
                      "text": self.rule.describe(), "label": self.rule.label},
             "judged_forward_share": j.judge_share,
             "overdamped_damping_ratio": j.overdamped_ratio,
@@ -293,7 +311,7 @@ def assign_peaks(criticals, peaks, judgement=None):
         shares = contributions(criticals, peak)
         best = max(range(len(criticals)), key=lambda i: shares[i], default=None)
         if best is None or shares[best] < MATCH_SHARE \
-                or judgement.kind(criticals[best]) == "overdamped":
+                or judgement.category(criticals[best]) == "overdamped":
             continue
         mine[best].append(peak)
     return [tuple(m) for m in mine]
@@ -352,7 +370,7 @@ def separation_margins(criticals, operating: OperatingRange, rule: MarginRule,
     assigned = assign_peaks(criticals, peaks, judgement) if peaks is not None else None
     for index, crit in enumerate(criticals):
         side, margin = side_and_margin(crit.speed, operating)
-        kind = judgement.kind(crit)
+        kind = judgement.category(crit)
         af = None if kind == "overdamped" else af_from_log_dec(crit.log_dec)
         need = 0.0 if af is None else required_margin(rule, af, side)
         verdict = judgement.verdict(crit, af, margin, need)
@@ -362,7 +380,7 @@ def separation_margins(criticals, operating: OperatingRange, rule: MarginRule,
             reached = response_span is None or \
                 response_span[0] <= crit.speed <= response_span[1]
             if kind == "unstable":
-                extra = dict(verdict_response="fail", peaks=mine)
+                extra = dict(verdict_response=Verdict.FAIL, peaks=mine)
             elif mine:
                 # a peak proves the mode is excited: judged by the response even when its
                 # forward share is low (elliptical modes on anisotropic supports)
@@ -371,7 +389,8 @@ def separation_margins(criticals, operating: OperatingRange, rule: MarginRule,
             elif kind == "not judged":
                 extra = dict(verdict_response="not judged")
             else:
-                extra = dict(verdict_response="no peak" if reached else "not reached")
+                extra = dict(verdict_response=Verdict.NO_PEAK if reached
+                             else Verdict.NOT_REACHED)
         rows.append(MarginRow(crit, side, margin, af, need, verdict, **extra))
     notes = []
     if any(r.verdict_response == "no peak" for r in rows):

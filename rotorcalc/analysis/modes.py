@@ -6,6 +6,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..vocabulary import Whirl
 from ..assembly import SystemMatrices, assemble
 from ..errors import SolverError
 from ..notices import Notice, record
@@ -69,10 +70,10 @@ def forward_fraction(shapes):
 def whirl_label(fraction):
     """'forward', 'backward' or 'mixed' from a forward share (:data:`WHIRL_PURITY`)."""
     if fraction >= WHIRL_PURITY:
-        return "forward"
+        return Whirl.FORWARD
     if fraction <= 1.0 - WHIRL_PURITY:
-        return "backward"
-    return "mixed"
+        return Whirl.BACKWARD
+    return Whirl.MIXED
 
 
 def log_decrement(eigenvalues):
@@ -242,10 +243,12 @@ class Modes:
         """(n, n_stations, 2) complex translations at the stations."""
         return self.shapes[:, self.station_nodes, :]
 
-    def plot(self, index=0, *, ax=None):
-        """The shape of mode ``index`` (0-based) (:func:`rotorcalc.plotting.mode_shape`)."""
+    def plot(self, mode=1, *, ax=None, rotor=None):
+        """The shape of mode number ``mode`` (from 1, lowest frequency first;
+        :func:`rotorcalc.plotting.mode_shape`), over the rotor's outline when ``rotor`` is
+        given."""
         from ..plotting import mode_shape
-        return mode_shape(self, index, ax=ax)
+        return mode_shape(self, mode - 1, ax=ax, rotor=rotor)
 
     def to_dict(self):
         """Plain-Python summary for JSON (SI units, speeds also in rpm)."""
@@ -286,7 +289,7 @@ def modes_at(rotor_or_system, speed, n_modes=None, solver=None, near=None):
     speed : float
         rad/s.
     n_modes : int, optional
-        Defaults to the rotor's ``settings.modes``.
+        Defaults to the rotor's ``settings.mode_count``.
     solver : callable, optional
         From :func:`rotorcalc.solvers.make_solver`; ``"auto"`` (by model size) by default.
     near : complex, optional
@@ -298,7 +301,7 @@ def modes_at(rotor_or_system, speed, n_modes=None, solver=None, near=None):
     """
     system = rotor_or_system if isinstance(rotor_or_system, SystemMatrices) \
         else assemble(rotor_or_system)
-    n = system.rotor.settings.modes if n_modes is None else n_modes
+    n = system.rotor.settings.mode_count if n_modes is None else n_modes
     solve = solver if solver is not None else make_solver()
     speed = float(speed)
     c_mat, k_mat = system.damping(speed), system.stiffness(speed)

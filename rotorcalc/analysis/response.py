@@ -27,6 +27,7 @@ import scipy.sparse.linalg as spla
 from scipy.optimize import brentq, minimize_scalar
 from scipy.sparse.csgraph import reverse_cuthill_mckee
 
+from ..vocabulary import Outcome
 from .. import standards
 from ..assembly import SystemMatrices, assemble
 from ..errors import InputError, SolverError
@@ -128,7 +129,7 @@ def default_probes(rotor):
         return tuple(rotor.probes)
     out = []
     for i, b in enumerate(rotor.bearings):
-        if b.kind == "seal":
+        if b.role == "seal":
             continue
         label = b.name or f"B{i + 1}"
         out.append(Probe(b.station, 0.0, f"{label} x"))
@@ -201,7 +202,7 @@ class LimitCheck:
     speed: float
     value: float
     limit: float
-    kind: str  # "vibration" (pk-pk at a probe) or "clearance" (orbit radius at a station)
+    check: str  # "vibration" (pk-pk at a probe) or "clearance" (orbit radius at a station)
     valid: bool = True
 
     @property
@@ -215,11 +216,11 @@ class LimitCheck:
     @property
     def verdict(self):
         if not self.valid:
-            return "no steady state"
-        return "pass" if self.passed else "fail"
+            return Outcome.NO_STEADY_STATE
+        return Outcome.PASS if self.passed else Outcome.FAIL
 
     def to_dict(self):
-        return {"case": self.case, "where": self.where, "kind": self.kind,
+        return {"case": self.case, "where": self.where, "check": self.check,
                 "speed_rpm": float(to_rpm(self.speed)), "value_um": self.value * 1e6,
                 "limit_um": self.limit * 1e6, "ratio": self.ratio,
                 "steady_state": self.valid, "verdict": self.verdict, "passed": self.passed}
@@ -593,6 +594,19 @@ def vibration_limit(rotor):
     given = rotor.response.vibration_limit
     return given if given is not None else standards.allowable_vibration(
         rotor.operating.max_speed)
+
+
+def limits_caption(rotor):
+    """The vibration and clearance rules in words, from the same formulas the checks use."""
+    limit = vibration_limit(rotor) * 1e6
+    if rotor.response.vibration_limit is not None:
+        vib = f"Vibration limit {limit:.1f} um pk-pk (set in the rotor file)"
+    else:
+        vib = (f"Vibration limit {standards.VIBRATION_RULE_TEXT}: {limit:.1f} um "
+               "(common practice, from memory)")
+    return (f"{vib}; clearance limit {rotor.response.clearance_share:.0%} of the radial "
+            "clearance from the lowest analysed speed up to trip (common practice, from "
+            "memory).")
 
 
 def _flag_unstable(speeds, ranges):

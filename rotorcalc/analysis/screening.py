@@ -6,6 +6,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+from ..vocabulary import Outcome
 from ..assembly import assemble
 from ..model import Rotor
 from ..units import to_rpm
@@ -20,14 +21,14 @@ from .sweep import Sweep, sweep
 class CoverageGap:
     """Something the screening must judge but the analysis does not reach.
 
-    ``kind``: "sweep-top", "sweep-bottom", "bearing-table", "response" or "solver".
+    ``gap``: "sweep-top", "sweep-bottom", "bearing-table", "response" or "solver".
     """
 
-    kind: str
+    gap: str
     text: str
 
     def to_dict(self):
-        return {"kind": self.kind, "text": self.text}
+        return {"gap": self.gap, "text": self.text}
 
 
 @dataclass(frozen=True)
@@ -63,7 +64,7 @@ class Screening:
 
     @property
     def verdict(self):
-        return "fail" if self.failed else ("incomplete" if self.gaps else "pass")
+        return Outcome.FAIL if self.failed else (Outcome.INCOMPLETE if self.gaps else Outcome.PASS)
 
     def plot(self, *, ax=None):
         """The whirl-speed map of this screening, criticals marked by verdict
@@ -163,7 +164,7 @@ def coverage_gaps(rotor: Rotor, result: Sweep, table: MarginTable, response=None
         for (lo, hi), what in judged:
             if len(b.speeds) >= 2 and (b.outside_table(lo) or b.outside_table(hi)):
                 gaps.append(CoverageGap(
-                    "bearing-table", f"the coefficient table of {b.kind} {b.name or i} "
+                    "bearing-table", f"the coefficient table of {b.role} {b.name or i} "
                     f"({to_rpm(b.speeds[0]):.0f}-{to_rpm(b.speeds[-1]):.0f} rpm) does not "
                     f"cover {what} was judged on held end values"))
     bottom, top = required_span(rotor)

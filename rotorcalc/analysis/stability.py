@@ -19,6 +19,7 @@ from dataclasses import dataclass
 import numpy as np
 from scipy.optimize import brentq
 
+from ..vocabulary import StabilityVerdict
 from ..model import OperatingRange, StabilityRule
 from ..units import to_hz, to_rpm
 from .criticals import SPEED_RTOL, branch_at
@@ -28,13 +29,13 @@ from .sweep import TRACKING_RESERVE, Sweep
 
 
 @dataclass(frozen=True)
-class ModeStability:
+class BranchStability:
     """One branch of the sweep, judged for stability.
 
     Attributes
     ----------
     branch : int
-        0-based index of the branch in the sweep.
+        Number of the branch in the sweep, from 1.
     whirl : str
         Dominant whirl of the branch.
     min_log_dec_operating : float or None
@@ -74,7 +75,7 @@ class ModeStability:
 
     def to_dict(self):
         return {
-            "branch": self.branch + 1,
+            "branch": self.branch,
             "whirl": self.whirl,
             "min_log_dec_operating": self.min_log_dec_operating,
             "min_log_dec_to_trip": self.min_log_dec_to_trip,
@@ -93,29 +94,32 @@ class Stability:
 
     rule: StabilityRule
     operating: OperatingRange
-    modes: tuple
+    branches: tuple
     unstable_ranges: tuple      # ((lo, hi) rad/s) where some mode is unstable
     divergent_speeds: tuple     # speeds with a growing non-oscillatory motion
     judged_range: tuple         # (lo, hi) rad/s
 
     @property
     def passed(self):
-        if self.rule.kind == "none":
+        if self.rule.name == "none":
             return True
         lo, hi = self.judged_range
         diverges = any(lo <= w <= hi for w in self.divergent_speeds)
-        return all(m.passed for m in self.modes) and not diverges
+        return all(m.passed for m in self.branches) and not diverges
 
     @property
     def failing(self):
-        return tuple(m for m in self.modes if not m.passed)
+        return tuple(m for m in self.branches if not m.passed)
+
+    def caption(self):
+        return f"Stability rule: {self.rule.describe()} ({self.rule.label})."
 
     def to_dict(self):
         return {
-            "rule": {"kind": self.rule.kind, "required_log_dec": self.rule.required,
+            "rule": {"name": self.rule.name, "required_log_dec": self.rule.required,
                      "text": self.rule.describe(), "label": self.rule.label},
             "judged_range_rpm": [float(to_rpm(v)) for v in self.judged_range],
-            "modes": [m.to_dict() for m in self.modes],
+            "branches": [m.to_dict() for m in self.branches],
             "unstable_ranges_rpm": [[float(to_rpm(lo)), float(to_rpm(hi))]
                                     for lo, hi in self.unstable_ranges],
             "divergent_speeds_rpm": [float(to_rpm(w)) for w in self.divergent_speeds],
@@ -151,7 +155,7 @@ def stability(system, result: Sweep, rule: StabilityRule | None = None, solver=N
         The system the sweep was run on (fresh solves refine the onsets).
     result : Sweep
     rule : StabilityRule, optional
-        ``system.rotor.settings.stability`` by default.
+        ``system.rotor.settings.stability_rule`` by default.
     solver : callable, optional
 
     Returns
@@ -159,7 +163,7 @@ def stability(system, result: Sweep, rule: StabilityRule | None = None, solver=N
     Stability
     """
     rotor = system.rotor
-    rule = rotor.settings.stability if rule is None else rule
+    rule = rotor.settings.stability_rule if rule is None else rule
     op = rotor.operating
     speeds = result.speeds
     lo, hi = judged_range(op)
@@ -170,7 +174,7 @@ def stability(system, result: Sweep, rule: StabilityRule | None = None, solver=N
     present = result.present
     n_solve = result.eigenvalues.shape[1] + TRACKING_RESERVE
     whirls = result.branch_whirl
-    modes, ranges = [], []
+    branches, ranges = [], []
     for j in range(result.eigenvalues.shape[1]):
         ld, pr = log_dec[:, j], present[:, j]
         op_min, _ = _lowest(ld, pr, in_operating)
@@ -179,20 +183,20 @@ def stability(system, result: Sweep, rule: StabilityRule | None = None, solver=N
         crossings = _onsets(system, result, j, n_solve, solver)
         onsets = [(w, change) for _, w, change in crossings]
         ranges.extend(_unstable_spans(speeds, ld, pr, {k: w for k, w, _ in crossings}))
-        if rule.kind == "none":
-            verdict = "not judged"
+        if rule.name == "none":
+            verdict = StabilityVerdict.NOT_JUDGED
         elif worst is None:
-            verdict = "absent"
+            verdict = StabilityVerdict.ABSENT
         elif rule.is_marginal(worst):
-            verdict = "marginal"
+            verdict = StabilityVerdict.MARGINAL
         elif worst < 0:
-            verdict = "unstable"
+            verdict = StabilityVerdict.UNSTABLE
         elif not rule.passes(worst):
-            verdict = "below minimum"
+            verdict = StabilityVerdict.BELOW_MINIMUM
         else:
-            verdict = "stable"
-        modes.append(ModeStability(
-            j, whirls[j], op_min, trip_min, worst,
+            verdict = StabilityVerdict.STABLE
+        branches.append(BranchStability(
+            j + 1, whirls[j], op_min, trip_min, worst,
             None if k is None else float(speeds[k]),
             None if k is None else float(result.frequency[k, j]), tuple(onsets), verdict))
     divergent = ()
@@ -201,7 +205,7 @@ def stability(system, result: Sweep, rule: StabilityRule | None = None, solver=N
         scale = np.where(np.isfinite(scale), scale, 1.0)
         divergent = tuple(float(w) for w, g, s in zip(speeds, result.growth, scale)
                           if g > GROWTH_RTOL * s)
-    return Stability(rule, op, tuple(modes), _merge(ranges), divergent, (lo, hi))
+    return Stability(rule, op, tuple(branches), _merge(ranges), divergent, (lo, hi))
 
 
 def _onsets(system, result, j, n_solve, solver):
@@ -255,15 +259,15 @@ def _merge(spans):
     return tuple(out)
 
 
-def worst_mode(result: Stability):
+def worst_branch(result: Stability):
     """The judged mode with the lowest log decrement (None when none is judged)."""
-    judged = [m for m in result.modes if m.judged_log_dec is not None]
+    judged = [m for m in result.branches if m.judged_log_dec is not None]
     if not judged:
         return None
     return min(judged, key=lambda m: m.judged_log_dec)
 
 
-def describe_mode(m: ModeStability):
+def describe_branch(m: BranchStability):
     """One line for a mode that fails, for the terminal and the report."""
     where = "" if m.worst_speed is None else f" at {to_rpm(m.worst_speed):.0f} rpm"
     onset = ""
@@ -271,5 +275,5 @@ def describe_mode(m: ModeStability):
     if losses:
         onset = f"; onset of instability at {to_rpm(losses[0]):.0f} rpm"
     ld = "-" if m.judged_log_dec is None else f"{m.judged_log_dec:.3f}"
-    return f"branch {m.branch + 1} ({m.whirl}): log dec {ld}{where} is {m.verdict}{onset}"
+    return f"branch {m.branch} ({m.whirl}): log dec {ld}{where} is {m.verdict}{onset}"
 

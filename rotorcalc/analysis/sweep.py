@@ -169,7 +169,7 @@ def sweep(rotor_or_system, speeds=None, n_modes=None, solver=None, progress=None
         rad/s; by default :func:`default_speeds`.
     n_modes : int, optional
         Every branch that is among the ``n_modes`` lowest modes at some speed is
-        reported; defaults to ``settings.modes``.
+        reported; defaults to ``settings.mode_count``.
     solver : callable, optional
         From :func:`rotorcalc.solvers.make_solver` (``"auto"`` by default); with
         ``workers > 1`` it must be picklable (the package's solvers are).
@@ -188,7 +188,7 @@ def sweep(rotor_or_system, speeds=None, n_modes=None, solver=None, progress=None
     system = rotor_or_system if isinstance(rotor_or_system, SystemMatrices) \
         else assemble(rotor_or_system)
     speeds = default_speeds(system.rotor) if speeds is None else np.asarray(speeds, dtype=float)
-    n = system.rotor.settings.modes if n_modes is None else n_modes
+    n = system.rotor.settings.mode_count if n_modes is None else n_modes
     solved = solve_speeds(system, speeds, n + TRACKING_RESERVE, solver, progress, workers)
     values, shapes = branches_from(solved, n)
     warnings = list(system.table_warnings(speeds))

@@ -19,7 +19,7 @@ from ..units import to_rpm
 from ..variants import Variant, apply_variant, parse_change
 from .criticals import CriticalSpeed, branch_at
 from .sweep import TRACKING_RESERVE
-from .margins import Judgement, af_from_log_dec
+from .margins import CAUTION, Judgement, af_from_log_dec
 from .screening import Screening, screen
 
 # --- variants side by side -------------------------------------------------------------
@@ -172,21 +172,53 @@ class StiffnessWindow:
     high: WindowEnd
     base_passes: bool
 
+    def scan_rows(self):
+        """(factor, excess) rows of the scan; a factor that is 1 to rounding is listed once."""
+        rows = []
+        for f, e in zip(self.factors, self.excess):
+            if rows and math.isclose(f, rows[-1][0], rel_tol=1e-9):
+                continue
+            rows.append((float(f), float(e)))
+        return rows
+
     def to_dict(self):
         return {"target": self.target, "base_passes": self.base_passes,
                 "scan": [{"factor": float(f), "excess_percent": None if not np.isfinite(e)
                           else float(e)} for f, e in zip(self.factors, self.excess)],
-                "low": self.low.to_dict(), "high": self.high.to_dict()}
+                "low": self.low.to_dict(), "high": self.high.to_dict(), "caution": CAUTION}
 
 
 #: What a stiffness window scales when no target is named (the help text reads it).
 WINDOW_DEFAULT = "every bearing together (seals kept as they are)"
 
+#: What the window's scan table shows.
+WINDOW_CAPTION = (
+    "Margin excess: the smallest (margin - required margin) over the critical speeds that "
+    "need a margin; inf when none needs one (all critically damped, not judged, or beyond "
+    "the sweep). Every stiffness coefficient (kxx, kxy, kyx, kyy) of the target is scaled "
+    "by the factor; dampings are kept. AF estimated from the log decrement.")
+
+#: Scan factors per decade of a window over a given range: a critical must not jump over
+#: the margin band between two factors.
+FACTORS_PER_DECADE = 4
+
+
+def window_factors(low, high, count):
+    """The scan's factors: ``count`` log-spaced from ``low`` to ``high``, and 1."""
+    grid = np.geomspace(low, high, count)
+    return np.sort(np.concatenate([grid[~np.isclose(grid, 1.0, rtol=1e-9)], [1.0]]))
+
+
+def factor_count(low, high):
+    """Scan factors for a window from ``low`` to ``high`` (:data:`FACTORS_PER_DECADE`, at
+    least 9)."""
+    return max(9, int(round(FACTORS_PER_DECADE * math.log10(high / low))) + 1)
+
 
 def window_targets(rotor, target=None):
     """Change paths of the bearings a window scales: :data:`WINDOW_DEFAULT` by default."""
     if target is None:
-        return [f"bearing[{i}]" for i, b in enumerate(rotor.bearings) if b.kind == "bearing"]
+        return [f"bearing[{i}]" for i, b in enumerate(rotor.bearings) if b.role == "bearing"]
     return [target]
 
 
@@ -212,8 +244,7 @@ def stiffness_window(rotor, target=None, low=0.1, high=10.0, points=9, rtol=2e-3
     """
     targets = window_targets(rotor, target)
     rotor = dataclasses.replace(rotor, unbalance=())
-    grid = np.geomspace(low, high, points)
-    factors = np.sort(np.concatenate([grid[~np.isclose(grid, 1.0, rtol=1e-9)], [1.0]]))
+    factors = window_factors(low, high, points)
     total = [0]
 
     def evaluate(f):
@@ -279,7 +310,7 @@ def refine_near(rotor, critical: CriticalSpeed, window=0.1):
     """The critical speed of ``rotor`` on the branch of ``critical`` (from a nearby rotor)."""
     system = assemble(rotor)
     ref_value, ref_shape = critical.eigenvalue, critical.shape
-    n_solve = rotor.settings.modes + TRACKING_RESERVE  # as the critical-speed search solves
+    n_solve = rotor.settings.mode_count + TRACKING_RESERVE  # as the critical-speed search solves
 
     def g(w):
         value, _ = branch_at(system, w, ref_value, ref_shape, n_solve, None)
@@ -329,10 +360,10 @@ def sensitivities(rotor, criticals, step=0.01, near=None, every=False):
     threshold = rotor.settings.margin_rule.af_threshold
     judgement = Judgement.of(rotor)
     if every:
-        judged = [c for c in criticals if judgement.kind(c) != "overdamped"]
+        judged = [c for c in criticals if judgement.category(c) != "overdamped"]
     else:
         judged = [c for c in criticals
-                  if judgement.kind(c) == "judged" and af_from_log_dec(c.log_dec) >= threshold]
+                  if judgement.category(c) == "judged" and af_from_log_dec(c.log_dec) >= threshold]
     chosen = judged if near is None else [
         c for c in judged if op.min_speed * (1 - near) <= c.speed <= op.max_speed * (1 + near)]
     out = []
@@ -348,3 +379,42 @@ def sensitivities(rotor, criticals, step=0.01, near=None, every=False):
                               else (up - down) / (2 * h * crit.speed))
             out.append(Sensitivity(crit, label, values[0], values[1]))
     return tuple(out)
+
+
+@dataclass(frozen=True)
+class Levers:
+    """Sensitivities ranked for reading: criticals by speed, the biggest lever of each first;
+    ``rows`` are (rank, :class:`Sensitivity`)."""
+
+    rows: tuple
+    step: float
+    near: float | None
+    every: bool
+
+    @classmethod
+    def ranked(cls, sensitivities, step, near=None, every=False):
+        groups = {}
+        for s in sensitivities:
+            groups.setdefault(id(s.critical), []).append(s)
+        rows = []
+        for group in sorted(groups.values(), key=lambda g: g[0].critical.speed):
+            group.sort(key=lambda s: -abs(s.value) if s.value is not None else math.inf)
+            rows += list(enumerate(group, start=1))
+        return cls(tuple(rows), step, near, every)
+
+    def caption(self):
+        return (f"% per %: per cent change of the critical per per cent change of the lever, "
+                f"central difference with a {self.step:.1%} step; 'Half step' repeats it with "
+                "half the step (agreement verifies it). 'rpm for +10 %' is the linear "
+                "estimate.")
+
+    def to_dict(self):
+        return {"criticals_considered": "all" if self.every else "those that need a margin",
+                "near": self.near, "step": self.step,
+                "sensitivities": [dict(s.to_dict(), rank=rank) for rank, s in self.rows],
+                "caution": CAUTION}
+
+
+def levers(rotor, criticals, step=0.01, near=None, every=False):
+    """:func:`sensitivities`, ranked (:class:`Levers`)."""
+    return Levers.ranked(sensitivities(rotor, criticals, step, near, every), step, near, every)

@@ -16,13 +16,33 @@ import matplotlib  # noqa: E402
 matplotlib.use("Agg")  # no screen needed; pictures go to files
 
 import typer  # noqa: E402
+from typer.core import TyperGroup  # noqa: E402
 
+from ..vocabulary import rename_options  # noqa: E402
 from . import (check, compare, criticals, layout, levers, modes, response,  # noqa: E402
                stiffness_map, sweep, window)
 from .common import guarded  # noqa: E402
 
+class _Commands(TyperGroup):
+    """The command group: reads the old spelling of a renamed option for one more version,
+    with a note on stderr (:data:`rotorcalc.vocabulary.RENAMED_OPTIONS`)."""
+
+    def parse_args(self, ctx, args):
+        command = next((a for a in args if not a.startswith("-")), None)
+        if command is not None:
+            at = args.index(command) + 1
+            args = args[:at] + rename_options(command, args[at:], _note)
+        return super().parse_args(ctx, args)
+
+
+def _note(text):
+    from rich.markup import escape
+    from .common import errors
+    errors.print(f"[yellow]note[/] {escape(text)}", highlight=False, soft_wrap=True)
+
+
 app = typer.Typer(
-    add_completion=False, no_args_is_help=True, rich_markup_mode="rich",
+    cls=_Commands, add_completion=False, no_args_is_help=True, rich_markup_mode="rich",
     help="Lateral rotor-dynamics screening: damped natural frequencies, whirl-speed maps, "
          "critical speeds, log decrements and separation margins from a TOML rotor file.\n\n"
          "Screening only: confirm against the applicable standard, the purchase specification, "

@@ -89,8 +89,24 @@ def input_errors():
         raise typer.Exit(EXIT_NUMERICAL)
 
 
+@contextmanager
+def renamed_notes():
+    """Old spellings read inside the block are noted on stderr, once each."""
+    import warnings
+    from ..vocabulary import RenamedWarning
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", RenamedWarning)
+        yield
+    for text in dict.fromkeys(str(w.message) for w in caught
+                              if issubclass(w.category, RenamedWarning)):
+        errors.print(f"[yellow]note[/] {escape(text)}", highlight=False, soft_wrap=True)
+    for w in caught:
+        if not issubclass(w.category, RenamedWarning):
+            warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
+
+
 def load(case: Path):
-    with input_errors():
+    with input_errors(), renamed_notes():
         return read_rotor(case)
 
 

@@ -18,6 +18,7 @@ from ..reader import load_toml
 from ..tables import comparison_columns
 from ..units import to_rpm
 from .common import (console, fail_input, input_errors, load, print_table, print_warnings,
+                     renamed_notes,
                      save_figure, write_outputs)
 from .criticals import apply_overrides
 from .whatif_common import (check_outputs, command_help, critical_text, plotting_function,
@@ -37,7 +38,8 @@ def read_study(path, vary):
         except (OSError, UnicodeDecodeError):
             data = {}  # let the reader report the file
         if "base" in data:
-            base_path, rotor, variants = read_variants(path)
+            with renamed_notes():
+                base_path, rotor, variants = read_variants(path)
         else:
             base_path, rotor, variants = path, load(path), ()
         extra = tuple(variant_from_option(text, i) for i, text in enumerate(vary))
@@ -104,8 +106,8 @@ def command(
     vary: Optional[List[str]] = typer.Option(
         None, "--vary", help='A variant "NAME: change; change", e.g. "worn: bearing.*.k *= 0.6; '
                              'bearing.*.c *= 0.7"; may be repeated.'),
-    points: Optional[int] = typer.Option(None, "--points", min=3,
-                                         help="Number of sweep speeds per screening."),
+    speed_count: Optional[int] = typer.Option(None, "--speed-count", min=3,
+                                              help="Number of sweep speeds per screening."),
     plot: Optional[Path] = typer.Option(None, "--plot",
                                         help="Write the overlaid whirl-speed maps."),
     json_path: Optional[Path] = typer.Option(None, "--json",
@@ -118,7 +120,7 @@ def command(
     check_outputs(case, {"--plot": plot, "--json": json_path, "--csv": csv_path})
     base_path, rotor, variants = read_study(case, vary or [])
     check_outputs(base_path, {"--plot": plot, "--json": json_path, "--csv": csv_path})
-    rotor = apply_overrides(rotor, points=points)
+    rotor = apply_overrides(rotor, speed_count=speed_count)
     from ..analysis.whatif import compare
     started = time.perf_counter()
     with progress_bar(f"screening the base and {len(variants)} variant(s)",

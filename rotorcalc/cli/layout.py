@@ -9,16 +9,16 @@ from rich.markup import escape
 
 from .common import check_output, console, load, save_figure
 
-EXAMPLE = "[bold]Example[/]: rotorcalc layout cases/overhung_fan.toml --out fan.png"
+EXAMPLE = "[bold]Example[/]: rotorcalc layout cases/overhung_fan.toml --plot fan.png"
 
 
 def command(
     case: Path = typer.Argument(..., help="Rotor description (TOML)."),
-    out: Path = typer.Option(..., "--out", "-o", help="Picture file (.png/.svg/.pdf)."),
+    out: Path = typer.Option(..., "--plot", "-o", help="Picture file (.png/.svg/.pdf)."),
 ):
     """Draw the rotor model (sections, disks, bearings, stations) to check it is what you meant."""
     rotor = load(case)
-    check_output(out, case, "--out")
+    check_output(out, case, "--plot")
     from ..plotting import rotor_layout
     ax = rotor_layout(rotor)
     console.print(f"{escape(rotor.name)}: {len(rotor.sections)} sections, {len(rotor.disks)} disks, "

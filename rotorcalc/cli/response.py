@@ -7,34 +7,40 @@ from typing import Optional
 
 import typer
 
-from ..analysis.response import unbalance_response
+from ..analysis.response import limits_caption, unbalance_response
 from ..errors import InputError
 from ..tables import (LIMIT_COLUMNS, PEAK_COLUMNS, UNBALANCE_COLUMNS, response_columns,
                       response_rows, unbalance_rows)
 from ..units import to_rpm
-from .criticals import response_caption
+from ..standards import RESIDUAL_RULE_TEXT
 from .common import (check_output, console, fail_input, input_errors, load, print_table,
                      print_warnings, save_figure, speed_option, write_outputs)
 
-EXAMPLE = ("[bold]Example[/]: rotorcalc response cases/compressor.toml --bode bode.png "
-           "--polar polar.png --orbits orbits.png --at \"11500 rpm\"")
+EXAMPLE = ("[bold]Example[/]: rotorcalc response cases/compressor.toml --plot-bode bode.png "
+           "--plot-polar polar.png --plot-orbits orbits.png --orbit-speeds \"11500 rpm\"")
 
 
 def command(
     case: Path = typer.Argument(..., help="Rotor description (TOML) with [unbalance.NAME] cases."),
-    name: Optional[str] = typer.Option(None, "--case", "-c",
-                                       help="Unbalance case to draw (default: the first)."),
-    bode: Optional[Path] = typer.Option(None, "--bode", help="Write Bode plots (amplitude and phase) of every probe."),
-    polar: Optional[Path] = typer.Option(None, "--polar", help="Write polar plots of every probe."),
-    orbits: Optional[Path] = typer.Option(None, "--orbits", help="Write orbit ellipses at the --at speeds."),
-    at: Optional[str] = typer.Option(None, "--at", help='Orbit speeds, comma separated, e.g. "3000 rpm, 3600 rpm" (default: maximum continuous speed).'),
+    name: Optional[str] = typer.Option(None, "--unbalance",
+                                       help="Unbalance case (its name in the file) to draw "
+                                            "(default: the first)."),
+    bode: Optional[Path] = typer.Option(
+        None, "--plot-bode", help="Write Bode plots (amplitude and phase) of every probe."),
+    polar: Optional[Path] = typer.Option(None, "--plot-polar",
+                                         help="Write polar plots of every probe."),
+    orbits: Optional[Path] = typer.Option(
+        None, "--plot-orbits", help="Write orbit ellipses at the --orbit-speeds."),
+    at: Optional[str] = typer.Option(
+        None, "--orbit-speeds", help='Orbit speeds, comma separated, e.g. "3000 rpm, 3600 rpm" '
+                                     '(default: maximum continuous speed).'),
     json_path: Optional[Path] = typer.Option(None, "--json", help="Write every response curve, peak and check as JSON."),
     csv_path: Optional[Path] = typer.Option(None, "--csv", help="Write the probe curves (one row per case, speed and probe) as CSV."),
 ):
     """Unbalance response: probe amplitudes and phases, peaks with amplification factors,
     vibration and clearance checks at running speeds."""
     rotor = load(case)
-    for path, opt in ((bode, "--bode"), (polar, "--polar"), (orbits, "--orbits"),
+    for path, opt in ((bode, "--plot-bode"), (polar, "--plot-polar"), (orbits, "--plot-orbits"),
                       (json_path, "--json"), (csv_path, "--csv")):
         check_output(path, case, opt)
     with input_errors():
@@ -44,20 +50,19 @@ def command(
     elif name in result.cases:
         index = result.cases.index(name)
     else:
-        fail_input(InputError("--case", "names no unbalance case of the file", value=name,
+        fail_input(InputError("--unbalance", "names no unbalance case of the file", value=name,
                               expected="one of " + ", ".join(result.cases), kind="choice"))
     speeds = [rotor.operating.max_speed]
     if at is not None:
-        speeds = [speed_option(part, "--at") for part in at.split(",")]
+        speeds = [speed_option(part, "--orbit-speeds") for part in at.split(",")]
     print_table(f"{rotor.name}: unbalance applied", UNBALANCE_COLUMNS, unbalance_rows(rotor),
-                caption="Residual: U = 6350 W/N g*mm per weight, N the maximum continuous "
-                        "speed in rpm (common practice, from memory).")
+                caption=f"Residual: {RESIDUAL_RULE_TEXT}.")
     print_table(f"{rotor.name}: unbalance response peaks", PEAK_COLUMNS, result.peaks,
                 caption="AF = peak speed / half-power bandwidth (0.707 of the peak).")
     if result.vibration or result.clearance:
         print_table("Vibration (operating range) and clearance (up to trip)", LIMIT_COLUMNS,
                     result.vibration + result.clearance,
-                    caption=response_caption(rotor))
+                    caption=limits_caption(rotor))
     if not result.steady:
         console.print("[bold red]no steady state[/] a mode is unstable at "
                       + ", ".join(f"{to_rpm(lo):.0f}-{to_rpm(hi):.0f} rpm"

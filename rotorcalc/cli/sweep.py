@@ -13,22 +13,25 @@ from .common import (JOBS_HELP, console, load, print_warnings, save_figure, scre
                      write_outputs)
 from .criticals import apply_overrides, print_margins
 
-EXAMPLE = """[bold]Example[/]: rotorcalc sweep cases/compressor.toml --map map.png --csv sweep.csv"""
+EXAMPLE = """[bold]Example[/]: rotorcalc sweep cases/compressor.toml --plot map.png --csv sweep.csv"""
 
 
 def command(
     case: Path = typer.Argument(..., help="Rotor description (TOML)."),
-    map_path: Optional[Path] = typer.Option(None, "--map", help="Write the whirl-speed map (.png/.svg/.pdf)."),
-    points: Optional[int] = typer.Option(None, "--points", min=3, help="Number of sweep speeds."),
-    top: Optional[str] = typer.Option(None, "--to", help='Highest sweep speed, e.g. "12000 rpm".'),
+    plot_path: Optional[Path] = typer.Option(None, "--plot",
+                                             help="Write the whirl-speed map (.png/.svg/.pdf)."),
+    speed_count: Optional[int] = typer.Option(None, "--speed-count", min=3,
+                                              help="Number of sweep speeds."),
+    speed_to: Optional[str] = typer.Option(None, "--speed-to",
+                                           help='Highest sweep speed, e.g. "12000 rpm".'),
     json_path: Optional[Path] = typer.Option(None, "--json", help="Write every branch as JSON."),
     csv_path: Optional[Path] = typer.Option(None, "--csv", help="Write the sweep (one row per speed and branch) as CSV."),
     jobs: Optional[int] = typer.Option(None, "--jobs", min=0, help=JOBS_HELP),
 ):
     """Sweep the speed range, track the modes and draw the whirl-speed map."""
-    rotor = apply_overrides(load(case), points=points, top=top)
-    result = screen_case(rotor, case, {"--map": map_path, "--json": json_path, "--csv": csv_path},
-                         jobs)
+    rotor = apply_overrides(load(case), speed_count=speed_count, speed_to=speed_to)
+    result = screen_case(rotor, case, {"--plot": plot_path, "--json": json_path,
+                                       "--csv": csv_path}, jobs)
     sw = result.sweep
     console.print(f"{escape(rotor.name)}: {len(sw.speeds)} speeds, "
                   f"{sw.eigenvalues.shape[1]} branches", highlight=False)
@@ -37,11 +40,8 @@ def command(
     rows = list(sweep_rows(sw))
     write_outputs("sweep", case, result.to_dict(), sw.warnings, json_path, csv_path,
                   sweep_columns(sw), rows)
-    if map_path is not None:
-        from ..plotting import whirl_speed_map
-        ax = whirl_speed_map(sw, result.criticals, rotor.operating, rotor.settings.orders,
-                             margins=result.margins)
-        save_figure(ax.figure, map_path)
+    if plot_path is not None:
+        save_figure(result.plot().figure, plot_path)
 
 
 def register(app: typer.Typer):

@@ -7,33 +7,26 @@ import time
 from pathlib import Path
 from typing import Optional
 
-import numpy as np
 import typer
 
 from ..analysis.margins import CAUTION
 from ..errors import InputError
 from ..tables import WINDOW_END_COLUMNS, WINDOW_SCAN_COLUMNS
 from ..units import to_rpm
-from ..analysis.whatif import WINDOW_DEFAULT
+from ..analysis.whatif import WINDOW_CAPTION, WINDOW_DEFAULT
 from .common import console, fail_input, input_errors, load, print_table, write_outputs
 from .criticals import apply_overrides
 from .whatif_common import (bearing_target, check_outputs, command_help, critical_text, heading,
                             progress_bar, without_response)
 
 WINDOW_EXAMPLE = ('[bold]Example[/]: rotorcalc window cases/overhung_fan.toml --bearing FE '
-                  '--from 0.2 --to 5 --json window.json')
-
-WINDOW_CAPTION = (
-    "Margin excess: the smallest (margin - required margin) over the critical speeds that "
-    "need a margin; inf when none needs one (all critically damped, not judged, or beyond "
-    "the sweep). Every stiffness coefficient (kxx, kxy, kyx, kyy) of the target is scaled "
-    "by the factor; dampings are kept. AF estimated from the log decrement.")
+                  '--factor-from 0.2 --factor-to 5 --json window.json')
 
 
 def run_window(rotor, target, target_text, low, high, factors):
     """Find the window with a progress bar and print its ends and scan."""
-    from ..analysis.whatif import stiffness_window
-    grid = len(np.unique(np.concatenate([np.geomspace(low, high, factors), [1.0]])))
+    from ..analysis.whatif import stiffness_window, window_factors
+    grid = len(window_factors(low, high, factors))
     started = time.perf_counter()
     count = [0]
     with progress_bar(f"stiffness window, {target_text}: scan of {grid}", grid) as bar:
@@ -56,21 +49,11 @@ def run_window(rotor, target, target_text, low, high, factors):
     return result
 
 
-def scan_rows(result):
-    """(factor, excess) rows of the scan; a grid factor that is 1 to rounding is listed once."""
-    rows = []
-    for f, e in zip(result.factors, result.excess):
-        if rows and math.isclose(f, rows[-1][0], rel_tol=1e-9):
-            continue
-        rows.append((float(f), float(e)))
-    return rows
-
-
 def print_window(rotor, result, target_text):
     op = rotor.operating
     heading(f"{rotor.name}: stiffness window, {target_text}; operating range "
             f"{to_rpm(op.min_speed):.0f}-{to_rpm(op.max_speed):.0f} rpm")
-    print_table("Scan", WINDOW_SCAN_COLUMNS, scan_rows(result), caption=WINDOW_CAPTION)
+    print_table("Scan", WINDOW_SCAN_COLUMNS, result.scan_rows(), caption=WINDOW_CAPTION)
     print_table("Window ends", WINDOW_END_COLUMNS, [("low", result.low), ("high", result.high)])
     if not result.base_passes:
         console.print("[bold red]The rotor as described does not keep its margins[/]: "
@@ -91,32 +74,33 @@ def command(
     bearing: Optional[str] = typer.Option(
         None, "--bearing", help="Scale this bearing only (its name, or its 0-based index); "
                                 f"default: {WINDOW_DEFAULT}."),
-    low: float = typer.Option(0.1, "--from", help="Lowest stiffness factor searched (below 1)."),
-    high: float = typer.Option(10.0, "--to", help="Highest stiffness factor searched (above 1)."),
-    factors: int = typer.Option(9, "--factors", min=2, max=60,
+    low: float = typer.Option(0.1, "--factor-from",
+                              help="Lowest stiffness factor searched (below 1)."),
+    high: float = typer.Option(10.0, "--factor-to",
+                               help="Highest stiffness factor searched (above 1)."),
+    factors: int = typer.Option(9, "--factor-count", min=2, max=60,
                                 help="Factors in the log-spaced scan (1 is always added)."),
-    points: Optional[int] = typer.Option(None, "--points", min=3,
-                                         help="Number of sweep speeds per screening."),
+    speed_count: Optional[int] = typer.Option(None, "--speed-count", min=3,
+                                              help="Number of sweep speeds per screening."),
     json_path: Optional[Path] = typer.Option(None, "--json", help="Write the window as JSON."),
     csv_path: Optional[Path] = typer.Option(None, "--csv", help="Write the scan as CSV."),
 ):
     """Stiffness window: the range of a bearing-stiffness scale factor (one bearing, or all
     together) over which every critical speed keeps its required separation margin, with the
     critical that limits each end."""
-    rotor = apply_overrides(load(case), points=points)
+    rotor = apply_overrides(load(case), speed_count=speed_count)
     check_outputs(case, {"--json": json_path, "--csv": csv_path})
     if not (0 < low < 1 < high) or not math.isfinite(high):
-        fail_input(InputError("--from", "and --to must bracket the stiffness as described (1)",
-                              value=f"{low:g} .. {high:g}",
-                              expected="0 < --from < 1 < --to, e.g. --from 0.1 --to 10",
+        fail_input(InputError("--factor-from", "and --factor-to must bracket the stiffness as "
+                              "described (1)", value=f"{low:g} .. {high:g}",
+                              expected="0 < --factor-from < 1 < --factor-to, e.g. "
+                                       "--factor-from 0.1 --factor-to 10",
                               kind="range"))
     target, target_text = bearing_target(rotor, bearing)
     result = run_window(rotor, target, target_text, low, high, factors)
     console.print(f"[dim]{CAUTION}[/]", highlight=False)
-    document = result.to_dict()
-    document["caution"] = CAUTION
-    write_outputs("window", case, document, (), json_path, csv_path, WINDOW_SCAN_COLUMNS,
-                  scan_rows(result))
+    write_outputs("window", case, result.to_dict(), (), json_path, csv_path,
+                  WINDOW_SCAN_COLUMNS, result.scan_rows())
 
 
 def register(app: typer.Typer):

@@ -142,7 +142,7 @@ def rotor_layout(rotor, *, ax=None, radial_scale=None):
     sections, bores = _draw_sections(ax, rotor, z)
     disks = _draw_disks(ax, rotor, z, disk_sizes)
     _label_diameters(ax, rotor, z, disk_sizes, ym, mm_per_in)
-    bearings = [_draw_seal(ax, b, rotor, z, ym, mm_per_in) if b.kind == "seal" else
+    bearings = [_draw_seal(ax, b, rotor, z, ym, mm_per_in) if b.role == "seal" else
                 _draw_bearing(ax, b, rotor, z, y_ground, ym, mm_per_in) for b in rotor.bearings]
     _label_disks(ax, rotor, z, disk_sizes, plan)
     _label_bearings(ax, rotor, z, name_y)
@@ -186,7 +186,7 @@ def _frame(rotor, z, disk_sizes, f, width_in):
 
     r_top = max([s.outer_diameter * MM / 2 for s in rotor.sections] +
                 [d / 2 for d, _ in disk_sizes])
-    plain = [b for b in rotor.bearings if b.kind != "seal"]
+    plain = [b for b in rotor.bearings if b.role != "seal"]
     has_support = any(b.support is not None for b in plain)
     r_bear = max([shaft_diameter(rotor, b.station) * MM / 2 for b in plain], default=0.0)
     drop = _PAD_H + _TRI_H + ((_MASS_H + _SPRING_H) if has_support else 0.0)
@@ -372,7 +372,7 @@ def _label_disks(ax, rotor, z, sizes, plan):
 
 def _name_level(rotor, bearing, disk_sizes, y_ground, ym):
     """Height of the top of a bearing's or seal's name: below its symbol and any disk there."""
-    lowest = y_ground if bearing.kind != "seal" else \
+    lowest = y_ground if bearing.role != "seal" else \
         -shaft_diameter(rotor, bearing.station) * MM / 2 - _SEAL_H * ym
     for disk, (d, _) in zip(rotor.disks, disk_sizes):
         if disk.station == bearing.station:
@@ -385,12 +385,12 @@ def _label_bearings(ax, rotor, z, name_y):
     if not order:
         return
     items = [rotor.bearings[i] for i in order]
-    texts = [b.name or ("seal" if b.kind == "seal" else "bearing") for b in items]
+    texts = [b.name or ("seal" if b.role == "seal" else "bearing") for b in items]
     centres = [lb.points(ax, (z[b.station], 0.0))[0] for b in items]
     halves = [0.29 * st.FONT_NOTE * len(t) for t in texts]
     rows = lb.stack_rows(centres, halves, gap=3.0)
     for i, b, text, row in zip(order, items, texts, rows):
-        colour = st.SEAL if b.kind == "seal" else st.INK
+        colour = st.SEAL if b.role == "seal" else st.INK
         ax.annotate(text, xy=(z[b.station], name_y[i]),
                     xytext=(0, -10 * row), textcoords="offset points", ha="center", va="top",
                     fontsize=st.FONT_NOTE, color=colour, annotation_clip=False, zorder=6)
@@ -430,15 +430,15 @@ def _legend(ax, rotor):
     if rotor.disks:
         handles.append(Patch(facecolor=st.DISK, edgecolor=st.STEEL_EDGE, linewidth=0.8))
         labels.append("disk (drawn from its mass and inertia)")
-    if any(b.kind != "seal" for b in rotor.bearings):
+    if any(b.role != "seal" for b in rotor.bearings):
         handles.append(Line2D([], [], linestyle="none", marker="^", markersize=7,
                               markerfacecolor=st.PAPER, markeredgecolor=st.BEARING))
         labels.append("bearing")
-    if any(b.support is not None and b.kind != "seal" for b in rotor.bearings):
+    if any(b.support is not None and b.role != "seal" for b in rotor.bearings):
         handles.append(Line2D([], [], linestyle="none", marker="s", markersize=6,
                               markerfacecolor=st.FAINT, markeredgecolor=st.BEARING))
         labels.append("support mass on spring")
-    if any(b.kind == "seal" for b in rotor.bearings):
+    if any(b.role == "seal" for b in rotor.bearings):
         handles.append(Patch(facecolor=st.SEAL, edgecolor=st.SEAL))
         labels.append("seal")
     return lb.legend_below(ax, handles, labels, 34,

@@ -185,8 +185,8 @@ def _outline(ax, rotor):
     for b in rotor.bearings:
         x = zs[b.station]
         r = shaft_diameter(rotor, b.station) * MM / 2 * k
-        marker = "s" if b.kind == "seal" else "^"
-        colour = st.SEAL if b.kind == "seal" else st.BEARING
+        marker = "s" if b.role == "seal" else "^"
+        colour = st.SEAL if b.role == "seal" else st.BEARING
         artists.extend(ax.plot([x], [-r - 0.07], linestyle="none", marker=marker,
                                markersize=6 if marker == "^" else 4,
                                markerfacecolor="none", markeredgecolor=colour,

@@ -93,7 +93,7 @@ def pipeline(system, speeds, workers=1):
 
 def one_size(elements, n_speeds, workers_check):
     """Everything measured for one size (run in its own process)."""
-    rotor = generated_rotor(elements, modes=MODES, speed_count=n_speeds)
+    rotor = generated_rotor(elements, mode_count=MODES, speed_count=n_speeds)
     t_asm, system = best_of(lambda: assemble(rotor), 3)
     t_modes, _ = best_of(lambda: modes_at(system, SPEED, MODES), 2)
     speeds = np.linspace(0.0, rotor.settings.speed_to, n_speeds)

@@ -17,7 +17,7 @@ STEEL = Material("steel", 2.07e11, 2.07e11 / 2.6, 7830.0)
 RPM = 2.0 * np.pi / 60.0
 
 
-def generated_rotor(elements, modes=20, speed_count=100, stages=8):
+def generated_rotor(elements, mode_count=20, speed_count=100, stages=8):
     """A rotor of about ``elements`` shaft elements (rounded to the section count)."""
     # section (length m, outer diameter m, share of the elements)
     layout = [(0.20, 0.090, 1), (0.15, 0.110, 1), (0.25, 0.140, 1)]
@@ -41,11 +41,11 @@ def generated_rotor(elements, modes=20, speed_count=100, stages=8):
     seal = {"kxx": (2e7,), "kyy": (2e7,), "kxy": (5e6,), "kyx": (-5e6,), "cxx": (2e4,),
             "cyy": (2e4,)}
     bearings = (Bearing(1, journal, speeds=speeds, name="drive end"),
-                Bearing(3 + stages // 2, seal, name="centre seal", kind="seal"),
+                Bearing(3 + stages // 2, seal, name="centre seal", role="seal"),
                 Bearing(len(layout) - 1, journal, speeds=speeds, name="non-drive end",
                         support=Support(kx=8e8, ky=6e8, mass=150.0, cx=2e5, cy=2e5)))
     settings = Settings(speed_from=0.0, speed_to=15000.0 * RPM, speed_count=speed_count,
-                        modes=modes)
+                        mode_count=mode_count)
     return Rotor(sections, OperatingRange(8000.0 * RPM, 11000.0 * RPM, 12000.0 * RPM),
                  disks=disks, bearings=bearings, settings=settings,
                  name=f"generated rotor, {elements} elements")

@@ -24,14 +24,14 @@ def test_there_are_the_three_kinds_of_case():
 @pytest.mark.parametrize("case", CASES, ids=[c.stem for c in CASES])
 def test_case_end_to_end(case, tmp_path):
     png, js = tmp_path / "map.png", tmp_path / "margins.json"
-    result = runner.invoke(app, ["criticals", str(case), "--map", str(png), "--json", str(js)])
+    result = runner.invoke(app, ["criticals", str(case), "--plot", str(png), "--json", str(js)])
     assert result.exit_code == 0, result.output
     assert png.stat().st_size > 10_000 and png.read_bytes()[:4] == b"\x89PNG"
     doc = json.loads(js.read_text())
     assert doc["result"]["criticals"], "every case should show at least one critical speed"
     check = runner.invoke(app, ["check", str(case)])
     assert check.exit_code == (0 if doc["result"]["passed"] else 1)
-    layout = runner.invoke(app, ["layout", str(case), "--out", str(tmp_path / "side.svg")])
+    layout = runner.invoke(app, ["layout", str(case), "--plot", str(tmp_path / "side.svg")])
     assert layout.exit_code == 0 and (tmp_path / "side.svg").read_text().startswith("<?xml")
 
 

@@ -26,7 +26,7 @@ def test_help_has_an_example_per_command():
 
 def test_modes_table_json_csv(tmp_path):
     out_json, out_csv = tmp_path / "m.json", tmp_path / "m.csv"
-    result = run("modes", PUMP, "--speed", "3000 rpm", "--count", "4", "--json", out_json,
+    result = run("modes", PUMP, "--speed", "3000 rpm", "--mode-count", "4", "--json", out_json,
                  "--csv", out_csv)
     assert result.exit_code == 0, result.output
     assert "Log dec" in result.output
@@ -44,7 +44,7 @@ def test_speed_needs_a_unit():
 def test_criticals_json_matches_table(tmp_path):
     out = tmp_path / "c.json"
     picture = tmp_path / "new" / "folder" / "map.png"  # folders are created, as in the README
-    result = run("criticals", PUMP, "--json", out, "--csv", tmp_path / "c.csv", "--map", picture)
+    result = run("criticals", PUMP, "--json", out, "--csv", tmp_path / "c.csv", "--plot", picture)
     assert picture.exists()
     assert result.exit_code == 0, result.output
     doc = json.loads(out.read_text())
@@ -57,7 +57,7 @@ def test_criticals_json_matches_table(tmp_path):
 
 def test_check_exit_code_follows_margins():
     assert run("check", PUMP).exit_code == 0
-    failing = run("check", PUMP, "--rule", "fixed", "--below", "90", "--above", "90")
+    failing = run("check", PUMP, "--margin-rule", "fixed", "--margin-below", "90", "--margin-above", "90")
     assert failing.exit_code == 1
     assert "FAILED" in failing.output
 
@@ -108,7 +108,7 @@ def test_json_is_deterministic_and_carries_provenance(tmp_path):
 
 
 def test_picture_with_unknown_extension_is_bad_input(tmp_path):
-    result = run("layout", PUMP, "--out", tmp_path / "side.bmp")
+    result = run("layout", PUMP, "--plot", tmp_path / "side.bmp")
     assert result.exit_code == 2 and "picture file" in result.output
     assert not (tmp_path / "side.bmp").exists()
 

@@ -23,12 +23,12 @@ VARIANTS = ROOT / "cases" / "overhung_fan_variants.toml"
 #: One invocation per command, each reading the fan (compare: its variants file).
 COMMANDS = {
     "modes": ["modes", FAN, "--speed", "1000 rpm"],
-    "sweep": ["sweep", FAN, "--points", "5"],
-    "criticals": ["criticals", FAN, "--points", "5"],
-    "check": ["check", FAN, "--points", "5"],
+    "sweep": ["sweep", FAN, "--speed-count", "5"],
+    "criticals": ["criticals", FAN, "--speed-count", "5"],
+    "check": ["check", FAN, "--speed-count", "5"],
     "response": ["response", FAN],
-    "layout": ["layout", FAN, "--out", "{tmp}/layout.png"],
-    "stiffness-map": ["stiffness-map", FAN, "--points", "5"],
+    "layout": ["layout", FAN, "--plot", "{tmp}/layout.png"],
+    "stiffness-map": ["stiffness-map", FAN, "--stiffness-count", "5"],
     "compare": ["compare", VARIANTS],
     "window": ["window", FAN],
     "levers": ["levers", FAN],
@@ -104,9 +104,9 @@ def marked_up_fan(tmp_path):
 def test_names_with_markup_and_math_text_are_text(command, tmp_path):
     path = marked_up_fan(tmp_path)
     args = [command, path] + [a for a in COMMANDS[command][2:]]
-    picture = {"modes": ["--plot", tmp_path / "p.png"], "sweep": ["--map", tmp_path / "p.png"],
-               "criticals": ["--map", tmp_path / "p.svg"],
-               "response": ["--bode", tmp_path / "p.png", "--polar", tmp_path / "q.png"],
+    picture = {"modes": ["--plot", tmp_path / "p.png"], "sweep": ["--plot", tmp_path / "p.png"],
+               "criticals": ["--plot", tmp_path / "p.svg"],
+               "response": ["--plot-bode", tmp_path / "p.png", "--plot-polar", tmp_path / "q.png"],
                "layout": [], "stiffness-map": ["--plot", tmp_path / "p.png"]}[command]
     result = invoke(args + picture, tmp_path)
     assert result.exit_code in (0, 1), result.output

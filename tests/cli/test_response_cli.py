@@ -61,14 +61,14 @@ def test_response_writes_json_and_csv_for_every_case(case, tmp_path):
 
 
 def test_bad_case_name_exit_2_names_the_option():
-    result = run("response", PUMP, "--case", "no_such_case")
+    result = run("response", PUMP, "--unbalance", "no_such_case")
     assert result.exit_code == 2, result.output
-    assert "--case" in result.output and "no_such_case" in result.output
+    assert "--unbalance" in result.output and "no_such_case" in result.output
     assert "mid_span" in result.output and "couple" in result.output  # the valid names
 
 
 def test_case_option_accepts_a_valid_name():
-    assert run("response", PUMP, "--case", "couple").exit_code == 0
+    assert run("response", PUMP, "--unbalance", "couple").exit_code == 0
 
 
 def test_file_without_unbalance_exit_2(tmp_path):
@@ -123,7 +123,7 @@ MID = 'at = 6\namount = "residual"'
     (MID, 'at = 6\nmass = "10 g"', "unbalance.mid_span.weight[0].radius"),
     (MID, MID + '\nmass = "10 g"', "unbalance.mid_span.weight[0].amount"),
     (MID, 'at = 6\namount = "12 g*mm"\nphase = "3 mm"', "unbalance.mid_span.weight[0].phase"),
-    ('description = "2 x residual at impeller 4"', 'residual_multiple = -1',
+    ('residual_multiple = 2\n[[unbalance.mid_span', 'residual_multiple = -1\n[[unbalance.mid_span',
      "unbalance.mid_span.residual_multiple"),
     ('radial = "0.25 mm"', 'radial = "0.25 kg"', "clearance[1].radial"),
     ('radial = "0.25 mm"', 'radial = "0.25 mm"\n\n[response]\nclearance_share = 1.5',
@@ -140,8 +140,8 @@ def test_bad_unbalance_input_exit_2_names_the_key(tmp_path, old, new, key):
 
 def test_response_pictures_are_written(tmp_path):
     bode, orbits = tmp_path / "pics" / "bode.png", tmp_path / "orbits.svg"
-    result = run("response", PUMP, "--case", "couple", "--bode", bode, "--orbits", orbits,
-                 "--at", "2400 rpm, 3600 rpm")
+    result = run("response", PUMP, "--unbalance", "couple", "--plot-bode", bode, "--plot-orbits", orbits,
+                 "--orbit-speeds", "2400 rpm, 3600 rpm")
     assert result.exit_code == 0, result.output
     assert bode.read_bytes()[:4] == b"\x89PNG" and bode.stat().st_size > 10_000
     assert orbits.read_text().startswith("<?xml")

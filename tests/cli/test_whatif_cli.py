@@ -19,7 +19,7 @@ from tests.conftest import CASES, ROOT
 runner = CliRunner()
 PUMP = ROOT / "cases" / "feed_pump.toml"
 FAN = ROOT / "cases" / "overhung_fan.toml"
-SHORT = ["--points", "11"]  # sweep speeds per screening: enough to find the pump's criticals
+SHORT = ["--speed-count", "11"]  # sweep speeds per screening: enough to find the pump's criticals
 
 
 def run(*args):
@@ -50,8 +50,8 @@ def test_help_has_an_example(command):
 
 def test_stiffness_map_tables_files_and_pictures(tmp_path):
     js, table, png = tmp_path / "map.json", tmp_path / "map.csv", tmp_path / "map.png"
-    result = run("stiffness-map", PUMP, "--from", "1e7 N/m", "--to", "570 klbf/in", "--points",
-                 "7", "--modes", "2", "--shapes", "1e7 N/m:1, 1e8 N/m:2", "--plot", png,
+    result = run("stiffness-map", PUMP, "--stiffness-from", "1e7 N/m", "--stiffness-to", "570 klbf/in", "--stiffness-count",
+                 "7", "--mode-count", "2", "--shapes-at", "1e7 N/m:1, 1e8 N/m:2", "--plot", png,
                  "--json", js, "--csv", table)
     assert result.exit_code == 0, result.output
     assert "Crossings" in result.output and "klbf/in" in result.output
@@ -102,7 +102,7 @@ def test_compare_is_informational_even_when_a_variant_fails(tmp_path):
 @pytest.mark.slow
 def test_window_finds_an_end_and_names_its_critical(tmp_path):
     js, table = tmp_path / "win.json", tmp_path / "win.csv"
-    result = run("window", FAN, "--from", "0.1", "--to", "1.5", "--factors", "2", *SHORT,
+    result = run("window", FAN, "--factor-from", "0.1", "--factor-to", "1.5", "--factor-count", "2", *SHORT,
                  "--json", js, "--csv", table)
     assert result.exit_code == 0, result.output
     doc = read_json(js)["result"]
@@ -114,7 +114,7 @@ def test_window_finds_an_end_and_names_its_critical(tmp_path):
 
 
 def test_window_of_one_bearing(tmp_path):
-    result = run("window", PUMP, "--bearing", "DE", "--from", "0.5", "--to", "2", "--factors",
+    result = run("window", PUMP, "--bearing", "DE", "--factor-from", "0.5", "--factor-to", "2", "--factor-count",
                  "2", *SHORT, "--json", tmp_path / "w.json")
     assert result.exit_code == 0, result.output
     assert read_json(tmp_path / "w.json")["result"]["target"] == "bearing.DE"
@@ -220,15 +220,15 @@ def test_compare_refuses_to_overwrite_its_inputs(tmp_path):
 
 
 @pytest.mark.parametrize("args,key", [
-    (["stiffness-map", PUMP, "--from", "1e7", "--to", "1e9 N/m"], "--from"),
-    (["stiffness-map", PUMP, "--from", "1e7 kg", "--to", "1e9 N/m"], "--from"),
-    (["stiffness-map", PUMP, "--from", "1e9 N/m", "--to", "1e7 N/m"], "--from"),
-    (["stiffness-map", PUMP, "--shapes", "1e8 N/m"], "--shapes"),
-    (["stiffness-map", PUMP, "--shapes", "1e8 N/m:9"], "--shapes"),
+    (["stiffness-map", PUMP, "--stiffness-from", "1e7", "--stiffness-to", "1e9 N/m"], "--stiffness-from"),
+    (["stiffness-map", PUMP, "--stiffness-from", "1e7 kg", "--stiffness-to", "1e9 N/m"], "--stiffness-from"),
+    (["stiffness-map", PUMP, "--stiffness-from", "1e9 N/m", "--stiffness-to", "1e7 N/m"], "--stiffness-from"),
+    (["stiffness-map", PUMP, "--shapes-at", "1e8 N/m"], "--shapes-at"),
+    (["stiffness-map", PUMP, "--shapes-at", "1e8 N/m:9"], "--shapes-at"),
     (["stiffness-map", PUMP, "--whirl", "sideways"], "--whirl"),
     (["stiffness-map", PUMP, "--bearing", "DE"], "--bearing"),
     (["window", PUMP, "--bearing", "XX"], "--bearing"),
-    (["window", PUMP, "--from", "2", "--to", "5"], "--from"),
+    (["window", PUMP, "--factor-from", "2", "--factor-to", "5"], "--factor-from"),
 ])
 def test_bad_options_exit_2(args, key):
     result = run(*args)
@@ -246,6 +246,6 @@ def test_help_texts_state_what_the_analysis_does():
     assert " ".join(WINDOW_DEFAULT.split()[:2]) in " ".join(window_help.split())
     assert "bearing and seal" not in window_help
     pump = read_rotor(ROOT / "cases" / "feed_pump.toml")     # two bearings and a seal
-    assert len(window_targets(pump)) == sum(b.kind == "bearing" for b in pump.bearings) == 2
+    assert len(window_targets(pump)) == sum(b.role == "bearing" for b in pump.bearings) == 2
     result = runner.invoke(app, ["compare", str(ROOT / "cases" / "overhung_fan_variants.toml")])
     assert f"within {MATCH_SHARE:.0%}" in " ".join(result.output.split())

@@ -47,7 +47,7 @@ def rotors(draw, isotropic=False):
         coefficients = {"kxx": (kx,), "kyy": (ky,), "cxx": (cx,), "cyy": (cx,)}
         bearings.append(Bearing(station, coefficients))
     return Rotor(tuple(sections), OperatingRange(100.0, 300.0), disks=disks,
-                 bearings=tuple(bearings), settings=Settings(modes=4))
+                 bearings=tuple(bearings), settings=Settings(mode_count=4))
 
 
 @settings(max_examples=25, deadline=None, suppress_health_check=[HealthCheck.too_slow])

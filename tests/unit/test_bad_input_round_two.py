@@ -95,8 +95,8 @@ def test_a_rotor_that_is_not_held_up_is_refused_by_every_screening_command(tmp_p
 
 def test_options_are_named_as_options():
     for args, key in ((["--orders", "0"], "--orders"), (["--orders", "1e308"], "--orders"),
-                      (["--points", "1000000000"], "--points"),
-                      (["--stability", "bogus"], "--stability")):
+                      (["--speed-count", "1000000000"], "--speed-count"),
+                      (["--stability-rule", "bogus"], "--stability-rule")):
         result = runner.invoke(app, ["criticals", str(FAN)] + args)
         assert result.exit_code == 2 and key in result.output, result.output
         assert "analysis." not in result.output

@@ -39,7 +39,7 @@ CASES = [
                                                    'outer_diameter = "60 mm"')),
     ("missing", "a rotor with no shaft", lambda: parse_rotor(
         '[operating]\nmin_speed = "1 rpm"\nmax_speed = "2 rpm"\n')),
-    ("type", "text where a whole number is expected", mutated("modes = 6", 'modes = "six"')),
+    ("type", "text where a whole number is expected", mutated("mode_count = 6", 'mode_count = "six"')),
     ("not-finite", "NaN or infinite value", mutated('mass = "11.8 kg"', 'mass = "nan kg"')),
     ("range", "a negative length", mutated('length = "140 mm"', 'length = "-140 mm"')),
     ("range", "a zero mass", mutated('mass = "11.8 kg"', "mass = 0")),
@@ -60,7 +60,7 @@ CASES = [
      mutated('material = "shaft_steel"', 'material = "shaft_stel"')),
     ("conflict", "shear modulus and Poisson's ratio both given",
      mutated("poisson_ratio = 0.29", 'poisson_ratio = 0.29\nshear_modulus = "80 GPa"')),
-    ("choice", "an unknown choice", mutated("modes = 6", 'modes = 6\nbeam_theory = "thick"')),
+    ("choice", "an unknown choice", mutated("mode_count = 6", 'mode_count = 6\nbeam_theory = "thick"')),
     ("file", "a file that cannot be read", lambda: read_rotor(ROOT / "cases" / "no-such.toml")),
     # round two: impossible physics, dimensionless units, magnitudes, sizes, plain text
     ("range", "negative direct damping", mutated('cxx = "2.0e4 N*s/m"', 'cxx = "-2.0e4 N*s/m"')),

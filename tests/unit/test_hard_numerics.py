@@ -68,9 +68,9 @@ def jeffcott(kxx, kyy, kxy=0.0, c=0.0):
                            "cxx": (c,), "cyy": (c,)}, name="at disk")
     return Rotor((half, half), OperatingRange(100.0, 200.0), disks=(Disk(1, 50.0, 0.0, 0.0),),
                  bearings=tuple(pins) + (disk_brg,),
-                 settings=Settings(beam_theory="euler-bernoulli", modes=2,
+                 settings=Settings(beam_theory="euler-bernoulli", mode_count=2,
                                    speed_to=400.0, speed_count=9,
-                                   margin_rule=MarginRule(kind="fixed", below=5, above=5)))
+                                   margin_rule=MarginRule(name="fixed", margin_below=5, margin_above=5)))
 
 
 def test_strong_anisotropy_splits_the_pair():
@@ -111,7 +111,7 @@ def test_repeated_frequencies_track_smoothly():
     """An isotropic symmetric rotor has double frequencies at rest; the branches
     that leave them must not jump between modes along the sweep."""
     rotor = uniform_shaft(0.8, 0.06, 8, bearings=[isotropic(0, 5e7), isotropic(1, 5e7)],
-                          disks=[Disk(1, 20.0, 0.8, 0.4)], modes=4)
+                          disks=[Disk(1, 20.0, 0.8, 0.4)], mode_count=4)
     result = sweep(rotor, np.linspace(0.0, 3000.0, 31), 4)
     f = result.frequency
     labels = result.whirl

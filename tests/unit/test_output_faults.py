@@ -139,7 +139,7 @@ def test_command_line_reports_a_pipe_as_an_output_error(tmp_path):
     fifo = tmp_path / "side.svg"
     os.mkfifo(fifo)
     result = CliRunner().invoke(app, ["layout", str(ROOT / "cases" / "feed_pump.toml"),
-                                      "--out", str(fifo)])
+                                      "--plot", str(fifo)])
     assert result.exit_code == 4, result.output
     assert "cannot write" in result.output and "not a regular file" in result.output
     assert stat.S_ISFIFO(os.lstat(fifo).st_mode)

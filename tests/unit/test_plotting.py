@@ -79,7 +79,7 @@ def _rotor():
     bearings = (Bearing(1, {"kxx": (1e8,), "kyy": (1e8,)}, name="DE"),
                 Bearing(3, {"kxx": (1e8,), "kyy": (1e8,)}, name="NDE",
                         support=Support(2e8, 3e8, mass=50.0)),
-                Bearing(2, {"kxx": (1e6,), "kyy": (1e6,)}, name="wear ring", kind="seal"))
+                Bearing(2, {"kxx": (1e6,), "kyy": (1e6,)}, name="wear ring", role="seal"))
     return Rotor(sections, OPERATING, disks, bearings, station_names={"drive": 1},
                  name="test rotor")
 

@@ -229,7 +229,7 @@ def test_map_of_a_tiny_computed_rotor():
                   OPERATING, (Disk(1, 15.0, 0.05, 0.03),),
                   (Bearing(0, {"kxx": (5e7,), "kyy": (8e7,)}, name="L"),
                    Bearing(2, {"kxx": (5e7,), "kyy": (8e7,)}, name="R")))
-    cmap = compute_map(rotor, stiffness=np.logspace(6, 10, 7), n_modes=2)
+    cmap = compute_map(rotor, stiffness=np.logspace(6, 10, 7), mode_count=2)
     out = critical_speed_map(cmap, rotor.operating)
     assert len(out.modes) == 2 and len(out.curves) == 4
     assert len(out.crossings) == len(cmap.crossings)

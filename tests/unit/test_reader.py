@@ -131,9 +131,9 @@ def test_unknown_key_suggests_nearest():
 
 def test_min_log_dec_alone_means_at_least_and_caps_can_be_lifted():
     rotor = parse_rotor(BASE + '[analysis]\nmin_log_dec = 0.2\nmargin_cap_above = "none"\n')
-    assert rotor.settings.stability.kind == "at-least"
-    assert rotor.settings.stability.minimum == 0.2
-    assert rotor.settings.margin_rule.cap_above == math.inf
+    assert rotor.settings.stability_rule.name == "at-least"
+    assert rotor.settings.stability_rule.min_log_dec == 0.2
+    assert rotor.settings.margin_rule.margin_cap_above == math.inf
 
 
 def test_zero_is_the_one_speed_that_needs_no_unit():

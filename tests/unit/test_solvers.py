@@ -26,7 +26,7 @@ from tests.conftest import isotropic, uniform_shaft
 
 @pytest.fixture(scope="module")
 def system():
-    return assemble(generated_rotor(40, modes=8, speed_count=12))   # 166 DOFs
+    return assemble(generated_rotor(40, mode_count=8, speed_count=12))   # 166 DOFs
 
 
 def _matrices(system, speed):
@@ -145,7 +145,7 @@ def test_spawned_workers_give_the_same_sweep(system, monkeypatch):
 
 
 def test_screen_passes_workers_and_rejects_bad_counts():
-    rotor = generated_rotor(14, modes=2, speed_count=4)
+    rotor = generated_rotor(14, mode_count=2, speed_count=4)
     a, b = screen(rotor, workers=1), screen(rotor, workers=2)
     _same(a.sweep, b.sweep)
     assert [c.speed for c in a.criticals] == [c.speed for c in b.criticals]

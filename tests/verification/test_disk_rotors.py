@@ -100,7 +100,7 @@ def jeffcott(elements, bearings, kx=None):
     half = Section(LJ / 2, DJ, LIGHT, elements=elements)
     return Rotor((half, half), OperatingRange(10.0, 20.0), disks=(Disk(1, MJ, 0.0, 0.0),),
                  bearings=tuple(bearings), settings=Settings(beam_theory="euler-bernoulli",
-                                                             modes=4))
+                                                             mode_count=4))
 
 
 def jeffcott_bound():
@@ -157,7 +157,7 @@ SPEEDS_O = (0.0, 200.0, 1000.0, 3000.0)
 def overhung_system(elements):
     rotor = Rotor((Section(LO, DO, LIGHT, elements=elements),), OperatingRange(10.0, 20.0),
                   disks=(Disk(1, MO, IP_O, ID_O),),
-                  settings=Settings(beam_theory="euler-bernoulli", modes=4))
+                  settings=Settings(beam_theory="euler-bernoulli", mode_count=4))
     return assemble(rotor)
 
 
@@ -225,7 +225,7 @@ def rigid_rotor(factor):
     disks = tuple(Disk(st, m, ip, idd) for st, m, ip, idd in DISKS_R)
     return Rotor(sections, OperatingRange(10.0, 20.0), disks=disks,
                  bearings=(isotropic(0, K1), isotropic(3, K2)),
-                 settings=Settings(beam_theory="timoshenko", modes=4))
+                 settings=Settings(beam_theory="timoshenko", mode_count=4))
 
 
 def rigid_properties():

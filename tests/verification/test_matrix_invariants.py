@@ -44,7 +44,7 @@ def general_rotor(cross=(0.0, 0.0), speed_table=False):
     b2 = Bearing(3, {"kxx": (1e8,), "kyy": (1e8,), "cxx": (1e3,), "cyy": (1e3,)},
                  support=Support(kx=5e8, ky=6e8, mass=40.0, cx=2e3, cy=2e3))
     return Rotor(sections, OperatingRange(100.0, 200.0), disks=disks, bearings=(b1, b2),
-                 settings=Settings(beam_theory="timoshenko", modes=8))
+                 settings=Settings(beam_theory="timoshenko", mode_count=8))
 
 
 def relative_asymmetry(mat, sign=1.0):
@@ -209,7 +209,7 @@ def test_solver_keeps_low_mode_under_extreme_stiffness_contrast():
     half = Section(0.5, 0.05, LIGHT, elements=2)
     rotor = Rotor((half, half), OperatingRange(10.0, 20.0), disks=(Disk(1, 20.0, 0.0, 0.0),),
                   bearings=(isotropic(0, 1e17), isotropic(2, 1e17)),
-                  settings=Settings(beam_theory="euler-bernoulli", modes=2))
+                  settings=Settings(beam_theory="euler-bernoulli", mode_count=2))
     k_shaft = cf.simply_supported_midspan_stiffness(STEEL.youngs_modulus,
                                                     math.pi * 0.05**4 / 64, 1.0)
     exact = cf.jeffcott_critical_flexible_supports(k_shaft, 1e17, 20.0)

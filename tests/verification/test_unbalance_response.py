@@ -138,7 +138,7 @@ def jeffcott_rotor(zeta):
     return Rotor((half, half), OperatingRange(10.0, 20.0), disks=(Disk(1, MJ, 0.0, 0.0),),
                  bearings=(isotropic(0, KPIN, name="pin A"), isotropic(2, KPIN, name="pin B"),
                            damper),
-                 settings=Settings(beam_theory="euler-bernoulli", modes=2))
+                 settings=Settings(beam_theory="euler-bernoulli", mode_count=2))
 
 
 JEFFCOTT_PROBES = (Probe(1, 0.0, "disk x"), Probe(1, math.pi / 2, "disk y"))
@@ -342,7 +342,7 @@ def symmetric_rotor():
     disks = (Disk(1, *DISK), Disk(2, *DISK))
     return Rotor(sections, OperatingRange(10.0, 20.0), disks=disks,
                  bearings=(isotropic(0, KS, CS, name="B1"), isotropic(3, KS, CS, name="B2")),
-                 settings=Settings(beam_theory="timoshenko", modes=4))
+                 settings=Settings(beam_theory="timoshenko", mode_count=4))
 
 
 @functools.lru_cache(maxsize=None)

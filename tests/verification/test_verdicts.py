@@ -73,10 +73,10 @@ def cross_coupled_jeffcott(slope, operating, speed_to=None):
     q_top = slope * TOP
     source = Bearing(1, {"kxx": (0.0,), "kyy": (0.0,), "kxy": (0.0, q_top), "kyx": (0.0, -q_top),
                          "cxx": (C_DISK,), "cyy": (C_DISK,)}, speeds=(0.0, TOP), name="gas",
-                     kind="seal")
+                     role="seal")
     return Rotor((half, half), operating, disks=(Disk(1, MJ, 0.0, 0.0),),
                  bearings=pins + (source,),
-                 settings=Settings(beam_theory="euler-bernoulli", modes=2,
+                 settings=Settings(beam_theory="euler-bernoulli", mode_count=2,
                                    speed_to=speed_to or 0.95 * TOP, speed_count=41))
 
 
@@ -89,7 +89,7 @@ def test_verdict_stability_onset_of_cross_coupled_jeffcott():
     op = OperatingRange(1000.0, 1400.0, 1450.0)
     result = screen(cross_coupled_jeffcott(slope, op))
     stab = result.stability
-    forward = [m for m in stab.modes if m.whirl == "forward"]
+    forward = [m for m in stab.branches if m.whirl == "forward"]
     assert len(forward) == 1
     losses = [w for w, change in forward[0].onsets if change == "loses"]
     check("Jeffcott, q = a x spin: onset speed of instability of the forward mode (rad/s)",
@@ -101,7 +101,7 @@ def test_verdict_stability_onset_of_cross_coupled_jeffcott():
     lo, hi = stab.unstable_ranges[0]
     assert lo == pytest.approx(onset, rel=1e-4) and hi == pytest.approx(result.sweep.speeds[-1])
     # the backward mode stays stable (cross-coupling damps backward whirl)
-    assert all(m.verdict == "stable" for m in stab.modes if m.whirl == "backward")
+    assert all(m.verdict == "stable" for m in stab.branches if m.whirl == "backward")
     # the whirl-speed map says it in words, not only by colour
     from rotorcalc.plotting import whirl_speed_map
     drawn = whirl_speed_map(result.sweep, result.criticals, op, margins=result.margins)
@@ -112,7 +112,7 @@ def test_verdict_unstable_below_the_range_is_reported_not_judged():
     slope = C_DISK * W_N / 1200.0
     op = OperatingRange(500.0, 900.0, 950.0)       # runs below the onset
     stab = screen(cross_coupled_jeffcott(slope, op)).stability
-    forward = next(m for m in stab.modes if m.whirl == "forward")
+    forward = next(m for m in stab.branches if m.whirl == "forward")
     assert forward.verdict == "stable" and forward.min_log_dec_operating > 0
     assert stab.passed and stab.unstable_ranges    # the instability above trip is reported
 
@@ -165,7 +165,7 @@ kxx = "1e11 N/m"
 kyy = "1e11 N/m"
 [[bearing]]
 name = "gas"
-kind = "seal"
+role = "seal"
 at = 1
 speeds = ["0 rpm", "19099 rpm"]
 kxx = "0 N/m"
@@ -180,7 +180,7 @@ max_speed = "{hi} rpm"
 trip_speed = "{trip} rpm"
 [analysis]
 beam_theory = "euler-bernoulli"
-modes = 2
+mode_count = 2
 speed_to = "{top} rpm"
 speed_count = 41
 """
@@ -282,7 +282,7 @@ def light_shaft_heavy_disks(elements, k_bearing):
     return Rotor((section,), OperatingRange(1.0, 2.0),
                  disks=(Disk(0, 2000.0, 50.0, 30.0), Disk(1, 2000.0, 50.0, 30.0)),
                  bearings=(isotropic(0, k_bearing), isotropic(1, k_bearing)),
-                 settings=Settings(modes=4))
+                 settings=Settings(mode_count=4))
 
 
 @pytest.mark.parametrize("elements", [4, 16])
@@ -320,7 +320,7 @@ def test_verdict_degenerate_bounce_pair_on_soft_isotropic_bearings(ratio, elemen
     rotor = Rotor((section, section), OperatingRange(0.8 * wb, 0.9 * wb, 0.92 * wb),
                   disks=(Disk(1, 300.0, 6.0, 3.5),),
                   bearings=(isotropic(0, kb, c), isotropic(2, kb, c)),
-                  settings=Settings(modes=4, speed_to=3 * wb, speed_count=31))
+                  settings=Settings(mode_count=4, speed_to=3 * wb, speed_count=31))
     result = screen(rotor)
     bounce = [r for r in result.margins.rows if r.critical.speed < 1.5 * wb]
     assert sorted(r.critical.whirl for r in bounce) == ["backward", "forward"]
@@ -338,7 +338,7 @@ def test_verdict_undamped_model_reads_zero_and_judges_consistently():
     rotor = Rotor((section, section), OperatingRange(200.0, 300.0, 310.0),
                   disks=(Disk(1, 80.0, 2.0, 1.1),),
                   bearings=(isotropic(0, 5e7), isotropic(2, 5e7)),
-                  settings=Settings(modes=4, speed_to=1200.0, speed_count=31))
+                  settings=Settings(mode_count=4, speed_to=1200.0, speed_count=31))
     result = screen(rotor)
     check("Undamped gyroscopic rotor: largest |log decrement| over the sweep",
           "energy conservation: imaginary eigenvalues (Meirovitch 1970, from memory)",
@@ -349,7 +349,7 @@ def test_verdict_undamped_model_reads_zero_and_judges_consistently():
         assert r.critical.log_dec == 0.0 and r.amplification_factor == math.inf
         assert r.required == required_margin(rotor.settings.margin_rule, math.inf, r.side)
         assert r.verdict in ("pass", "fail")
-    assert all(m.verdict == "marginal" for m in result.stability.modes)
+    assert all(m.verdict == "marginal" for m in result.stability.branches)
     assert result.verdict == "fail"
 
 
@@ -411,7 +411,7 @@ def test_verdict_planar_mode_labels_do_not_flip_along_the_sweep():
                                         "cyy": (1e3,)}),
                             Bearing(2, {"kxx": (1e6,), "kyy": (1e9,), "cxx": (1e3,),
                                         "cyy": (1e3,)})),
-                  settings=Settings(modes=2, speed_to=600.0, speed_count=31))
+                  settings=Settings(mode_count=2, speed_to=600.0, speed_count=31))
     from rotorcalc.analysis import sweep
     result = sweep(rotor)
     share = result.forward_fraction[:, :2]
@@ -420,7 +420,7 @@ def test_verdict_planar_mode_labels_do_not_flip_along_the_sweep():
 
 
 def test_verdict_judge_share_threshold():
-    rule = MarginRule(kind="fixed", below=10, above=10)
+    rule = MarginRule(name="fixed", margin_below=10, margin_above=10)
     from rotorcalc.analysis.margins import Judgement
 
     class Fake:
@@ -428,8 +428,8 @@ def test_verdict_judge_share_threshold():
             self.forward_fraction, self.log_dec, self.damping_ratio = share, 0.5, 0.08
 
     j = Judgement(rule, judge_share=0.25)
-    assert j.kind(Fake(0.26)) == "judged" and j.kind(Fake(0.2)) == "not judged"
-    assert Judgement(rule, judge_share=0.0).kind(Fake(0.0)) == "judged"
+    assert j.category(Fake(0.26)) == "judged" and j.category(Fake(0.2)) == "not judged"
+    assert Judgement(rule, judge_share=0.0).category(Fake(0.0)) == "judged"
 
 
 # ---------------------------------------------------------------------------
@@ -484,13 +484,13 @@ def test_verdict_margin_rule_caps(af, side, percent):
 
 
 def test_verdict_margin_caps_are_selectable():
-    lifted = MarginRule(cap_below=math.inf, cap_above=math.inf)
+    lifted = MarginRule(margin_cap_below=math.inf, margin_cap_above=math.inf)
     assert required_margin(lifted, math.inf, "above") == 27.0
-    assert required_margin(MarginRule(cap_above=20.0), 20.0, "above") == 20.0
+    assert required_margin(MarginRule(margin_cap_above=20.0), 20.0, "above") == 20.0
     rotor = parse_rotor((ROOT / "cases" / "compressor.toml").read_text()
                         + '\n[response]\nvibration_limit = "12 um"\n'
                         ).settings.margin_rule
-    assert rotor.cap_below == 16.0 and rotor.cap_above == 26.0
+    assert rotor.margin_cap_below == 16.0 and rotor.margin_cap_above == 26.0
 
 
 @pytest.mark.parametrize("mcs_rpm, limit_um", [
@@ -602,13 +602,13 @@ def test_verdict_clearance_check_covers_run_up():
 def test_verdict_stability_rule_from_the_command_line(tmp_path):
     path = undamped_fan(tmp_path)
     assert runner.invoke(app, ["check", str(path)]).exit_code == 1          # marginal
-    assert runner.invoke(app, ["check", str(path), "--stability", "none"]).exit_code == 0
+    assert runner.invoke(app, ["check", str(path), "--stability-rule", "none"]).exit_code == 0
     fan = ROOT / "cases" / "overhung_fan.toml"
     assert runner.invoke(app, ["check", str(fan)]).exit_code == 0
     strict = runner.invoke(app, ["check", str(fan), "--min-log-dec", "0.1"])
     assert strict.exit_code == 1 and "below minimum" in strict.output
-    bad = runner.invoke(app, ["check", str(fan), "--stability", "sometimes"])
-    assert bad.exit_code == 2 and "--stability" in bad.output
+    bad = runner.invoke(app, ["check", str(fan), "--stability-rule", "sometimes"])
+    assert bad.exit_code == 2 and "--stability-rule" in bad.output
 
 
 def test_verdict_lifted_journal_needs_an_explicit_amount(tmp_path):
@@ -656,14 +656,14 @@ def test_verdict_instability_below_the_range_fails_the_run_up_clearance_check():
     source = rotor.bearings[2]
     q_top = slope * TOP
     falling = Bearing(1, {**source.coefficients, "kxy": (q_top, 0.0), "kyx": (-q_top, 0.0)},
-                      speeds=(0.0, TOP), name="gas", kind="seal")
+                      speeds=(0.0, TOP), name="gas", role="seal")
     rotor = Rotor(rotor.sections, OperatingRange(1500.0, 1700.0, 1750.0), disks=rotor.disks,
                   bearings=rotor.bearings[:2] + (falling,), settings=rotor.settings,
                   clearances=(Clearance(1, 1e-3, "disk seal"),))
     result = screen(rotor)
     # no mode unstable from the minimum speed up (the anti-symmetric mode has no motion
     # at the damper and reads marginal, which is right and beside the point here)
-    assert all(m.verdict != "unstable" for m in result.stability.modes)
+    assert all(m.verdict != "unstable" for m in result.stability.branches)
     lo, hi = result.stability.unstable_ranges[0]
     assert lo == pytest.approx(0.0, abs=1.0) and hi == pytest.approx(TOP - 1200.0, rel=1e-3)
     case = UnbalanceCase("disk", (UnbalanceWeight(1, 1e-4),))
@@ -681,7 +681,7 @@ def test_verdict_rule_none_lists_margins_without_judging_them():
     import dataclasses
     fan = dataclasses.replace(rotor, operating=OperatingRange(1800 * RPM, 2200 * RPM),
                               settings=dataclasses.replace(
-                                  settings, margin_rule=MarginRule(kind="none")))
+                                  settings, margin_rule=MarginRule(name="none")))
     rows = screen(fan).margins.rows
     inside = [r for r in rows if r.side == "inside"]
     assert inside and all(r.verdict == "not judged" for r in inside)

@@ -169,8 +169,8 @@ def test_map_asymptotes_euler_bernoulli():
     rotor = uniform_shaft(L1, D1, N1, theory="euler-bernoulli",
                           bearings=[isotropic(0, 1e6), isotropic(1, 1e6)])
     k = KAPPA1 * ei / L1**3
-    forward = critical_speed_map(rotor, stiffness=k, n_modes=4).speeds
-    backward = critical_speed_map(rotor, stiffness=k, n_modes=4, whirl="backward").speeds
+    forward = critical_speed_map(rotor, stiffness=k, mode_count=4).speeds
+    backward = critical_speed_map(rotor, stiffness=k, mode_count=4, whirl="backward").speeds
     # Without gyroscopic terms forward and backward criticals coincide, and
     # each appears once per curve (no duplicated degenerate pair).
     check("EB shaft map: forward vs backward curves, max rel. difference",
@@ -290,7 +290,7 @@ def test_map_asymptotes_rayleigh_gyroscopic():
     rotor = uniform_shaft(L3, D3, N3, theory="rayleigh",
                           bearings=[isotropic(0, 1e8), isotropic(1, 1e8)])
     k = KAPPA3 * ei / L3**3
-    speeds = critical_speed_map(rotor, stiffness=k, n_modes=4).speeds
+    speeds = critical_speed_map(rotor, stiffness=k, mode_count=4).speeds
     ratio = KAPPA3[1] / KAPPA3[0]
 
     # --- soft end: rigid rotor with Id = m L^2/12 + rho I L, Ip = 2 rho I L
@@ -345,7 +345,7 @@ LJ, DJ, MJ = 1.0, 0.05, 20.0        # as test_disk_rotors.py case 4
 def jeffcott(bearings, operating=OperatingRange(100.0, 200.0), rule=None, judge_backward=False,
              speed_to=None):
     half = Section(LJ / 2, DJ, LIGHT, elements=1)
-    settings = Settings(beam_theory="euler-bernoulli", modes=4, speed_count=21,
+    settings = Settings(beam_theory="euler-bernoulli", mode_count=4, speed_count=21,
                         speed_to=speed_to, margin_rule=rule or MarginRule(),
                         judge_backward=judge_backward)
     return Rotor((half, half), operating, disks=(Disk(1, MJ, 0.0, 0.0),),
@@ -369,7 +369,7 @@ def test_map_jeffcott_series_springs():
     rotor = jeffcott([isotropic(0, 1e6), isotropic(2, 1e6)])
     exact = np.array([cf.jeffcott_critical_flexible_supports(ks, kb, MJ) for kb in ratio * ks])
     for whirl in ("forward", "backward"):
-        w = critical_speed_map(rotor, stiffness=ratio * ks, n_modes=1, whirl=whirl).speeds[:, 0]
+        w = critical_speed_map(rotor, stiffness=ratio * ks, mode_count=1, whirl=whirl).speeds[:, 0]
         err = w / exact - 1.0
         # the shaft's mass can only lower the critical
         assert np.all(err <= 1e-10)
@@ -509,7 +509,7 @@ def test_stiffness_window_jeffcott():
         return Bearing(station, {"kxx": (KX,), "kyy": (KY,), "cxx": (CW,), "cyy": (CW,)})
 
     rotor = jeffcott([bearing(0), bearing(2)], operating=OperatingRange(N_MIN, N_MC),
-                     rule=MarginRule(kind="fixed", below=BELOW, above=ABOVE))
+                     rule=MarginRule(name="fixed", margin_below=BELOW, margin_above=ABOVE))
     window = stiffness_window(rotor, points=5, rtol=RTOL)
     check("Jeffcott window: base rotor keeps the margins", WINDOW, True, window.base_passes, 0,
           kind="equal")
