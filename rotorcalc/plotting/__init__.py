@@ -5,13 +5,21 @@ when none is given, and returns what it drew.  Plotting never computes an
 analysis: it draws result objects made by :mod:`rotorcalc.analysis`.
 Matplotlib is imported here without choosing a backend; the command line
 selects a non-interactive one.
+
+One module per picture: ``speedmap`` (whirl-speed map), ``shapes`` (mode
+shape), ``layout`` (rotor layout), ``bodeplot``, ``polarplot``, ``orbitplot``
+(unbalance response), ``csmap`` (critical-speed map, variants' maps, mode shapes
+at map points).  Shared helpers start with an underscore: ``_style`` and ``_labels`` (the look, label placing), ``_units``,
+``_orbit``, ``_phase``, ``_probes``, ``_panels``, ``_artists``.
 """
 
+from .bodeplot import BodeArtists, bode
 from .csmap import (CriticalMapArtists, MapShapeArtists, VariantMapArtists, critical_speed_map,
                     map_point_label, map_shapes, variant_maps)
 from .layout import LayoutArtists, rotor_layout
+from .orbitplot import OrbitArtists, orbits
 from .output import save
-from .response import BodeArtists, OrbitArtists, PolarArtists, bode, orbits, polar
+from .polarplot import PolarArtists, polar
 from .shapes import ModeShapeArtists, mode_shape
 from .speedmap import SpeedMapArtists, whirl_speed_map
 
