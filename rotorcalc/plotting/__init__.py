@@ -8,20 +8,22 @@ selects a non-interactive one.
 
 One module per picture: ``speedmap`` (whirl-speed map), ``shapes`` (mode
 shape), ``layout`` (rotor layout), ``bodeplot``, ``polarplot``, ``orbitplot``
-(unbalance response), ``csmap`` (critical-speed map, variants' maps, mode shapes
-at map points).  Shared helpers start with an underscore: ``_style`` and ``_labels`` (the look, label placing), ``_units``,
+(unbalance response), ``stiffmap`` (critical-speed map), ``overlay`` (variants'
+maps), ``mapshapes`` (mode shapes at map points).  Shared helpers start with an
+underscore: ``_style`` and ``_labels`` (the look, label placing), ``_units``,
 ``_orbit``, ``_phase``, ``_probes``, ``_panels``, ``_artists``.
 """
 
 from .bodeplot import BodeArtists, bode
-from .csmap import (CriticalMapArtists, MapShapeArtists, VariantMapArtists, critical_speed_map,
-                    map_point_label, map_shapes, variant_maps)
 from .layout import LayoutArtists, rotor_layout
+from .mapshapes import MapShapeArtists, map_point_label, map_shapes
 from .orbitplot import OrbitArtists, orbits
 from .output import save
+from .overlay import VariantMapArtists, variant_maps
 from .polarplot import PolarArtists, polar
 from .shapes import ModeShapeArtists, mode_shape
 from .speedmap import SpeedMapArtists, whirl_speed_map
+from .stiffmap import CriticalMapArtists, critical_speed_map
 
 __all__ = ["whirl_speed_map", "mode_shape", "rotor_layout", "bode", "polar", "orbits", "save",
            "SpeedMapArtists", "ModeShapeArtists", "LayoutArtists", "BodeArtists",
