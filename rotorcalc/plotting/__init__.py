@@ -1,10 +1,10 @@
 """Pictures of rotors and their results.
 
 Every function draws on the axes it is given (``ax=``) or on a new figure
-when none is given, and returns what it drew.  Plotting never computes an
-analysis: it draws result objects made by :mod:`rotorcalc.analysis`.
-Matplotlib is imported here without choosing a backend; the command line
-selects a non-interactive one.
+when none is given, and returns what it drew: a frozen record derived from
+:class:`._artists.Artists`.  Plotting never computes an analysis: it draws
+result objects made by :mod:`rotorcalc.analysis`.  Matplotlib is imported here
+without choosing a backend; the command line selects a non-interactive one.
 
 One module per picture: ``speedmap`` (whirl-speed map), ``shapes`` (mode
 shape), ``layout`` (rotor layout), ``bodeplot``, ``polarplot``, ``orbitplot``
