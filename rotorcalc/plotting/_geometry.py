@@ -1,12 +1,10 @@
-"""Sizes to draw rotor parts at, and the shaft's shape at an instant (presentation only)."""
+"""Sizes to draw rotor parts at (presentation only)."""
 
 from __future__ import annotations
 
 import math
 
-import numpy as np
-
-MM = 1000.0
+from ._units import MM
 
 
 def equivalent_disk(disk):
@@ -47,21 +45,3 @@ def shaft_diameter(rotor, station):
     sides = [rotor.sections[i] for i in (station - 1, station) if 0 <= i < n]
     return max(s.outer_diameter for s in sides)
 
-
-def snapshot(shape, peak):
-    """A mode's deflection at the instant node ``peak`` is at the end of its major axis.
-
-    ``shape`` holds the complex x and y translation of each node (rows).  For
-    ``p(t) = Re([X, Y] e^{it})`` the squared radius of a node is largest at
-    ``t = -arg(X^2 + Y^2) / 2``.  Returns the deflections at that instant
-    projected on the peak node's direction (signed, so nodal points show), or
-    None when the peak node does not move, and the instant ``t``.
-    """
-    x, y = shape[peak]
-    t = -0.5 * np.angle(x * x + y * y)
-    at = (shape * np.exp(1j * t)).real
-    u = at[peak]
-    norm = np.hypot(*u)
-    if norm == 0:
-        return None, t
-    return at @ (u / norm), t

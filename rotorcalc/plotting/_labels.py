@@ -6,12 +6,14 @@ resolution holds at any other.  Boxes are ``(x0, y0, x1, y1)`` tuples.
 
 from __future__ import annotations
 
+import math
 from functools import lru_cache
 
 import numpy as np
 from matplotlib.font_manager import FontProperties
 from matplotlib.lines import Line2D
 from matplotlib.patches import Patch
+from matplotlib.ticker import FuncFormatter, NullFormatter
 from matplotlib.textpath import text_to_path
 from matplotlib.transforms import ScaledTranslation, offset_copy
 
@@ -70,6 +72,31 @@ def line_boxes(ax, xs, ys, pad=1.5, step=3.0):
             x, y = a + t * (b - a)
             boxes.append((x - pad, y - pad, x + pad, y + pad))
     return boxes
+
+
+# --- tick labels ------------------------------------------------------------------
+
+SUPERSCRIPT = str.maketrans("-0123456789", "\u207b\u2070\u00b9\u00b2\u00b3\u2074\u2075\u2076"
+                                            "\u2077\u2078\u2079")
+
+
+def power_text(value):
+    """``1e8`` as "10⁸" and ``2e8`` as "2×10⁸", in plain text (no math parser needed)."""
+    if not (math.isfinite(value) and value > 0):
+        return ""
+    mantissa, exponent = f"{value:.0e}".split("e")
+    power = "10" + str(int(exponent)).translate(SUPERSCRIPT)
+    return power if mantissa == "1" else f"{mantissa}\u00d7{power}"
+
+
+def plain_log_ticks(axis, ratio):
+    """Decade labels as plain text; in-between labels too when the axis spans under
+    two decades (``ratio``, top over bottom), where decades alone are too few to read by."""
+    axis.set_major_formatter(FuncFormatter(lambda v, _: power_text(v)))
+    if ratio < 100.0:
+        axis.set_minor_formatter(FuncFormatter(lambda v, _: power_text(v)))
+    else:
+        axis.set_minor_formatter(NullFormatter())
 
 
 # --- placing ------------------------------------------------------------------------

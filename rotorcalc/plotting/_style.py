@@ -13,7 +13,7 @@ import numpy as np
 from matplotlib.figure import Figure
 from matplotlib.patches import Rectangle
 
-from ..units import to_rpm
+from ._units import to_rpm
 
 # Ink and paper: dark slate rather than black, so that thin lines stay crisp in
 # print without looking heavy on screen.
@@ -48,6 +48,15 @@ VERDICT_STYLES = {
     "overdamped": {"marker": "s", "facecolor": "none", "label": "overdamped, not a critical"},
 }
 NEUTRAL_MARKER = {"marker": "o", "facecolor": PAPER, "label": ""}
+
+# Series told apart by colour: probes by station, orbit speeds, map shapes; and the
+# line styles of series that share a colour (probes at one station).
+SERIES_COLOURS = ("#2d6fb4", "#c8571b", "#3a9467", "#7a4fa0", "#b1172f", "#8c6d1f", "#2f8f9d",
+                  "#5b6770")
+SERIES_STYLES = ("-", (0, (5.0, 2.2)), (0, (1.2, 1.6)), (0, (6.0, 2.0, 1.2, 2.0)))
+# Named items told apart by colour: bearings on the critical-speed map, and variants
+# after the base (drawn in ink) on the overlaid maps.
+ITEM_COLOURS = ("#2d6fb4", "#c8571b", "#7a4fa0", "#2f8f9d", "#8c6d1f", "#b1172f")
 
 # Rotor drawing.
 STEEL = "#cfd8e1"

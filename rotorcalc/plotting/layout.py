@@ -11,7 +11,9 @@ from matplotlib.patches import Patch, Polygon, Rectangle
 
 from . import _labels as lb
 from . import _style as st
-from ._geometry import MM, disk_size, shaft_diameter
+from ._artists import Artists
+from ._geometry import disk_size, shaft_diameter
+from ._units import MM
 from ..errors import InputError
 
 #: Below this ratio of largest diameter to length, the radial scale is stretched.
@@ -28,12 +30,11 @@ _SEAL_W, _SEAL_H = 0.05, 0.07
 
 
 @dataclass(frozen=True)
-class LayoutArtists:
-    """What :func:`rotor_layout` drew.
+class LayoutArtists(Artists):
+    """What :func:`rotor_layout` drew (and ``figure``, ``ax``, ``legend`` as every picture).
 
     Attributes
     ----------
-    figure, ax
     sections : list of Rectangle
         One per shaft section, in order.
     bores : list
@@ -47,18 +48,14 @@ class LayoutArtists:
         Station numbers (and names) along the top.
     radial_scale : float
         Factor by which radial sizes are stretched (1 = true scale).
-    legend : Legend
     """
 
-    figure: object
-    ax: object
     sections: list = field(default_factory=list)
     bores: list = field(default_factory=list)
     disks: list = field(default_factory=list)
     bearings: list = field(default_factory=list)
     station_axis: object = None
     radial_scale: float = 1.0
-    legend: object = None
 
 
 def _auto_scale(rotor, disk_sizes):
@@ -102,52 +99,32 @@ def rotor_layout(rotor, *, ax=None, radial_scale=None):
     disk_sizes = [disk_size(d, rotor) for d in rotor.disks]
     f = _auto_scale(rotor, disk_sizes) if radial_scale is None else float(radial_scale)
     if not (math.isfinite(f) and f > 0):
-        raise InputError("plot arguments", f"radial_scale must be a positive number, not {radial_scale!r}", kind="option")
+        raise InputError("plot arguments", f"radial_scale must be a positive number, not "
+                         f"{radial_scale!r}", kind="option")
 
-    length = z[-1]
-    if ax is None:
-        frame = _frame(rotor, z, disk_sizes, f, 9.0)
-        fig, ax, _ = st.axes_for(None, figsize=(frame.width_in + 1.0, frame.height_in + 2.6))
-        w, h = fig.get_size_inches()
-        fig.subplots_adjust(left=0.5 / w, right=1 - 0.5 / w, bottom=1.25 / h,
-                            top=1 - 1.35 / h)
-    else:
-        fig = ax.figure
-        box = ax.get_window_extent()
-        width_in, room_in = box.width / fig.dpi, box.height / fig.dpi
-        frame = _frame(rotor, z, disk_sizes, f, width_in)
-        for _ in range(3):
-            # Equal aspect in a low box: the picture is as high as the box, narrower.
-            if frame.height_in <= room_in * 1.001:
-                break
-            width_in *= room_in / frame.height_in
-            frame = _frame(rotor, z, disk_sizes, f, width_in)
-    x_lo, x_hi, y_bottom, y_top = frame.x_lo, frame.x_hi, frame.y_bottom, frame.y_top
-    y_ground, ym, mm_per_in = frame.y_ground, frame.ym, frame.mm_per_in
-    name_y, plan = frame.name_y, frame.plan
+    fig, ax, frame = _fitted(ax, rotor, z, disk_sizes, f)
     st.style_axes(ax, grid=False)
-
-    ax.set_xlim(x_lo, x_hi)
-    ax.set_ylim(y_bottom, y_top)
+    ax.set_xlim(frame.x_lo, frame.x_hi)
+    ax.set_ylim(frame.y_bottom, frame.y_top)
     ax.set_aspect(f, adjustable="box")
     for side in ("left", "right", "top"):
         ax.spines[side].set_visible(False)
     ax.yaxis.set_visible(False)
     ax.set_xlabel("Axial position (mm)", fontsize=st.FONT_LABEL, color=st.INK)
-
     # Centre line, as on a drawing.
-    ax.plot([x_lo + 0.01 * length, x_hi - 0.01 * length], [0, 0], color=st.MUTED,
+    length = z[-1]
+    ax.plot([frame.x_lo + 0.01 * length, frame.x_hi - 0.01 * length], [0, 0], color=st.MUTED,
             linewidth=0.6, linestyle=(0, (12, 3, 2, 3)), zorder=5)
-
+    ym, mm_per_in = frame.ym, frame.mm_per_in
     sections, bores = _draw_sections(ax, rotor, z)
     disks = _draw_disks(ax, rotor, z, disk_sizes)
     _label_diameters(ax, rotor, z, disk_sizes, ym, mm_per_in)
     bearings = [_draw_seal(ax, b, rotor, z, ym, mm_per_in) if b.role == "seal" else
-                _draw_bearing(ax, b, rotor, z, y_ground, ym, mm_per_in) for b in rotor.bearings]
-    _label_disks(ax, rotor, z, disk_sizes, plan)
-    _label_bearings(ax, rotor, z, name_y)
+                _draw_bearing(ax, b, rotor, z, frame.y_ground, ym, mm_per_in)
+                for b in rotor.bearings]
+    _label_disks(ax, rotor, z, disk_sizes, frame.plan)
+    _label_bearings(ax, rotor, z, frame.name_y)
     station_axis = _station_axis(ax, rotor, z)
-
     scale_note = "true scale" if f == 1 else f"radial scale \u00d7{f:g}"
     ax.set_title(rotor.name, fontsize=st.FONT_TITLE, color=st.INK, loc="left", pad=8)
     ax.set_title(f"length {length:.0f} mm \u00b7 rotor mass {rotor.mass:.1f} kg \u00b7 "
@@ -156,6 +133,29 @@ def rotor_layout(rotor, *, ax=None, radial_scale=None):
     return LayoutArtists(figure=fig, ax=ax, sections=sections, bores=bores, disks=disks,
                          bearings=bearings, station_axis=station_axis, radial_scale=f,
                          legend=_legend(ax, rotor))
+
+
+def _fitted(ax, rotor, z, disk_sizes, f):
+    """``(figure, axes, frame)``: a new figure sized to the drawing at 9 inches wide, or
+    the frame that fits the axes given (equal aspect in a low box: the picture is as high
+    as the box, and narrower)."""
+    if ax is None:
+        frame = _frame(rotor, z, disk_sizes, f, 9.0)
+        fig, ax, _ = st.axes_for(None, figsize=(frame.width_in + 1.0, frame.height_in + 2.6))
+        w, h = fig.get_size_inches()
+        fig.subplots_adjust(left=0.5 / w, right=1 - 0.5 / w, bottom=1.25 / h,
+                            top=1 - 1.35 / h)
+        return fig, ax, frame
+    fig = ax.figure
+    box = ax.get_window_extent()
+    width_in, room_in = box.width / fig.dpi, box.height / fig.dpi
+    frame = _frame(rotor, z, disk_sizes, f, width_in)
+    for _ in range(3):
+        if frame.height_in <= room_in * 1.001:
+            break
+        width_in *= room_in / frame.height_in
+        frame = _frame(rotor, z, disk_sizes, f, width_in)
+    return fig, ax, frame
 
 
 @dataclass(frozen=True)

@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -10,11 +9,12 @@ from matplotlib.lines import Line2D
 from matplotlib.patches import FancyArrowPatch, Patch, Polygon, Rectangle
 from matplotlib.transforms import ScaledTranslation, offset_copy
 
-from ..analysis.modes import whirl_senses
-from ..units import to_rpm
 from . import _labels as lb
 from . import _style as st
-from ._geometry import MM, disk_size, shaft_diameter, snapshot
+from ._artists import Artists
+from ._geometry import disk_size, shaft_diameter
+from ._orbit import ellipse, forward_dominant, major_axis, snapshot, turn
+from ._units import MM, to_hz, to_rpm
 
 LINE = "#2d6fb4"
 ENVELOPE = "#dce7f3"
@@ -30,12 +30,11 @@ _OUTLINE_HALF = 0.30   # largest outline radius, in normalised units
 
 
 @dataclass(frozen=True)
-class ModeShapeArtists:
-    """What :func:`mode_shape` drew.
+class ModeShapeArtists(Artists):
+    """What :func:`mode_shape` drew (and ``figure``, ``ax``, ``legend`` as every picture).
 
     Attributes
     ----------
-    figure, ax
     envelope : PolyCollection
         The band swept by the orbits' major semi-axes.
     line : Line2D
@@ -46,17 +45,13 @@ class ModeShapeArtists:
         One small orbit per station drawn (crowded stations are skipped).
     outline : list
         The faint rotor outline (empty when no rotor is given).
-    legend : Legend
     """
 
-    figure: object
-    ax: object
     envelope: object = None
     line: object = None
     station_lines: list = field(default_factory=list)
     orbits: list = field(default_factory=list)
     outline: list = field(default_factory=list)
-    legend: object = None
 
 
 @st.literal_text
@@ -94,17 +89,46 @@ def mode_shape(modes, index, *, ax=None, rotor=None, orbits=True):
     if created:
         fig.subplots_adjust(left=0.08, right=0.97, bottom=0.2, top=0.86)
     st.style_axes(ax)
-
     shape = np.asarray(modes.shapes[index])
     z = np.asarray(modes.node_z, dtype=float) * MM
     stations = np.asarray(modes.station_nodes, dtype=int)
-    rf, rb = whirl_senses(shape)
-    major = rf + rb
+    major, scale, line, instant = _scaled(shape)
+    _frame(ax, z, rotor, orbits)
+    outline = _outline(ax, rotor) if rotor is not None else []
+    envelope = ax.fill_between(z, -major / scale, major / scale, facecolor=ENVELOPE,
+                               edgecolor=LINE, linewidth=0.5, alpha=0.6, zorder=2)
+    shaft, = ax.plot(z, line, color=LINE, linewidth=2.0, zorder=4)
+    shaft.set_solid_capstyle("round")
+    station_lines = _stations(ax, z, stations, line)
+    drawn = []
+    if orbits:
+        ax.axhline(_STRIP_SPLIT, color=st.FAINT, linewidth=0.8, zorder=1)
+        drawn = _orbits(ax, shape, z, stations, major, scale, instant)
+    else:
+        for k, node in enumerate(stations):
+            ax.annotate(str(k), xy=(z[node], _SHAPE_BOTTOM), xytext=(0, -2),
+                        textcoords="offset points", ha="center", va="top",
+                        fontsize=st.FONT_NOTE, color=st.MUTED)
+    _titles(ax, modes, index)
+    return ModeShapeArtists(figure=fig, ax=ax, envelope=envelope, line=shaft,
+                            station_lines=station_lines, orbits=drawn, outline=outline,
+                            legend=_legend(ax, rotor is not None, orbits))
+
+
+def _scaled(shape):
+    """The orbits' major semi-axes, the largest (the scale), the shaft at the instant the
+    largest orbit is at its major semi-axis scaled by it, and that instant."""
+    major = major_axis(shape)
     peak_node = int(np.argmax(major))
     scale = float(major[peak_node]) or 1.0
     line, instant = snapshot(shape, peak_node)
     line = (line if line is not None else np.zeros(len(shape))) / scale
+    return major, scale, line, instant
 
+
+def _frame(ax, z, rotor, orbits):
+    """Limits: the shaft (and the disks of the rotor drawn) across, the shape and the
+    orbit strip up."""
     span = z[-1] - z[0] if len(z) > 1 else 1.0
     x_lo, x_hi = z[0], z[-1]
     if rotor is not None:
@@ -117,13 +141,10 @@ def mode_shape(modes, index, *, ax=None, rotor=None, orbits=True):
     ax.set_yticks([-1.0, -0.5, 0.0, 0.5, 1.0])
     ax.axhline(0.0, color=st.MUTED, linewidth=0.6, zorder=1)
 
-    outline = _outline(ax, rotor) if rotor is not None else []
 
-    envelope = ax.fill_between(z, -major / scale, major / scale, facecolor=ENVELOPE,
-                               edgecolor=LINE, linewidth=0.5, alpha=0.6, zorder=2)
-    shaft, = ax.plot(z, line, color=LINE, linewidth=2.0, zorder=4)
-    shaft.set_solid_capstyle("round")
-
+def _stations(ax, z, stations, line):
+    """A faint line and a dot on the shaft at each station; horizontal grid lines over
+    the shape only (the stations stand in for vertical ones)."""
     station_lines = []
     for node in stations:
         station_lines.append(ax.plot([z[node], z[node]], [_SHAPE_BOTTOM, 1.1], color=st.FAINT,
@@ -131,23 +152,16 @@ def mode_shape(modes, index, *, ax=None, rotor=None, orbits=True):
         ax.plot([z[node]], [line[node]], linestyle="none", marker="o", markersize=3.2,
                 markerfacecolor=st.PAPER, markeredgecolor=LINE, markeredgewidth=0.9,
                 zorder=5)
-
-    # Stations stand in for vertical grid lines; horizontal ones only over the shape.
     ax.grid(False)
     for y in (-1.0, -0.5, 0.5, 1.0):
         ax.axhline(y, color=st.GRID, linewidth=0.7, zorder=0)
-    drawn = []
-    if orbits:
-        ax.axhline(_STRIP_SPLIT, color=st.FAINT, linewidth=0.8, zorder=1)
-        drawn = _orbits(ax, shape, z, stations, major, scale, instant)
-    else:
-        for k, node in enumerate(stations):
-            ax.annotate(str(k), xy=(z[node], _SHAPE_BOTTOM), xytext=(0, -2),
-                        textcoords="offset points", ha="center", va="top",
-                        fontsize=st.FONT_NOTE, color=st.MUTED)
+    return station_lines
 
+
+def _titles(ax, modes, index):
+    """The mode and speed as title, its frequency, log decrement and whirl below it."""
     freq = float(modes.frequency[index])
-    hz, cpm = freq / (2.0 * math.pi), to_rpm(freq)
+    hz, cpm = to_hz(freq), to_rpm(freq)
     log_dec = float(modes.log_dec[index])
     whirl = modes.whirl[index]
     ax.set_title(f"Mode {index + 1} at {st.whole(to_rpm(modes.speed))} rpm", loc="left",
@@ -157,9 +171,6 @@ def mode_shape(modes, index, *, ax=None, rotor=None, orbits=True):
             fontsize=st.FONT_LABEL - 0.5, color=st.MUTED, ha="left", va="bottom")
     ax.set_xlabel("Axial position (mm)", fontsize=st.FONT_LABEL, color=st.INK)
     ax.set_ylabel("Deflection, normalised", fontsize=st.FONT_LABEL, color=st.INK)
-    return ModeShapeArtists(figure=fig, ax=ax, envelope=envelope, line=shaft,
-                            station_lines=station_lines, orbits=drawn, outline=outline,
-                            legend=_legend(ax, rotor is not None, orbits))
 
 
 def _outline(ax, rotor):
@@ -210,14 +221,13 @@ def _orbits(ax, shape, z, stations, major, scale, instant):
         if (px - last) / dpi >= 2 * radius + 0.03:
             keep.append(k)
             last = px
-    theta = np.linspace(0.0, 2.0 * np.pi, 97)
     drawn = []
     for k in keep:
         node = stations[k]
         x, y = shape[node]
         trans = fig.dpi_scale_trans + ScaledTranslation(z[node], _ORBIT_Y, ax.transData)
-        path = (np.outer(np.exp(1j * (theta + instant)), [x, y])).real / scale * radius
-        forward = _forward_dominant(x, y)
+        path = np.column_stack(ellipse(x, y, turn(97, instant))) / scale * radius
+        forward = forward_dominant(x, y)
         colour = LINE if forward else BACKWARD
         style = "-" if forward else (0, (2.5, 1.5))
         size = major[node] / scale
@@ -247,11 +257,6 @@ def _orbits(ax, shape, z, stations, major, scale, instant):
             "orbits at stations, seen from the +z end", transform=ax.transAxes,
             fontsize=st.FONT_NOTE - 0.5, color=st.MUTED, ha="left", va="top")
     return drawn
-
-
-def _forward_dominant(x, y):
-    """True when a node's forward circle is at least its backward one."""
-    return abs(x + 1j * y) >= abs(x - 1j * y)
 
 
 def _legend(ax, with_outline, with_orbits):

@@ -7,9 +7,10 @@ from dataclasses import dataclass, field
 import numpy as np
 from matplotlib.lines import Line2D
 
-from ..units import to_rpm
 from . import _labels as lb
 from . import _style as st
+from ._artists import WhirlMapArtists
+from ._units import to_rpm
 
 #: Room above the synchronous line at the top of the sweep.
 HEADROOM = 1.1
@@ -18,13 +19,11 @@ MAX_LISTED = 16
 
 
 @dataclass(frozen=True)
-class SpeedMapArtists:
-    """What :func:`whirl_speed_map` drew.
+class SpeedMapArtists(WhirlMapArtists):
+    """What :func:`whirl_speed_map` drew (and ``figure``, ``ax``, ``legend`` as every picture).
 
     Attributes
     ----------
-    figure, ax
-        The figure and axes drawn on.
     branches : list of list of Line2D
         The pieces of each tracked branch (one piece per run of equal whirl
         label and damping class).
@@ -42,7 +41,6 @@ class SpeedMapArtists:
         One marker per critical speed, in the order given.
     critical_labels : list of Annotation
         One per group of all but coinciding markers.
-    legend : Legend
     freq_max : float
         Upper limit of the frequency axis, cpm.
     hidden_branches : int
@@ -52,20 +50,8 @@ class SpeedMapArtists:
         decrement is below zero (colour alone does not say it in black and white).
     """
 
-    figure: object
-    ax: object
-    branches: list = field(default_factory=list)
-    branch_whirl: list = field(default_factory=list)
-    order_lines: list = field(default_factory=list)
-    order_labels: list = field(default_factory=list)
-    band: object = None
-    band_labels: list = field(default_factory=list)
-    trip_line: object = None
     critical_markers: list = field(default_factory=list)
     critical_labels: list = field(default_factory=list)
-    legend: object = None
-    freq_max: float = 0.0
-    hidden_branches: int = 0
     unstable_labels: list = field(default_factory=list)
 
 
@@ -114,18 +100,49 @@ def whirl_speed_map(sweep, criticals=(), operating=None, orders=(1.0,), *, ax=No
     if created:
         fig.subplots_adjust(left=0.08, right=0.70, bottom=0.10, top=0.86)
     st.style_axes(ax)
-
-    speed = to_rpm(np.asarray(sweep.speeds, dtype=float))
-    freq = to_rpm(np.asarray(sweep.frequency, dtype=float))
-    log_dec = np.asarray(sweep.log_dec, dtype=float)
-    whirl = np.asarray(sweep.whirl)
+    speed, freq, log_dec, whirl = _in_rpm(sweep)
     orders = tuple(float(o) for o in orders)
-
     criticals = list(criticals)
     if margins is not None and not criticals:
         criticals = [row.critical for row in margins.rows]
     verdicts = _verdicts(criticals, margins)
+    x_lo, x_hi, top = _limits(ax, speed, freq, criticals, operating, freq_max)
+    band = trip_line = None
+    band_labels, label_rows = [], 0
+    if operating is not None:
+        band, trip_line, marks = st.operating_band(ax, operating, label="operating range")
+        band_labels, label_rows = lb.edge_labels(ax, marks, rough=True)
+    order_lines, order_labels = [], []
+    for order in orders:
+        line, text = st.order_line(ax, order, x_lo, x_hi, top)
+        order_lines.append(line)
+        order_labels.append(text)
+    branches, branch_whirl, hidden, unstable = _draw_branches(ax, speed, freq, log_dec, whirl,
+                                                              top)
+    markers = _critical_markers(ax, criticals, verdicts)
+    st.label_axes(ax, "Spin speed (rpm)", "Damped natural frequency (cpm)")
+    # Room for the range labels above the frame.
+    ax.set_title("Whirl-speed map", fontsize=st.FONT_TITLE, color=st.INK, loc="left",
+                 pad=6 + 10 * label_rows)
+    legend = _legend(ax, orders, operating, criticals, verdicts, margins, hidden, top)
+    labels = _label_criticals(ax, criticals, order_labels)
+    return SpeedMapArtists(
+        figure=fig, ax=ax, branches=branches, branch_whirl=branch_whirl,
+        order_lines=order_lines, order_labels=order_labels, band=band, band_labels=band_labels,
+        trip_line=trip_line, critical_markers=markers, critical_labels=labels, legend=legend,
+        freq_max=top, hidden_branches=hidden, unstable_labels=unstable)
 
+
+def _in_rpm(sweep):
+    """The sweep's speeds (rpm), frequencies (cpm), log decrements and whirl labels."""
+    return (to_rpm(np.asarray(sweep.speeds, dtype=float)),
+            to_rpm(np.asarray(sweep.frequency, dtype=float)),
+            np.asarray(sweep.log_dec, dtype=float), np.asarray(sweep.whirl))
+
+
+def _limits(ax, speed, freq, criticals, operating, freq_max):
+    """Speed axis from 0 to the end of the sweep (or past the trip speed when the sweep
+    stops short of it), frequency axis to :func:`frequency_top`; ``(x_lo, x_hi, top)``."""
     x_lo, x_hi = (float(np.nanmin(speed)), float(np.nanmax(speed))) if speed.size else (0.0, 1.0)
     x_lo = min(x_lo, 0.0)
     if operating is not None:
@@ -135,19 +152,12 @@ def whirl_speed_map(sweep, criticals=(), operating=None, orders=(1.0,), *, ax=No
     top = frequency_top([freq], x_hi, criticals) if freq_max is None else float(freq_max)
     ax.set_xlim(x_lo, x_hi)
     ax.set_ylim(0.0, top)
+    return x_lo, x_hi, top
 
-    band = trip_line = None
-    band_labels, label_rows = [], 0
-    if operating is not None:
-        band, trip_line, marks = st.operating_band(ax, operating, label="operating range")
-        band_labels, label_rows = lb.edge_labels(ax, marks, rough=True)
 
-    order_lines, order_labels = [], []
-    for order in orders:
-        line, text = st.order_line(ax, order, x_lo, x_hi, top)
-        order_lines.append(line)
-        order_labels.append(text)
-
+def _draw_branches(ax, speed, freq, log_dec, whirl, top):
+    """Every branch, and the word "unstable" where one is: the pieces and whirl labels
+    per branch, the number of branches wholly above ``top`` and the words."""
     branches, branch_whirl = [], []
     for j in range(freq.shape[1] if freq.ndim == 2 else 0):
         pieces, kinds = _draw_branch(ax, speed, freq[:, j], log_dec[:, j], whirl[:, j])
@@ -159,11 +169,14 @@ def whirl_speed_map(sweep, criticals=(), operating=None, orders=(1.0,), *, ax=No
         present = np.isfinite(freq) & np.isfinite(log_dec)
         lowest = np.where(present, freq, np.inf).min(axis=0)
         hidden = int(np.sum(np.isfinite(lowest) & (lowest > top)))
-
     unstable = []
     for j in range(freq.shape[1] if freq.ndim == 2 else 0):
         unstable.extend(_label_unstable(ax, speed, freq[:, j], log_dec[:, j], top))
+    return branches, branch_whirl, hidden, unstable
 
+
+def _critical_markers(ax, criticals, verdicts):
+    """A marker per critical speed, shaped and coloured by its verdict."""
     markers = []
     for crit, verdict in zip(criticals, verdicts):
         style = st.VERDICT_STYLES.get(verdict, st.NEUTRAL_MARKER)
@@ -174,19 +187,7 @@ def whirl_speed_map(sweep, criticals=(), operating=None, orders=(1.0,), *, ax=No
                           # Hollow markers on top, so a filled one beneath stays visible.
                           zorder=6.5 if style["facecolor"] == "none" else 6)
         markers.append(marker)
-
-    st.label_axes(ax, "Spin speed (rpm)", "Damped natural frequency (cpm)")
-    # Room for the range labels above the frame.
-    ax.set_title("Whirl-speed map", fontsize=st.FONT_TITLE, color=st.INK, loc="left",
-                 pad=6 + 10 * label_rows)
-
-    legend = _legend(ax, orders, operating, criticals, verdicts, margins, hidden, top)
-    labels = _label_criticals(ax, criticals, order_labels)
-    return SpeedMapArtists(
-        figure=fig, ax=ax, branches=branches, branch_whirl=branch_whirl,
-        order_lines=order_lines, order_labels=order_labels, band=band, band_labels=band_labels,
-        trip_line=trip_line, critical_markers=markers, critical_labels=labels, legend=legend,
-        freq_max=top, hidden_branches=hidden, unstable_labels=unstable)
+    return markers
 
 
 def _label_unstable(ax, speed, freq, log_dec, top):

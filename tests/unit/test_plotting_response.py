@@ -20,7 +20,9 @@ import rotorcalc.plotting
 from rotorcalc.analysis.response import Peak, Response, unbalance_response
 from rotorcalc.model import Bearing, Disk, Material, OperatingRange, Rotor, Section
 from rotorcalc.plotting import bode, orbits, polar, save
-from rotorcalc.plotting.response import BodeArtists, OrbitArtists, PolarArtists
+from rotorcalc.plotting.bodeplot import BodeArtists
+from rotorcalc.plotting.orbitplot import OrbitArtists
+from rotorcalc.plotting.polarplot import PolarArtists
 from rotorcalc.unbalance import Probe, UnbalanceCase, UnbalanceWeight
 from rotorcalc.units import RPM
 
@@ -369,9 +371,9 @@ def test_every_response_picture_saves(tmp_path, suffix):
 
 
 def test_the_package_exports_the_response_pictures():
-    for name in ("bode", "polar", "orbits"):
+    for name, module in (("bode", "bodeplot"), ("polar", "polarplot"), ("orbits", "orbitplot")):
         assert name in rotorcalc.plotting.__all__
-        assert getattr(rotorcalc.plotting, name).__module__ == "rotorcalc.plotting.response"
+        assert getattr(rotorcalc.plotting, name).__module__ == f"rotorcalc.plotting.{module}"
 
 
 # --- end to end on a tiny rotor -------------------------------------------------------
