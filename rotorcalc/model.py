@@ -15,7 +15,10 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from ._checks import FrozenMap, _freeze, _one_of, _positive  # noqa: F401 (re-exported)
 from .errors import InputError
+from .rules import (FROM_MEMORY, MARGIN_RULES, STABILITY_RULES, MarginRule,  # noqa: F401
+                    StabilityRule)
 from .units import to_rpm
 from .vocabulary import BearingRole, old_keywords
 from .unbalance import ResponseSettings
@@ -32,68 +35,6 @@ LIMITS = {"elements per section": 1000, "elements": 5000, "sections": 2000, "par
           "speed count": 2001, "response speed count": 5001, "modes": 100, "orders": 20,
           "order": 100.0}
 BEAM_THEORIES = ("timoshenko", "rayleigh", "euler-bernoulli")
-MARGIN_RULES = ("af-curve", "fixed", "none")
-STABILITY_RULES = ("positive", "at-least", "none")
-#: Where each verdict rule comes from; printed beside every verdict it gives.
-FROM_MEMORY = ("common practice, quoted from memory from industry standards for centrifugal "
-               "machinery; confirm against the edition that applies")
-
-
-class FrozenMap(Mapping):
-    """A mapping that cannot be changed and can be hashed: the model's tables.
-
-    A frozen dataclass holding a plain dict could still be changed in place
-    (``bearing.coefficients["kxx"] = ...``) and could not be hashed.
-    """
-
-    __slots__ = ("_items",)
-
-    def __init__(self, items=()):
-        object.__setattr__(self, "_items", dict(items))
-
-    def __getitem__(self, key):
-        return self._items[key]
-
-    def __iter__(self):
-        return iter(self._items)
-
-    def __len__(self):
-        return len(self._items)
-
-    def __hash__(self):
-        return hash(tuple(sorted(self._items.items())))
-
-    def __eq__(self, other):
-        return isinstance(other, Mapping) and dict(self._items) == dict(other)
-
-    def __repr__(self):
-        return f"FrozenMap({self._items!r})"
-
-    def __setattr__(self, name, value):
-        raise AttributeError("a FrozenMap cannot be changed")
-
-    def __reduce__(self):
-        return (FrozenMap, (self._items,))
-
-
-def _freeze(obj, name, value):
-    """Set a frozen dataclass's mapping field to its frozen copy."""
-    if not isinstance(value, FrozenMap):
-        object.__setattr__(obj, name, FrozenMap(value))
-
-
-def _one_of(key, value, choices):
-    if value not in choices:
-        raise InputError(key, "is not a known choice", value=value,
-                         expected=" or ".join(choices), kind="choice")
-
-
-def _positive(key, value, *, allow_zero=False):
-    ok = value >= 0.0 if allow_zero else value > 0.0
-    if not (math.isfinite(value) and ok):
-        what = "zero or positive" if allow_zero else "positive"
-        raise InputError(key, f"must be {what}", value=value, expected=f"a {what} finite number",
-                         kind="range")
 
 
 @dataclass(frozen=True)
@@ -404,118 +345,6 @@ class OperatingRange:
                                  expected=f"a trip speed at least max_speed "
                                           f"({to_rpm(self.max_speed):.6g} rpm), or a lower "
                                           "max_speed", kind="order")
-
-
-@old_keywords(kind="name", below="margin_below", above="margin_above",
-              cap_below="margin_cap_below", cap_above="margin_cap_above")
-@dataclass(frozen=True)
-class MarginRule:
-    """How the required separation margin is set (see docs/theory.md).
-
-    ``"af-curve"``: the amplification-factor rule of industry standards for
-    centrifugal machinery (common practice, from memory): no margin below
-    ``af_threshold``, else ``17 (1 - 1/(AF - 1.5))`` per cent below the minimum
-    speed, at most ``margin_cap_below``, and ``10 + 17 (1 - 1/(AF - 1.5))`` per cent
-    above the maximum continuous speed, at most ``margin_cap_above``;
-    ``"fixed"``: the ``margin_below`` and ``margin_above`` percentages for every critical;
-    ``"none"``: no margin required (the table still lists the margins).
-    """
-
-    name: str = "af-curve"
-    margin_below: float = 15.0
-    margin_above: float = 15.0
-    af_threshold: float = 2.5
-    margin_cap_below: float = 16.0
-    margin_cap_above: float = 26.0
-
-    def __post_init__(self):
-        _one_of("analysis.margin_rule", self.name, MARGIN_RULES)
-        _positive("analysis.margin_below", self.margin_below, allow_zero=True)
-        _positive("analysis.margin_above", self.margin_above, allow_zero=True)
-        _positive("analysis.af_threshold", self.af_threshold)
-        for name in ("margin_cap_below", "margin_cap_above"):
-            value = getattr(self, name)
-            if not (value > 0):  # inf lifts the cap
-                raise InputError(f"analysis.{name}", "must be positive", value=value,
-                                 expected='a percentage such as 16, or "none" for no cap',
-                                 kind="range")
-
-    @property
-    def label(self):
-        """Where the rule comes from."""
-        return FROM_MEMORY if self.name == "af-curve" else "set by the user"
-
-    def describe(self):
-        """The rule in one sentence, for every presentation."""
-        if self.name == "af-curve":
-            caps = []
-            if math.isfinite(self.margin_cap_below):
-                caps.append(f"at most {self.margin_cap_below:g}% below")
-            if math.isfinite(self.margin_cap_above):
-                caps.append(f"at most {self.margin_cap_above:g}% above")
-            capped = f" ({', '.join(caps)})" if caps else ""
-            return (f"amplification-factor rule: AF < {self.af_threshold:g} needs no margin; "
-                    "otherwise 17(1-1/(AF-1.5))% below the minimum speed and "
-                    f"10+17(1-1/(AF-1.5))% above the maximum continuous speed{capped}")
-        if self.name == "fixed":
-            return f"fixed: {self.margin_below:g}% below and {self.margin_above:g}% above"
-        return "none: margins listed, not judged"
-
-
-@old_keywords(kind="name", minimum="min_log_dec")
-@dataclass(frozen=True)
-class StabilityRule:
-    """What log decrement every mode needs from the minimum speed up to trip.
-
-    ``"positive"``: above zero; ``"at-least"``: at least ``min_log_dec`` (0.1 is a
-    common-practice figure, from memory); ``"none"``: reported, not judged.
-    A log decrement within ``marginal_band`` of zero (0.001 by default: an
-    amplification factor of 3000 or more) cannot be told from zero by the
-    model; it is *marginal* and fails either rule, so a verdict never rests on
-    a digit the model does not resolve (an undamped model is marginal).
-    """
-
-    name: str = "positive"
-    min_log_dec: float = 0.1
-    marginal_band: float = 1e-3
-
-    def __post_init__(self):
-        _one_of("analysis.stability_rule", self.name, STABILITY_RULES)
-        _positive("analysis.min_log_dec", self.min_log_dec, allow_zero=True)
-        _positive("analysis.marginal_band", self.marginal_band, allow_zero=True)
-
-    @property
-    def required(self):
-        """The log decrement a mode must exceed (positive) or reach (at-least)."""
-        return 0.0 if self.name == "positive" else self.min_log_dec
-
-    @property
-    def label(self):
-        if self.name == "at-least":
-            return ("common practice, from memory" if self.min_log_dec == 0.1
-                    else "set by the user")
-        return "physics: a negative log decrement grows" if self.name == "positive" else ""
-
-    def describe(self):
-        band = (f"; within {self.marginal_band:g} of 0 (an undamped mode included) is "
-                "marginal and fails")
-        if self.name == "positive":
-            return ("every mode's log decrement above 0 from the minimum speed up to trip"
-                    + band)
-        if self.name == "at-least":
-            return (f"every mode's log decrement at least {self.min_log_dec:g} from the minimum "
-                    "speed up to trip" + band)
-        return "none: log decrements listed, not judged"
-
-    def is_marginal(self, log_dec):
-        return abs(log_dec) <= self.marginal_band
-
-    def passes(self, log_dec):
-        if self.name == "none":
-            return True
-        if self.is_marginal(log_dec) or log_dec <= 0.0:
-            return False
-        return self.name == "positive" or log_dec >= self.min_log_dec
 
 
 @old_keywords(modes="mode_count", stability="stability_rule")

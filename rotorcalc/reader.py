@@ -11,24 +11,19 @@ from __future__ import annotations
 import dataclasses
 import difflib
 import math
-import re
-import warnings
-import sys
 from pathlib import Path
 
-if sys.version_info >= (3, 11):
-    import tomllib
-else:  # pragma: no cover
-    import tomli as tomllib
-
-from . import standards
 from . import units as u
+from ._read_response import (CLEARANCE_KEYS, PROBE_KEYS, RESPONSE_KEYS,  # noqa: F401
+                             UNBALANCE_KEYS, WEIGHT_KEYS, _clearance, _probe, _response,
+                             _unbalance_cases)
+from ._toml import (FILE_LIMIT, LONG_TEXT, NAME_LENGTH, _array_of_tables,  # noqa: F401
+                    _integer, _number, _quantity, _short, _station, _string,
+                    check_keys, load_toml, locate, plain_text)
 from .errors import InputError
 from .model import (COEFFICIENT_NAMES, Bearing, Disk, MarginRule, Material, OperatingRange,
                     Rotor, Section, Settings, StabilityRule, Support)
-from .vocabulary import (OLD_SPELLINGS_UNTIL, RENAMED_KEYS, BearingRole, RenamedWarning,
-                         renamed)
-from .unbalance import Clearance, Probe, ResponseSettings, UnbalanceCase, UnbalanceWeight
+from .vocabulary import RENAMED_KEYS, BearingRole, renamed
 
 TOP_KEYS = {"title", "stations", "materials", "section", "disk", "bearing", "operating",
             "analysis", "unbalance", "probe", "clearance", "response"}
@@ -45,12 +40,6 @@ ANALYSIS_KEYS = {"speed_from", "speed_to", "speed_count", "mode_count", "orders"
                  "margin_rule", "margin_below", "margin_above", "af_threshold",
                  "margin_cap_below", "margin_cap_above", "judge_backward", "judge_share",
                  "overdamped_ratio", "stability_rule", "min_log_dec", "marginal_band"}
-UNBALANCE_KEYS = {"description", "residual_multiple", "residual_mass", "weight"}
-WEIGHT_KEYS = {"at", "amount", "mass", "radius", "phase"}
-PROBE_KEYS = {"at", "angle", "name"}
-CLEARANCE_KEYS = {"at", "radial", "name"}
-RESPONSE_KEYS = {"speed_from", "speed_to", "speed_count", "check_vibration", "clearance_share",
-                 "vibration_limit"}
 
 
 def read_rotor(path) -> Rotor:
@@ -85,122 +74,6 @@ def parse_rotor(text: str, source: str = "<text>") -> Rotor:
         return rotor_from_dict(data)
     except InputError as err:
         raise err.with_location(file=source, line=locate(text, err.key)) from None
-
-
-def load_toml(text, source):
-    """Parse TOML, turning syntax errors into an InputError with line and column."""
-    if text.startswith("\ufeff"):
-        text = text[1:]
-    try:
-        return tomllib.loads(text)
-    except RecursionError:
-        raise InputError("(syntax)", "nests arrays or tables too deeply", file=source,
-                         expected="TOML nested a few levels, see docs/input.md",
-                         kind="size") from None
-    except tomllib.TOMLDecodeError as exc:
-        msg = str(exc)
-        match = re.search(r"line (\d+), column (\d+)", msg)
-        line = int(match.group(1)) if match else None
-        if line is None and "end of document" in msg:
-            line = text.count("\n") + 1
-        raise InputError("(syntax)", f"is not valid TOML: {msg}", file=source, line=line,
-                         expected="TOML syntax, see docs/input.md", kind="syntax") from None
-
-
-# --- helpers -------------------------------------------------------------------------
-
-def _path(where, key):
-    return f"{where}.{key}" if where else key
-
-
-def check_keys(table, allowed, where):
-    """Raise on the first key of ``table`` that is not in ``allowed``."""
-    if not isinstance(table, dict):
-        raise InputError(where, "must be a table", value=_short(table),
-                         expected="a TOML table of keys", kind="type")
-    for key in table:
-        if key not in allowed:
-            near = difflib.get_close_matches(key, sorted(allowed), n=1, cutoff=0.5)
-            hint = f"did you mean '{near[0]}'?" if near else \
-                "one of " + ", ".join(sorted(allowed))
-            raise InputError(_path(where, key), "is not a known key", expected=hint, kind="unknown-key")
-
-
-def _short(value):
-    text = repr(value)
-    return text if len(text) < 60 else text[:57] + "..."
-
-
-def _require(table, key, where):
-    if key not in table:
-        raise InputError(_path(where, key), "is missing", expected="a value; see docs/input.md",
-                         kind="missing")
-    return table[key]
-
-
-def _quantity(table, key, dim, where, default=None, required=False):
-    if key not in table:
-        if required:
-            _require(table, key, where)
-        return default
-    return u.parse(table[key], dim, _path(where, key))
-
-
-def _integer(table, key, where, default):
-    value = table.get(key, default)
-    if isinstance(value, bool) or not isinstance(value, int):
-        raise InputError(_path(where, key), "must be a whole number", value=value,
-                         kind="type")
-    return value
-
-
-def _number(table, key, where, default):
-    value = table.get(key, default)
-    if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value):
-        raise InputError(_path(where, key), "must be a finite number", value=value, kind="type")
-    return float(value)
-
-
-def _string(table, key, where, default=None, required=False):
-    if key not in table:
-        if required:
-            _require(table, key, where)
-        return default
-    value = table[key]
-    if not isinstance(value, str):
-        raise InputError(_path(where, key), "must be text", value=value, kind="type")
-    return plain_text(value, _path(where, key),
-                      LONG_TEXT if key in ("title", "description") else NAME_LENGTH)
-
-
-#: Longest name (bearing, disk, probe, case ...) and longest title or description.
-NAME_LENGTH = 200
-LONG_TEXT = 1000
-#: Largest rotor file read, bytes.
-FILE_LIMIT = 5_000_000
-
-
-def plain_text(value, key, limit=NAME_LENGTH):
-    """A name or title as given, refused when too long or holding control characters
-    (they would garble tables and pictures); every other character is kept as
-    written, markup and '$' included."""
-    if len(value) > limit:
-        raise InputError(key, f"is longer than {limit} characters", value=value[:40] + "...",
-                         expected=f"at most {limit} characters", kind="size")
-    bad = next((c for c in value if ord(c) < 32 or 127 <= ord(c) < 160), None)
-    if bad is not None:
-        raise InputError(key, f"holds a control character (code {ord(bad)})",
-                         value=value[:60], expected="printable text", kind="type")
-    return value
-
-
-def _array_of_tables(data, key, where=""):
-    value = data.get(key, [])
-    if not isinstance(value, list) or not all(isinstance(v, dict) for v in value):
-        path = _path(where, key)
-        raise InputError(path, f"must be written as [[{path}]] tables", value=_short(value),
-                         kind="type")
-    return value
 
 
 # --- the rotor -------------------------------------------------------------------------
@@ -300,23 +173,6 @@ def _station_names(table, n_sections):
                              value=number, expected=f"0..{n_sections}", kind="station")
         names[name] = number
     return names
-
-
-def _station(table, where, names, n_sections):
-    at = _require(table, "at", where)
-    if isinstance(at, str):
-        if at not in names:
-            near = difflib.get_close_matches(at, sorted(names), n=1, cutoff=0.5)
-            hint = f"did you mean '{near[0]}'?" if near else \
-                f"a station number 0..{n_sections} or a name from [stations]"
-            raise InputError(f"{where}.at", "names an unknown station", value=at,
-                             expected=hint, kind="station")
-        return names[at]
-    if isinstance(at, bool) or not isinstance(at, int) or not 0 <= at <= n_sections:
-        raise InputError(f"{where}.at", "names a station that does not exist", value=at,
-                         expected=f"a station number 0..{n_sections} or a name from [stations]",
-                         kind="station")
-    return at
 
 
 def _disk(table, i, materials, names, n_sections):
@@ -482,168 +338,3 @@ def _cap(table, key, where, default):
     return _number(table, key, where, default)
 
 
-# --- forced response ---------------------------------------------------------------------
-
-def _unbalance_cases(table, names, n_sections, rotor):
-    if not isinstance(table, dict):
-        check_keys(table, set(), "unbalance")  # raises: must be a table
-    cases = []
-    for case_name, entry in table.items():
-        where = f"unbalance.{case_name}"
-        plain_text(case_name, where)
-        check_keys(entry, UNBALANCE_KEYS, where)
-        multiple = _number(entry, "residual_multiple", where, standards.RESIDUAL_MULTIPLE)
-        if multiple <= 0:
-            raise InputError(f"{where}.residual_multiple", "must be positive", value=multiple,
-                             kind="range")
-        carried = _quantity(entry, "residual_mass", u.MASS, where, default=None)
-        if carried is not None and carried <= 0:
-            raise InputError(f"{where}.residual_mass", "must be positive", value=carried,
-                             kind="range")
-        weights = []
-        for j, w in enumerate(_array_of_tables(entry, "weight", where)):
-            wk = f"{where}.weight[{j}]"
-            check_keys(w, WEIGHT_KEYS, wk)
-            station = _station(w, wk, names, n_sections)
-
-            basis = []
-
-            def residual(station=station, wk=wk, basis=basis):
-                if "residual_multiple" not in entry:
-                    warnings.warn(f'{where}: amount = "residual" without residual_multiple is '
-                                  f"read as {multiple:g} x the residual amount (the common-"
-                                  "practice multiple) until version "
-                                  f"{OLD_SPELLINGS_UNTIL}, and refused after it: state "
-                                  f"residual_multiple = {multiple:g} in [{where}]",
-                                  RenamedWarning, stacklevel=2)
-                mass, what = (standards.residual_weight(rotor, station) if carried is None
-                              else (carried, "residual_mass of the case"))
-                basis.append(f"{multiple:g} x residual, W = {mass:.4g} kg: {what}")
-                if not mass > 0:
-                    raise InputError(f"{wk}.amount", "cannot be the residual amount: the "
-                                     "journal nearer the weight carries no static load "
-                                     f"({mass:.3g} kg; the overhang lifts it)",
-                                     value="residual", expected="an amount such as \"12 g*mm\","
-                                     " or residual_mass for the case", kind="range")
-                return multiple * standards.residual_unbalance(mass, rotor.operating.max_speed)
-
-            amount = _unbalance_amount(w, wk, residual)
-            phase = _angle(w, "phase", wk)
-            weights.append(UnbalanceWeight(station, amount, phase, key=wk,
-                                           basis=basis[0] if basis else ""))
-        cases.append(UnbalanceCase(case_name, tuple(weights),
-                                   _string(entry, "description", where, default=""), key=where))
-    return tuple(cases)
-
-
-def _angle(table, key, where):
-    """An angle with a unit; a bare number other than 0 is refused (90 would be radians)."""
-    value = table.get(key, 0.0)
-    number = None
-    if isinstance(value, (int, float)) and not isinstance(value, bool):
-        number = float(value)
-    elif isinstance(value, str):
-        try:
-            number = float(value.strip())   # a number written as text has no unit either
-        except ValueError:
-            pass
-    if number is not None and number != 0 and math.isfinite(number):
-        raise InputError(_path(where, key), "needs a unit", value=value,
-                         expected=f'an angle such as "{number:g} deg" or "{number:g} rad"',
-                         kind="unit")
-    return u.parse(value, u.ANGLE, _path(where, key))
-
-
-def _unbalance_amount(w, where, residual):
-    """An explicit amount, mass times radius, or "residual" (the common-practice amount,
-    from ``residual()``, computed only when asked for)."""
-    given = {"amount", "mass", "radius"} & set(w)
-    if "amount" in given and len(given) > 1:
-        raise InputError(f"{where}.amount", "is given together with mass and radius",
-                         expected="either amount, or mass and radius", kind="conflict")
-    if "amount" in w:
-        if isinstance(w["amount"], str) and w["amount"].strip().lower() == "residual":
-            return residual()
-        return u.parse(w["amount"], u.UNBALANCE, f"{where}.amount")
-    if not given:
-        raise InputError(f"{where}.amount", "is missing",
-                         expected='an amount ("12 g*mm", "residual"), or mass and radius',
-                         kind="missing")
-    mass = _quantity(w, "mass", u.MASS, where, required=True)
-    radius = _quantity(w, "radius", u.LENGTH, where, required=True)
-    return mass * radius
-
-
-def _probe(table, i, names, n_sections):
-    where = f"probe[{i}]"
-    check_keys(table, PROBE_KEYS, where)
-    station = _station(table, where, names, n_sections)
-    angle = _angle(table, "angle", where)
-    return Probe(station, angle, _string(table, "name", where, default=f"P{i + 1}"), key=where)
-
-
-def _clearance(table, i, names, n_sections):
-    where = f"clearance[{i}]"
-    check_keys(table, CLEARANCE_KEYS, where)
-    station = _station(table, where, names, n_sections)
-    radial = _quantity(table, "radial", u.LENGTH, where, required=True)
-    return Clearance(station, radial, _string(table, "name", where, default=f"C{i + 1}"),
-                     key=where)
-
-
-def _response(table):
-    where = "response"
-    check_keys(table, RESPONSE_KEYS, where)
-    check = table.get("check_vibration", True)
-    if not isinstance(check, bool):
-        raise InputError(f"{where}.check_vibration", "must be true or false", value=check,
-                         kind="type")
-    return ResponseSettings(speed_from=_quantity(table, "speed_from", u.SPEED, where),
-                            speed_to=_quantity(table, "speed_to", u.SPEED, where),
-                            speed_count=_integer(table, "speed_count", where, 201),
-                            check_vibration=check,
-                            clearance_share=_number(table, "clearance_share", where,
-                                                    standards.CLEARANCE_SHARE),
-                            vibration_limit=_quantity(table, "vibration_limit", u.LENGTH, where))
-
-
-# --- where is a key? --------------------------------------------------------------------
-
-_HEADER = re.compile(r"^\s*\[\[?\s*([^\]]+?)\s*\]\]?\s*(#.*)?$")
-_PART = re.compile(r"^([^\[\]]+)(?:\[(\d+)\])?$")
-
-
-def locate(text: str, key: str):
-    """Best-effort 1-based line number of a key path such as ``bearing[1].kxx[2]``."""
-    if not key or key.startswith("("):
-        return None
-    lines = text.splitlines()
-    parts = []
-    for piece in key.split("."):
-        match = _PART.match(piece)
-        if not match:
-            return None
-        parts.append((match.group(1), int(match.group(2)) if match.group(2) else None))
-    start, end, header = 0, len(lines), []
-    for depth, (name, index) in enumerate(parts):
-        header = header + [name]
-        wanted = ".".join(header)
-        hits = [n for n in range(start, end) if (m := _HEADER.match(lines[n]))
-                and m.group(1).replace(" ", "") == wanted]
-        if hits:
-            pick = hits[index] if index is not None and index < len(hits) else hits[0]
-            start = pick + 1
-            nxt = [n for n in range(start, len(lines)) if (m := _HEADER.match(lines[n]))
-                   and not m.group(1).replace(" ", "").startswith(wanted + ".")]
-            end = nxt[0] if nxt else len(lines)
-            continue
-        if any((m := _HEADER.match(line)) and m.group(1).replace(" ", "").startswith(wanted + ".")
-               for line in lines[start:end]):
-            continue  # a dotted header further down, e.g. [materials.steel]
-        # a plain key inside the current table
-        pattern = re.compile(rf"^\s*{re.escape(name)}\s*=")
-        for n in range(start, end):
-            if pattern.match(lines[n]):
-                return n + 1
-        return start if start > 0 else None
-    return start if start > 0 else None

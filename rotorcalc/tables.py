@@ -14,6 +14,7 @@ from typing import Callable
 import numpy as np
 
 from .analysis.margins import side_and_margin
+from .analysis.whatif import excess_state
 from .units import to_hz, to_rpm
 
 
@@ -312,19 +313,11 @@ def comparison_columns(comparison):
     return columns
 
 
-def _excess_state(excess):
-    if excess == math.inf:
-        return "no critical needs a margin"
-    if excess == -math.inf:
-        return "unstable critical"
-    return "keeps the margins" if excess >= 0 else "margin short"
-
-
 #: Rows: (factor, excess per cent) of a StiffnessWindow scan.
 WINDOW_SCAN_COLUMNS = [
     Column("Factor", lambda r: float(r[0]), "x{:.3g}", "factor"),
     Column("Smallest margin excess %", lambda r: float(r[1]), "{:+.1f}", "excess_percent"),
-    Column("Result", lambda r: _excess_state(float(r[1])), "{}", "result"),
+    Column("Result", lambda r: excess_state(float(r[1])), "{}", "result"),
 ]
 
 

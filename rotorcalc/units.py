@@ -205,3 +205,8 @@ def to_rpm(omega):
 def to_hz(omega):
     """rad/s to Hz (works on arrays)."""
     return omega / (2.0 * math.pi)
+
+
+def to_mm(length):
+    """Millimetres from metres."""
+    return length * 1e3

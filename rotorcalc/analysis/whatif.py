@@ -146,6 +146,15 @@ def margin_excess(result: Screening):
     return worst, limiting
 
 
+def excess_state(excess):
+    """What a margin excess (per cent, :func:`margin_excess`) says about a scanned factor."""
+    if excess == math.inf:
+        return "no critical needs a margin"
+    if excess == -math.inf:
+        return "unstable critical"
+    return "keeps the margins" if excess >= 0 else "margin short"
+
+
 @dataclass(frozen=True)
 class WindowEnd:
     """One end of the stiffness window: the factor and the critical that limits it."""

@@ -12,7 +12,7 @@ from rich.markup import escape
 
 from ..analysis.margins import CAUTION
 from ..errors import InputError
-from ..model import LIMITS, MARGIN_RULES, STABILITY_RULES, MarginRule, StabilityRule
+from ..model import LIMITS, MARGIN_RULES, STABILITY_RULES, StabilityRule
 from ..analysis.response import limits_caption
 from ..analysis.stability import describe_branch
 from ..tables import LIMIT_COLUMNS, STABILITY_COLUMNS, margin_columns

@@ -7,6 +7,7 @@ from pathlib import Path
 import typer
 from rich.markup import escape
 
+from .. import units as u
 from .common import check_output, console, load, save_figure
 
 EXAMPLE = "[bold]Example[/]: rotorcalc layout cases/overhung_fan.toml --plot fan.png"
@@ -23,7 +24,7 @@ def command(
     ax = rotor_layout(rotor)
     console.print(f"{escape(rotor.name)}: {len(rotor.sections)} sections, {len(rotor.disks)} disks, "
                   f"{len(rotor.bearings)} bearings/seals, mass {rotor.mass:.1f} kg, "
-                  f"length {rotor.length * 1e3:.0f} mm")
+                  f"length {u.to_mm(rotor.length):.0f} mm")
     save_figure(ax.figure, out)
 
 
