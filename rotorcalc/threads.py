@@ -19,11 +19,12 @@ def one_blas_thread(function):
     Rotor models are small-to-medium matrices solved many times: one thread per
     process is faster than threads fighting over the cores (measured: 10x on a
     120x120 eig on a busy 2-core machine), for Python users as for the command
-    line; ``OPENBLAS_NUM_THREADS`` and its kin, when set, win.
+    line; ``OPENBLAS_NUM_THREADS`` and its kin win when they were set before rotorcalc
+    was imported (set later, after numpy started its threads, they no longer decide).
     """
     @functools.wraps(function)
     def limited(*args, **kwargs):
-        if any(v in os.environ for v in _THREAD_VARIABLES):
+        if _USER_CHOSE:
             return function(*args, **kwargs)
         with _blas_controller().limit(limits=1, user_api="blas"):
             return function(*args, **kwargs)
@@ -31,3 +32,5 @@ def one_blas_thread(function):
 
 
 _THREAD_VARIABLES = ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS", "MKL_NUM_THREADS")
+#: Whether the user chose a thread count before rotorcalc was imported.
+_USER_CHOSE = any(v in os.environ for v in _THREAD_VARIABLES)

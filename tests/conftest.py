@@ -9,13 +9,18 @@ from pathlib import Path  # noqa: E402
 
 import pytest
 
-from rotorcalc.model import (Bearing, Material, OperatingRange, Rotor, Section,
+from rotorcalc.model import (Bearing, Disk, Material, OperatingRange, Rotor, Section,
                              Settings)
 
 ROOT = Path(__file__).resolve().parents[1]
 CASES = sorted(p for p in (ROOT / "cases").glob("*.toml") if not p.stem.endswith("_variants"))
 
 STEEL = Material("steel", 2.11e11, 2.11e11 / 2.6, 7810.0)
+#: Steel's stiffness with a millionth of its density: the near-massless shaft of a
+#: Jeffcott rotor (its mass ratio to the disk bounds the error of each closed form).
+LIGHT = Material("light steel", STEEL.youngs_modulus, STEEL.shear_modulus, STEEL.density * 1e-6)
+#: An operating range for rotors whose checks do not read it.
+ANY_RANGE = OperatingRange(10.0, 20.0)
 
 
 def uniform_shaft(length=1.0, diameter=0.05, elements=20, bearings=(), disks=(),
@@ -24,6 +29,16 @@ def uniform_shaft(length=1.0, diameter=0.05, elements=20, bearings=(), disks=(),
     section = Section(length, diameter, material, inner_diameter=inner, elements=elements)
     return Rotor((section,), OperatingRange(100.0, 200.0), disks=tuple(disks),
                  bearings=tuple(bearings), settings=Settings(beam_theory=theory, mode_count=mode_count))
+
+
+def disk_at_mid_span(disk_mass, bearings, *, span=1.0, diameter=0.05, elements=2,
+                     material=LIGHT, operating=ANY_RANGE, **settings):
+    """A Jeffcott rotor: two equal halves of a shaft (stations 0, 1, 2) with a point-mass
+    disk at station 1; Euler-Bernoulli beams unless ``settings`` says otherwise."""
+    half = Section(span / 2, diameter, material, elements=elements)
+    settings.setdefault("beam_theory", "euler-bernoulli")
+    return Rotor((half, half), operating, disks=(Disk(1, disk_mass, 0.0, 0.0),),
+                 bearings=tuple(bearings), settings=Settings(**settings))
 
 
 def isotropic(station, k, c=0.0, name=""):

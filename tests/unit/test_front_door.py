@@ -21,20 +21,21 @@ def test_one_import_gives_reader_analyses_results_and_pictures():
 
 
 def test_solves_take_one_blas_thread_without_environment_variables(monkeypatch):
-    from threadpoolctl import threadpool_info
+    from threadpoolctl import threadpool_info, threadpool_limits
 
+    from rotorcalc import threads
     from rotorcalc.solvers import one_blas_thread
-    for name in ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS", "MKL_NUM_THREADS"):
-        monkeypatch.delenv(name, raising=False)
 
     @one_blas_thread
     def inside():
-        return [lib["num_threads"] for lib in threadpool_info() if lib["user_api"] == "blas"]
+        return {lib["num_threads"] for lib in threadpool_info() if lib["user_api"] == "blas"}
 
-    assert inside() and set(inside()) == {1}
-    # the user's own setting wins: nothing is limited when it is set
-    monkeypatch.setenv("OPENBLAS_NUM_THREADS", "2")
-    assert os.environ["OPENBLAS_NUM_THREADS"] == "2" and inside() is not None
+    with threadpool_limits(limits=2, user_api="blas"):     # as numpy starts on two cores
+        monkeypatch.setattr(threads, "_USER_CHOSE", False)
+        assert inside() == {1}
+        # the user's own setting (made before rotorcalc was imported) wins
+        monkeypatch.setattr(threads, "_USER_CHOSE", True)
+        assert inside() == {2}
 
 
 def test_frozen_means_frozen():

@@ -18,8 +18,8 @@ import pytest
 from rotorcalc.analysis import modes_at, screen, sweep
 from rotorcalc.assembly import assemble
 from rotorcalc.errors import InputError
-from rotorcalc.model import Bearing, Disk, MarginRule, OperatingRange, Rotor, Section, Settings
-from tests.conftest import STEEL, isotropic, uniform_shaft
+from rotorcalc.model import Bearing, Disk, MarginRule, OperatingRange
+from tests.conftest import STEEL, disk_at_mid_span, isotropic, uniform_shaft
 
 L, D = 1.0, 0.05
 AREA, SECOND = math.pi * D**2 / 4, math.pi * D**4 / 64
@@ -62,15 +62,14 @@ def test_very_stiff_bearings_approach_pinned_ends():
 
 def jeffcott(kxx, kyy, kxy=0.0, c=0.0):
     light = STEEL.__class__("light", STEEL.youngs_modulus, STEEL.shear_modulus, 1e-3)
-    half = Section(0.5, 0.05, light, elements=2)
     pins = [isotropic(0, 1e13), isotropic(2, 1e13)]
     disk_brg = Bearing(1, {"kxx": (kxx,), "kyy": (kyy,), "kxy": (kxy,), "kyx": (-kxy,),
                            "cxx": (c,), "cyy": (c,)}, name="at disk")
-    return Rotor((half, half), OperatingRange(100.0, 200.0), disks=(Disk(1, 50.0, 0.0, 0.0),),
-                 bearings=tuple(pins) + (disk_brg,),
-                 settings=Settings(beam_theory="euler-bernoulli", mode_count=2,
-                                   speed_to=400.0, speed_count=9,
-                                   margin_rule=MarginRule(name="fixed", margin_below=5, margin_above=5)))
+    return disk_at_mid_span(50.0, tuple(pins) + (disk_brg,), material=light,
+                            operating=OperatingRange(100.0, 200.0), mode_count=2,
+                            speed_to=400.0, speed_count=9,
+                            margin_rule=MarginRule(name="fixed", margin_below=5,
+                                                   margin_above=5))
 
 
 def test_strong_anisotropy_splits_the_pair():

@@ -48,7 +48,7 @@ from rotorcalc.analysis.sweep import sweep
 from rotorcalc.assembly import assemble
 from rotorcalc.model import (Bearing, Disk, Material, OperatingRange, Rotor, Section,
                              Settings)
-from tests.conftest import STEEL, isotropic
+from tests.conftest import LIGHT, STEEL, disk_at_mid_span, isotropic
 from tests.verification import closed_forms as cf
 from tests.verification.record import check
 from tests.verification.reduce import solve_reduced as _solve_reduced
@@ -60,9 +60,6 @@ OVERHUNG = "Overhung disk, Friswell et al. 2010; Roark cantilever (from memory)"
 RIGID = "Rigid rotor on bearings, Vance 1988; Friswell et al. 2010 (from memory)"
 ANISO = "Anisotropic Jeffcott, Friswell et al. 2010; Vance 1988 (from memory)"
 
-#: Steel stiffness, a millionth of its density: a near-massless shaft.
-LIGHT = Material("light steel", STEEL.youngs_modulus, STEEL.shear_modulus,
-                 STEEL.density * 1e-6)
 E = STEEL.youngs_modulus
 
 
@@ -97,10 +94,8 @@ MESHES_J = (1, 4)                   # elements per half span
 
 
 def jeffcott(elements, bearings, kx=None):
-    half = Section(LJ / 2, DJ, LIGHT, elements=elements)
-    return Rotor((half, half), OperatingRange(10.0, 20.0), disks=(Disk(1, MJ, 0.0, 0.0),),
-                 bearings=tuple(bearings), settings=Settings(beam_theory="euler-bernoulli",
-                                                             mode_count=4))
+    return disk_at_mid_span(MJ, bearings, span=LJ, diameter=DJ, elements=elements,
+                            mode_count=4)
 
 
 def jeffcott_bound():

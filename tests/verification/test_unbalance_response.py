@@ -62,10 +62,10 @@ from rotorcalc.analysis.margins import assign_peaks, separation_margins
 from rotorcalc.analysis.response import SPEED_RTOL, HarmonicSolver, unbalance_response
 from rotorcalc.analysis.sweep import sweep
 from rotorcalc.assembly import assemble
-from rotorcalc.model import (Bearing, Disk, MarginRule, Material, OperatingRange, Rotor, Section,
+from rotorcalc.model import (Bearing, Disk, MarginRule, OperatingRange, Rotor, Section,
                              Settings)
 from rotorcalc.unbalance import Probe, UnbalanceCase, UnbalanceWeight
-from tests.conftest import STEEL, isotropic
+from tests.conftest import LIGHT, STEEL, disk_at_mid_span, isotropic
 from tests.verification import closed_forms as cf
 from tests.verification.record import check
 
@@ -95,8 +95,6 @@ EPS = np.finfo(float).eps
 # Jeffcott rotor with viscous damping at the disk
 # ---------------------------------------------------------------------------
 
-LIGHT = Material("light steel", STEEL.youngs_modulus, STEEL.shear_modulus,
-                 STEEL.density * 1e-6)
 LJ, DJ, MJ = 1.0, 0.05, 20.0           # span (m), shaft diameter (m), disk mass (kg)
 KPIN = 1.0e11                          # end "pins", N/m (3e4 x the shaft's 3.1e6 N/m)
 ECC = 1.0e-4                           # mass eccentricity, m: U = m e
@@ -132,13 +130,11 @@ def refinement(af):
 
 def jeffcott_rotor(zeta):
     c = 2.0 * zeta * math.sqrt(K_EFF * MJ)
-    half = Section(LJ / 2, DJ, LIGHT, elements=2)
     damper = Bearing(1, {"kxx": (0.0,), "kyy": (0.0,), "cxx": (c,), "cyy": (c,)},
                      name="disk damper")
-    return Rotor((half, half), OperatingRange(10.0, 20.0), disks=(Disk(1, MJ, 0.0, 0.0),),
-                 bearings=(isotropic(0, KPIN, name="pin A"), isotropic(2, KPIN, name="pin B"),
-                           damper),
-                 settings=Settings(beam_theory="euler-bernoulli", mode_count=2))
+    return disk_at_mid_span(MJ, (isotropic(0, KPIN, name="pin A"),
+                                 isotropic(2, KPIN, name="pin B"), damper),
+                            span=LJ, diameter=DJ, mode_count=2)
 
 
 JEFFCOTT_PROBES = (Probe(1, 0.0, "disk x"), Probe(1, math.pi / 2, "disk y"))

@@ -41,7 +41,7 @@ from rotorcalc.model import (Bearing, Disk, MarginRule, Material, OperatingRange
 from rotorcalc.reader import parse_rotor, read_rotor
 from rotorcalc.statics import journal_static_loads
 from rotorcalc.variants import read_variants
-from tests.conftest import ROOT, STEEL, isotropic
+from tests.conftest import ROOT, STEEL, disk_at_mid_span, isotropic
 from tests.verification import closed_forms as cf
 from tests.verification.record import check
 
@@ -56,7 +56,6 @@ matplotlib.use("Agg")
 # A Jeffcott rotor whose cross-coupled stiffness grows with speed
 # ---------------------------------------------------------------------------
 
-LIGHT = Material("light steel", STEEL.youngs_modulus, STEEL.shear_modulus, STEEL.density * 1e-6)
 LJ, DJ, MJ, KPIN = 1.0, 0.05, 20.0, 1.0e11
 K_SHAFT = cf.simply_supported_midspan_stiffness(STEEL.youngs_modulus, math.pi * DJ**4 / 64, LJ)
 K_EFF = cf.series_stiffness_two_bearings(K_SHAFT, KPIN)
@@ -68,16 +67,13 @@ TOP = 2000.0                           # rad/s, end of the cross-coupling table
 def cross_coupled_jeffcott(slope, operating, speed_to=None):
     """Jeffcott rotor (light shaft, disk at mid-span on stiff pins) with damping
     ``C_DISK`` and cross-coupled stiffness ``q = slope x spin`` at the disk."""
-    half = Section(LJ / 2, DJ, LIGHT, elements=2)
     pins = (isotropic(0, KPIN, name="pin A"), isotropic(2, KPIN, name="pin B"))
     q_top = slope * TOP
     source = Bearing(1, {"kxx": (0.0,), "kyy": (0.0,), "kxy": (0.0, q_top), "kyx": (0.0, -q_top),
                          "cxx": (C_DISK,), "cyy": (C_DISK,)}, speeds=(0.0, TOP), name="gas",
                      role="seal")
-    return Rotor((half, half), operating, disks=(Disk(1, MJ, 0.0, 0.0),),
-                 bearings=pins + (source,),
-                 settings=Settings(beam_theory="euler-bernoulli", mode_count=2,
-                                   speed_to=speed_to or 0.95 * TOP, speed_count=41))
+    return disk_at_mid_span(MJ, pins + (source,), span=LJ, diameter=DJ, operating=operating,
+                            mode_count=2, speed_to=speed_to or 0.95 * TOP, speed_count=41)
 
 
 def test_verdict_stability_onset_of_cross_coupled_jeffcott():

@@ -63,9 +63,8 @@ from rotorcalc.analysis.modes import forward_fraction
 from rotorcalc.analysis.screening import screen
 from rotorcalc.analysis.whatif import sensitivities, stiffness_window
 from rotorcalc.assembly import assemble
-from rotorcalc.model import (Bearing, Disk, Material, MarginRule, OperatingRange, Rotor,
-                             Section, Settings)
-from tests.conftest import STEEL, isotropic, uniform_shaft
+from rotorcalc.model import Bearing, Material, MarginRule, OperatingRange
+from tests.conftest import STEEL, disk_at_mid_span, isotropic, uniform_shaft
 from tests.verification import closed_forms as cf
 from tests.verification import closed_forms_whatif as cw
 from tests.verification.record import check
@@ -344,12 +343,10 @@ LJ, DJ, MJ = 1.0, 0.05, 20.0        # as test_disk_rotors.py case 4
 
 def jeffcott(bearings, operating=OperatingRange(100.0, 200.0), rule=None, judge_backward=False,
              speed_to=None):
-    half = Section(LJ / 2, DJ, LIGHT, elements=1)
-    settings = Settings(beam_theory="euler-bernoulli", mode_count=4, speed_count=21,
-                        speed_to=speed_to, margin_rule=rule or MarginRule(),
-                        judge_backward=judge_backward)
-    return Rotor((half, half), operating, disks=(Disk(1, MJ, 0.0, 0.0),),
-                 bearings=tuple(bearings), settings=settings)
+    return disk_at_mid_span(MJ, bearings, span=LJ, diameter=DJ, elements=1,
+                            material=LIGHT, operating=operating, mode_count=4, speed_count=21,
+                            speed_to=speed_to, margin_rule=rule or MarginRule(),
+                            judge_backward=judge_backward)
 
 
 def k_shaft():
