@@ -175,41 +175,41 @@ def case_pictures(path):
         out.update(own_and_given(f"{stem}/{name}", draw, make_axes))
 
     screening = whirl_map_inputs(rotor)
-    add("whirl_speed_map", lambda ax: pl.whirl_speed_map(
+    add("whirl_speed_map", lambda ax: pl.plot_whirl_speed_map(
         screening.sweep, screening.criticals, op, rotor.settings.orders, ax=ax,
         margins=screening.margins))
     modes = modes_at(rotor, op.max_speed)
-    add("mode_shape", lambda ax: pl.mode_shape(modes, 0, ax=ax, rotor=rotor))
-    add("mode_shape_2_plain", lambda ax: pl.mode_shape(modes, 1, ax=ax, orbits=False))
-    add("rotor_layout", lambda ax: pl.rotor_layout(rotor, ax=ax))
+    add("mode_shape", lambda ax: pl.plot_mode_shape(modes, 1, ax=ax, rotor=rotor))
+    add("mode_shape_2_plain", lambda ax: pl.plot_mode_shape(modes, 2, ax=ax, orbits=False))
+    add("rotor_layout", lambda ax: pl.plot_rotor_layout(rotor, ax=ax))
 
     if rotor.unbalance:
         sweep, at_speeds = response_inputs(rotor)
-        add("bode", lambda ax: pl.bode(sweep, 0, operating=op, ax=ax),
+        add("bode", lambda ax: pl.plot_bode(sweep, 0, operating=op, ax=ax),
             lambda fig: tuple(fig.subplots(2, 1, sharex=True)))
-        add("bode_log_amplitude", lambda ax: pl.bode(sweep, 0, operating=op, ax=ax,
+        add("bode_log_amplitude", lambda ax: pl.plot_bode(sweep, 0, operating=op, ax=ax,
                                                      log_amplitude=True))
-        add("polar", lambda ax: pl.polar(sweep, 0, ax=ax),
+        add("polar", lambda ax: pl.plot_polar(sweep, 0, ax=ax),
             lambda fig: fig.add_subplot(1, 1, 1, projection="polar"))
         n_stations = len({p.station for p in at_speeds.probes}) or at_speeds.stations.shape[2]
-        add("orbits", lambda ax: pl.orbits(at_speeds, 0, ax=ax),
+        add("orbits", lambda ax: pl.plot_orbits(at_speeds, 0, ax=ax),
             lambda fig: tuple(np.ravel(fig.subplots(1, n_stations, squeeze=False))))
 
     cmap = critical_speed_map(rotor, mode_count=4, whirl="forward")
     base = reference_stiffness(rotor)
-    add("critical_speed_map", lambda ax: pl.critical_speed_map(
+    add("critical_speed_map", lambda ax: pl.plot_critical_speed_map(
         cmap, operating=op, base_stiffness=base, ax=ax))
     window = window_inputs(rotor, cmap, base)
-    add("critical_speed_map_window", lambda ax: pl.critical_speed_map(
+    add("critical_speed_map_window", lambda ax: pl.plot_critical_speed_map(
         cmap, operating=op, window=window, base_stiffness=base, ax=ax))
     node_z, shapes, labels, stations = map_shape_inputs(rotor, cmap, base)
-    add("map_shapes", lambda ax: pl.map_shapes(node_z, shapes, labels, ax=ax,
+    add("map_shapes", lambda ax: pl.plot_map_shapes(node_z, shapes, labels, ax=ax,
                                                station_nodes=stations))
 
     variants = path.with_name(f"{stem}_variants.toml")
     if variants.exists():
         comparison, operating = variant_inputs(variants)
-        add("variant_maps", lambda ax: pl.variant_maps(comparison, operating=operating, ax=ax))
+        add("variant_maps", lambda ax: pl.plot_variant_maps(comparison, operating=operating, ax=ax))
     return out
 
 

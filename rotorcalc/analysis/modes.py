@@ -245,10 +245,10 @@ class Modes:
 
     def plot(self, mode=1, *, ax=None, rotor=None):
         """The shape of mode number ``mode`` (from 1, lowest frequency first;
-        :func:`rotorcalc.plotting.mode_shape`), over the rotor's outline when ``rotor`` is
+        :func:`rotorcalc.plotting.plot_mode_shape`), over the rotor's outline when ``rotor`` is
         given."""
-        from ..plotting import mode_shape
-        return mode_shape(self, mode - 1, ax=ax, rotor=rotor)
+        from ..plotting import plot_mode_shape
+        return plot_mode_shape(self, mode, ax=ax, rotor=rotor)
 
     def to_dict(self):
         """Plain-Python summary for JSON (SI units, speeds also in rpm)."""

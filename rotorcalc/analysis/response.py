@@ -148,9 +148,9 @@ class Response:
         read_only(self)
 
     def plot(self, case_index=0, *, ax=None, operating=None):
-        """The Bode plot of one case (:func:`rotorcalc.plotting.bode`)."""
-        from ..plotting import bode
-        return bode(self, case_index, operating=operating, ax=ax)
+        """The Bode plot of one case (:func:`rotorcalc.plotting.plot_bode`)."""
+        from ..plotting import plot_bode
+        return plot_bode(self, case_index, operating=operating, ax=ax)
 
     def probe_amplitude_pp(self, case_index, probe_index):
         """Peak-to-peak amplitude curve of one probe, m."""

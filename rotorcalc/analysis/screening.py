@@ -68,9 +68,9 @@ class Screening:
 
     def plot(self, *, ax=None):
         """The whirl-speed map of this screening, criticals marked by verdict
-        (:func:`rotorcalc.plotting.whirl_speed_map`); returns its artists record."""
-        from ..plotting import whirl_speed_map
-        return whirl_speed_map(self.sweep, self.criticals, self.rotor.operating,
+        (:func:`rotorcalc.plotting.plot_whirl_speed_map`); returns its artists record."""
+        from ..plotting import plot_whirl_speed_map
+        return plot_whirl_speed_map(self.sweep, self.criticals, self.rotor.operating,
                                self.rotor.settings.orders, ax=ax, margins=self.margins)
 
     def to_dict(self):

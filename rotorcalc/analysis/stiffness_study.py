@@ -175,15 +175,15 @@ class StiffnessStudy:
         return out
 
     def plot(self, *, ax=None):
-        """The critical-speed map picture (:func:`rotorcalc.plotting.critical_speed_map`)."""
-        from ..plotting import critical_speed_map as draw
+        """The critical-speed map picture (:func:`rotorcalc.plotting.plot_critical_speed_map`)."""
+        from ..plotting import plot_critical_speed_map as draw
         return draw(self.map, operating=self.rotor.operating, window=self.window,
                     base_stiffness=self.reference_stiffness, ax=ax)
 
     def plot_shapes(self, *, ax=None):
-        """The map mode shapes (:func:`rotorcalc.plotting.map_shapes`)."""
-        from ..plotting import map_point_label, map_shapes
-        return map_shapes(self.map.node_z, [s.shape for s in self.shapes],
+        """The map mode shapes (:func:`rotorcalc.plotting.plot_map_shapes`)."""
+        from ..plotting import map_point_label, plot_map_shapes
+        return plot_map_shapes(self.map.node_z, [s.shape for s in self.shapes],
                           [map_point_label(s.stiffness, s.mode - 1, s.speed)
                            for s in self.shapes],
                           ax=ax, station_nodes=self.map.station_nodes)

@@ -131,9 +131,9 @@ class Sweep:
         return [whirl_label(f) for f in mean]
 
     def plot(self, *, ax=None, criticals=(), operating=None, orders=(1.0,)):
-        """The whirl-speed map of this sweep (:func:`rotorcalc.plotting.whirl_speed_map`)."""
-        from ..plotting import whirl_speed_map
-        return whirl_speed_map(self, criticals, operating, orders, ax=ax)
+        """The whirl-speed map of this sweep (:func:`rotorcalc.plotting.plot_whirl_speed_map`)."""
+        from ..plotting import plot_whirl_speed_map
+        return plot_whirl_speed_map(self, criticals, operating, orders, ax=ax)
 
     def to_dict(self):
         ff = self.forward_fraction

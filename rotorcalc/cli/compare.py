@@ -162,7 +162,7 @@ def command(
     write_outputs("compare", case, document, warnings, json_path, csv_path,
                   comparison_columns(comparison), comparison.rows)
     if plot is not None:
-        draw = plotting_function("variant_maps")
+        draw = plotting_function("plot_variant_maps")
         if draw is not None:
             drawing = draw(comparison, operating=op)
             save_figure(drawing.figure, plot)

@@ -20,8 +20,8 @@ def command(
     """Draw the rotor model (sections, disks, bearings, stations) to check it is what you meant."""
     rotor = load(case)
     check_output(out, case, "--plot")
-    from ..plotting import rotor_layout
-    ax = rotor_layout(rotor)
+    from ..plotting import plot_rotor_layout
+    ax = plot_rotor_layout(rotor)
     console.print(f"{escape(rotor.name)}: {len(rotor.sections)} sections, {len(rotor.disks)} disks, "
                   f"{len(rotor.bearings)} bearings/seals, mass {rotor.mass:.1f} kg, "
                   f"length {u.to_mm(rotor.length):.0f} mm")

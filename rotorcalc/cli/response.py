@@ -80,14 +80,14 @@ def command(
     if bode is not None or polar is not None or orbits is not None:
         from .. import plotting
         if bode is not None:
-            save_figure(plotting.bode(result, index, operating=rotor.operating).figure, bode)
+            save_figure(plotting.plot_bode(result, index, operating=rotor.operating).figure, bode)
         if polar is not None:
-            save_figure(plotting.polar(result, index).figure, polar)
+            save_figure(plotting.plot_polar(result, index).figure, polar)
         if orbits is not None:
             with input_errors():
                 at_speeds = unbalance_response(rotor, speeds=speeds,
                                                cases=[rotor.unbalance[index]], unstable=())
-            save_figure(plotting.orbits(at_speeds, 0).figure, orbits)
+            save_figure(plotting.plot_orbits(at_speeds, 0).figure, orbits)
 
 
 def register(app: typer.Typer):

@@ -14,18 +14,39 @@ underscore: ``_style`` and ``_labels`` (the look, label placing), ``_units``,
 ``_orbit``, ``_phase``, ``_probes``, ``_panels``, ``_artists``.
 """
 
-from .bodeplot import BodeArtists, bode
-from .layout import LayoutArtists, rotor_layout
-from .mapshapes import MapShapeArtists, map_point_label, map_shapes
-from .orbitplot import OrbitArtists, orbits
+from ..vocabulary import renamed
+from .bodeplot import BodeArtists, plot_bode
+from .layout import LayoutArtists, plot_rotor_layout
+from .mapshapes import MapShapeArtists, map_point_label, plot_map_shapes
+from .orbitplot import OrbitArtists, plot_orbits
 from .output import save
-from .overlay import VariantMapArtists, variant_maps
-from .polarplot import PolarArtists, polar
-from .shapes import ModeShapeArtists, mode_shape
-from .speedmap import SpeedMapArtists, whirl_speed_map
-from .stiffmap import CriticalMapArtists, critical_speed_map
+from .overlay import VariantMapArtists, plot_variant_maps
+from .polarplot import PolarArtists, plot_polar
+from .shapes import ModeShapeArtists, plot_mode_shape
+from .speedmap import SpeedMapArtists, plot_whirl_speed_map
+from .stiffmap import CriticalMapArtists, plot_critical_speed_map
 
-__all__ = ["whirl_speed_map", "mode_shape", "rotor_layout", "bode", "polar", "orbits", "save",
-           "SpeedMapArtists", "ModeShapeArtists", "LayoutArtists", "BodeArtists",
-           "PolarArtists", "OrbitArtists", "critical_speed_map", "variant_maps", "map_shapes",
-           "map_point_label", "CriticalMapArtists", "VariantMapArtists", "MapShapeArtists"]
+#: Every picture function, by its name (``plot_`` and what it draws).
+PICTURES = ("plot_whirl_speed_map", "plot_mode_shape", "plot_rotor_layout", "plot_bode",
+            "plot_polar", "plot_orbits", "plot_critical_speed_map", "plot_variant_maps",
+            "plot_map_shapes")
+
+__all__ = [*PICTURES, "save", "map_point_label", "SpeedMapArtists", "ModeShapeArtists",
+           "LayoutArtists", "BodeArtists", "PolarArtists", "OrbitArtists", "CriticalMapArtists",
+           "VariantMapArtists", "MapShapeArtists"]
+
+
+def _old_mode_shape(modes, index, **kwargs):
+    """The 0.1 mode shape: ``index`` counted from 0."""
+    return plot_mode_shape(modes, index % len(modes.eigenvalues) + 1, **kwargs)
+
+
+def __getattr__(name):
+    """The 0.1 names of the pictures (``bode``, ``mode_shape``, ...) until 0.3: the analyses
+    have functions of the same names (``critical_speed_map``), so pictures now start with
+    ``plot_``."""
+    if f"plot_{name}" in PICTURES:
+        new = globals()[f"plot_{name}"]
+        renamed(f"rotorcalc.plotting.{name}", f"rotorcalc.plotting.plot_{name}")
+        return _old_mode_shape if name == "mode_shape" else new
+    raise AttributeError(f"module 'rotorcalc.plotting' has no attribute {name!r}")

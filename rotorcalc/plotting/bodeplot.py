@@ -80,7 +80,7 @@ class BodeArtists(Artists):
 
 
 @st.literal_text
-def bode(response, case_index=0, probes=None, operating=None, *, ax=None,
+def plot_bode(response, case_index=0, probes=None, operating=None, *, ax=None,
          log_amplitude=False):
     """Draw the Bode plot of one unbalance case: amplitude and phase lag over speed.
 

@@ -71,7 +71,7 @@ def _auto_scale(rotor, disk_sizes):
 
 
 @st.literal_text
-def rotor_layout(rotor, *, ax=None, radial_scale=None):
+def plot_rotor_layout(rotor, *, ax=None, radial_scale=None):
     """Draw a side view of a rotor model.
 
     Shaft sections are drawn as rectangles of their outer diameter (a bore as

@@ -43,7 +43,7 @@ class MapShapeArtists(Artists):
 
 
 @st.literal_text
-def map_shapes(node_z, shapes, labels, *, ax=None, station_nodes=None):
+def plot_map_shapes(node_z, shapes, labels, *, ax=None, station_nodes=None):
     """Draw mode shapes of chosen critical-speed-map points along the shaft.
 
     Each shape is drawn as the shaft's deflection at the instant its largest

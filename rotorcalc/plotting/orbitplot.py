@@ -74,7 +74,7 @@ class OrbitArtists(Artists):
 
 
 @st.literal_text
-def orbits(response, case_index=0, stations=None, *, ax=None):
+def plot_orbits(response, case_index=0, stations=None, *, ax=None):
     """Draw the orbits of one unbalance case: an ellipse per station and speed.
 
     Each orbit is the path ``(Re(X e^{iwt}), Re(Y e^{iwt}))`` over one turn,

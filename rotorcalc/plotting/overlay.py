@@ -60,7 +60,7 @@ class VariantMapArtists(WhirlMapArtists):
 
 
 @st.literal_text
-def variant_maps(comparison, operating=None, orders=(1.0,), *, ax=None, freq_max=None):
+def plot_variant_maps(comparison, operating=None, orders=(1.0,), *, ax=None, freq_max=None):
     """Overlay the whirl-speed maps of a base rotor and its variants.
 
     Each variant keeps one colour (the base in ink) for its branches and its

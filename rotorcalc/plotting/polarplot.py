@@ -69,7 +69,7 @@ class PolarArtists(Artists):
 
 
 @st.literal_text
-def polar(response, case_index=0, probes=None, *, ax=None):
+def plot_polar(response, case_index=0, probes=None, *, ax=None):
     """Draw the polar plot of one unbalance case: each probe's response as a curve over speed.
 
     The radius is the peak-to-peak amplitude in µm and the angle the phase

@@ -9,6 +9,7 @@ from matplotlib.lines import Line2D
 from matplotlib.patches import FancyArrowPatch, Patch, Polygon, Rectangle
 from matplotlib.transforms import ScaledTranslation, offset_copy
 
+from ..errors import InputError
 from . import _labels as lb
 from . import _style as st
 from ._artists import Artists
@@ -55,7 +56,7 @@ class ModeShapeArtists(Artists):
 
 
 @st.literal_text
-def mode_shape(modes, index, *, ax=None, rotor=None, orbits=True):
+def plot_mode_shape(modes, mode=1, *, ax=None, rotor=None, orbits=True):
     """Draw the shape of one mode of a :class:`~rotorcalc.analysis.Modes` result.
 
     The shaded band is the major semi-axis of each node's orbit (the room the
@@ -66,8 +67,8 @@ def mode_shape(modes, index, *, ax=None, rotor=None, orbits=True):
     Parameters
     ----------
     modes : rotorcalc.analysis.Modes
-    index : int
-        Mode index, 0-based (mode ``index + 1`` in tables).
+    mode : int
+        Mode number, from 1 (lowest frequency), as in the tables.
     ax : matplotlib.axes.Axes, optional
         Axes to draw on; a new figure is made when omitted.
     rotor : rotorcalc.model.Rotor, optional
@@ -82,9 +83,11 @@ def mode_shape(modes, index, *, ax=None, rotor=None, orbits=True):
     ModeShapeArtists
     """
     n_modes = len(modes.eigenvalues)
-    if not -n_modes <= index < n_modes:
-        raise IndexError(f"mode index {index} is out of range: the result has {n_modes} modes")
-    index = index % n_modes
+    if isinstance(mode, bool) or not isinstance(mode, (int, np.integer)) \
+            or not 1 <= mode <= n_modes:
+        raise InputError("mode", "is not a mode of the result", value=mode,
+                         expected=f"a mode number 1..{n_modes}", kind="range")
+    index = int(mode) - 1
     fig, ax, created = st.axes_for(ax, figsize=(10.0, 5.4))
     if created:
         fig.subplots_adjust(left=0.08, right=0.97, bottom=0.2, top=0.86)

@@ -56,7 +56,7 @@ class SpeedMapArtists(WhirlMapArtists):
 
 
 @st.literal_text
-def whirl_speed_map(sweep, criticals=(), operating=None, orders=(1.0,), *, ax=None,
+def plot_whirl_speed_map(sweep, criticals=(), operating=None, orders=(1.0,), *, ax=None,
                     margins=None, freq_max=None):
     """Draw the whirl-speed map (Campbell diagram) of a speed sweep.
 

@@ -87,7 +87,7 @@ class CriticalMapArtists(RangeArtists):
 
 
 @st.literal_text
-def critical_speed_map(cmap, operating=None, window=None, base_stiffness=None, *, ax=None,
+def plot_critical_speed_map(cmap, operating=None, window=None, base_stiffness=None, *, ax=None,
                        speed_max=None):
     """Draw a critical-speed map with the bearings' own stiffness curves on it.
 

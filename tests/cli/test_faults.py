@@ -117,9 +117,9 @@ def test_names_with_markup_and_math_text_are_text(command, tmp_path):
 
 
 def test_a_picture_draws_the_name_as_written(tmp_path):
-    from rotorcalc.plotting import rotor_layout
+    from rotorcalc.plotting import plot_rotor_layout
     rotor = reader.read_rotor(marked_up_fan(tmp_path))
-    drawn = rotor_layout(rotor)
+    drawn = plot_rotor_layout(rotor)
     texts = [t.get_text() for t in drawn.figure.findobj(matplotlib.text.Text)]
     assert any("$x$" in t and "[/]" in t for t in texts)
     drawn.figure.savefig(tmp_path / "x.png")   # math text would fail here on the lone '$'

@@ -2,7 +2,6 @@
 the solves take one BLAS thread without any environment variable."""
 
 import doctest
-import os
 
 import rotorcalc as rc
 from tests.conftest import ROOT
@@ -17,7 +16,7 @@ def test_package_example_runs_and_pins_the_feed_pump_critical(monkeypatch):
 def test_one_import_gives_reader_analyses_results_and_pictures():
     for name in rc.__all__:
         assert getattr(rc, name) is not None, name
-    assert rc.bode.__module__ == "rotorcalc.plotting.bodeplot"
+    assert rc.plot_bode.__module__ == "rotorcalc.plotting.bodeplot"
 
 
 def test_solves_take_one_blas_thread_without_environment_variables(monkeypatch):

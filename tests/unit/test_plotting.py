@@ -19,10 +19,11 @@ from matplotlib.figure import Figure
 
 import rotorcalc.plotting
 from rotorcalc.analysis import CriticalSpeed, MarginRow, MarginTable, Modes, Sweep
+from rotorcalc.errors import InputError
 from rotorcalc.model import (Bearing, Disk, MarginRule, Material, OperatingRange, Rotor,
                              Section, Support)
 from rotorcalc.plotting import _style as st
-from rotorcalc.plotting import mode_shape, rotor_layout, save, whirl_speed_map
+from rotorcalc.plotting import plot_mode_shape, plot_rotor_layout, save, plot_whirl_speed_map
 from rotorcalc.units import RPM
 
 STEEL = Material("steel", 206e9, 80e9, 7850.0)
@@ -97,7 +98,7 @@ def _modes():
 # --- whirl-speed map ---------------------------------------------------------------
 
 def test_map_returns_a_figure_and_its_artists():
-    out = whirl_speed_map(_sweep())
+    out = plot_whirl_speed_map(_sweep())
     assert isinstance(out.figure, Figure)
     assert isinstance(out.ax, Axes) and out.ax.figure is out.figure
     assert len(out.branches) == 3 and all(out.branches)
@@ -106,7 +107,7 @@ def test_map_returns_a_figure_and_its_artists():
 def test_map_draws_on_the_axes_given():
     fig = Figure()
     ax = fig.add_subplot(2, 1, 2)
-    out = whirl_speed_map(_sweep(), _criticals(), OPERATING, ax=ax)
+    out = plot_whirl_speed_map(_sweep(), _criticals(), OPERATING, ax=ax)
     assert out.ax is ax and out.figure is fig
     assert len(fig.axes) == 1
     assert all(line.axes is ax for piece in out.branches for line in piece)
@@ -114,7 +115,7 @@ def test_map_draws_on_the_axes_given():
 
 @pytest.mark.parametrize("orders", [(1.0,), (1.0, 2.0), (0.5, 1.0, 2.0)])
 def test_map_has_one_labelled_line_per_order(orders):
-    out = whirl_speed_map(_sweep(), orders=orders)
+    out = plot_whirl_speed_map(_sweep(), orders=orders)
     assert len(out.order_lines) == len(orders) == len(out.order_labels)
     for order, line, label in zip(orders, out.order_lines, out.order_labels):
         x, y = line.get_data()
@@ -123,18 +124,18 @@ def test_map_has_one_labelled_line_per_order(orders):
 
 
 def test_map_shades_the_operating_range_and_labels_its_ends():
-    out = whirl_speed_map(_sweep(), operating=OPERATING)
+    out = plot_whirl_speed_map(_sweep(), operating=OPERATING)
     assert np.isclose(out.band.get_x(), 2400.0)
     assert np.isclose(out.band.get_x() + out.band.get_width(), 3600.0)
     texts = [t.get_text() for t in out.band_labels]
     assert texts == ["2400", "3600", "trip 3780"]
     assert np.allclose(out.trip_line.get_xdata(), 3780.0)
-    no_band = whirl_speed_map(_sweep())
+    no_band = plot_whirl_speed_map(_sweep())
     assert no_band.band is None and no_band.band_labels == []
 
 
 def test_map_tells_whirl_senses_apart_and_splits_a_changing_branch():
-    out = whirl_speed_map(_sweep())
+    out = plot_whirl_speed_map(_sweep())
     assert out.branch_whirl[0] == ["forward"]
     assert out.branch_whirl[1] == ["backward", "mixed"]
     styles = {name: st.WHIRL_STYLES[name] for name in st.WHIRL_ORDER}
@@ -153,7 +154,7 @@ def test_map_breaks_a_branch_where_the_sweep_has_no_value():
     eig[4:7, 0] = np.nan          # the mode turns overdamped for a while
     eig[:, 2] = np.nan            # and one branch is absent throughout
     gappy = Sweep(sw.speeds, eig, sw.shapes, sw.node_z, sw.station_nodes)
-    out = whirl_speed_map(gappy)
+    out = plot_whirl_speed_map(gappy)
     before, after = out.branches[0]
     assert np.isclose(before.get_xdata()[-1], 1500.0)      # the 4th speed, no midpoint
     assert np.isclose(after.get_xdata()[0], 3500.0)
@@ -162,7 +163,7 @@ def test_map_breaks_a_branch_where_the_sweep_has_no_value():
 
 
 def test_map_colours_branches_by_log_decrement_class():
-    out = whirl_speed_map(_sweep())
+    out = plot_whirl_speed_map(_sweep())
     sw = _sweep()
     for j, pieces in enumerate(out.branches):
         expected = st.LOG_DEC_COLOURS[st.log_dec_class(sw.log_dec[0, j])]
@@ -170,18 +171,18 @@ def test_map_colours_branches_by_log_decrement_class():
 
 
 def test_map_limits_the_frequency_axis_and_counts_hidden_branches():
-    out = whirl_speed_map(_sweep())
+    out = plot_whirl_speed_map(_sweep())
     # 1.1 x the 1X line at 6000 rpm; the 40000 cpm branch does not blow the axis up.
     assert np.isclose(out.ax.get_ylim()[1], 6600.0)
     assert out.hidden_branches == 1
     assert "not shown" in out.legend.get_texts()[-1].get_text()
-    forced = whirl_speed_map(_sweep(), freq_max=50000.0)
+    forced = plot_whirl_speed_map(_sweep(), freq_max=50000.0)
     assert forced.ax.get_ylim()[1] == 50000.0 and forced.hidden_branches == 0
 
 
 def test_map_marks_and_labels_critical_speeds():
     crits = _criticals()
-    out = whirl_speed_map(_sweep(), crits, OPERATING, orders=(1.0, 2.0))
+    out = plot_whirl_speed_map(_sweep(), crits, OPERATING, orders=(1.0, 2.0))
     assert len(out.critical_markers) == 2
     x, y = out.critical_markers[0].get_data()
     assert np.isclose(x[0], 2000.0) and np.isclose(y[0], 2000.0)
@@ -192,13 +193,13 @@ def test_map_marks_and_labels_critical_speeds():
 
 
 def test_map_gives_coinciding_criticals_one_label():
-    out = whirl_speed_map(_sweep(), _pair())
+    out = plot_whirl_speed_map(_sweep(), _pair())
     assert len(out.critical_markers) == 2
     assert [a.get_text() for a in out.critical_labels] == ["2000 / 2005"]
 
 
 def test_map_labels_stay_apart():
-    out = whirl_speed_map(_sweep(), _criticals() + _pair()[1:], OPERATING)
+    out = plot_whirl_speed_map(_sweep(), _criticals() + _pair()[1:], OPERATING)
     out.figure.draw_without_rendering()
     boxes = [a.get_window_extent() for a in out.critical_labels]
     for i, a in enumerate(boxes):
@@ -208,12 +209,12 @@ def test_map_labels_stay_apart():
 
 def test_map_colours_critical_markers_by_verdict():
     crits = _criticals()
-    out = whirl_speed_map(_sweep(), crits, OPERATING, margins=_margins(crits))
+    out = plot_whirl_speed_map(_sweep(), crits, OPERATING, margins=_margins(crits))
     faces = [m.get_markerfacecolor() for m in out.critical_markers]
     assert faces == [st.VERDICT_STYLES["pass"]["facecolor"],
                      st.VERDICT_STYLES["fail"]["facecolor"]]
     # The margin table alone is enough to find the criticals.
-    alone = whirl_speed_map(_sweep(), margins=_margins(crits))
+    alone = plot_whirl_speed_map(_sweep(), margins=_margins(crits))
     assert len(alone.critical_markers) == 2
     legend = " ".join(t.get_text() for t in out.legend.get_texts())
     assert "pass" in legend and "fail" in legend
@@ -222,7 +223,7 @@ def test_map_colours_critical_markers_by_verdict():
 # --- mode shape ----------------------------------------------------------------------
 
 def test_mode_shape_returns_figure_and_draws_stations_and_orbits():
-    out = mode_shape(_modes(), 0)
+    out = plot_mode_shape(_modes(), 1)
     assert isinstance(out.figure, Figure)
     assert len(out.station_lines) == 4
     assert len(out.orbits) == 4
@@ -233,7 +234,7 @@ def test_mode_shape_returns_figure_and_draws_stations_and_orbits():
 
 
 def test_mode_shape_title_has_frequency_log_dec_and_whirl():
-    out = mode_shape(_modes(), 1)
+    out = plot_mode_shape(_modes(), 2)
     texts = " ".join(t.get_text() for t in out.ax.texts)
     assert out.ax.get_title(loc="left").startswith("Mode 2")
     assert "Hz" in texts and "cpm" in texts and "backward whirl" in texts
@@ -243,21 +244,21 @@ def test_mode_shape_title_has_frequency_log_dec_and_whirl():
 def test_mode_shape_on_given_axes_with_rotor_outline():
     fig = Figure()
     ax = fig.add_subplot()
-    out = mode_shape(_modes(), 0, ax=ax, rotor=_rotor(), orbits=False)
+    out = plot_mode_shape(_modes(), 1, ax=ax, rotor=_rotor(), orbits=False)
     assert out.ax is ax and out.figure is fig
     assert out.outline and out.orbits == []
 
 
 def test_mode_shape_refuses_a_mode_it_does_not_have():
-    with pytest.raises(IndexError):
-        mode_shape(_modes(), 2)
+    with pytest.raises(InputError, match="1..2"):
+        plot_mode_shape(_modes(), 3)
 
 
 # --- rotor layout --------------------------------------------------------------------
 
 def test_layout_draws_every_part():
     rotor = _rotor()
-    out = rotor_layout(rotor)
+    out = plot_rotor_layout(rotor)
     assert isinstance(out.figure, Figure)
     assert len(out.sections) == 4 and len(out.disks) == 2 and len(out.bearings) == 3
     assert out.sections[2].get_hatch() and not out.sections[0].get_hatch()
@@ -270,19 +271,19 @@ def test_layout_draws_every_part():
 
 
 def test_layout_is_true_to_scale_unless_too_slender():
-    out = rotor_layout(_rotor())
+    out = plot_rotor_layout(_rotor())
     assert out.radial_scale == 1.0 and out.ax.get_aspect() == 1.0
     thin = Rotor((Section(3.0, 0.04, STEEL),), OPERATING)
-    out = rotor_layout(thin)
+    out = plot_rotor_layout(thin)
     assert out.radial_scale > 1.0 and out.ax.get_aspect() == out.radial_scale
     assert f"\u00d7{out.radial_scale:g}" in out.ax.get_title(loc="right")
-    assert rotor_layout(thin, radial_scale=1).radial_scale == 1.0
+    assert plot_rotor_layout(thin, radial_scale=1).radial_scale == 1.0
     with pytest.raises(ValueError):
-        rotor_layout(thin, radial_scale=0.0)
+        plot_rotor_layout(thin, radial_scale=0.0)
 
 
 def test_layout_section_rectangles_are_the_geometry_in_mm():
-    out = rotor_layout(_rotor())
+    out = plot_rotor_layout(_rotor())
     rect = out.sections[1]
     assert np.isclose(rect.get_x(), 200.0) and np.isclose(rect.get_width(), 500.0)
     assert np.isclose(rect.get_height(), 80.0) and np.isclose(rect.get_y(), -40.0)
@@ -291,12 +292,12 @@ def test_layout_section_rectangles_are_the_geometry_in_mm():
 def test_layout_on_given_axes():
     fig = Figure()
     ax = fig.add_subplot()
-    out = rotor_layout(_rotor(), ax=ax)
+    out = plot_rotor_layout(_rotor(), ax=ax)
     assert out.ax is ax and out.figure is fig
 
 
 def test_whirl_map_mode_shape_and_layout_results_are_frozen():
-    for out in (whirl_speed_map(_sweep()), mode_shape(_modes(), 0), rotor_layout(_rotor())):
+    for out in (plot_whirl_speed_map(_sweep()), plot_mode_shape(_modes(), 1), plot_rotor_layout(_rotor())):
         with pytest.raises(dataclasses.FrozenInstanceError):
             out.legend = None
 

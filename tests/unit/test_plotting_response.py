@@ -19,7 +19,7 @@ from matplotlib.text import Text
 import rotorcalc.plotting
 from rotorcalc.analysis.response import Peak, Response, unbalance_response
 from rotorcalc.model import Bearing, Disk, Material, OperatingRange, Rotor, Section
-from rotorcalc.plotting import bode, orbits, polar, save
+from rotorcalc.plotting import plot_bode, plot_orbits, plot_polar, save
 from rotorcalc.plotting.bodeplot import BodeArtists
 from rotorcalc.plotting.orbitplot import OrbitArtists
 from rotorcalc.plotting.polarplot import PolarArtists
@@ -67,7 +67,7 @@ def _response(speeds=None, station_sizes=(1e-6, 5e-7, 2e-5)):
 
 def test_bode_returns_two_stacked_axes_and_a_curve_per_probe():
     res = _response()
-    out = bode(res)
+    out = plot_bode(res)
     assert isinstance(out, BodeArtists) and isinstance(out.figure, Figure)
     assert isinstance(out.ax, Axes) and isinstance(out.phase_ax, Axes)
     assert out.ax.figure is out.figure is out.phase_ax.figure
@@ -87,7 +87,7 @@ def test_bode_phase_is_the_lag_in_0_360_broken_at_wraps():
     values[0, :, 0] *= 1j          # a quarter turn less lag: from 270 through 360 to 90
     res = Response(res.speeds, res.cases, res.stations, res.probes, values,
                    res.bearing_forces, res.support_forces, res.bearing_names, res.peaks, (), ())
-    out = bode(res)
+    out = plot_bode(res)
     for k, line in enumerate(out.phase_lines):
         x, y = (np.asarray(v, dtype=float) for v in line.get_data())
         keep = np.isfinite(y)
@@ -102,7 +102,7 @@ def test_bode_phase_is_the_lag_in_0_360_broken_at_wraps():
 
 def test_bode_marks_each_peak_of_the_case_with_its_af_and_half_power_bar():
     res = _response()
-    out = bode(res, 0)
+    out = plot_bode(res, 0)
     assert len(out.peak_markers) == 2 == len(out.peak_labels) == len(out.phase_markers)
     x, y = out.peak_markers[0].get_data()
     assert np.isclose(x[0], 5000.0) and np.isclose(y[0], 1e6 * res.peaks[0].amplitude)
@@ -114,7 +114,7 @@ def test_bode_marks_each_peak_of_the_case_with_its_af_and_half_power_bar():
     assert np.allclose(bx, [5000.0 * (1 - ZETA), 5000.0 * (1 + ZETA)])
     assert np.allclose(by, 1e6 * res.peaks[0].amplitude / math.sqrt(2.0))
     # Only the peaks of the case drawn.
-    other = bode(res, 1)
+    other = plot_bode(res, 1)
     assert [t.get_text() for t in other.peak_labels] == ["x  AF 5.0"]
 
 
@@ -123,7 +123,7 @@ def test_bode_single_probe_label_has_no_direction_tag():
     peaks = (Peak("run", "B x", W_N, 1e-5, (W_N * 0.9, W_N * 1.1), 3.94),)
     res = Response(res.speeds, res.cases, res.stations, res.probes, res.probe_values,
                    res.bearing_forces, res.support_forces, res.bearing_names, peaks, (), ())
-    out = bode(res, probes=["B x"])
+    out = plot_bode(res, probes=["B x"])
     assert [t.get_text() for t in out.peak_labels] == ["AF 3.9"]
 
 
@@ -132,7 +132,7 @@ def test_bode_joins_an_unresolved_peak_to_its_curve():
     sharp = (Peak("run", "B x", W_N, 50e-6, (W_N * 0.999, W_N * 1.002), 326.4),)
     res = Response(res.speeds, res.cases, res.stations, res.probes, res.probe_values,
                    res.bearing_forces, res.support_forces, res.bearing_names, sharp, (), ())
-    out = bode(res, probes=["B x"])
+    out = plot_bode(res, probes=["B x"])
     assert [t.get_text() for t in out.peak_labels] == ["AF 326"]
     stems = [line for line in out.ax.lines
              if len(line.get_xdata()) == 2 and np.allclose(line.get_xdata(), 5000.0)]
@@ -141,24 +141,24 @@ def test_bode_joins_an_unresolved_peak_to_its_curve():
 
 def test_bode_picks_probes_by_name_or_index():
     res = _response()
-    assert bode(res, probes=["B x"]).probes == ("B x",)
-    assert bode(res, probes="A y").probes == ("A y",)
-    assert bode(res, probes=[2, "A x"]).probes == ("B x", "A x")
-    assert bode(res, probes=[-1]).probes == ("B x",)
-    only_b = bode(res, probes=["B x"])
+    assert plot_bode(res, probes=["B x"]).probes == ("B x",)
+    assert plot_bode(res, probes="A y").probes == ("A y",)
+    assert plot_bode(res, probes=[2, "A x"]).probes == ("B x", "A x")
+    assert plot_bode(res, probes=[-1]).probes == ("B x",)
+    only_b = plot_bode(res, probes=["B x"])
     assert only_b.peak_markers == ()                # the peaks are on the A probes
     with pytest.raises(ValueError, match="'A x', 'A y', 'B x'"):
-        bode(res, probes=["C x"])
+        plot_bode(res, probes=["C x"])
     with pytest.raises(IndexError):
-        bode(res, probes=[3])
+        plot_bode(res, probes=[3])
     with pytest.raises(TypeError):
-        bode(res, probes=[1.5])
+        plot_bode(res, probes=[1.5])
     with pytest.raises(IndexError):
-        bode(res, case_index=2)
+        plot_bode(res, case_index=2)
 
 
 def test_bode_shades_the_operating_range_on_both_axes():
-    out = bode(_response(), operating=OPERATING)
+    out = plot_bode(_response(), operating=OPERATING)
     assert len(out.bands) == 2 and len(out.trip_lines) == 2
     for band in out.bands:
         assert np.isclose(band.get_x(), 2400.0)
@@ -167,28 +167,28 @@ def test_bode_shades_the_operating_range_on_both_axes():
     assert np.allclose(out.trip_lines[0].get_xdata(), 3780.0)
     legend = [t.get_text() for t in out.legend.get_texts()]
     assert "operating range" in legend and "trip speed" in legend
-    bare = bode(_response())
+    bare = plot_bode(_response())
     assert bare.bands == () and bare.band_labels == () and bare.trip_lines == ()
 
 
 def test_bode_on_given_axes_pair_or_single():
     fig = Figure()
     top, bottom = fig.add_subplot(2, 1, 1), fig.add_subplot(2, 1, 2)
-    out = bode(_response(), ax=(top, bottom))
+    out = plot_bode(_response(), ax=(top, bottom))
     assert out.ax is top and out.phase_ax is bottom and out.figure is fig
     assert len(fig.axes) == 2
     assert all(line.axes is top for line in out.amplitude_lines)
     assert all(line.axes is bottom for line in out.phase_lines)
     fig = Figure()
     ax = fig.add_subplot()
-    out = bode(_response(), ax=ax, operating=OPERATING)
+    out = plot_bode(_response(), ax=ax, operating=OPERATING)
     assert out.ax is ax and out.phase_ax is None and out.phase_lines == ()
     assert out.phase_markers == () and len(out.peak_markers) == 2
     assert len(fig.axes) == 1
     with pytest.raises(ValueError):
-        bode(_response(), ax=(ax,))
+        plot_bode(_response(), ax=(ax,))
     pair = Figure().subplots(2, 1)                      # an array of axes is a pair too
-    assert bode(_response(), ax=pair).phase_ax is pair[1]
+    assert plot_bode(_response(), ax=pair).phase_ax is pair[1]
 
 
 def test_bode_and_polar_need_probes():
@@ -196,17 +196,17 @@ def test_bode_and_polar_need_probes():
     bare = Response(res.speeds, res.cases, res.stations, (), res.probe_values[..., :0],
                     res.bearing_forces, res.support_forces, res.bearing_names, (), (), ())
     with pytest.raises(ValueError, match="no probes"):
-        bode(bare)
+        plot_bode(bare)
     with pytest.raises(ValueError, match="no probes"):
-        polar(bare)
+        plot_polar(bare)
 
 
 def test_bode_log_amplitude():
-    out = bode(_response(), log_amplitude=True)
+    out = plot_bode(_response(), log_amplitude=True)
     assert out.ax.get_yscale() == "log"
     lo, hi = out.ax.get_ylim()
     assert 0 < lo < hi
-    assert bode(_response()).ax.get_yscale() == "linear"
+    assert plot_bode(_response()).ax.get_yscale() == "linear"
 
 
 def test_bode_af_labels_stay_apart():
@@ -215,7 +215,7 @@ def test_bode_af_labels_stay_apart():
                   for k, name in enumerate(("A x", "A y", "B x")))
     res = Response(res.speeds, res.cases, res.stations, res.probes, res.probe_values,
                    res.bearing_forces, res.support_forces, res.bearing_names, peaks, (), ())
-    out = bode(res, operating=OPERATING)
+    out = plot_bode(res, operating=OPERATING)
     out.figure.draw_without_rendering()
     # The text alone, not its leader line.
     boxes = [Text.get_window_extent(t) for t in out.peak_labels]
@@ -228,7 +228,7 @@ def test_bode_af_labels_stay_apart():
 
 def test_polar_has_one_panel_per_station_with_the_lag_as_angle():
     res = _response()
-    out = polar(res)
+    out = plot_polar(res)
     assert isinstance(out, PolarArtists) and isinstance(out.figure, Figure)
     assert len(out.axes) == 2 and out.ax is out.axes[0]         # stations 0 and 2
     assert all(a.name == "polar" for a in out.axes)
@@ -249,13 +249,13 @@ def test_polar_panel_titles_name_the_station_by_whole_words():
     probes = (Probe(2, 0.0, "DE 45"), Probe(2, math.pi / 2, "DE 40"), Probe(0, 0.0, "B x"))
     res = Response(res.speeds, res.cases, res.stations, probes, res.probe_values,
                    res.bearing_forces, res.support_forces, res.bearing_names, (), (), ())
-    titles = [a.get_title(loc="left") for a in polar(res).axes]
+    titles = [a.get_title(loc="left") for a in plot_polar(res).axes]
     assert titles == ["station 0  \u00b7  B x", "station 2  \u00b7  DE"]
 
 
 def test_polar_marks_peaks_and_labels_speeds_in_rpm():
     res = _response()
-    out = polar(res)
+    out = plot_polar(res)
     assert len(out.peak_markers) == 2
     assert [t.get_text() for t in out.peak_labels] == ["5000 rpm", "5000 rpm"]
     theta, r = out.peak_markers[0].get_data()
@@ -270,14 +270,14 @@ def test_polar_marks_peaks_and_labels_speeds_in_rpm():
 def test_polar_on_a_given_polar_axes_draws_every_probe_there():
     fig = Figure()
     ax = fig.add_subplot(projection="polar")
-    out = polar(_response(), probes=["A x", "B x"], ax=ax)
+    out = plot_polar(_response(), probes=["A x", "B x"], ax=ax)
     assert out.ax is ax and out.axes == (ax,) and out.figure is fig
     assert [line.get_label() for line in out.lines] == ["A x", "B x"]
     assert all(line.axes is ax for line in out.lines)
     assert len(out.peak_markers) == 1
     flat = Figure().add_subplot()
     with pytest.raises(ValueError, match="polar"):
-        polar(_response(), ax=flat)
+        plot_polar(_response(), ax=flat)
 
 
 # --- orbits ---------------------------------------------------------------------------
@@ -287,7 +287,7 @@ AT = np.array([3000.0, 5000.0]) * RPM
 
 def test_orbits_draw_the_ellipse_from_the_complex_amplitudes():
     res = _response(AT)
-    out = orbits(res)
+    out = plot_orbits(res)
     assert isinstance(out, OrbitArtists) and isinstance(out.figure, Figure)
     assert out.stations == (0, 2)                                 # the probe stations
     assert len(out.axes) == 2 and out.ax is out.axes[0]
@@ -307,7 +307,7 @@ def test_orbits_draw_the_ellipse_from_the_complex_amplitudes():
 
 def test_orbits_share_one_scale_and_zoom_into_small_ones():
     res = _response(AT)
-    out = orbits(res, stations=[0, 1, 2])
+    out = plot_orbits(res, stations=[0, 1, 2])
     limits = {a.get_xlim() for a in out.axes} | {a.get_ylim() for a in out.axes}
     assert len(limits) == 1
     lo, hi = limits.pop()
@@ -323,7 +323,7 @@ def test_orbits_share_one_scale_and_zoom_into_small_ones():
 
 def test_orbit_arrows_turn_with_the_orbit_sense():
     res = _response(AT)
-    out = orbits(res, case_index=1, stations=[2, 1])
+    out = plot_orbits(res, case_index=1, stations=[2, 1])
     assert out.ellipses[0][0].get_linestyle() == "-"              # forward at station 2
     assert out.ellipses[1][0].get_linestyle() != "-"              # backward at station 1
 
@@ -343,17 +343,17 @@ def test_orbits_on_given_axes_and_default_stations_without_probes():
     res = _response(AT)
     fig = Figure()
     axes = [fig.add_subplot(1, 2, k) for k in (1, 2)]
-    out = orbits(res, stations=[2, 0], ax=axes)
+    out = plot_orbits(res, stations=[2, 0], ax=axes)
     assert list(out.axes) == axes and out.figure is fig and out.stations == (2, 0)
     single = Figure().add_subplot()
-    assert orbits(res, stations=2, ax=single).ax is single
+    assert plot_orbits(res, stations=2, ax=single).ax is single
     with pytest.raises(ValueError, match="one axes per station"):
-        orbits(res, ax=single)
+        plot_orbits(res, ax=single)
     with pytest.raises(IndexError):
-        orbits(res, stations=[3])
+        plot_orbits(res, stations=[3])
     bare = Response(res.speeds, res.cases, res.stations, (), res.probe_values[..., :0],
                     res.bearing_forces, res.support_forces, res.bearing_names, (), (), ())
-    assert orbits(bare).stations == (0, 1, 2)
+    assert plot_orbits(bare).stations == (0, 1, 2)
 
 
 # --- saving and exports ---------------------------------------------------------------
@@ -364,14 +364,15 @@ MAGIC = {".png": b"\x89PNG", ".svg": b"<?xml"}
 @pytest.mark.parametrize("suffix", [".png", ".svg"])
 def test_every_response_picture_saves(tmp_path, suffix):
     res = _response()
-    for name, out in (("bode", bode(res, operating=OPERATING)), ("polar", polar(res)),
-                      ("orbits", orbits(_response(AT)))):
+    for name, out in (("bode", plot_bode(res, operating=OPERATING)), ("polar", plot_polar(res)),
+                      ("orbits", plot_orbits(_response(AT)))):
         path = save(out.figure, tmp_path / f"{name}{suffix}")
         assert path.read_bytes().startswith(MAGIC[suffix])
 
 
 def test_the_package_exports_the_response_pictures():
-    for name, module in (("bode", "bodeplot"), ("polar", "polarplot"), ("orbits", "orbitplot")):
+    for name, module in (("plot_bode", "bodeplot"), ("plot_polar", "polarplot"),
+                         ("plot_orbits", "orbitplot")):
         assert name in rotorcalc.plotting.__all__
         assert getattr(rotorcalc.plotting, name).__module__ == f"rotorcalc.plotting.{module}"
 
@@ -387,10 +388,10 @@ def test_pictures_of_a_computed_response():
                   OperatingRange(2000.0 * RPM, 3000.0 * RPM), disks=(Disk(1, 10.0, 0.05, 0.03),),
                   bearings=bearings, unbalance=(case,), name="tiny")
     res = unbalance_response(rotor, speeds=np.linspace(200.0, 9000.0, 45) * RPM)
-    out = bode(res, operating=rotor.operating)
+    out = plot_bode(res, operating=rotor.operating)
     assert out.probes == ("L x", "L y", "R x", "R y")
     assert len(out.peak_markers) == sum(p.case == "disk" for p in res.peaks)
-    assert polar(res).axes and len(polar(res).axes) == 2
+    assert plot_polar(res).axes and len(plot_polar(res).axes) == 2
     at = unbalance_response(rotor, speeds=[2500.0 * RPM])
-    assert orbits(at).stations == (0, 2)
-    assert orbits(at, stations=[1]).scale > 0
+    assert plot_orbits(at).stations == (0, 2)
+    assert plot_orbits(at, stations=[1]).scale > 0

@@ -23,8 +23,8 @@ from rotorcalc.analysis.csmap import critical_speed_map as compute_map
 from rotorcalc.analysis.whatif import Comparison, StiffnessWindow, WindowEnd
 from rotorcalc.model import Bearing, Disk, MarginRule, Material, OperatingRange, Rotor, Section
 from rotorcalc.plotting import (CriticalMapArtists, MapShapeArtists, VariantMapArtists,
-                                critical_speed_map, map_point_label, map_shapes, save,
-                                variant_maps)
+                                plot_critical_speed_map, map_point_label, plot_map_shapes, save,
+                                plot_variant_maps)
 from rotorcalc.plotting import _style as st
 from rotorcalc.plotting import _units as pu
 from rotorcalc.plotting import stiffmap as pc
@@ -102,7 +102,7 @@ def _comparison():
 # --- the critical-speed map --------------------------------------------------------------
 
 def test_map_returns_frozen_artists_on_a_new_figure():
-    out = critical_speed_map(_map())
+    out = plot_critical_speed_map(_map())
     assert isinstance(out, CriticalMapArtists)
     assert isinstance(out.figure, Figure) and isinstance(out.ax, Axes)
     assert out.ax.figure is out.figure
@@ -113,7 +113,7 @@ def test_map_returns_frozen_artists_on_a_new_figure():
 def test_map_draws_on_the_axes_given():
     fig = Figure()
     ax = fig.add_subplot(1, 2, 2)
-    out = critical_speed_map(_map(), OPERATING, _window(), BASE_K, ax=ax)
+    out = plot_critical_speed_map(_map(), OPERATING, _window(), BASE_K, ax=ax)
     assert out.ax is ax and out.figure is fig
     drawn = out.modes + out.curves + out.crossings + out.window_markers
     assert drawn and all(a.axes is ax for a in drawn)
@@ -122,7 +122,7 @@ def test_map_draws_on_the_axes_given():
 
 def test_map_axes_are_log_stiffness_and_rpm_with_klbf_in_on_top():
     cmap = _map()
-    out = critical_speed_map(cmap)
+    out = plot_critical_speed_map(cmap)
     assert out.ax.get_xscale() == "log"
     assert np.allclose(out.ax.get_xlim(), (1e6, 1e10))
     assert "N/m" in out.ax.get_xlabel() and "rpm" in out.ax.get_ylabel()
@@ -134,7 +134,7 @@ def test_map_axes_are_log_stiffness_and_rpm_with_klbf_in_on_top():
 
 
 def test_map_labels_each_mode_that_shows_and_counts_the_rest():
-    out = critical_speed_map(_map(), OPERATING)
+    out = plot_critical_speed_map(_map(), OPERATING)
     assert len(out.modes) == 3
     assert [t.get_text() for t in out.mode_labels] == ["mode 1", "mode 2"]
     assert out.hidden_modes == 1
@@ -146,12 +146,12 @@ def test_map_labels_each_mode_that_shows_and_counts_the_rest():
     mode2_at_bearings = np.interp(np.log10(2.5e8), k[4:6], [5500.0, 6375.0])
     assert np.isclose(out.speed_max, pc.HEADROOM * mode2_at_bearings)
     assert np.isclose(out.ax.get_ylim()[1], out.speed_max)
-    assert critical_speed_map(_map(), speed_max=20000.0).hidden_modes == 1
-    assert np.isclose(critical_speed_map(_map(), speed_max=20000.0).ax.get_ylim()[1], 20000.0)
+    assert plot_critical_speed_map(_map(), speed_max=20000.0).hidden_modes == 1
+    assert np.isclose(plot_critical_speed_map(_map(), speed_max=20000.0).ax.get_ylim()[1], 20000.0)
 
 
 def test_map_draws_bearing_curves_one_colour_per_bearing_kxx_and_kyy_apart():
-    out = critical_speed_map(_map())
+    out = plot_critical_speed_map(_map())
     a_xx, a_yy, b_xx = out.curves
     assert same_color(a_xx.get_color(), a_yy.get_color())
     assert not same_color(a_xx.get_color(), b_xx.get_color())
@@ -166,7 +166,7 @@ def test_map_draws_bearing_curves_one_colour_per_bearing_kxx_and_kyy_apart():
 
 
 def test_map_marks_crossings_and_labels_them_in_rpm():
-    out = critical_speed_map(_map())
+    out = plot_critical_speed_map(_map())
     assert len(out.crossings) == 3
     x, y = out.crossings[2].get_data()
     assert np.isclose(x[0], 1.9e8) and np.isclose(y[0], 2550.0)
@@ -179,17 +179,17 @@ def test_map_marks_crossings_and_labels_them_in_rpm():
 
 
 def test_map_shades_the_operating_range_across():
-    out = critical_speed_map(_map(), OPERATING)
+    out = plot_critical_speed_map(_map(), OPERATING)
     assert np.isclose(out.band.get_y(), 2400.0)
     assert np.isclose(out.band.get_y() + out.band.get_height(), 3600.0)
     assert [t.get_text() for t in out.band_labels] == ["2400", "3600", "trip 3780"]
     assert np.allclose(out.trip_line.get_ydata(), 3780.0)
-    plain = critical_speed_map(_map())
+    plain = plot_critical_speed_map(_map())
     assert plain.band is None and plain.band_labels == () and plain.trip_line is None
 
 
 def test_map_window_band_with_a_limited_and_an_open_end():
-    out = critical_speed_map(_map(), OPERATING, _window(low=0.5, high=None), BASE_K)
+    out = plot_critical_speed_map(_map(), OPERATING, _window(low=0.5, high=None), BASE_K)
     band = out.window_band
     assert np.isclose(band.get_x(), 0.5 * BASE_K)
     assert np.isclose(band.get_x() + band.get_width(), 10.0 * BASE_K)   # to the searched end
@@ -204,24 +204,24 @@ def test_map_window_band_with_a_limited_and_an_open_end():
 
 
 def test_map_window_with_both_ends_limited():
-    out = critical_speed_map(_map(), window=_window(low=0.5, high=4.0), base_stiffness=BASE_K)
+    out = plot_critical_speed_map(_map(), window=_window(low=0.5, high=4.0), base_stiffness=BASE_K)
     band = out.window_band
     assert np.isclose(band.get_x() + band.get_width(), 4.0 * BASE_K)
     assert len(out.window_markers) == 2 and out.window_arrows == ()
 
 
 def test_map_window_when_the_base_fails_says_so_without_a_band():
-    out = critical_speed_map(_map(), window=_window(passes=False), base_stiffness=BASE_K)
+    out = plot_critical_speed_map(_map(), window=_window(passes=False), base_stiffness=BASE_K)
     assert out.window_band is None
     assert any("margins not kept" in t.get_text() for t in out.window_labels)
 
 
 def test_map_window_needs_a_positive_base_stiffness():
     with pytest.raises(ValueError, match="base_stiffness"):
-        critical_speed_map(_map(), window=_window())
+        plot_critical_speed_map(_map(), window=_window())
     for bad in (0.0, -1e8, float("nan")):
         with pytest.raises(ValueError, match="base_stiffness"):
-            critical_speed_map(_map(), base_stiffness=bad)
+            plot_critical_speed_map(_map(), base_stiffness=bad)
 
 
 def test_map_of_a_tiny_computed_rotor():
@@ -231,14 +231,14 @@ def test_map_of_a_tiny_computed_rotor():
                   (Bearing(0, {"kxx": (5e7,), "kyy": (8e7,)}, name="L"),
                    Bearing(2, {"kxx": (5e7,), "kyy": (8e7,)}, name="R")))
     cmap = compute_map(rotor, stiffness=np.logspace(6, 10, 7), mode_count=2)
-    out = critical_speed_map(cmap, rotor.operating)
+    out = plot_critical_speed_map(cmap, rotor.operating)
     assert len(out.modes) == 2 and len(out.curves) == 4
     assert len(out.crossings) == len(cmap.crossings)
 
 
 def test_map_without_ranges_or_curves_scales_to_its_lowest_modes():
     bare = dataclasses.replace(_map(), curves=(), crossings=())
-    out = critical_speed_map(bare)
+    out = plot_critical_speed_map(bare)
     # medians of modes 1 and 2: 2000 and 5937.5 rpm (one point of mode 2 is absent)
     mode2 = np.delete(np.linspace(2000.0, 9000.0, 9), 3)
     assert np.isclose(out.speed_max, pc.HEADROOM * np.median(mode2))
@@ -248,7 +248,7 @@ def test_map_without_ranges_or_curves_scales_to_its_lowest_modes():
 # --- variants overlaid ---------------------------------------------------------------------
 
 def test_variants_return_frozen_artists_one_colour_each():
-    out = variant_maps(_comparison(), OPERATING)
+    out = plot_variant_maps(_comparison(), OPERATING)
     assert isinstance(out, VariantMapArtists) and isinstance(out.figure, Figure)
     assert out.names == ("base", "soft", "stiff")
     assert same_color(out.colours[0], st.INK) and len(set(out.colours)) == 3
@@ -262,7 +262,7 @@ def test_variants_return_frozen_artists_one_colour_each():
 def test_variants_draw_on_the_axes_given_with_whirl_styles():
     fig = Figure()
     ax = fig.add_subplot(2, 1, 1)
-    out = variant_maps(_comparison(), ax=ax, orders=(1.0, 2.0))
+    out = plot_variant_maps(_comparison(), ax=ax, orders=(1.0, 2.0))
     assert out.ax is ax and out.figure is fig
     assert all(p.axes is ax for pieces in out.branches for p in pieces)
     assert out.branch_whirl[0] == ("forward", "backward")
@@ -272,7 +272,7 @@ def test_variants_draw_on_the_axes_given_with_whirl_styles():
 
 
 def test_variants_band_markers_and_key():
-    out = variant_maps(_comparison(), OPERATING)
+    out = plot_variant_maps(_comparison(), OPERATING)
     assert np.isclose(out.band.get_x(), 2400.0)
     assert [t.get_text() for t in out.band_labels] == ["2400", "3600", "trip 3780"]
     x, y = out.critical_markers[1][0].get_data()
@@ -283,7 +283,7 @@ def test_variants_band_markers_and_key():
 
 
 def test_variants_count_branches_above_the_frame():
-    out = variant_maps(_comparison(), freq_max=2500.0)
+    out = plot_variant_maps(_comparison(), freq_max=2500.0)
     assert out.freq_max == 2500.0 and out.hidden_branches == 2   # base 3000+, stiff 3600+
     assert any("above 2500 cpm" in t.get_text() for t in out.legend.get_texts())
 
@@ -295,7 +295,7 @@ def test_shapes_one_line_per_point_scaled_to_a_peak_of_one():
     bend = np.sin(np.pi * z)
     one = np.column_stack([bend, -1j * bend]) * (3.0 + 1.0j)
     two = np.column_stack([np.cos(np.pi * z), -1j * np.cos(np.pi * z)])
-    out = map_shapes(z, [one, two], ["a", "b"], station_nodes=[0, 5])
+    out = plot_map_shapes(z, [one, two], ["a", "b"], station_nodes=[0, 5])
     assert isinstance(out, MapShapeArtists)
     assert len(out.lines) == 2 and len(out.station_lines) == 2
     x, y = out.lines[0].get_data()
@@ -312,7 +312,7 @@ def test_shapes_absent_and_coinciding():
     gone = np.full((4, 2), np.nan + 0j)
     fig = Figure()
     ax = fig.add_subplot()
-    out = map_shapes(z, [shape, shape * 2.0, gone], ["p", "q", "r"], ax=ax)
+    out = plot_map_shapes(z, [shape, shape * 2.0, gone], ["p", "q", "r"], ax=ax)
     assert out.ax is ax and out.figure is fig
     assert out.lines[1].get_linewidth() < out.lines[0].get_linewidth()
     assert len(out.lines[2].get_xdata()) == 0
@@ -323,9 +323,9 @@ def test_shapes_refuse_mismatched_input():
     z = np.linspace(0.0, 1.0, 4)
     shape = np.zeros((4, 2), complex)
     with pytest.raises(ValueError, match="labels"):
-        map_shapes(z, [shape, shape], ["only one"])
+        plot_map_shapes(z, [shape, shape], ["only one"])
     with pytest.raises(ValueError, match="per node"):
-        map_shapes(z, [np.zeros((3, 2), complex)], ["short"])
+        plot_map_shapes(z, [np.zeros((3, 2), complex)], ["short"])
 
 
 def test_map_point_label():
@@ -338,9 +338,9 @@ def test_map_point_label():
 def test_each_picture_saves(tmp_path):
     # small figures keep the file fast; the look at full size is checked by eye
     z = np.linspace(0.0, 1.0, 3)
-    draw = {"map.png": lambda ax: critical_speed_map(_map(), OPERATING, _window(), BASE_K, ax=ax),
-            "variants.png": lambda ax: variant_maps(_comparison(), OPERATING, ax=ax),
-            "shapes.svg": lambda ax: map_shapes(z, [FORWARD], ["mode 1"], ax=ax)}
+    draw = {"map.png": lambda ax: plot_critical_speed_map(_map(), OPERATING, _window(), BASE_K, ax=ax),
+            "variants.png": lambda ax: plot_variant_maps(_comparison(), OPERATING, ax=ax),
+            "shapes.svg": lambda ax: plot_map_shapes(z, [FORWARD], ["mode 1"], ax=ax)}
     for name, picture in draw.items():
         fig = Figure(figsize=(5.0, 3.0), dpi=50)
         out = picture(fig.add_subplot())
@@ -349,7 +349,7 @@ def test_each_picture_saves(tmp_path):
 
 
 def test_exported_from_the_plotting_package():
-    for name in ("critical_speed_map", "variant_maps", "map_shapes", "map_point_label",
+    for name in ("plot_critical_speed_map", "plot_variant_maps", "plot_map_shapes", "map_point_label",
                  "CriticalMapArtists", "VariantMapArtists", "MapShapeArtists"):
         assert name in rotorcalc.plotting.__all__ and hasattr(rotorcalc.plotting, name)
 

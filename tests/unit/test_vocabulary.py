@@ -139,3 +139,20 @@ def test_numbers_count_from_one_in_objects_tables_and_files(tmp_path):
     crit = rows[0].critical
     column = result.sweep.frequency[:, crit.branch - 1]
     assert column.min() <= crit.eigenvalue.imag <= column.max() * 1.01
+
+
+def test_the_old_picture_names_still_draw_with_a_note():
+    import rotorcalc as rc
+    from rotorcalc import plotting
+    from rotorcalc.analysis import modes_at
+    from tests.conftest import isotropic, uniform_shaft
+    with pytest.warns(RenamedWarning, match="plot_bode"):
+        assert plotting.bode is plotting.plot_bode
+    with pytest.warns(RenamedWarning, match="plot_whirl_speed_map"):
+        assert rc.whirl_speed_map is rc.plot_whirl_speed_map
+    modes = modes_at(uniform_shaft(bearings=(isotropic(0, 1e7), isotropic(1, 1e7)),
+                                   elements=4), 100.0, 3)
+    with pytest.warns(RenamedWarning):
+        old = plotting.mode_shape(modes, 1)             # 0.1: counted from 0
+    assert old.ax.get_title(loc="left") == plotting.plot_mode_shape(modes, 2).ax.get_title(
+        loc="left")

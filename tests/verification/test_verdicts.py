@@ -99,8 +99,8 @@ def test_verdict_stability_onset_of_cross_coupled_jeffcott():
     # the backward mode stays stable (cross-coupling damps backward whirl)
     assert all(m.verdict == "stable" for m in stab.branches if m.whirl == "backward")
     # the whirl-speed map says it in words, not only by colour
-    from rotorcalc.plotting import whirl_speed_map
-    drawn = whirl_speed_map(result.sweep, result.criticals, op, margins=result.margins)
+    from rotorcalc.plotting import plot_whirl_speed_map
+    drawn = plot_whirl_speed_map(result.sweep, result.criticals, op, margins=result.margins)
     assert [t.get_text() for t in drawn.unstable_labels] == ["unstable"]
 
 
@@ -123,8 +123,8 @@ def test_verdict_unbalance_response_of_an_unstable_rotor_is_flagged():
     assert not res.steady and not res.passed
     assert res.unstable[res.speeds > 1250.0].all() and not res.unstable[res.speeds < 1150].any()
     assert any("no steady state" in w for w in res.warnings)
-    from rotorcalc.plotting import bode
-    drawn = bode(res)
+    from rotorcalc.plotting import plot_bode
+    drawn = plot_bode(res)
     assert drawn.unstable_spans and "no steady state" in drawn.unstable_spans[-1].get_text()
 
 
