@@ -40,6 +40,8 @@ from scipy.optimize import brentq
 
 from ..assembly import SystemMatrices, assemble
 from ..fe import bearing as fe_bearing
+from ..errors import SolverError
+from ..solvers import NUMERICAL_FAILURES
 from ..units import to_rpm
 from ..vocabulary import old_keywords
 from .modes import forward_fraction
@@ -208,12 +210,17 @@ class _MapProblem:
         lu = None
         while True:
             dense = s.n_dof <= DENSE_LIMIT or want >= size - 2
-            if dense:
-                values, vectors = la.eig(kk.toarray(), mm.toarray())
-            else:
-                if lu is None:
-                    lu = spla.splu(kk.tocsc().astype(complex))
-                values, vectors = _largest_inverse(lu, mm, want)
+            try:
+                if dense:
+                    values, vectors = la.eig(kk.toarray(), mm.toarray())
+                else:
+                    if lu is None:
+                        lu = spla.splu(kk.tocsc().astype(complex))
+                    values, vectors = _largest_inverse(lu, mm, want)
+            except NUMERICAL_FAILURES as exc:
+                raise SolverError(f"the critical-speed map's eigen-solve at a support "
+                                  f"stiffness of {k:.4g} N/m failed ({type(exc).__name__}: "
+                                  f"{exc})") from None
             if basis is not None:
                 vectors = basis @ vectors
             values = values.real

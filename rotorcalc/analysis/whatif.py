@@ -47,6 +47,7 @@ class Comparison:
     names: tuple
     screenings: tuple
     rows: tuple
+    changes: tuple = ()      # per variant (not the base), the text of each change
 
     @property
     def passed(self):
@@ -60,7 +61,10 @@ class Comparison:
                       "base_speed_rpm": None if r.base_speed is None else float(to_rpm(r.base_speed)),
                       "change_percent": r.change_percent})
             out.append(d)
-        return {"variants": list(self.names), "passed": self.passed, "criticals": out}
+        return {"variants": list(self.names), "passed": self.passed, "criticals": out,
+                "changes": {name: list(texts) for name, texts in zip(self.names[1:],
+                                                                      self.changes)},
+                "caution": CAUTION}
 
 
 #: A variant's critical is the same as a base critical when it lies within this
@@ -121,7 +125,8 @@ def compare(rotor, variants, progress=None):
         for row in result.margins.rows:
             match = matches.get(id(row))
             rows.append(ComparisonRow(name, row, None if match is None else match.speed))
-    return Comparison(tuple(n for n, _ in models), tuple(screenings), tuple(rows))
+    return Comparison(tuple(n for n, _ in models), tuple(screenings), tuple(rows),
+                      tuple(tuple(c.text for c in v.changes) for v in variants))
 
 
 # --- stiffness window ------------------------------------------------------------------

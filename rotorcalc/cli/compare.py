@@ -157,8 +157,6 @@ def command(
                   highlight=False)
     document = comparison.to_dict()
     document["base_file"] = {"path": str(base_path), "sha256": file_hash(base_path)}
-    document["changes"] = {v.name: [c.text for c in v.changes] for v in variants}
-    document["caution"] = CAUTION
     write_outputs("compare", case, document, warnings, json_path, csv_path,
                   comparison_columns(comparison), comparison.rows)
     if plot is not None:

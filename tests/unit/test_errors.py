@@ -72,3 +72,19 @@ def test_warnings_are_records_grouped_by_code(tmp_path):
     assert warnings and {w["code"] for w in warnings} == {"table-range"}
     assert all(w["speeds_rpm"] and w["message"].startswith("bearing ") for w in warnings)
     assert codes([notice, "plain text"]) == ["table-range", "note"]
+
+
+def test_a_failed_map_solve_is_a_solver_error(monkeypatch):
+    """Every failed factorisation or eigen-solve is a SolverError (exit code 3), the
+    critical-speed map's included."""
+    import scipy.linalg as la
+
+    from rotorcalc.analysis import csmap
+    from tests.conftest import isotropic, uniform_shaft
+
+    def broken(*args, **kwargs):
+        raise la.LinAlgError("eig algorithm did not converge")
+    monkeypatch.setattr(csmap.la, "eig", broken)
+    rotor = uniform_shaft(bearings=(isotropic(0, 1e7), isotropic(1, 1e7)), elements=4)
+    with pytest.raises(SolverError, match="critical-speed map"):
+        csmap.critical_speed_map(rotor, stiffness=[1e7, 1e8], mode_count=2)
