@@ -22,7 +22,7 @@ The analyses run with one BLAS thread per process (the user's own
 (``rc.plot_whirl_speed_map``, ``rc.plot_bode``, ...) load matplotlib on first use.
 """
 
-__version__ = "0.1.0"
+__version__ = "0.2.0"
 
 from .analysis import (CoverageGap, CriticalSpeed, MarginRow, MarginTable, Modes, Screening,  # noqa: E402
                        Stability, Sweep, critical_speeds, modes_at, required_margin, screen,

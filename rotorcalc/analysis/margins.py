@@ -39,7 +39,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..vocabulary import Side, Verdict
+from ..vocabulary import Side, Verdict, renamed
 from ..model import MarginRule, OperatingRange
 from ..units import to_rpm
 from .criticals import CriticalSpeed
@@ -124,6 +124,11 @@ class Judgement:
                 and crit.forward_fraction <= self.judge_share):
             return "not judged"   # judged: forward share above the threshold (0: all)
         return "judged"
+
+    def kind(self, crit, excited=False):
+        """Old spelling of :meth:`category` (read until 0.3)."""
+        renamed("Judgement.kind()", "Judgement.category()")
+        return self.category(crit, excited)
 
     def verdict(self, crit, af, margin, need, excited=False):
         kind = self.category(crit, excited)

@@ -6,7 +6,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..vocabulary import Whirl
+from ..vocabulary import Whirl, old_keywords
 from ..assembly import SystemMatrices, assemble
 from ..errors import SolverError
 from ..notices import Notice, record
@@ -279,7 +279,8 @@ class Modes:
         }
 
 
-def modes_at(rotor_or_system, speed, n_modes=None, solver=None, near=None):
+@old_keywords(n_modes="mode_count")
+def modes_at(rotor_or_system, speed, mode_count=None, solver=None, near=None):
     """Damped modes at spin speed ``speed`` (rad/s).
 
     Parameters
@@ -288,12 +289,12 @@ def modes_at(rotor_or_system, speed, n_modes=None, solver=None, near=None):
         Pass assembled matrices to avoid re-assembly in a loop.
     speed : float
         rad/s.
-    n_modes : int, optional
+    mode_count : int, optional
         Defaults to the rotor's ``settings.mode_count``.
     solver : callable, optional
         From :func:`rotorcalc.solvers.make_solver`; ``"auto"`` (by model size) by default.
     near : complex, optional
-        rad/s: the ``n_modes`` modes nearest this eigenvalue instead of the lowest.
+        rad/s: the ``mode_count`` modes nearest this eigenvalue instead of the lowest.
 
     Returns
     -------
@@ -301,7 +302,7 @@ def modes_at(rotor_or_system, speed, n_modes=None, solver=None, near=None):
     """
     system = rotor_or_system if isinstance(rotor_or_system, SystemMatrices) \
         else assemble(rotor_or_system)
-    n = system.rotor.settings.mode_count if n_modes is None else n_modes
+    n = system.rotor.settings.mode_count if mode_count is None else mode_count
     solve = solver if solver is not None else make_solver()
     speed = float(speed)
     c_mat, k_mat = system.damping(speed), system.stiffness(speed)

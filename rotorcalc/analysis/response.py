@@ -16,7 +16,7 @@ from ..errors import InputError
 from ..notices import Notice, record
 from ..unbalance import Probe
 from ..units import to_rpm
-from ..vocabulary import Outcome
+from ..vocabulary import Outcome, old_keywords
 from .harmonic import HarmonicSolver, probe_rows, solve_speeds, unbalance_forces  # noqa: F401
 from .modes import read_only
 from .peaks import (HALF_POWER, PEAK_FLOOR, SPEED_RTOL, Evaluator, Peak,  # noqa: F401
@@ -69,6 +69,7 @@ def response_speeds(rotor):
     return grid[grid > 0]  # the force vanishes at rest
 
 
+@old_keywords(kind="check")
 @dataclass(frozen=True)
 class LimitCheck:
     """Worst ratio of a response to its limit over the speeds it checks.

@@ -6,7 +6,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from ..vocabulary import Outcome
+from ..vocabulary import Outcome, old_keywords
 from ..assembly import assemble
 from ..model import Rotor
 from ..units import to_rpm
@@ -17,6 +17,7 @@ from .stability import Stability, stability
 from .sweep import Sweep, sweep
 
 
+@old_keywords(kind="gap")
 @dataclass(frozen=True)
 class CoverageGap:
     """Something the screening must judge but the analysis does not reach.

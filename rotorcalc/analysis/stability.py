@@ -19,7 +19,7 @@ from dataclasses import dataclass
 import numpy as np
 from scipy.optimize import brentq
 
-from ..vocabulary import StabilityVerdict
+from ..vocabulary import StabilityVerdict, old_keywords, renamed
 from ..model import OperatingRange, StabilityRule
 from ..units import to_hz, to_rpm
 from .criticals import SPEED_RTOL, branch_at
@@ -88,6 +88,7 @@ class BranchStability:
         }
 
 
+@old_keywords(modes="branches")
 @dataclass(frozen=True)
 class Stability:
     """Stability of every branch over the sweep, and the verdict of the rule."""
@@ -277,3 +278,16 @@ def describe_branch(m: BranchStability):
     ld = "-" if m.judged_log_dec is None else f"{m.judged_log_dec:.3f}"
     return f"branch {m.branch} ({m.whirl}): log dec {ld}{where} is {m.verdict}{onset}"
 
+
+
+#: The 0.1 names of this module, read until 0.3.
+_OLD_NAMES = {"ModeStability": "BranchStability", "describe_mode": "describe_branch",
+              "worst_mode": "worst_branch"}
+
+
+def __getattr__(name):
+    if name in _OLD_NAMES:
+        renamed(f"rotorcalc.analysis.stability.{name}",
+                f"rotorcalc.analysis.stability.{_OLD_NAMES[name]}")
+        return globals()[_OLD_NAMES[name]]
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

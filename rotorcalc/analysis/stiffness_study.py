@@ -157,8 +157,8 @@ class StiffnessStudy:
         return (f"On the map, factor 1 stands for {self.reference_stiffness:.3e} N/m: the "
                 f"geometric mean of {whose} kxx and kyy at "
                 f"{to_rpm(self.rotor.operating.max_speed):.0f} rpm. The window scales the "
-                "bearings' own coefficients (and seals, for all together), so its band on the "
-                "map is a guide, not a map result.")
+                "bearings' own coefficients (seals kept as they are), so its band on the map "
+                "is a guide, not a map result.")
 
     def to_dict(self):
         op = self.rotor.operating

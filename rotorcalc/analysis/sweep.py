@@ -16,6 +16,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..vocabulary import old_keywords
 from ..assembly import SystemMatrices, assemble
 from ..errors import InputError
 from ..model import Rotor
@@ -159,7 +160,8 @@ def _listed(values):
     return [float(v) if np.isfinite(v) else None for v in values]
 
 
-def sweep(rotor_or_system, speeds=None, n_modes=None, solver=None, progress=None, workers=1):
+@old_keywords(n_modes="mode_count")
+def sweep(rotor_or_system, speeds=None, mode_count=None, solver=None, progress=None, workers=1):
     """Solve the modes at every speed and track the branches.
 
     Parameters
@@ -167,8 +169,8 @@ def sweep(rotor_or_system, speeds=None, n_modes=None, solver=None, progress=None
     rotor_or_system : Rotor or SystemMatrices
     speeds : array_like, optional
         rad/s; by default :func:`default_speeds`.
-    n_modes : int, optional
-        Every branch that is among the ``n_modes`` lowest modes at some speed is
+    mode_count : int, optional
+        Every branch that is among the ``mode_count`` lowest modes at some speed is
         reported; defaults to ``settings.mode_count``.
     solver : callable, optional
         From :func:`rotorcalc.solvers.make_solver` (``"auto"`` by default); with
@@ -188,7 +190,7 @@ def sweep(rotor_or_system, speeds=None, n_modes=None, solver=None, progress=None
     system = rotor_or_system if isinstance(rotor_or_system, SystemMatrices) \
         else assemble(rotor_or_system)
     speeds = default_speeds(system.rotor) if speeds is None else np.asarray(speeds, dtype=float)
-    n = system.rotor.settings.mode_count if n_modes is None else n_modes
+    n = system.rotor.settings.mode_count if mode_count is None else mode_count
     solved = solve_speeds(system, speeds, n + TRACKING_RESERVE, solver, progress, workers)
     values, shapes = branches_from(solved, n)
     warnings = list(system.table_warnings(speeds))

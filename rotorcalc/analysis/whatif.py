@@ -70,12 +70,21 @@ class Comparison:
 #: A variant's critical is the same as a base critical when it lies within this
 #: share of the base speed (after a one-to-one assignment).
 MATCH_SHARE = 0.35
+#: A change of whirl (forward against not forward) costs as much as this relative speed
+#: change in the assignment.
+WHIRL_PENALTY = 0.2
+#: What the comparison table's change column means (the command prints it).
+MATCH_CAPTION = (f"Change: against the base critical assigned one to one (same order; the least "
+                 f"total relative speed change, a change of whirl counting as "
+                 f"{WHIRL_PENALTY:.0%}), when within {MATCH_SHARE:.0%} of the base speed; "
+                 "overdamped modes are listed, never matched. Margins are against each "
+                 "variant's own operating range.")
 
 
 def match_criticals(criticals, base):
     """One-to-one matching of a variant's criticals to the base's.
 
-    An optimal assignment on the relative speed change, plus a penalty of 0.2
+    An optimal assignment on the relative speed change, plus :data:`WHIRL_PENALTY`
     when the whirl changes between forward and not-forward (a backward mode may
     turn mixed under a change of supports) and a bar on different orders;
     pairs further apart than :data:`MATCH_SHARE` of the base speed are left
@@ -89,8 +98,8 @@ def match_criticals(criticals, base):
         for j, b in enumerate(base):
             if c.order != b.order:
                 continue
-            cost[i, j] = abs(c.speed / b.speed - 1.0) + 0.2 * ((c.whirl == "forward")
-                                                             != (b.whirl == "forward"))
+            cost[i, j] = abs(c.speed / b.speed - 1.0) + WHIRL_PENALTY * (
+                (c.whirl == "forward") != (b.whirl == "forward"))
     rows, cols = linear_sum_assignment(cost)
     for i, j in zip(rows, cols):
         if cost[i, j] < 1e6 and abs(criticals[i].speed / base[j].speed - 1.0) <= MATCH_SHARE:

@@ -11,7 +11,7 @@ import typer
 from rich.markup import escape
 
 from ..analysis.margins import CAUTION
-from ..analysis.whatif import MATCH_SHARE
+from ..analysis.whatif import MATCH_CAPTION, MATCH_SHARE
 from ..errors import InputError
 from ..output import file_hash
 from ..reader import load_toml
@@ -145,10 +145,7 @@ def command(
     print_table(f"Critical speeds of each variant (base operating range "
                 f"{to_rpm(op.min_speed):.0f}-{to_rpm(op.max_speed):.0f} rpm)",
                 comparison_columns(comparison), comparison.rows,
-                caption="Change: against the base critical of the same order and whirl nearest "
-                        f"in speed (within {MATCH_SHARE:.0%} of the variant's); overdamped modes "
-                        "are listed, never matched. Margins are against each variant's own "
-                        "operating range.")
+                caption=MATCH_CAPTION)
     for note in comparison_notes(comparison):
         console.print(f"[yellow]note[/] {escape(note)}", highlight=False)
     warnings = merged_warnings(comparison)

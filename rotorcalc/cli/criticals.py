@@ -12,7 +12,7 @@ from rich.markup import escape
 
 from ..analysis.margins import CAUTION
 from ..errors import InputError
-from ..model import LIMITS, MARGIN_RULES, STABILITY_RULES, StabilityRule
+from ..model import LIMITS, MARGIN_RULES, STABILITY_RULES
 from ..analysis.response import limits_caption
 from ..analysis.stability import describe_branch
 from ..tables import LIMIT_COLUMNS, STABILITY_COLUMNS, margin_columns
@@ -74,9 +74,9 @@ def apply_overrides(rotor, speed_count=None, speed_to=None, orders=None, margin_
             raise InputError("--margin-rule", "is not a known rule", value=margin_rule,
                              expected=" or ".join(MARGIN_RULES), kind="choice")
         if stability_rule is not None or min_log_dec is not None:
-            r = s.stability_rule
-            changes["stability_rule"] = StabilityRule(
-                name=stability_rule or ("at-least" if min_log_dec is not None else r.name),
+            r = s.stability_rule       # the file's marginal band stays
+            changes["stability_rule"] = dataclasses.replace(
+                r, name=stability_rule or ("at-least" if min_log_dec is not None else r.name),
                 min_log_dec=r.min_log_dec if min_log_dec is None else min_log_dec)
         if changes:
             rotor = dataclasses.replace(rotor, settings=dataclasses.replace(s, **changes))

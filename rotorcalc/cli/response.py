@@ -21,7 +21,7 @@ EXAMPLE = ("[bold]Example[/]: rotorcalc response cases/compressor.toml --plot-bo
 
 
 def command(
-    case: Path = typer.Argument(..., help="Rotor description (TOML) with [unbalance.NAME] cases."),
+    case: Path = typer.Argument(..., help="Rotor description (TOML) with \\[unbalance.NAME] cases."),
     name: Optional[str] = typer.Option(None, "--unbalance",
                                        help="Unbalance case (its name in the file) to draw "
                                             "(default: the first)."),
@@ -91,4 +91,4 @@ def command(
 
 
 def register(app: typer.Typer):
-    app.command("response", help=command.__doc__ + "\n\n" + EXAMPLE)(command)
+    app.command("response", help=" ".join(command.__doc__.split()) + "\n\n" + EXAMPLE)(command)

@@ -131,7 +131,8 @@ def command(
                                 help="Also find the stiffness window over the map's range and "
                                      "shade it (screens the rotor some 20-35 times)."),
     bearing: Optional[str] = typer.Option(
-        None, "--bearing", help="Window for this bearing only (name); default every bearing "
+        None, "--bearing", help="Window for this bearing only (its name, or its 0-based index "
+                                "in the file); default every bearing "
                                 "together (seals kept as they are)."),
     shapes: Optional[str] = typer.Option(
         None, "--shapes-at", help='Mode shapes at map points, STIFFNESS:MODE items, e.g. '
@@ -147,6 +148,9 @@ def command(
     stiffness (gyroscopic effect included), and where the bearings' own stiffness curves cross
     them: the critical speeds the real bearings give."""
     rotor = load(case)
+    if whirl not in (Whirl.FORWARD, Whirl.BACKWARD):
+        fail_input(InputError("--whirl", "must be forward or backward", value=str(whirl),
+                              kind="choice"))
     shapes_path = shapes_file(plot, shapes_plot) if shapes else None
     check_outputs(case, {"--plot": plot, "--plot-shapes": shapes_path, "--json": json_path,
                          "--csv": csv_path})

@@ -156,3 +156,23 @@ def test_the_old_picture_names_still_draw_with_a_note():
         old = plotting.mode_shape(modes, 1)             # 0.1: counted from 0
     assert old.ax.get_title(loc="left") == plotting.plot_mode_shape(modes, 2).ax.get_title(
         loc="left")
+
+
+def test_renamed_result_attributes_still_read():
+    from rotorcalc.analysis import stability as stability_module
+    from rotorcalc.analysis.margins import Judgement
+    from rotorcalc.analysis.response import LimitCheck
+    from rotorcalc.analysis.screening import CoverageGap
+    import importlib
+    module = importlib.import_module("rotorcalc.analysis.stability")
+    with pytest.warns(RenamedWarning):
+        assert CoverageGap("solver", "x").kind == "solver"
+    with pytest.warns(RenamedWarning):
+        assert LimitCheck("c", "p", 1.0, 1.0, 2.0, "vibration").kind == "vibration"
+    with pytest.warns(RenamedWarning):
+        assert module.describe_mode is module.describe_branch
+    from types import SimpleNamespace
+    crit = SimpleNamespace(log_dec=0.3, damping_ratio=0.05, forward_fraction=1.0)
+    with pytest.warns(RenamedWarning):
+        assert Judgement(MarginRule()).kind(crit) == "judged"
+    assert callable(stability_module)      # the package exports the function by that name
