@@ -106,6 +106,7 @@ class SystemMatrices:
     links: tuple
     n_dof: int
     support_dofs: np.ndarray   # (n_bearings, 2), -1 where the bearing is grounded
+    source_links: tuple = ()   # destabilising sources, grounded at their station
 
     def node_dofs(self, node):
         """Global DOFs ``[x, y, a, b]`` of a shaft node."""
@@ -119,7 +120,7 @@ class SystemMatrices:
 
     def _bearing_part(self, omega, which):
         rows, cols, data = [], [], []
-        for link in self.links:
+        for link in self.links + self.source_links:
             k2, c2 = link.bearing.matrices(omega)
             block = k2 if which == "k" else c2
             local = fe_bearing.grounded(block) if len(link.dofs) == 2 else fe_bearing.linked(block)
@@ -328,4 +329,6 @@ def assemble(rotor: Rotor) -> SystemMatrices:
         rotor=rotor, mesh=m, mass=mass.matrix(n_dof, 1), gyroscopic=gyro.matrix(n_dof, -1),
         shaft_stiffness=stiff.matrix(n_dof, 1), support_stiffness=supp_k.matrix(n_dof, 1),
         support_damping=supp_c.matrix(n_dof, 1), links=tuple(links), n_dof=n_dof,
+        source_links=tuple(_Link(s, DOF_PER_NODE * m.station_nodes[s.station] + np.arange(2))
+                           for s in rotor.sources),
         support_dofs=np.asarray(support_dofs, dtype=int).reshape(-1, 2))

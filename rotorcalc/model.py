@@ -265,14 +265,15 @@ class Bearing:
                 if not math.isfinite(v):
                     raise InputError(f"{self.key}.{name}[{i}]", "is not a finite number", value=v,
                                      kind="not-finite")
-            if name in ("kxx", "kyy", "cxx", "cyy"):
+            if name in ("kxx", "kyy", "cxx", "cyy") and self.role != BearingRole.SOURCE:
                 for i, v in enumerate(values):
                     if v < 0.0:
                         what = "stiffness" if name[0] == "k" else "damping"
                         raise InputError(f"{self.key}.{name}[{i}]",
                                          f"direct {what} must not be negative", value=v,
                                          kind="range")
-        self._check_principal(speeds)
+        if self.role != BearingRole.SOURCE:   # a source may feed energy: that is its point
+            self._check_principal(speeds)
 
     def _check_principal(self, speeds):
         """The symmetric part of the stiffness and of the damping matrix must not have a
@@ -437,9 +438,21 @@ class Rotor:
     probes: tuple = ()
     clearances: tuple = ()
     response: ResponseSettings = field(default_factory=ResponseSettings)
+    #: Destabilising sources (role "source"): cross-coupled stiffness and any direct terms
+    #: from gas and seals, added to the stiffness and damping but never supports.
+    sources: tuple = ()
 
     def __post_init__(self):
         _freeze(self, "station_names", self.station_names)
+        for part in self.sources:
+            if part.role != BearingRole.SOURCE or part.support is not None:
+                raise InputError(f"{part.key}", "is not a destabilising source",
+                                 expected="a source (role 'source', no support)", kind="choice")
+        for part in self.bearings:
+            if part.role == BearingRole.SOURCE:
+                raise InputError(f"{part.key}.role", "is a source among the bearings",
+                                 value="source", expected="bearing or seal; sources go in "
+                                 "[[cross_coupling]]", kind="choice")
         if not self.sections:
             raise InputError("section", "the rotor has no shaft sections",
                              expected="at least one [[section]] table", kind="missing")
@@ -453,13 +466,15 @@ class Rotor:
                              "for", value=total, expected=f"at most {LIMITS['elements']} "
                              "(lower 'elements' in some sections)", kind="size")
         for label, group in (("disk", self.disks), ("bearing", self.bearings),
+                             ("cross_coupling", self.sources),
                              ("unbalance", self.unbalance), ("probe", self.probes),
                              ("clearance", self.clearances)):
             if len(group) > LIMITS["parts"]:
                 raise InputError(label, "has more entries than any rotor needs", value=len(group),
                                  expected=f"at most {LIMITS['parts']}", kind="size")
         weights = tuple(w for case in self.unbalance for w in case.weights)
-        for group in (self.disks, self.bearings, weights, self.probes, self.clearances):
+        for group in (self.disks, self.bearings, self.sources, weights, self.probes,
+                      self.clearances):
             for part in group:
                 if not (isinstance(part.station, int) and 0 <= part.station <= last):
                     raise InputError(f"{part.key}.at", "names a station that does not exist",

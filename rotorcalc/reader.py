@@ -13,6 +13,7 @@ import difflib
 import math
 from pathlib import Path
 
+from . import standards
 from . import units as u
 from ._read_response import (CLEARANCE_KEYS, PROBE_KEYS, RESPONSE_KEYS,  # noqa: F401
                              UNBALANCE_KEYS, WEIGHT_KEYS, _clearance, _probe, _response,
@@ -25,7 +26,8 @@ from .model import (COEFFICIENT_NAMES, Bearing, Disk, MarginRule, Material, Oper
                     Rotor, Section, Settings, StabilityRule, Support)
 from .vocabulary import RENAMED_KEYS, BearingRole, renamed
 
-TOP_KEYS = {"title", "stations", "materials", "section", "disk", "bearing", "operating",
+TOP_KEYS = {"title", "stations", "materials", "section", "disk", "bearing", "cross_coupling",
+            "operating",
             "analysis", "unbalance", "probe", "clearance", "response"}
 MATERIAL_KEYS = {"youngs_modulus", "shear_modulus", "poisson_ratio", "density"}
 SECTION_KEYS = {"length", "outer_diameter", "inner_diameter", "material", "elements",
@@ -102,7 +104,10 @@ def rotor_from_dict(data: dict) -> Rotor:
                    for i, t in enumerate(_array_of_tables(data, "probe")))
     clearances = tuple(_clearance(t, i, names, len(sections))
                        for i, t in enumerate(_array_of_tables(data, "clearance")))
+    sources = tuple(_source(t, i, names, len(sections), operating)
+                    for i, t in enumerate(_array_of_tables(data, "cross_coupling")))
     rotor = Rotor(sections=sections, operating=operating, disks=disks, bearings=bearings,
+                  sources=sources,
                   settings=settings, station_names=names, name=title,
                   probes=probes, clearances=clearances,
                   response=_response(data.get("response", {})))
@@ -216,6 +221,29 @@ def _bearing(table, i, names, n_sections):
     if role not in tuple(BearingRole):
         raise InputError(f"{where}.role", "is not a known role", value=role,
                          expected=" or ".join(BearingRole), kind="choice")
+    speeds, coefficients = _coefficient_tables(table, where)
+    for direct in ("kxx", "kyy"):
+        if direct not in coefficients:
+            raise InputError(f"{where}.{direct}", "is missing",
+                             expected="both direct stiffnesses kxx and kyy (0 is allowed)",
+                             kind="missing")
+    support = None
+    if "support" in table:
+        sw = f"{where}.support"
+        st = table["support"]
+        check_keys(st, SUPPORT_KEYS, sw)
+        support = Support(kx=_quantity(st, "kx", u.STIFFNESS, sw, required=True),
+                          ky=_quantity(st, "ky", u.STIFFNESS, sw, required=True),
+                          mass=_quantity(st, "mass", u.MASS, sw, default=0.0),
+                          cx=_quantity(st, "cx", u.DAMPING, sw, default=0.0),
+                          cy=_quantity(st, "cy", u.DAMPING, sw, default=0.0), key=sw)
+    return Bearing(station=station, coefficients=coefficients, speeds=speeds, name=name,
+                   role=role, support=support, key=where)
+
+
+def _coefficient_tables(table, where):
+    """(speeds, {name: values}) of a bearing's or a source's coefficients: each a constant
+    or a list with one value per speed."""
     speeds = ()
     if "speeds" in table:
         raw = table["speeds"]
@@ -241,23 +269,58 @@ def _bearing(table, i, names, n_sections):
         else:
             values = (u.parse(raw, dim, f"{where}.{cname}"),)
         coefficients[cname] = values
-    for direct in ("kxx", "kyy"):
-        if direct not in coefficients:
-            raise InputError(f"{where}.{direct}", "is missing",
-                             expected="both direct stiffnesses kxx and kyy (0 is allowed)",
-                             kind="missing")
-    support = None
-    if "support" in table:
-        sw = f"{where}.support"
-        st = table["support"]
-        check_keys(st, SUPPORT_KEYS, sw)
-        support = Support(kx=_quantity(st, "kx", u.STIFFNESS, sw, required=True),
-                          ky=_quantity(st, "ky", u.STIFFNESS, sw, required=True),
-                          mass=_quantity(st, "mass", u.MASS, sw, default=0.0),
-                          cx=_quantity(st, "cx", u.DAMPING, sw, default=0.0),
-                          cy=_quantity(st, "cy", u.DAMPING, sw, default=0.0), key=sw)
+    return speeds, coefficients
+
+
+#: Keys of a [[cross_coupling]] table: a destabilising source.
+SOURCE_KEYS = {"at", "name", "speeds", "q", "stage", *COEFFICIENT_NAMES}
+STAGE_KEYS = {"power", "impeller_diameter", "passage_width", "density_ratio",
+              "molecular_weight", "form"}
+
+
+def _source(table, i, names, n_sections, operating):
+    """A [[cross_coupling]] table: coefficients (``q`` for kxy = q, kyx = -q), or a
+    ``stage`` whose expected aerodynamic cross-coupling is estimated at the maximum
+    continuous speed (:func:`rotorcalc.standards.stage_cross_coupling`)."""
+    where = f"cross_coupling[{i}]"
+    check_keys(table, SOURCE_KEYS, where)
+    station = _station(table, where, names, n_sections)
+    name = _string(table, "name", where, default=f"Q{i + 1}")
+    given = [k for k in ("q", "stage") if k in table]
+    if len(given) > 1 or (given and set(COEFFICIENT_NAMES) & set(table)):
+        raise InputError(f"{where}.{given[0]}", "is given together with other coefficients",
+                         expected="one of: q, a stage estimate, or kxx..cyy", kind="conflict")
+    if "stage" in table:
+        q = _stage_estimate(table["stage"], f"{where}.stage", operating)
+        coefficients, speeds = {"kxy": (q,), "kyx": (-q,)}, ()
+    elif "q" in table:
+        q = _quantity(table, "q", u.STIFFNESS, where, required=True)
+        coefficients, speeds = {"kxy": (q,), "kyx": (-q,)}, ()
+    else:
+        speeds, coefficients = _coefficient_tables(table, where)
+        if not coefficients:
+            raise InputError(f"{where}.q", "is missing", expected='q = "2e6 N/m", a stage '
+                             "table, or coefficients kxy, kyx, ...", kind="missing")
     return Bearing(station=station, coefficients=coefficients, speeds=speeds, name=name,
-                   role=role, support=support, key=where)
+                   role=BearingRole.SOURCE, key=where)
+
+
+def _stage_estimate(table, where, operating):
+    if not isinstance(table, dict):
+        check_keys(table, set(), where)  # raises: must be a table
+    check_keys(table, STAGE_KEYS, where)
+    form = _string(table, "form", where, default="standard")
+    mw = _number(table, "molecular_weight", where, None) if "molecular_weight" in table \
+        else None
+    try:
+        return standards.stage_cross_coupling(
+            _quantity(table, "power", u.POWER, where, required=True), operating.max_speed,
+            _quantity(table, "impeller_diameter", u.LENGTH, where, required=True),
+            _quantity(table, "passage_width", u.LENGTH, where, required=True),
+            _number(table, "density_ratio", where, None), molecular_weight=mw, form=form)
+    except InputError as err:
+        raise InputError(err.key.replace("stage.", f"{where}."), err.problem, value=err.value,
+                         expected=err.expected, kind=err.kind) from None
 
 
 def _operating(table):

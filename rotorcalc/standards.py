@@ -110,3 +110,39 @@ def allowable_vibration(speed):
     if rpm <= 0:
         return VIBRATION_CAP_UM * 1e-6
     return min(VIBRATION_CONSTANT_UM * math.sqrt(12000.0 / rpm), VIBRATION_CAP_UM) * 1e-6
+
+
+#: Cross-coupled stiffness per compressor stage, the screening estimate of industry standards
+#: for centrifugal compressors (common practice, from memory; confirm against the edition that
+#: applies): q = B_c T (rho_d / rho_s) / (D H), with T = P / Omega the stage's torque, D the
+#: impeller diameter, H the narrower of the impeller exit and the diffuser width, rho_d / rho_s
+#: the discharge-to-suction density ratio and B_c = 3.  The standards write it in their units as
+#: q = B_c C P (rho_d / rho_s) / (D H N), C turning power over speed into torque (in hp, rpm,
+#: in and lbf/in, C = 33 000 x 12 / (2 pi) = 63 025, written 63 000); this code uses the exact
+#: torque P / Omega in SI instead.  Wachel's earlier form puts the gas's molecular weight where
+#: B_c is.
+STAGE_FACTOR = 3.0
+STAGE_FORMS = ("standard", "wachel")
+
+
+def stage_cross_coupling(power, speed, diameter, width, density_ratio, molecular_weight=None,
+                         form="standard"):
+    """Expected aerodynamic cross-coupled stiffness of one stage, N/m (see
+    :data:`STAGE_FACTOR`).  ``power`` W, ``speed`` rad/s, ``diameter`` and ``width`` m."""
+    for key, value in (("power", power), ("speed", speed), ("impeller_diameter", diameter),
+                       ("passage_width", width), ("density_ratio", density_ratio)):
+        if not (math.isfinite(value) and value > 0):
+            raise InputError(f"stage.{key}", "must be positive", value=value, kind="range")
+    if form not in STAGE_FORMS:
+        raise InputError("stage.form", "is not a known form", value=form,
+                         expected=" or ".join(STAGE_FORMS), kind="choice")
+    if form == "wachel":
+        if molecular_weight is None or not molecular_weight > 0:
+            raise InputError("stage.molecular_weight", "is needed by Wachel's form",
+                             value=molecular_weight, expected="the gas's molecular weight, "
+                             "e.g. 28", kind="missing")
+        factor = molecular_weight
+    else:
+        factor = STAGE_FACTOR
+    torque = power / speed
+    return factor * torque * density_ratio / (diameter * width)

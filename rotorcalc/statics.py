@@ -46,7 +46,7 @@ def journal_static_loads(rotor, speed=None):
     if len({rotor.bearings[i].station for i in journals}) < 2:
         return {}
     hanging = dataclasses.replace(rotor, bearings=tuple(rotor.bearings[i] for i in journals),
-                                  unbalance=())
+                                  unbalance=(), sources=())   # gas forces carry no weight
     system = assemble(hanging)
     omega = rotor.operating.max_speed if speed is None else speed
     down = np.zeros(system.n_dof)

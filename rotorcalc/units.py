@@ -60,6 +60,7 @@ DAMPING = Dimension("damping", "N*s/m", '"2.5e4 N*s/m", "120 lbf*s/in"', 1e-6, 1
 SPEED = Dimension("rotational speed", "rad/s", '"3600 rpm", "60 Hz", "377 rad/s"',
                   1e-3, 1e6 * 2.0 * math.pi / 60.0)                          # to 1e6 rpm
 PRESSURE = Dimension("modulus", "Pa", '"211 GPa", "30e6 psi"', 1e5, 1e13)
+POWER = Dimension("power", "W", '"1.2 MW", "1500 hp"', 1e-3, 1e10)
 DENSITY = Dimension("density", "kg/m**3", '"7850 kg/m^3", "0.283 lb/in^3"', 1e-6, 1e6)
 UNBALANCE = Dimension("unbalance", "kg*m", '"12 g*mm", "0.05 oz*in"', 1e-12, 1e3)
 ANGLE = Dimension("angle", "rad", '"30 deg", "0.5 rad"', 1e-12, 1e4)

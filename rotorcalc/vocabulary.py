@@ -88,6 +88,9 @@ class BearingRole(Word):
 
     BEARING = "bearing"
     SEAL = "seal"
+    #: A destabilising source (gas forces at an impeller, a seal given as cross-coupling):
+    #: kept apart from the bearings (``Rotor.sources``), never a support.
+    SOURCE = "source"
 
 
 class RenamedWarning(FutureWarning):

@@ -166,3 +166,23 @@ def test_syntax_error_has_line():
     with pytest.raises(InputError) as info:
         parse_rotor(mutate('length = "300 mm"', 'length = "300 mm'))
     assert info.value.line == 1 + BASE.splitlines().index('length = "300 mm"')
+
+
+def test_cross_coupling_sources_are_read_apart_from_the_bearings():
+    """[[cross_coupling]]: q, a table of coefficients, or a stage estimate; never a bearing."""
+    from rotorcalc.vocabulary import BearingRole
+    text = BASE + ('[[cross_coupling]]\nname = "gas"\nat = 1\nq = "2e6 N/m"\n'
+                   '[[cross_coupling]]\nat = 0\nstage = { power = "1 MW", impeller_diameter = '
+                   '"400 mm", passage_width = "15 mm", density_ratio = 1.8 }\n')
+    rotor = parse_rotor(text)
+    assert len(rotor.bearings) == 2 and len(rotor.sources) == 2
+    gas, stage = rotor.sources
+    assert gas.role == BearingRole.SOURCE and gas.matrices(1.0)[0][0, 1] == 2e6
+    assert gas.matrices(1.0)[0][1, 0] == -2e6
+    assert stage.name == "Q2" and stage.matrices(1.0)[0][0, 1] > 0
+    with pytest.raises(InputError) as err:
+        parse_rotor(text.replace('q = "2e6 N/m"', 'q = "2e6 N/m"\nkxy = "1 N/m"'))
+    assert err.value.kind == "conflict"
+    with pytest.raises(InputError) as err:
+        parse_rotor(text.replace('density_ratio = 1.8', 'density_ratio = -1'))
+    assert err.value.key == "cross_coupling[1].stage.density_ratio"

@@ -1,0 +1,243 @@
+"""The cross-coupling screen: how much destabilising cross-coupled stiffness the rotor takes.
+
+At the maximum continuous speed, a cross-coupled stiffness ``q`` (force on the shaft
+``-[[0, q], [-q, 0]] (x, y)``: tangential, in the sense of forward whirl) is applied at the
+chosen stations and swept from zero to several times the expected amount.  The first forward
+mode is followed by its shape (the modal assurance criterion against the previous step, not
+by its place in the frequency order), and its log decrement read at every step.  Where that
+log decrement crosses zero is refined by Brent's method: the threshold amount.  The verdict
+compares the log decrement at the expected amount and the ratio threshold / expected with the
+screening criteria (common practice, from memory; both selectable).
+
+The rotor's own destabilising sources (``Rotor.sources``) are left out: the screen applies
+only the swept amount, the way the trade's first-level screen is done.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import math
+from dataclasses import dataclass
+
+import numpy as np
+from scipy.optimize import brentq
+
+from ..assembly import assemble
+from ..errors import InputError
+from ..model import Bearing
+from ..units import to_rpm
+from ..vocabulary import BearingRole, Outcome
+from .margins import CAUTION
+from .modes import modes_at, read_only
+from .tracking import mac_matrix
+
+PLACEMENTS = ("sources", "mid-span", "largest-amplitude")
+#: Steps of the sweep from zero to the top amount.
+STEPS = 41
+
+
+@dataclass(frozen=True)
+class ScreenCriteria:
+    """Pass when the log decrement at the expected amount is at least ``min_log_dec`` and
+    the threshold is at least ``min_ratio`` times the expected amount (common practice,
+    quoted from memory from industry standards for centrifugal compressors; confirm against
+    the edition that applies)."""
+
+    min_log_dec: float = 0.1
+    min_ratio: float = 2.0
+
+    def __post_init__(self):
+        for key in ("min_log_dec", "min_ratio"):
+            value = getattr(self, key)
+            if not (math.isfinite(value) and value >= 0):
+                raise InputError(f"stability_screen.{key}", "must be zero or positive",
+                                 value=value, kind="range")
+
+    @property
+    def label(self):
+        if (self.min_log_dec, self.min_ratio) == (0.1, 2.0):
+            return ("common practice, quoted from memory from industry standards for "
+                    "centrifugal compressors; confirm against the edition that applies")
+        return "set by the user"
+
+    def describe(self):
+        return (f"log decrement at the expected cross-coupling at least {self.min_log_dec:g} "
+                f"and threshold at least {self.min_ratio:g} x the expected amount")
+
+
+@dataclass(frozen=True)
+class CouplingScreen:
+    """The screen's result; amounts in N/m (the total over the stations)."""
+
+    speed: float
+    expected: float
+    placement: str
+    shares: tuple            # ((station, share of the total), ...)
+    applied: np.ndarray
+    log_dec: np.ndarray      # of the followed first forward mode at each applied amount
+    frequency: np.ndarray    # its damped natural frequency, rad/s
+    threshold: float | None  # where the log decrement reaches zero (None: not within the
+    #                          sweep; 0 when it is not positive without cross-coupling)
+    criteria: ScreenCriteria
+
+    def __post_init__(self):
+        read_only(self)
+
+    @property
+    def log_dec_zero(self):
+        return float(self.log_dec[0])
+
+    @property
+    def log_dec_expected(self):
+        return float(np.interp(self.expected, self.applied, self.log_dec))
+
+    @property
+    def ratio(self):
+        """Threshold over expected (inf when no threshold lies within the sweep)."""
+        if self.threshold is None:
+            return math.inf
+        return self.threshold / self.expected
+
+    @property
+    def verdict(self):
+        ok = (self.log_dec_expected >= self.criteria.min_log_dec
+              and self.ratio >= self.criteria.min_ratio)
+        return Outcome.PASS if ok else Outcome.FAIL
+
+    def to_dict(self):
+        return {
+            "speed_rpm": float(to_rpm(self.speed)),
+            "expected_n_m": self.expected, "placement": self.placement,
+            "stations": [{"station": int(s), "share": float(f)} for s, f in self.shares],
+            "applied_n_m": [float(v) for v in self.applied],
+            "log_dec": [float(v) for v in self.log_dec],
+            "frequency_hz": [float(v / (2 * math.pi)) for v in self.frequency],
+            "log_dec_at_zero": self.log_dec_zero, "log_dec_at_expected": self.log_dec_expected,
+            "threshold_n_m": self.threshold,
+            "threshold_ratio": None if self.threshold is None else self.ratio,
+            "criteria": {"min_log_dec": self.criteria.min_log_dec,
+                         "min_ratio": self.criteria.min_ratio,
+                         "text": self.criteria.describe(), "label": self.criteria.label},
+            "verdict": self.verdict, "caution": CAUTION,
+        }
+
+
+def applied_sources(shares, total):
+    """The sources that apply ``total`` (N/m) cross-coupling split by ``shares``."""
+    return tuple(Bearing(station, {"kxx": (0.0,), "kyy": (0.0,), "kxy": (share * total,),
+                                   "kyx": (-share * total,)},
+                         name=f"applied q at station {station}", role=BearingRole.SOURCE,
+                         key=f"cross_coupling.applied[{i}]")
+                 for i, (station, share) in enumerate(shares))
+
+
+def _first_forward(modes):
+    """Index of the lowest forward-whirling mode (None when there is none)."""
+    for i in np.argsort(modes.frequency):
+        if modes.forward_fraction[i] >= 0.5 and modes.frequency[i] > 0:
+            return int(i)
+    return None
+
+
+def _station_shares(rotor, placement, base_modes, first):
+    if placement == "sources":
+        amounts = [(s.station, s.matrices(rotor.operating.max_speed)[0]) for s in rotor.sources]
+        qs = [(st, (k[0, 1] - k[1, 0]) / 2.0) for st, k in amounts]
+        total = sum(q for _, q in qs)
+        if not qs or not total > 0:
+            raise InputError("cross_coupling", "gives no destabilising cross-coupling to "
+                             "distribute", expected="[[cross_coupling]] tables with kxy > 0 "
+                             "and kyx < 0, or placement mid-span", kind="missing")
+        return tuple((st, q / total) for st, q in qs)
+    if placement == "mid-span":
+        ends = sorted(b.station for b in rotor.bearings if b.role == BearingRole.BEARING)
+        z = np.concatenate([[0.0], np.cumsum([s.length for s in rotor.sections])])
+        middle = 0.5 * (z[ends[0]] + z[ends[-1]]) if ends else 0.5 * z[-1]
+        return ((int(np.argmin(np.abs(z - middle))), 1.0),)
+    # largest first-mode amplitude among the stations
+    system = assemble(rotor)
+    amplitude = np.abs(base_modes.shapes[first])[system.mesh.station_nodes].max(axis=1)
+    return ((int(np.argmax(amplitude)), 1.0),)
+
+
+def _follow(rotor, shares, amounts, speed, mode_count):
+    """Log decrement and frequency of the first forward mode at each amount, followed by
+    shape from the previous amount; also the shapes (for refining between two steps)."""
+    log_dec, freq, shapes = [], [], []
+    reference = None
+    for q in amounts:
+        model = dataclasses.replace(rotor, sources=applied_sources(shares, q))
+        modes = modes_at(model, speed, mode_count)
+        if reference is None:
+            j = _first_forward(modes)
+            if j is None:
+                raise InputError("stability_screen", "finds no forward mode at the maximum "
+                                 "continuous speed", expected="more modes (analysis.mode_count)",
+                                 kind="range")
+        else:
+            mac = mac_matrix(reference[None], modes.shapes)[0]
+            j = int(np.argmax(mac))
+        reference = modes.shapes[j]
+        log_dec.append(float(modes.log_dec[j]))
+        freq.append(float(modes.frequency[j]))
+        shapes.append(reference)
+    return np.array(log_dec), np.array(freq), shapes
+
+
+def cross_coupling_screen(rotor, expected=None, placement="sources", top_ratio=10.0,
+                          criteria=None, steps=STEPS, xtol_share=1e-6):
+    """Sweep the applied cross-coupling at the maximum continuous speed (module docstring).
+
+    Parameters
+    ----------
+    expected : float, optional
+        The expected total cross-coupling, N/m; by default the rotor's sources' own
+        (the antisymmetric part (kxy - kyx) / 2 at the maximum continuous speed).
+    placement : {"sources", "mid-span", "largest-amplitude"}
+        Where the applied amount acts: split over the rotor's sources in proportion to their
+        own amounts, all at the station nearest mid-span between the outer bearings, or all
+        at the station of the first forward mode's largest amplitude.
+    top_ratio : float
+        The sweep runs from 0 to ``top_ratio`` times the expected amount (at least 10).
+    criteria : ScreenCriteria, optional
+    """
+    if placement not in PLACEMENTS:
+        raise InputError("stability_screen.placement", "is not a known placement",
+                         value=placement, expected=" or ".join(PLACEMENTS), kind="choice")
+    criteria = criteria or ScreenCriteria()
+    speed = rotor.operating.max_speed
+    mode_count = rotor.settings.mode_count
+    if expected is None:
+        expected = sum((s.matrices(speed)[0][0, 1] - s.matrices(speed)[0][1, 0]) / 2.0
+                       for s in rotor.sources)
+    if not (math.isfinite(expected) and expected > 0):
+        raise InputError("stability_screen.expected", "must be a positive cross-coupling",
+                         value=expected, expected='e.g. "2e6 N/m", or [[cross_coupling]] '
+                         "sources in the rotor file", kind="range")
+    bare = dataclasses.replace(rotor, sources=())
+    base_modes = modes_at(bare, speed, mode_count)
+    first = _first_forward(base_modes)
+    shares = _station_shares(rotor, placement, base_modes, first)
+    amounts = np.linspace(0.0, max(top_ratio, 10.0) * expected, steps)
+    amounts = np.unique(np.concatenate([amounts, [expected]]))
+    log_dec, freq, shapes = _follow(bare, shares, amounts, speed, mode_count)
+    threshold = _threshold(bare, shares, amounts, log_dec, shapes, speed, mode_count,
+                           xtol_share * amounts[-1])
+    return CouplingScreen(speed, float(expected), placement, shares, amounts, log_dec, freq,
+                          threshold, criteria)
+
+
+def _threshold(rotor, shares, amounts, log_dec, shapes, speed, mode_count, xtol):
+    if log_dec[0] <= 0:
+        return 0.0          # no margin at all: undamped or unstable without cross-coupling
+    crossing = np.nonzero((log_dec[:-1] > 0) & (log_dec[1:] <= 0))[0]
+    if not len(crossing):
+        return None
+    k = int(crossing[0])
+
+    def g(q):
+        model = dataclasses.replace(rotor, sources=applied_sources(shares, q))
+        modes = modes_at(model, speed, mode_count)
+        j = int(np.argmax(mac_matrix(shapes[k][None], modes.shapes)[0]))
+        return float(modes.log_dec[j])
+    return float(brentq(g, amounts[k], amounts[k + 1], xtol=xtol))

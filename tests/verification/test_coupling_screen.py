@@ -1,0 +1,139 @@
+"""The cross-coupling screen against closed forms, and the stage estimate against a hand
+calculation.
+
+1. Jeffcott rotor (a disk on a light shaft between stiff pins) with isotropic damping ``c`` at
+   the disk and cross-coupled stiffness ``q`` there: with ``z = x + i y`` the motion obeys
+   ``m z'' + c z' + (k - i q) z = 0`` (for ``kxy = q, kyx = -q``), so the forward root of
+   ``m s^2 + c s + k - i q = 0`` gives the log decrement ``-2 pi Re s / Im s``, and it is zero
+   at ``q0 = c w_n`` with ``w_n = sqrt(k / m)``.  Source: D. Childs, Turbomachinery
+   Rotordynamics, Wiley 1993, chapter 1 (the cross-coupled Jeffcott rotor); J. M. Vance,
+   F. Zeidan, B. Murphy, Machinery Vibration and Rotordynamics, Wiley 2010, chapter 5 (from
+   memory).  The shaft's own mass (7.7e-7 of the disk's) and the pins' compliance are the
+   model's only departures from the closed form; ``k`` is the shaft's mid-span stiffness
+   48 E I / L^3 (Roark) in series with the two pins.
+2. The stage estimate q = B_c T (rho_d / rho_s) / (D H) (common practice, from memory) against
+   the formula worked by hand in US units (C = 33 000 x 12 / (2 pi) turns hp / rpm into
+   lbf in) and in SI (60 000 / (2 pi) turns kW / rpm into N m).
+"""
+
+import math
+
+import numpy as np
+import pytest
+
+from rotorcalc import standards
+from rotorcalc.analysis.coupling_screen import ScreenCriteria, cross_coupling_screen
+from rotorcalc.model import Bearing, OperatingRange
+from rotorcalc.units import RPM
+from tests.conftest import LIGHT, STEEL, disk_at_mid_span, isotropic
+from tests.verification import closed_forms as cf
+from tests.verification.record import check
+
+JEFFCOTT = ("Cross-coupled Jeffcott rotor, Childs 1993 ch. 1; Vance, Zeidan and Murphy 2010 "
+            "ch. 5 (from memory)")
+STAGE = "Stage cross-coupling estimate, worked by hand (common practice, from memory)"
+
+LJ, DJ, MJ = 1.0, 0.05, 20.0
+KPIN = 1.0e11
+K_SHAFT = cf.simply_supported_midspan_stiffness(STEEL.youngs_modulus, math.pi * DJ**4 / 64, LJ)
+K_EFF = cf.series_stiffness_two_bearings(K_SHAFT, KPIN)
+WN = math.sqrt(K_EFF / MJ)
+ZETA = 0.05
+C_DISK = 2.0 * ZETA * math.sqrt(K_EFF * MJ)
+Q0 = C_DISK * WN                       # the closed-form threshold
+#: The model departs from the closed form by the shaft's mass (m_s / m = 7.7e-7) and the
+#: discretisation of a shaft that carries no load between its ends: a few parts in 1e6.
+TOL = 1e-5
+
+
+def jeffcott(speed=300.0):
+    damper = Bearing(1, {"kxx": (0.0,), "kyy": (0.0,), "cxx": (C_DISK,), "cyy": (C_DISK,)},
+                     name="disk damper")
+    return disk_at_mid_span(MJ, (isotropic(0, KPIN, name="pin A"),
+                                 isotropic(2, KPIN, name="pin B"), damper),
+                            span=LJ, diameter=DJ, material=LIGHT,
+                            operating=OperatingRange(0.8 * speed, speed), mode_count=2)
+
+
+def closed_form_log_dec(q):
+    roots = np.roots([MJ, C_DISK, K_EFF - 1j * q])
+    s = roots[np.argmax(roots.imag)]            # forward whirl: Im s > 0
+    return -2.0 * math.pi * s.real / s.imag
+
+
+@pytest.fixture(scope="module")
+def screen():
+    """Expected q0 / 3.7: the threshold falls between two steps of the sweep, and the root
+    is found to 1e-10 of the sweep's top (a grid point would hide the model's error)."""
+    return cross_coupling_screen(jeffcott(), expected=Q0 / 3.7, placement="mid-span",
+                                 xtol_share=1e-10)
+
+
+def test_jeffcott_threshold_is_c_times_natural_frequency(screen):
+    check("Jeffcott: threshold q0 = c w_n", JEFFCOTT, Q0, screen.threshold, TOL)
+    check("Jeffcott: threshold ratio (expected = q0/3.7)", JEFFCOTT, 3.7, screen.ratio, TOL)
+
+
+@pytest.mark.parametrize("share", [0.0, 0.5, 2.0])
+def test_jeffcott_log_decrement_against_cross_coupling(share):
+    rotor = jeffcott()
+    result = cross_coupling_screen(rotor, expected=share * Q0 if share else Q0,
+                                   placement="mid-span")
+    q = share * Q0
+    computed = float(np.interp(q, result.applied, result.log_dec)) if share else \
+        result.log_dec_zero
+    # the sweep's grid holds q exactly (the expected amount is always a step)
+    check(f"Jeffcott: log dec at q = {share:g} q0", JEFFCOTT, closed_form_log_dec(q),
+          computed, TOL)
+
+
+def test_the_threshold_converges_with_the_steps_and_the_tolerance():
+    """The threshold does not depend on the sweep's step (it only brackets the root) and
+    follows the root-finding tolerance."""
+    rotor = jeffcott()
+    coarse = cross_coupling_screen(rotor, expected=Q0 / 4.0, placement="mid-span", steps=11)
+    fine = cross_coupling_screen(rotor, expected=Q0 / 4.0, placement="mid-span", steps=81)
+    loose = cross_coupling_screen(rotor, expected=Q0 / 4.0, placement="mid-span",
+                                  xtol_share=1e-3)
+    assert abs(coarse.threshold / fine.threshold - 1.0) < 1e-8
+    assert abs(loose.threshold / fine.threshold - 1.0) < 2e-3
+
+
+def test_the_verdict_follows_the_criteria(screen):
+    """Expected = q0/3.7: the log decrement there is positive and the ratio is 3.7."""
+    assert screen.verdict == "pass"
+    strict = cross_coupling_screen(jeffcott(), expected=Q0 / 4.0, placement="mid-span",
+                                   criteria=ScreenCriteria(min_ratio=4.5))
+    assert strict.verdict == "fail"
+    near = cross_coupling_screen(jeffcott(), expected=0.9 * Q0, placement="mid-span")
+    assert near.verdict == "fail" and near.log_dec_expected < 0.1
+
+
+def test_the_followed_mode_is_forward_and_keeps_its_frequency(screen):
+    """By shape, not by index: the forward mode's frequency stays near w_n while q grows."""
+    assert np.all(np.abs(screen.frequency / WN - 1.0) < 0.05)
+    assert screen.log_dec[-1] < 0 < screen.log_dec[0]
+
+
+def test_stage_estimate_by_hand_in_us_units():
+    hp, rpm, d_in, h_in, ratio = 1500.0, 10000.0, 15.0, 0.6, 1.8
+    torque_lbf_in = 33000.0 * 12.0 / (2.0 * math.pi) * hp / rpm       # 9453.8 lbf in
+    by_hand = 3.0 * torque_lbf_in * ratio / (d_in * h_in)              # 5672.3 lbf/in
+    si = standards.stage_cross_coupling(hp * 745.69987158227022, rpm * RPM, d_in * 0.0254,
+                                        h_in * 0.0254, ratio)
+    check("Stage estimate, US units (lbf/in)", STAGE, by_hand, si / 175.12683524647636, 1e-12)
+    check("Stage estimate, US units, value (lbf/in)", STAGE, 5672.3, si / 175.12683524647636,
+          1e-4)
+
+
+def test_stage_estimate_by_hand_in_si_units():
+    kw, rpm, d_mm, h_mm, ratio = 1000.0, 10000.0, 400.0, 15.0, 1.8
+    torque = 60000.0 / (2.0 * math.pi) * kw / rpm                      # 954.93 N m
+    by_hand = 3.0 * torque * ratio / (d_mm * 1e-3 * h_mm * 1e-3)       # 859 437 N/m
+    si = standards.stage_cross_coupling(kw * 1e3, rpm * RPM, d_mm * 1e-3, h_mm * 1e-3, ratio)
+    check("Stage estimate, SI (N/m)", STAGE, by_hand, si, 1e-12)
+    check("Stage estimate, SI, value (N/m)", STAGE, 859437.0, si, 1e-6)
+    wachel = standards.stage_cross_coupling(kw * 1e3, rpm * RPM, d_mm * 1e-3, h_mm * 1e-3,
+                                            ratio, molecular_weight=28.0, form="wachel")
+    check("Stage estimate, Wachel's form with MW 28 (N/m)", STAGE, by_hand * 28.0 / 3.0,
+          wachel, 1e-12)
