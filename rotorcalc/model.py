@@ -17,8 +17,8 @@ import numpy as np
 
 from ._checks import FrozenMap, _freeze, _one_of, _positive  # noqa: F401 (re-exported)
 from .errors import InputError
-from .rules import (FROM_MEMORY, MARGIN_RULES, STABILITY_RULES, MarginRule,  # noqa: F401
-                    StabilityRule)
+from .rules import (FROM_MEMORY, MARGIN_RULES, STABILITY_RULES, CouplingRule,  # noqa: F401
+                    MarginRule, StabilityRule)
 from .units import to_rpm
 from .vocabulary import BearingRole, old_keywords
 from .unbalance import ResponseSettings
@@ -441,6 +441,8 @@ class Rotor:
     #: Destabilising sources (role "source"): cross-coupled stiffness and any direct terms
     #: from gas and seals, added to the stiffness and damping but never supports.
     sources: tuple = ()
+    #: The cross-coupling screen the file asks for (``[coupling_screen]``), or None.
+    coupling_rule: CouplingRule | None = None
 
     def __post_init__(self):
         _freeze(self, "station_names", self.station_names)

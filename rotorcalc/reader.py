@@ -22,12 +22,13 @@ from ._toml import (FILE_LIMIT, LONG_TEXT, NAME_LENGTH, _array_of_tables,  # noq
                     _integer, _number, _quantity, _short, _station, _string,
                     check_keys, load_toml, locate, plain_text)
 from .errors import InputError
-from .model import (COEFFICIENT_NAMES, Bearing, Disk, MarginRule, Material, OperatingRange,
+from .model import (COEFFICIENT_NAMES, Bearing, CouplingRule, Disk, MarginRule, Material,
+                    OperatingRange,
                     Rotor, Section, Settings, StabilityRule, Support)
 from .vocabulary import RENAMED_KEYS, BearingRole, renamed
 
 TOP_KEYS = {"title", "stations", "materials", "section", "disk", "bearing", "cross_coupling",
-            "operating",
+            "coupling_screen", "operating",
             "analysis", "unbalance", "probe", "clearance", "response"}
 MATERIAL_KEYS = {"youngs_modulus", "shear_modulus", "poisson_ratio", "density"}
 SECTION_KEYS = {"length", "outer_diameter", "inner_diameter", "material", "elements",
@@ -107,7 +108,7 @@ def rotor_from_dict(data: dict) -> Rotor:
     sources = tuple(_source(t, i, names, len(sections), operating)
                     for i, t in enumerate(_array_of_tables(data, "cross_coupling")))
     rotor = Rotor(sections=sections, operating=operating, disks=disks, bearings=bearings,
-                  sources=sources,
+                  sources=sources, coupling_rule=_coupling_rule(data.get("coupling_screen")),
                   settings=settings, station_names=names, name=title,
                   probes=probes, clearances=clearances,
                   response=_response(data.get("response", {})))
@@ -321,6 +322,29 @@ def _stage_estimate(table, where, operating):
     except InputError as err:
         raise InputError(err.key.replace("stage.", f"{where}."), err.problem, value=err.value,
                          expected=err.expected, kind=err.kind) from None
+
+
+COUPLING_KEYS = {"placement", "top_ratio", "min_log_dec", "min_ratio", "min_log_dec_sources",
+                 "expected", "in_check"}
+
+
+def _coupling_rule(table):
+    """The [coupling_screen] table, or None when the file has none."""
+    if table is None:
+        return None
+    where = "coupling_screen"
+    check_keys(table, COUPLING_KEYS, where)
+    in_check = table.get("in_check", True)
+    if not isinstance(in_check, bool):
+        raise InputError(f"{where}.in_check", "must be true or false", value=in_check,
+                         kind="type")
+    return CouplingRule(placement=_string(table, "placement", where, default="sources"),
+                        top_ratio=_number(table, "top_ratio", where, 10.0),
+                        min_log_dec=_number(table, "min_log_dec", where, 0.1),
+                        min_ratio=_number(table, "min_ratio", where, 2.0),
+                        min_log_dec_sources=_number(table, "min_log_dec_sources", where, 0.1),
+                        expected=_quantity(table, "expected", u.STIFFNESS, where),
+                        in_check=in_check)
 
 
 def _operating(table):

@@ -130,3 +130,51 @@ class StabilityRule:
         if self.is_marginal(log_dec) or log_dec <= 0.0:
             return False
         return self.name == "positive" or log_dec >= self.min_log_dec
+
+
+PLACEMENTS = ("sources", "mid-span", "largest-amplitude")
+
+
+@dataclass(frozen=True)
+class CouplingRule:
+    """The cross-coupling screen a rotor file asks for (``[coupling_screen]``).
+
+    At the maximum continuous speed the applied cross-coupling is swept from 0 to
+    ``top_ratio`` times the expected amount at ``placement``; the screen passes when the
+    first forward mode's log decrement at the expected amount is at least ``min_log_dec``
+    and the threshold is at least ``min_ratio`` times the expected amount.  With every
+    source of the file applied, each forward mode needs ``min_log_dec_sources``.  The
+    figures 0.1, 2 and 0.1 are common practice, quoted from memory from industry standards
+    for centrifugal compressors (confirm against the edition that applies).  ``in_check``:
+    ``check`` and the screening verdict include both.
+    """
+
+    placement: str = "sources"
+    top_ratio: float = 10.0
+    min_log_dec: float = 0.1
+    min_ratio: float = 2.0
+    min_log_dec_sources: float = 0.1
+    expected: float | None = None      # N/m; None: the sources' own total
+    in_check: bool = True
+
+    def __post_init__(self):
+        _one_of("coupling_screen.placement", self.placement, PLACEMENTS)
+        for key in ("min_log_dec", "min_ratio", "min_log_dec_sources"):
+            _positive(f"coupling_screen.{key}", getattr(self, key), allow_zero=True)
+        if not (math.isfinite(self.top_ratio) and self.top_ratio >= 10.0):
+            raise InputError("coupling_screen.top_ratio", "must be at least 10",
+                             value=self.top_ratio, expected="10 or more (the sweep reaches "
+                             "that many times the expected amount)", kind="range")
+        if self.expected is not None:
+            _positive("coupling_screen.expected", self.expected)
+
+    @property
+    def label(self):
+        if (self.min_log_dec, self.min_ratio, self.min_log_dec_sources) == (0.1, 2.0, 0.1):
+            return FROM_MEMORY
+        return "set by the user"
+
+    def describe(self):
+        return (f"log decrement at the expected cross-coupling at least {self.min_log_dec:g}, "
+                f"threshold at least {self.min_ratio:g} x the expected amount; with every "
+                f"source applied, each forward mode at least {self.min_log_dec_sources:g}")

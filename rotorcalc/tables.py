@@ -358,3 +358,34 @@ SENSITIVITY_COLUMNS = [
            else float(to_rpm(r[1].critical.speed)) * r[1].value * 0.1, "{:+.0f}",
            "rpm_change_for_plus_10_percent"),
 ]
+
+
+# --- cross-coupling screen --------------------------------------------------------------
+
+#: Rows: (applied N/m, log dec, frequency rad/s) of a CouplingScreen.
+COUPLING_STEP_COLUMNS = [
+    Column("Applied q N/m", lambda r: float(r[0]), "{:.4g}", "applied_n_m"),
+    Column("Log dec", lambda r: float(r[1]), "{:+.4f}", "log_dec"),
+    Column("Freq (Hz)", lambda r: float(to_hz(r[2])), "{:.2f}", "frequency_hz"),
+]
+
+#: Rows: destabilising sources (Bearing objects of role "source") with the speed bound.
+def source_columns(speed):
+    return [
+        Column("Source", lambda s: s.name, "{}", "name"),
+        Column("Station", lambda s: s.station, "{:d}", "station"),
+        Column("q N/m", lambda s: float(s.matrices(speed)[0][0, 1] - s.matrices(speed)[0][1, 0])
+               / 2.0, "{:.4g}", "q_n_m"),
+        Column("kxx N/m", lambda s: float(s.matrices(speed)[0][0, 0]), "{:.4g}", "kxx_n_m"),
+        Column("cxx N s/m", lambda s: float(s.matrices(speed)[1][0, 0]), "{:.4g}", "cxx_n_s_m"),
+    ]
+
+
+#: Rows: (mode number, frequency rad/s, log dec, whirl, passed) of a SourcesCheck.
+SOURCES_CHECK_COLUMNS = [
+    Column("Mode", lambda r: r[0], "{:d}", "mode"),
+    Column("Freq (Hz)", lambda r: float(to_hz(r[1])), "{:.2f}", "frequency_hz"),
+    Column("Log dec", lambda r: float(r[2]), "{:+.4f}", "log_dec"),
+    Column("Whirl", lambda r: r[3], "{}", "whirl"),
+    Column("Verdict", lambda r: "pass" if r[4] else "fail", "{}", "verdict"),
+]

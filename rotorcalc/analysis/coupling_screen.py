@@ -25,44 +25,15 @@ from scipy.optimize import brentq
 from ..assembly import assemble
 from ..errors import InputError
 from ..model import Bearing
+from ..rules import PLACEMENTS, CouplingRule
 from ..units import to_rpm
 from ..vocabulary import BearingRole, Outcome
 from .margins import CAUTION
 from .modes import modes_at, read_only
 from .tracking import mac_matrix
 
-PLACEMENTS = ("sources", "mid-span", "largest-amplitude")
 #: Steps of the sweep from zero to the top amount.
 STEPS = 41
-
-
-@dataclass(frozen=True)
-class ScreenCriteria:
-    """Pass when the log decrement at the expected amount is at least ``min_log_dec`` and
-    the threshold is at least ``min_ratio`` times the expected amount (common practice,
-    quoted from memory from industry standards for centrifugal compressors; confirm against
-    the edition that applies)."""
-
-    min_log_dec: float = 0.1
-    min_ratio: float = 2.0
-
-    def __post_init__(self):
-        for key in ("min_log_dec", "min_ratio"):
-            value = getattr(self, key)
-            if not (math.isfinite(value) and value >= 0):
-                raise InputError(f"stability_screen.{key}", "must be zero or positive",
-                                 value=value, kind="range")
-
-    @property
-    def label(self):
-        if (self.min_log_dec, self.min_ratio) == (0.1, 2.0):
-            return ("common practice, quoted from memory from industry standards for "
-                    "centrifugal compressors; confirm against the edition that applies")
-        return "set by the user"
-
-    def describe(self):
-        return (f"log decrement at the expected cross-coupling at least {self.min_log_dec:g} "
-                f"and threshold at least {self.min_ratio:g} x the expected amount")
 
 
 @dataclass(frozen=True)
@@ -78,10 +49,29 @@ class CouplingScreen:
     frequency: np.ndarray    # its damped natural frequency, rad/s
     threshold: float | None  # where the log decrement reaches zero (None: not within the
     #                          sweep; 0 when it is not positive without cross-coupling)
-    criteria: ScreenCriteria
+    criteria: CouplingRule
 
     def __post_init__(self):
         read_only(self)
+
+    @property
+    def rows(self):
+        """(applied N/m, log dec, frequency rad/s) per step of the sweep."""
+        return list(zip(self.applied.tolist(), self.log_dec.tolist(), self.frequency.tolist()))
+
+    def some_rows(self, every):
+        """Every ``every``-th row, the last one always included (a table for reading)."""
+        rows = self.rows
+        return rows[::every] + ([] if (len(rows) - 1) % every == 0 else [rows[-1]])
+
+    def summary(self):
+        """The screen's outcome in one sentence, with its rule."""
+        threshold = ("not reached within the sweep" if self.threshold is None else
+                     f"{self.threshold:.4g} N/m ({self.ratio:.2f} x expected)")
+        return (f"Expected cross-coupling {self.expected:.4g} N/m ({self.placement}): log "
+                f"decrement {self.log_dec_zero:.3f} without it, {self.log_dec_expected:.3f} "
+                f"with it; threshold {threshold}. Verdict: {self.verdict} "
+                f"({self.criteria.describe()}; {self.criteria.label}).")
 
     @property
     def log_dec_zero(self):
@@ -184,7 +174,7 @@ def _follow(rotor, shares, amounts, speed, mode_count):
     return np.array(log_dec), np.array(freq), shapes
 
 
-def cross_coupling_screen(rotor, expected=None, placement="sources", top_ratio=10.0,
+def cross_coupling_screen(rotor, expected=None, placement=None, top_ratio=None,
                           criteria=None, steps=STEPS, xtol_share=1e-6):
     """Sweep the applied cross-coupling at the maximum continuous speed (module docstring).
 
@@ -199,12 +189,17 @@ def cross_coupling_screen(rotor, expected=None, placement="sources", top_ratio=1
         at the station of the first forward mode's largest amplitude.
     top_ratio : float
         The sweep runs from 0 to ``top_ratio`` times the expected amount (at least 10).
-    criteria : ScreenCriteria, optional
+    criteria : CouplingRule, optional
+        The rotor's ``coupling_rule`` (or the defaults); ``expected``, ``placement`` and
+        ``top_ratio`` given here win over it.
     """
+    criteria = criteria or rotor.coupling_rule or CouplingRule()
+    placement = placement or criteria.placement
+    top_ratio = top_ratio or criteria.top_ratio
+    expected = criteria.expected if expected is None else expected
     if placement not in PLACEMENTS:
         raise InputError("stability_screen.placement", "is not a known placement",
                          value=placement, expected=" or ".join(PLACEMENTS), kind="choice")
-    criteria = criteria or ScreenCriteria()
     speed = rotor.operating.max_speed
     mode_count = rotor.settings.mode_count
     if expected is None:
@@ -241,3 +236,81 @@ def _threshold(rotor, shares, amounts, log_dec, shapes, speed, mode_count, xtol)
         j = int(np.argmax(mac_matrix(shapes[k][None], modes.shapes)[0]))
         return float(modes.log_dec[j])
     return float(brentq(g, amounts[k], amounts[k + 1], xtol=xtol))
+
+
+@dataclass(frozen=True)
+class SourcesCheck:
+    """Every forward mode at the maximum continuous speed with every source of the rotor
+    file applied, against ``min_log_dec``."""
+
+    speed: float
+    min_log_dec: float
+    numbers: tuple        # mode numbers (from 1, by rising frequency)
+    frequency: np.ndarray
+    log_dec: np.ndarray
+    whirl: tuple
+
+    def __post_init__(self):
+        read_only(self)
+
+    @property
+    def passed(self):
+        return bool(np.all(self.log_dec >= self.min_log_dec))
+
+    @property
+    def rows(self):
+        """(mode number, frequency rad/s, log dec, whirl, passed) per forward mode."""
+        return [(n, float(f), float(d), w, bool(d >= self.min_log_dec))
+                for n, f, d, w in zip(self.numbers, self.frequency, self.log_dec, self.whirl)]
+
+    @property
+    def verdict(self):
+        return Outcome.PASS if self.passed else Outcome.FAIL
+
+    def to_dict(self):
+        return {"speed_rpm": float(to_rpm(self.speed)), "min_log_dec": self.min_log_dec,
+                "modes": [{"mode": int(n), "frequency_hz": float(f / (2 * math.pi)),
+                           "log_dec": float(d), "whirl": w,
+                           "passed": bool(d >= self.min_log_dec)}
+                          for n, f, d, w in zip(self.numbers, self.frequency, self.log_dec,
+                                                self.whirl)],
+                "verdict": self.verdict}
+
+
+def sources_check(rotor, min_log_dec=None):
+    """The forward modes' log decrements at the maximum continuous speed, sources applied."""
+    rule = rotor.coupling_rule or CouplingRule()
+    need = rule.min_log_dec_sources if min_log_dec is None else min_log_dec
+    speed = rotor.operating.max_speed
+    modes = modes_at(rotor, speed, rotor.settings.mode_count)
+    order = [int(i) for i in np.argsort(modes.frequency)]
+    keep = [i for i in order if modes.forward_fraction[i] >= 0.5]
+    return SourcesCheck(speed, need, tuple(order.index(i) + 1 for i in keep),
+                        np.array([modes.frequency[i] for i in keep]),
+                        np.array([modes.log_dec[i] for i in keep]),
+                        tuple(modes.whirl[i] for i in keep))
+
+
+@dataclass(frozen=True)
+class CouplingResult:
+    """The screen and the check with every source applied: what ``check`` judges."""
+
+    screen: CouplingScreen
+    sources: SourcesCheck | None     # None when the rotor file has no sources
+
+    @property
+    def passed(self):
+        return self.screen.verdict == Outcome.PASS and (self.sources is None
+                                                        or self.sources.passed)
+
+    def to_dict(self):
+        return {"screen": self.screen.to_dict(),
+                "with_sources": None if self.sources is None else self.sources.to_dict(),
+                "passed": self.passed, "rule": {"text": self.screen.criteria.describe(),
+                                                "label": self.screen.criteria.label}}
+
+
+def coupling_study(rotor, **screen_options):
+    """:func:`cross_coupling_screen` and :func:`sources_check` together."""
+    return CouplingResult(cross_coupling_screen(rotor, **screen_options),
+                          sources_check(rotor) if rotor.sources else None)

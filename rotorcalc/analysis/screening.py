@@ -48,12 +48,14 @@ class Screening:
     response: Response | None = None
     stability: Stability | None = None
     gaps: tuple = ()
+    coupling: object = None     # CouplingResult when the file's [coupling_screen] is in check
 
     @property
     def failed(self):
         return (not self.margins.passed
                 or (self.stability is not None and not self.stability.passed)
-                or (self.response is not None and not self.response.passed))
+                or (self.response is not None and not self.response.passed)
+                or (self.coupling is not None and not self.coupling.passed))
 
     @property
     def complete(self):
@@ -88,6 +90,8 @@ class Screening:
                                       self.response.vibration + self.response.clearance]
             out["steady_state_exists"] = self.response.steady
             out["response"] = self.response.to_dict()
+        if self.coupling is not None:
+            out["coupling_screen"] = self.coupling.to_dict()
         out["sweep"] = self.sweep.to_dict()
         return out
 
@@ -126,7 +130,11 @@ def screen(rotor: Rotor, speeds=None, orders=None, solver=None, progress=None,
                                response_span=None if response is None else
                                (float(response.speeds[0]), float(response.speeds[-1])))
     gaps = coverage_gaps(rotor, result, table, response)
-    return Screening(rotor, result, crits, table, response, stab, gaps)
+    coupling = None
+    if rotor.coupling_rule is not None and rotor.coupling_rule.in_check:
+        from .coupling_screen import coupling_study
+        coupling = coupling_study(rotor)
+    return Screening(rotor, result, crits, table, response, stab, gaps, coupling)
 
 
 def required_span(rotor: Rotor):

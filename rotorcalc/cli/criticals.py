@@ -118,6 +118,17 @@ def print_margins(result, brief=False):
                           + ", ".join(f"{to_rpm(lo):.0f}-{to_rpm(hi):.0f} rpm"
                                       for lo, hi in response.unstable_ranges)
                           + ": the unbalance response there is not physical", highlight=False)
+    if result.coupling is not None:
+        screen = result.coupling.screen
+        colour = "green" if screen.verdict == "pass" else "bold red"
+        console.print(f"Cross-coupling screen: [{colour}]{screen.verdict}[/] "
+                      f"{escape(screen.summary())}", highlight=False)
+        check = result.coupling.sources
+        if check is not None and not check.passed:
+            console.print(f"[bold red]stability fails[/] with every source of the file "
+                          f"applied, a forward mode's log decrement is below "
+                          f"{check.min_log_dec:g} ('rotorcalc cross-coupling' lists them)",
+                          highlight=False)
     for note in table.notes:
         console.print(f"[yellow]note[/] {escape(note)}", highlight=False)
     for gap in result.gaps:

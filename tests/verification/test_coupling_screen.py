@@ -22,7 +22,8 @@ import numpy as np
 import pytest
 
 from rotorcalc import standards
-from rotorcalc.analysis.coupling_screen import ScreenCriteria, cross_coupling_screen
+from rotorcalc.analysis.coupling_screen import cross_coupling_screen
+from rotorcalc.rules import CouplingRule
 from rotorcalc.model import Bearing, OperatingRange
 from rotorcalc.units import RPM
 from tests.conftest import LIGHT, STEEL, disk_at_mid_span, isotropic
@@ -103,7 +104,7 @@ def test_the_verdict_follows_the_criteria(screen):
     """Expected = q0/3.7: the log decrement there is positive and the ratio is 3.7."""
     assert screen.verdict == "pass"
     strict = cross_coupling_screen(jeffcott(), expected=Q0 / 4.0, placement="mid-span",
-                                   criteria=ScreenCriteria(min_ratio=4.5))
+                                   criteria=CouplingRule(min_ratio=4.5))
     assert strict.verdict == "fail"
     near = cross_coupling_screen(jeffcott(), expected=0.9 * Q0, placement="mid-span")
     assert near.verdict == "fail" and near.log_dec_expected < 0.1
@@ -137,3 +138,63 @@ def test_stage_estimate_by_hand_in_si_units():
                                             ratio, molecular_weight=28.0, form="wachel")
     check("Stage estimate, Wachel's form with MW 28 (N/m)", STAGE, by_hand * 28.0 / 3.0,
           wachel, 1e-12)
+
+
+# --- rigid symmetric rotor on two damped bearings ------------------------------------------
+#
+# A rigid body (mass M, transverse inertia I_t, no polar inertia) between two identical
+# isotropic bearings (k, c) at +-a from its centre, with the cross-coupled stiffness q split
+# half and half between the bearings.  Translation and tilt part: M z'' + 2c z' + (2k - iq) z
+# = 0 and I_t phi'' + 2c a^2 phi' + (2k - iq) a^2 phi = 0, so each mode's threshold is
+# q0 = 2 c w with w = sqrt(2k / M) (bounce) or sqrt(2 k a^2 / I_t) (rocking).  Source: the
+# two-degree-of-freedom rigid rotor on bearings, J. M. Vance, Rotordynamics of
+# Turbomachinery, Wiley 1988, chapter 3, with the cross-coupling of the Jeffcott case above
+# (from memory).  The shaft is 1000 times as stiff as steel: the undamped frequencies of the
+# model lie 2.5e-6 (bounce) and 2.3e-6 (rocking) below the rigid body's; the shaft's
+# compliance in series with the complex bearing impedance moves the thresholds by a few
+# times that (measured: 1.2e-5 on the rocking mode), hence the tolerance 3e-5.
+RIGID = ("Rigid rotor on damped bearings with cross-coupling, Vance 1988 ch. 3 "
+         "(from memory)")
+M_R, IT_R, A_R, K_R, C_R = 100.0, 10.0, 0.5, 1.0e6, 800.0
+W_BOUNCE = math.sqrt(2 * K_R / M_R)
+W_ROCK = math.sqrt(2 * K_R * A_R**2 / IT_R)
+
+
+def rigid_rotor():
+    from rotorcalc.model import Disk, Material, Rotor, Section, Settings
+    stiff = Material("stiff", 1000 * STEEL.youngs_modulus, 1000 * STEEL.shear_modulus,
+                     STEEL.density * 1e-6)
+    half = Section(A_R, 0.2, stiff, elements=2)
+    bearings = tuple(Bearing(s, {"kxx": (K_R,), "kyy": (K_R,), "cxx": (C_R,), "cyy": (C_R,)},
+                             name=n) for s, n in ((0, "A"), (2, "B")))
+    return Rotor((half, half), OperatingRange(250.0, 300.0),
+                 disks=(Disk(1, M_R, 0.0, IT_R),), bearings=bearings,
+                 settings=Settings(beam_theory="euler-bernoulli", mode_count=4))
+
+
+def _rocking_log_dec(rotor, q):
+    from rotorcalc.analysis.coupling_screen import applied_sources
+    from rotorcalc.analysis.modes import modes_at
+    import dataclasses
+    model = dataclasses.replace(rotor, sources=applied_sources(((0, 0.5), (2, 0.5)), q))
+    m = modes_at(model, 300.0, 4)
+    forward = [i for i in range(len(m.frequency)) if m.forward_fraction[i] >= 0.5]
+    i = min(forward, key=lambda i: abs(m.frequency[i] - W_ROCK))
+    return float(m.log_dec[i])
+
+
+def test_rigid_rotor_thresholds_of_both_modes():
+    from scipy.optimize import brentq
+    from rotorcalc.analysis.coupling_screen import applied_sources
+    import dataclasses
+    rotor = rigid_rotor()
+    q0_bounce, q0_rock = 2 * C_R * W_BOUNCE, 2 * C_R * W_ROCK
+    with_sources = dataclasses.replace(
+        rotor, sources=applied_sources(((0, 0.5), (2, 0.5)), q0_bounce / 3.0))
+    screen = cross_coupling_screen(with_sources, placement="sources", xtol_share=1e-10)
+    # the first forward mode is the bounce (141 rad/s; the rocking is at 224 rad/s)
+    check("Rigid rotor: bounce threshold 2 c w_bounce", RIGID, q0_bounce, screen.threshold,
+          3e-5)
+    rock = brentq(lambda q: _rocking_log_dec(rotor, q), 0.5 * q0_rock, 1.5 * q0_rock,
+                  xtol=1e-9 * q0_rock)
+    check("Rigid rotor: rocking threshold 2 c w_rock", RIGID, q0_rock, rock, 3e-5)

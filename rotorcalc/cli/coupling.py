@@ -1,0 +1,107 @@
+"""``rotorcalc cross-coupling``: the cross-coupling screen at the maximum continuous speed and
+the check with every destabilising source of the rotor file applied."""
+
+from __future__ import annotations
+
+import dataclasses
+from pathlib import Path
+from typing import Optional
+
+import typer
+from rich.markup import escape
+
+from .. import units as u
+from ..analysis.margins import CAUTION
+from ..errors import InputError
+from ..rules import PLACEMENTS, CouplingRule
+from ..tables import COUPLING_STEP_COLUMNS, SOURCES_CHECK_COLUMNS, source_columns
+from ..units import to_rpm
+from .common import (console, fail_input, input_errors, load, print_table, save_figure,
+                     write_outputs)
+from .whatif_common import busy, check_outputs, command_help, heading
+
+EXAMPLE = ('[bold]Example[/]: rotorcalc cross-coupling cases/compressor.toml --plot screen.png '
+           '--json screen.json')
+
+
+def _rule(rotor, expected, placement, min_log_dec, min_ratio):
+    """The file's rule (or the defaults) with the command line's changes."""
+    rule = rotor.coupling_rule or CouplingRule()
+    changes = {}
+    with input_errors():
+        if expected is not None:
+            changes["expected"] = u.parse(expected.strip(), u.STIFFNESS, "--expected")
+        if placement is not None:
+            if placement not in PLACEMENTS:
+                raise InputError("--placement", "is not a known placement", value=placement,
+                                 expected=" or ".join(PLACEMENTS), kind="choice")
+            changes["placement"] = placement
+        if min_log_dec is not None:
+            changes["min_log_dec"] = min_log_dec
+        if min_ratio is not None:
+            changes["min_ratio"] = min_ratio
+        return dataclasses.replace(rule, **changes)
+
+
+def command(
+    case: Path = typer.Argument(..., help="Rotor description (TOML)."),
+    expected: Optional[str] = typer.Option(
+        None, "--expected", help='Expected total cross-coupled stiffness, e.g. "2e6 N/m" '
+                                 "(default: the file's [coupling_screen] expected, else the "
+                                 "sum of its [[cross_coupling]] sources)."),
+    placement: Optional[str] = typer.Option(
+        None, "--placement", help="Where the swept amount acts: sources (split as the file's "
+                                  "sources), mid-span, or largest-amplitude (the first forward "
+                                  "mode's largest station)."),
+    min_log_dec: Optional[float] = typer.Option(
+        None, "--min-log-dec", min=0.0, help="Least log decrement at the expected amount "
+                                            "(0.1: common practice, from memory)."),
+    min_ratio: Optional[float] = typer.Option(
+        None, "--min-ratio", min=0.0, help="Least threshold / expected (2: common practice, "
+                                          "from memory)."),
+    plot: Optional[Path] = typer.Option(None, "--plot", help="Write the screen's picture."),
+    json_path: Optional[Path] = typer.Option(None, "--json", help="Write the screen as JSON."),
+    csv_path: Optional[Path] = typer.Option(None, "--csv",
+                                            help="Write the sweep of the screen as CSV."),
+):
+    """Cross-coupling screen: the first forward mode's log decrement at the maximum
+    continuous speed against an applied destabilising cross-coupled stiffness (0 to 10 times
+    the expected amount), the threshold where it reaches zero and the verdict; then every
+    forward mode with all the file's sources applied."""
+    rotor = load(case)
+    check_outputs(case, {"--plot": plot, "--json": json_path, "--csv": csv_path})
+    rule = _rule(rotor, expected, placement, min_log_dec, min_ratio)
+    from ..analysis.coupling_screen import coupling_study
+    with busy("sweeping the applied cross-coupling"), input_errors():
+        result = coupling_study(dataclasses.replace(rotor, coupling_rule=rule))
+    screen = result.screen
+    heading(f"{rotor.name}: cross-coupling screen at {to_rpm(screen.speed):.0f} rpm "
+            f"(maximum continuous speed)")
+    if rotor.sources:
+        print_table("Destabilising sources of the rotor file (at the maximum continuous speed)",
+                    source_columns(screen.speed), rotor.sources)
+    print_table("First forward mode against the applied cross-coupling", COUPLING_STEP_COLUMNS,
+                screen.some_rows(4),
+                caption="Every fourth step shown; --csv writes them all.")
+    colour = "green" if screen.verdict == "pass" else "bold red"
+    console.print(f"[{colour}]{screen.verdict}[/] {escape(screen.summary())}", highlight=False)
+    if result.sources is not None:
+        check = result.sources
+        print_table(f"Forward modes with every source applied (need log dec "
+                    f"{check.min_log_dec:g})", SOURCES_CHECK_COLUMNS, check.rows)
+        if not check.passed:
+            console.print("[bold red]fail[/] a forward mode is below the required log "
+                          "decrement with the file's sources applied", highlight=False)
+    console.print(f"[dim]{CAUTION}[/]", highlight=False)
+    write_outputs("cross-coupling", case, result.to_dict(), (), json_path, csv_path,
+                  COUPLING_STEP_COLUMNS, screen.rows)
+    if plot is not None:
+        from .. import plotting
+        draw = getattr(plotting, "plot_coupling_screen", None)
+        if draw is None:
+            fail_input(InputError("--plot", "has no picture to write yet", kind="option"))
+        save_figure(draw(screen).figure, plot)
+
+
+def register(app: typer.Typer):
+    app.command("cross-coupling", help=command_help(command, EXAMPLE))(command)

@@ -1,0 +1,55 @@
+"""``rotorcalc cross-coupling`` and the [coupling_screen] table in ``check``."""
+
+import json
+
+from typer.testing import CliRunner
+
+from rotorcalc.cli import app
+from tests.conftest import ROOT
+
+runner = CliRunner()
+COMPRESSOR = ROOT / "cases" / "compressor.toml"
+
+
+def with_source(tmp_path, q, extra=""):
+    path = tmp_path / "compressor.toml"
+    path.write_text(COMPRESSOR.read_text() + f'\n[[cross_coupling]]\nname = "gas"\nat = 7\n'
+                    f'q = "{q} N/m"\n\n[coupling_screen]\nplacement = "sources"\n{extra}')
+    return path
+
+
+def test_the_screen_prints_and_writes_its_document(tmp_path):
+    case = with_source(tmp_path, 3e6)
+    out = tmp_path / "screen.json"
+    result = runner.invoke(app, ["cross-coupling", str(case), "--json", str(out),
+                                 "--csv", str(tmp_path / "screen.csv")])
+    assert result.exit_code == 0, result.output
+    doc = json.loads(out.read_text())["result"]
+    screen = doc["screen"]
+    assert screen["expected_n_m"] == 3e6 and screen["verdict"] == "pass"
+    assert screen["threshold_n_m"] > 2 * 3e6 and screen["log_dec_at_zero"] > 0
+    assert doc["with_sources"]["verdict"] == "pass"
+    assert "common practice" in screen["criteria"]["label"]
+    assert "Screening" in result.output and "threshold" in result.output
+
+
+def test_check_fails_when_the_screen_fails_and_the_rule_can_be_left_out(tmp_path):
+    failing = with_source(tmp_path, 6e6)          # threshold 9.6e6: ratio 1.6 < 2
+    result = runner.invoke(app, ["check", str(failing)])
+    assert result.exit_code == 1, result.output
+    assert "Cross-coupling screen: fail" in " ".join(result.output.split())
+    apart = with_source(tmp_path, 6e6, extra="in_check = false\n")
+    assert runner.invoke(app, ["check", str(apart)]).exit_code == 0
+
+
+def test_options_override_the_file(tmp_path):
+    case = with_source(tmp_path, 6e6)
+    result = runner.invoke(app, ["cross-coupling", str(case), "--min-ratio", "1.5",
+                                 "--json", str(tmp_path / "s.json")])
+    assert result.exit_code == 0
+    doc = json.loads((tmp_path / "s.json").read_text())["result"]["screen"]
+    assert doc["verdict"] == "pass" and doc["criteria"]["min_ratio"] == 1.5
+    bad = runner.invoke(app, ["cross-coupling", str(case), "--placement", "everywhere"])
+    assert bad.exit_code == 2 and "--placement" in bad.output
+    bare = runner.invoke(app, ["cross-coupling", str(COMPRESSOR)])
+    assert bare.exit_code == 2 and "cross_coupling" in bare.output
