@@ -48,6 +48,9 @@ MODULE_SECTIONS = (
     ("test_verdicts.py",
      "11. Verdicts: stability onset, rigid-body count, whirl share, undamped models, "
      "rules of industry practice"),
+    ("test_coupling_screen.py",
+     "12. Cross-coupling screen: thresholds of the Jeffcott and rigid rotors, log decrement "
+     "against cross-coupling, the stage estimate"),
 )
 
 INTRO = """\

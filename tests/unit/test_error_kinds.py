@@ -83,6 +83,15 @@ CASES = [
     ("size", "a title of a megabyte",
      mutated('title = "Six-stage', 'title = "' + "x" * 1_000_000 + '')),
     ("type", "a control character in a name", mutated('name = "DE"', 'name = "DE\\u0007"')),
+    ("conflict", "a source given both as q and as coefficients", lambda: parse_rotor(
+        PUMP + '\n[[cross_coupling]]\nat = 6\nq = "1e6 N/m"\nkxy = "1 N/m"\n')),
+    ("range", "a stage estimate with a negative density ratio", lambda: parse_rotor(
+        PUMP + '\n[[cross_coupling]]\nat = 6\nstage = { power = "1 MW", impeller_diameter = '
+        '"300 mm", passage_width = "10 mm", density_ratio = -1 }\n')),
+    ("choice", "an unknown placement of the cross-coupling screen", lambda: parse_rotor(
+        PUMP + '\n[coupling_screen]\nplacement = "everywhere"\n')),
+    ("range", "a cross-coupling sweep shorter than ten times the expected amount",
+     lambda: parse_rotor(PUMP + '\n[coupling_screen]\ntop_ratio = 3\n')),
 ]
 
 #: Kinds raised only by the command line (tested in tests/cli): refusing to
