@@ -190,7 +190,9 @@ def test_rigid_rotor_thresholds_of_both_modes():
     rotor = rigid_rotor()
     q0_bounce, q0_rock = 2 * C_R * W_BOUNCE, 2 * C_R * W_ROCK
     with_sources = dataclasses.replace(
-        rotor, sources=applied_sources(((0, 0.5), (2, 0.5)), q0_bounce / 3.0))
+        rotor, sources=applied_sources(((0, 0.5), (2, 0.5)), q0_bounce / 3.3))
+    # q0 / 3.3: the threshold falls between steps (on a step, the log decrement within
+    # roundoff of zero reads 0 and hides the model's error)
     screen = cross_coupling_screen(with_sources, placement="sources", xtol_share=1e-10)
     # the first forward mode is the bounce (141 rad/s; the rocking is at 224 rad/s)
     check("Rigid rotor: bounce threshold 2 c w_bounce", RIGID, q0_bounce, screen.threshold,
