@@ -39,7 +39,7 @@ from .units import to_hz, to_rpm  # noqa: E402
 #: Pictures, loaded with matplotlib on first use (the analyses never need it).
 _PICTURES = ("plot_whirl_speed_map", "plot_mode_shape", "plot_rotor_layout", "plot_bode",
              "plot_polar", "plot_orbits", "plot_critical_speed_map", "plot_variant_maps",
-             "plot_map_shapes", "save")
+             "plot_map_shapes", "plot_coupling_screen", "save")
 #: The 0.1 names of the pictures, read until 0.3 (with a note naming the new one).
 _OLD_PICTURES = ("whirl_speed_map", "mode_shape", "rotor_layout", "bode", "polar", "orbits",
                  "critical_speed_map", "variant_maps", "map_shapes")

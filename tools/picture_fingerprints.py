@@ -61,6 +61,10 @@ RESPONSE_POINTS = 81
 #: Factors of the stiffness window's scan over the map's range (the command line takes
 #: about four a decade, 17 over the default map).
 WINDOW_POINTS = 9
+#: The cross-coupling screen is drawn on one case only (it keeps the run short), with an
+#: expected amount (N/m) at mid-span: the bundled cases have no sources of their own.
+COUPLING_CASE = "compressor"
+COUPLING_EXPECTED = 2.0e6
 
 
 # --- the inputs, built as the command line builds them ----------------------------------
@@ -117,6 +121,12 @@ def map_shape_inputs(rotor, cmap, base):
     return cmap.node_z, shapes, labels, cmap.station_nodes
 
 
+def coupling_inputs(rotor):
+    """The cross-coupling screen, as ``cross-coupling --expected 2e6 --placement mid-span``."""
+    from rotorcalc.analysis.coupling_screen import cross_coupling_screen
+    return cross_coupling_screen(rotor, expected=COUPLING_EXPECTED, placement="mid-span")
+
+
 def variant_inputs(path):
     from rotorcalc.analysis.whatif import compare
     from rotorcalc.variants import read_variants
@@ -156,6 +166,12 @@ def own_and_given(name, draw, make_axes):
 
 
 def one_axes(fig):
+    return fig.add_subplot(1, 1, 1)
+
+
+def roomy_axes(fig):
+    """One axes with room below for an axis label and two lines of caution."""
+    fig.subplots_adjust(bottom=0.17)
     return fig.add_subplot(1, 1, 1)
 
 
@@ -205,6 +221,10 @@ def case_pictures(path):
     node_z, shapes, labels, stations = map_shape_inputs(rotor, cmap, base)
     add("map_shapes", lambda ax: pl.plot_map_shapes(node_z, shapes, labels, ax=ax,
                                                station_nodes=stations))
+
+    if stem == COUPLING_CASE:
+        coupling = coupling_inputs(rotor)
+        add("coupling_screen", lambda ax: pl.plot_coupling_screen(coupling, ax=ax), roomy_axes)
 
     variants = path.with_name(f"{stem}_variants.toml")
     if variants.exists():

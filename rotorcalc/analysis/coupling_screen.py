@@ -94,6 +94,11 @@ class CouplingScreen:
               and self.ratio >= self.criteria.min_ratio)
         return Outcome.PASS if ok else Outcome.FAIL
 
+    def plot(self, *, ax=None):
+        """The screen's picture (:func:`rotorcalc.plotting.plot_coupling_screen`)."""
+        from ..plotting import plot_coupling_screen
+        return plot_coupling_screen(self, ax=ax)
+
     def to_dict(self):
         return {
             "speed_rpm": float(to_rpm(self.speed)),

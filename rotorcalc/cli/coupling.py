@@ -16,8 +16,7 @@ from ..errors import InputError
 from ..rules import PLACEMENTS, CouplingRule
 from ..tables import COUPLING_STEP_COLUMNS, SOURCES_CHECK_COLUMNS, source_columns
 from ..units import to_rpm
-from .common import (console, fail_input, input_errors, load, print_table, save_figure,
-                     write_outputs)
+from .common import console, input_errors, load, print_table, save_figure, write_outputs
 from .whatif_common import busy, check_outputs, command_help, heading
 
 EXAMPLE = ('[bold]Example[/]: rotorcalc cross-coupling cases/compressor.toml --plot screen.png '
@@ -96,11 +95,7 @@ def command(
     write_outputs("cross-coupling", case, result.to_dict(), (), json_path, csv_path,
                   COUPLING_STEP_COLUMNS, screen.rows)
     if plot is not None:
-        from .. import plotting
-        draw = getattr(plotting, "plot_coupling_screen", None)
-        if draw is None:
-            fail_input(InputError("--plot", "has no picture to write yet", kind="option"))
-        save_figure(draw(screen).figure, plot)
+        save_figure(screen.plot().figure, plot)
 
 
 def register(app: typer.Typer):

@@ -9,13 +9,15 @@ without choosing a backend; the command line selects a non-interactive one.
 One module per picture: ``speedmap`` (whirl-speed map), ``shapes`` (mode
 shape), ``layout`` (rotor layout), ``bodeplot``, ``polarplot``, ``orbitplot``
 (unbalance response), ``stiffmap`` (critical-speed map), ``overlay`` (variants'
-maps), ``mapshapes`` (mode shapes at map points).  Shared helpers start with an
-underscore: ``_style`` and ``_labels`` (the look, label placing), ``_units``,
-``_orbit``, ``_phase``, ``_probes``, ``_panels``, ``_artists``.
+maps), ``mapshapes`` (mode shapes at map points), ``couplingplot`` (the
+cross-coupling screen).  Shared helpers start with an underscore: ``_style`` and
+``_labels`` (the look, label placing), ``_units``, ``_orbit``, ``_phase``,
+``_probes``, ``_panels``, ``_artists``.
 """
 
 from ..vocabulary import renamed
 from .bodeplot import BodeArtists, plot_bode
+from .couplingplot import CouplingScreenArtists, plot_coupling_screen
 from .layout import LayoutArtists, plot_rotor_layout
 from .mapshapes import MapShapeArtists, map_point_label, plot_map_shapes
 from .orbitplot import OrbitArtists, plot_orbits
@@ -29,11 +31,13 @@ from .stiffmap import CriticalMapArtists, plot_critical_speed_map
 #: Every picture function, by its name (``plot_`` and what it draws).
 PICTURES = ("plot_whirl_speed_map", "plot_mode_shape", "plot_rotor_layout", "plot_bode",
             "plot_polar", "plot_orbits", "plot_critical_speed_map", "plot_variant_maps",
-            "plot_map_shapes")
+            "plot_map_shapes", "plot_coupling_screen")
+#: The pictures that had 0.1 names without ``plot_`` (read with a note until 0.3).
+_RENAMED = PICTURES[:9]
 
 __all__ = [*PICTURES, "save", "map_point_label", "SpeedMapArtists", "ModeShapeArtists",
            "LayoutArtists", "BodeArtists", "PolarArtists", "OrbitArtists", "CriticalMapArtists",
-           "VariantMapArtists", "MapShapeArtists"]
+           "VariantMapArtists", "MapShapeArtists", "CouplingScreenArtists"]
 
 
 def _old_mode_shape(modes, index, **kwargs):
@@ -45,7 +49,7 @@ def __getattr__(name):
     """The 0.1 names of the pictures (``bode``, ``mode_shape``, ...) until 0.3: the analyses
     have functions of the same names (``critical_speed_map``), so pictures now start with
     ``plot_``."""
-    if f"plot_{name}" in PICTURES:
+    if f"plot_{name}" in _RENAMED:
         new = globals()[f"plot_{name}"]
         renamed(f"rotorcalc.plotting.{name}", f"rotorcalc.plotting.plot_{name}")
         return _old_mode_shape if name == "mode_shape" else new
