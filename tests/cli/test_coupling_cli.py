@@ -11,9 +11,18 @@ runner = CliRunner()
 COMPRESSOR = ROOT / "cases" / "compressor.toml"
 
 
+def bare_compressor():
+    """The bundled compressor without its stage sources and screen rule."""
+    text = COMPRESSOR.read_text()
+    start, end = text.index("# Gas forces at the impellers"), text.index("[operating]")
+    return text[:start] + text[end:]
+
+
 def with_source(tmp_path, q, extra=""):
+    """One source of ``q`` at impeller 4 (the first forward mode's threshold there is
+    9.6e6 N/m)."""
     path = tmp_path / "compressor.toml"
-    path.write_text(COMPRESSOR.read_text() + f'\n[[cross_coupling]]\nname = "gas"\nat = 7\n'
+    path.write_text(bare_compressor() + f'\n[[cross_coupling]]\nname = "gas"\nat = 7\n'
                     f'q = "{q} N/m"\n\n[coupling_screen]\nplacement = "sources"\n{extra}')
     return path
 
@@ -51,5 +60,17 @@ def test_options_override_the_file(tmp_path):
     assert doc["verdict"] == "pass" and doc["criteria"]["min_ratio"] == 1.5
     bad = runner.invoke(app, ["cross-coupling", str(case), "--placement", "everywhere"])
     assert bad.exit_code == 2 and "--placement" in bad.output
-    bare = runner.invoke(app, ["cross-coupling", str(COMPRESSOR)])
+    plain = tmp_path / "bare.toml"
+    plain.write_text(bare_compressor())
+    bare = runner.invoke(app, ["cross-coupling", str(plain)])
     assert bare.exit_code == 2 and "cross_coupling" in bare.output
+
+
+def test_the_bundled_compressor_carries_its_stages_and_passes_the_screen(tmp_path):
+    out = tmp_path / "s.json"
+    result = runner.invoke(app, ["cross-coupling", str(COMPRESSOR), "--json", str(out),
+                                 "--plot", str(tmp_path / "s.png")])
+    assert result.exit_code == 0, result.output
+    doc = json.loads(out.read_text())["result"]
+    assert len(doc["screen"]["stations"]) == 6 and doc["passed"]
+    assert doc["screen"]["threshold_ratio"] > 2 and doc["screen"]["log_dec_at_expected"] > 0.1

@@ -5,7 +5,8 @@ A regression guard, not a check of correctness: every picture function of
 ``tools/picture_fingerprints.py`` (Agg, fixed size and resolution) and the
 SHA-256 of each RGBA pixel buffer must equal the one recorded in
 ``picture_fingerprints.json``, recorded at commit adfa530 before the plotting
-package was split.  The pixels depend on matplotlib's version (fonts, hinting,
+package was split (the compressor's pictures re-recorded when the bundled case gained its
+stage cross-coupling, after looking at them: the case changed, not the drawing code).  The pixels depend on matplotlib's version (fonts, hinting,
 anti-aliasing), so the test is skipped under any other version than the one
 recorded; re-record with ``python tools/picture_fingerprints.py --out
 tests/unit/picture_fingerprints.json`` only after a change meant to alter a

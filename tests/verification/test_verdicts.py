@@ -24,6 +24,7 @@ exists:
 """
 
 import json
+import dataclasses
 import math
 
 import matplotlib
@@ -41,7 +42,7 @@ from rotorcalc.model import (Bearing, Disk, MarginRule, Material, OperatingRange
 from rotorcalc.reader import parse_rotor, read_rotor
 from rotorcalc.statics import journal_static_loads
 from rotorcalc.variants import read_variants
-from tests.conftest import ROOT, STEEL, disk_at_mid_span, isotropic
+from tests.conftest import ROOT, STEEL, compressor_without_gas, disk_at_mid_span, isotropic
 from tests.verification import closed_forms as cf
 from tests.verification.record import check
 
@@ -249,7 +250,7 @@ def test_verdict_overdamped_modes_are_not_criticals():
     """The compressor's end-mass modes cross 1X with log decrements of 18 to 46:
     they were once judged with AF estimates below 1 and taken by `compare` as the
     first bending critical's counterpart."""
-    result = screen(read_rotor(ROOT / "cases" / "compressor.toml"))
+    result = screen(compressor_without_gas())
     over = [r for r in result.margins.rows if r.critical.damping_ratio >= 0.45]
     assert len(over) == 3
     assert all(r.verdict == "overdamped" and r.amplification_factor is None for r in over)
@@ -264,7 +265,7 @@ def test_verdict_overdamped_modes_are_not_criticals():
 def test_verdict_compare_matches_the_first_bending_critical():
     base_path, rotor, variants = read_variants(ROOT / "cases" / "compressor_variants.toml")
     chosen = [v for v in variants if v.name == "heavier impellers"]
-    comparison = compare(rotor, chosen)
+    comparison = compare(dataclasses.replace(rotor, sources=(), coupling_rule=None), chosen)
     rows = [r for r in comparison.rows if r.variant == "heavier impellers"]
     first = next(r for r in rows if r.row.critical.whirl == "forward"
                  and r.row.verdict == "pass")
@@ -437,7 +438,7 @@ def test_verdict_peak_goes_to_the_forward_critical_and_margin_is_from_the_peak()
     """Compressor, first bending pair at 5563 rpm (backward) and 5638 rpm
     (forward): the mid-span unbalance peaks belong to the forward one, and the
     response margin is measured from the peak speed, not from the critical."""
-    result = screen(read_rotor(ROOT / "cases" / "compressor.toml"))
+    result = screen(compressor_without_gas())
     rows = result.margins.rows
     backward = next(r for r in rows if abs(r.critical.speed / RPM - 5563) < 5)
     forward = next(r for r in rows if abs(r.critical.speed / RPM - 5638) < 5)
@@ -588,7 +589,7 @@ def test_verdict_clearance_check_covers_run_up():
     """The close-clearance check reads every analysed speed up to trip: the
     compressor passes its first critical (about 5700 rpm) on the way up, where
     the mid-span orbit is largest."""
-    result = screen(read_rotor(ROOT / "cases" / "compressor.toml"))
+    result = screen(compressor_without_gas())
     eye = next(c for c in result.response.clearance
                if c.case == "mid_span" and c.where == "impeller 1 eye seal")
     assert 5000 * RPM < eye.speed < 6500 * RPM
