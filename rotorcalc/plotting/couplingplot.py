@@ -256,8 +256,9 @@ def _placement_words(screen):
     """Where the swept amount acts: "station 7 (mid-span)", or each source's share."""
     if len(screen.shares) == 1:
         return f"applied at station {screen.shares[0][0]} ({screen.placement})"
-    parts = ", ".join(f"{s} ({100 * f:.0f} %)" for s, f in screen.shares)
-    return f"applied at stations {parts}"
+    import textwrap
+    parts = ", ".join(f"{s}\u00a0({100 * f:.0f}\u00a0%)" for s, f in screen.shares)
+    return "\n".join(textwrap.wrap(f"applied at stations {parts}", 44))
 
 
 # --- placing ---------------------------------------------------------------------------
