@@ -87,7 +87,7 @@ os.environ["MPLBACKEND"] = "Agg"
 
 ROOT = Path(__file__).resolve().parents[1]
 COMMANDS = ["modes", "sweep", "criticals", "check", "response", "layout", "stiffness-map",
-            "compare", "window", "levers"]
+            "compare", "window", "levers", "cross-coupling"]
 KINDS = ["markup", "math-text", "dimensionless-unit", "odd-speed-unit", "extreme-magnitude",
          "impossible-physics", "size-bomb", "encoding", "option-error", "output-fault",
          "structural-mutation"]
@@ -108,8 +108,8 @@ OUT_OPTS = {"modes": ["--json", "--csv", "--plot"], "sweep": ["--plot", "--json"
             "response": ["--json", "--csv", "--plot-bode", "--plot-polar", "--plot-orbits"],
             "layout": ["--plot"], "stiffness-map": ["--plot", "--json", "--csv", "--plot-shapes"],
             "compare": ["--plot", "--json", "--csv"], "window": ["--json", "--csv"],
-            "levers": ["--json", "--csv"]}
-PICTURE_OPTS = {"--plot", "--plot", "--plot-bode", "--plot-polar", "--plot-orbits", "--plot", "--plot-shapes"}
+            "levers": ["--json", "--csv"], "cross-coupling": ["--plot", "--json", "--csv"]}
+PICTURE_OPTS = {"--plot", "--plot-bode", "--plot-polar", "--plot-orbits", "--plot-shapes"}
 
 
 # ---------------------------------------------------------------- TOML writing (own, minimal)
@@ -218,7 +218,7 @@ def tiny_rotor(rng):
     rpm = rng.choice([1500, 1800, 3000, 3600, 4500])
     doc["operating"] = {"min_speed": f"{int(rpm * 0.8)} rpm", "max_speed": f"{rpm} rpm",
                         "trip_speed": f"{int(rpm * 1.1)} rpm"}
-    doc["analysis"] = {"speed_count": 7, "modes": 3}
+    doc["analysis"] = {"speed_count": 7, "mode_count": 3}
     doc["unbalance"] = {rng.choice(["wheel_heavy", "trim_run", "spot_a"]): {
         "weight": [{"at": d, "amount": f"{rng.randint(5, 40)} g*mm"}]}}
     doc["probe"] = [{"name": "probe near wheel", "at": d}]
@@ -460,7 +460,7 @@ def gen_size_bomb(rng, t):
     elif v == "elements=10**6":
         d["section"][0]["elements"] = 10 ** 6
     elif v == "modes=10**9":
-        d["analysis"]["modes"] = 10 ** 9
+        d["analysis"]["mode_count"] = 10 ** 9
     elif v.startswith("title-"):     # 10 MB; 4 MB stays under a file-size cap, if there is one
         d["title"] = ("Zq blower " * (2 ** 20))[: int(v[6:-2]) * 2 ** 20]
     elif v == "60000-sections":
@@ -551,6 +551,9 @@ OPTION_ERRORS = {
                ["--bearing", "99"], ["--factor-from", "nan"]],
     "levers": [["--relative-step", "0"], ["--relative-step", "1"], ["--near-fraction", "-1"], ["--near-fraction", "nan"],
                ["--speed-count", "1"], ["--relative-step", "nan"]],
+    "cross-coupling": [["--expected", "abc"], ["--expected", "3"], ["--expected", "-1e6 N/m"],
+                       ["--expected", "1e6 kg"], ["--placement", "everywhere"],
+                       ["--min-ratio", "-1"], ["--min-log-dec", "nan"]],
 }
 OPTION_ERRORS["check"] = OPTION_ERRORS["criticals"]
 COMMON_OPTION_ERRORS = [["--bogus"], ["--json"], ["NOCASE"]]
@@ -712,7 +715,8 @@ def make_try(seed, index):
     rng = random.Random(f"{seed}:{index}")
     kind = KINDS[index % len(KINDS)]
     command = rng.choice(COMMANDS)
-    bundled = command not in ("compare", "window", "levers") and rng.random() < 0.07
+    bundled = command not in ("compare", "window", "levers", "cross-coupling") \
+        and rng.random() < 0.07
     doc, rpm = bundled_rotor(rng) if bundled else tiny_rotor(rng)
     t = Try(index, kind, command, doc, rpm)
     GENERATORS[kind](rng, t)
@@ -729,7 +733,8 @@ def make_try(seed, index):
             t.files.setdefault("variants.toml", to_toml(t.variants).encode())
         t.case_name = "variants.toml"
     # the options a command cannot run without, unless the try sets (or drops) them itself
-    pre = {"modes": ["--speed", f"{t.rpm} rpm"], "layout": ["--plot", str(WORK / "layout.png")]
+    pre = {"modes": ["--speed", f"{t.rpm} rpm"], "layout": ["--plot", str(WORK / "layout.png")],
+           "cross-coupling": ["--expected", "2e6 N/m", "--placement", "mid-span"]
            }.get(command, [])
     if (pre and pre[0] in t.extra) or "NOOUT" in t.extra:
         pre = []
@@ -1042,7 +1047,7 @@ def main(argv=None):
     ap = argparse.ArgumentParser(description=__doc__.split("\n\n")[0])
     ap.add_argument("--tries", type=int, default=300)
     ap.add_argument("--seed", type=int, default=1)
-    ap.add_argument("--plot", default="/tmp/fuzz/report.json")
+    ap.add_argument("--out", default="/tmp/fuzz/report.json")
     ap.add_argument("--scratch", default="/tmp/fuzz", help="work folder, journal and examples")
     ap.add_argument("--timeout", type=float, default=10.0, help="seconds per try")
     ap.add_argument("--mem-gb", type=float, default=4.0, help="address-space limit of the worker")
