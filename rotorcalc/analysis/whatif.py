@@ -107,7 +107,15 @@ def match_criticals(criticals, base):
     return out
 
 
-def compare(rotor, variants, progress=None):
+def what_if_rotor(rotor, with_sources=False):
+    """The rotor a what-if study screens: without its destabilising sources (and their
+    screen) unless ``with_sources``; the what-if questions are about supports and masses."""
+    if with_sources:
+        return dataclasses.replace(rotor, coupling_rule=None)
+    return dataclasses.replace(rotor, sources=(), coupling_rule=None)
+
+
+def compare(rotor, variants, progress=None, with_sources=False):
     """Screen the base rotor and every variant; rows carry the change against the base.
 
     Parameters
@@ -117,6 +125,7 @@ def compare(rotor, variants, progress=None):
     progress : callable, optional
         ``progress(done, total)`` after each screening.
     """
+    rotor = what_if_rotor(rotor, with_sources)
     models = [("base", rotor)] + [(v.name, apply_variant(rotor, v)) for v in variants]
     screenings = []
     for i, (_, model) in enumerate(models):
@@ -251,7 +260,7 @@ def _scaled(rotor, targets, factor):
 
 
 def stiffness_window(rotor, target=None, low=0.1, high=10.0, points=9, rtol=2e-3,
-                     progress=None):
+                     progress=None, with_sources=False):
     """The stiffness scale factors, around 1, for which every margin holds.
 
     Scales the four stiffness coefficients of the target bearing(s) (by
@@ -266,7 +275,7 @@ def stiffness_window(rotor, target=None, low=0.1, high=10.0, points=9, rtol=2e-3
     StiffnessWindow
     """
     targets = window_targets(rotor, target)
-    rotor = dataclasses.replace(rotor, unbalance=())
+    rotor = dataclasses.replace(what_if_rotor(rotor, with_sources), unbalance=())
     factors = window_factors(low, high, points)
     total = [0]
 
@@ -439,5 +448,6 @@ class Levers:
 
 
 def levers(rotor, criticals, step=0.01, near=None, every=False):
-    """:func:`sensitivities`, ranked (:class:`Levers`)."""
+    """:func:`sensitivities`, ranked (:class:`Levers`).  ``rotor`` and ``criticals`` as the
+    caller screened them (:func:`what_if_rotor` gives the usual rotor)."""
     return Levers.ranked(sensitivities(rotor, criticals, step, near, every), step, near, every)

@@ -110,6 +110,10 @@ def command(
                                               help="Number of sweep speeds per screening."),
     plot: Optional[Path] = typer.Option(None, "--plot",
                                         help="Write the overlaid whirl-speed maps."),
+    with_sources: bool = typer.Option(
+        False, "--with-sources", help="Keep the rotor file's destabilising sources "
+                                      "([[cross_coupling]]) in every screening; by default a "
+                                      "what-if study leaves them out."),
     json_path: Optional[Path] = typer.Option(None, "--json",
                                              help="Write the comparison as JSON."),
     csv_path: Optional[Path] = typer.Option(None, "--csv", help="Write the comparison as CSV."),
@@ -126,7 +130,7 @@ def command(
     with progress_bar(f"screening the base and {len(variants)} variant(s)",
                       len(variants) + 1) as bar, \
             input_errors():
-        comparison = compare(rotor, variants, progress=bar)
+        comparison = compare(rotor, variants, progress=bar, with_sources=with_sources)
     elapsed = time.perf_counter() - started
     summary = [("base", "the rotor as described", comparison.screenings[0])] + [
         (v.name, "; ".join(c.text for c in v.changes), s)

@@ -33,6 +33,10 @@ def command(
                                help="Relative step of the central difference (0.01 = 1 %)."),
     speed_count: Optional[int] = typer.Option(None, "--speed-count", min=3,
                                               help="Number of sweep speeds for the criticals."),
+    with_sources: bool = typer.Option(
+        False, "--with-sources", help="Keep the rotor file's destabilising sources "
+                                      "([[cross_coupling]]) in every screening; by default a "
+                                      "what-if study leaves them out."),
     json_path: Optional[Path] = typer.Option(None, "--json",
                                              help="Write the sensitivities as JSON."),
     csv_path: Optional[Path] = typer.Option(None, "--csv",
@@ -43,9 +47,9 @@ def command(
     rotor = apply_overrides(load(case), speed_count=speed_count)
     check_outputs(case, {"--json": json_path, "--csv": csv_path})
     from ..analysis import screen
-    from ..analysis.whatif import levers
+    from ..analysis.whatif import levers, what_if_rotor
     started = time.perf_counter()
-    chosen = without_response(rotor)
+    chosen = what_if_rotor(without_response(rotor), with_sources)
     with busy("finding the critical speeds and their levers"), input_errors():
         result = screen(chosen)
         table = levers(chosen, result.criticals, step=step, near=near, every=every)

@@ -22,7 +22,7 @@ WINDOW_EXAMPLE = ('[bold]Example[/]: rotorcalc window cases/overhung_fan.toml --
                   '--factor-from 0.2 --factor-to 5 --json window.json')
 
 
-def run_window(rotor, target, target_text, low, high, factors):
+def run_window(rotor, target, target_text, low, high, factors, with_sources=False):
     """Find the window with a progress bar and print its ends and scan."""
     from ..analysis.whatif import stiffness_window, window_factors
     grid = len(window_factors(low, high, factors))
@@ -36,7 +36,8 @@ def run_window(rotor, target, target_text, low, high, factors):
             bar(done, total)
         with input_errors():
             result = stiffness_window(without_response(rotor), target=target, low=low,
-                                      high=high, points=factors, progress=progress)
+                                      high=high, points=factors, progress=progress,
+                                      with_sources=with_sources)
     elapsed = time.perf_counter() - started
     print_window(rotor, result, target_text)
     if rotor.unbalance:
@@ -81,6 +82,10 @@ def command(
                                 help="Factors in the log-spaced scan (1 is always added)."),
     speed_count: Optional[int] = typer.Option(None, "--speed-count", min=3,
                                               help="Number of sweep speeds per screening."),
+    with_sources: bool = typer.Option(
+        False, "--with-sources", help="Keep the rotor file's destabilising sources "
+                                      "([[cross_coupling]]) in every screening; by default a "
+                                      "what-if study leaves them out."),
     json_path: Optional[Path] = typer.Option(None, "--json", help="Write the window as JSON."),
     csv_path: Optional[Path] = typer.Option(None, "--csv", help="Write the scan as CSV."),
 ):
@@ -96,7 +101,7 @@ def command(
                                        "--factor-from 0.1 --factor-to 10",
                               kind="range"))
     target, target_text = bearing_target(rotor, bearing)
-    result = run_window(rotor, target, target_text, low, high, factors)
+    result = run_window(rotor, target, target_text, low, high, factors, with_sources)
     console.print(f"[dim]{CAUTION}[/]", highlight=False)
     write_outputs("window", case, result.to_dict(), (), json_path, csv_path,
                   WINDOW_SCAN_COLUMNS, result.scan_rows())

@@ -2,6 +2,8 @@
 
 import json
 
+import pytest
+
 from typer.testing import CliRunner
 
 from rotorcalc.cli import app
@@ -74,3 +76,33 @@ def test_the_bundled_compressor_carries_its_stages_and_passes_the_screen(tmp_pat
     doc = json.loads(out.read_text())["result"]
     assert len(doc["screen"]["stations"]) == 6 and doc["passed"]
     assert doc["screen"]["threshold_ratio"] > 2 and doc["screen"]["log_dec_at_expected"] > 0.1
+
+
+@pytest.mark.slow
+def test_what_if_studies_leave_the_sources_out_unless_told(tmp_path):
+    """A what-if study asks about supports and masses: the file's gas forces are left out
+    (the base then matches the rotor without them), and --with-sources keeps them."""
+    import dataclasses
+
+    from rotorcalc.analysis import screen
+    from rotorcalc.reader import read_rotor
+    rotor = read_rotor(COMPRESSOR)
+    plain = screen(dataclasses.replace(rotor, sources=(), coupling_rule=None))
+    gas = screen(dataclasses.replace(rotor, coupling_rule=None))
+
+    def first_forward(result):
+        return min(r.critical.speed for r in result.margins.rows
+                   if r.critical.whirl == "forward" and r.verdict == "pass")
+
+    speeds = {}
+    for flag in ([], ["--with-sources"]):
+        out = tmp_path / f"c{len(flag)}.json"
+        result = runner.invoke(app, ["compare", str(COMPRESSOR), "--vary",
+                                     "stiffer: bearing.*.k *= 1.1", "--json", str(out), *flag])
+        assert result.exit_code == 0, result.output
+        rows = json.loads(out.read_text())["result"]["criticals"]
+        speeds[bool(flag)] = min(r["speed_rad_s"] for r in rows if r["variant"] == "base"
+                                 and r["whirl"] == "forward" and r["verdict"] == "pass")
+    assert speeds[False] == pytest.approx(first_forward(plain), rel=1e-9)
+    assert speeds[True] == pytest.approx(first_forward(gas), rel=1e-9)
+    assert speeds[True] != pytest.approx(speeds[False], rel=1e-4)
