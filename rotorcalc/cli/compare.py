@@ -22,7 +22,7 @@ from .common import (console, fail_input, input_errors, load, print_table, print
                      save_figure, write_outputs)
 from .criticals import apply_overrides
 from .whatif_common import (check_outputs, command_help, critical_text, plotting_function,
-                            progress_bar)
+                            progress_bar, with_sources_option)
 
 COMPARE_EXAMPLE = ("[bold]Example[/]: rotorcalc compare cases/feed_pump_variants.toml "
                    "--plot variants.png --csv variants.csv")
@@ -110,10 +110,7 @@ def command(
                                               help="Number of sweep speeds per screening."),
     plot: Optional[Path] = typer.Option(None, "--plot",
                                         help="Write the overlaid whirl-speed maps."),
-    with_sources: bool = typer.Option(
-        False, "--with-sources", help="Keep the rotor file's destabilising sources "
-                                      "([[cross_coupling]]) in every screening; by default a "
-                                      "what-if study leaves them out."),
+    with_sources: bool = with_sources_option(),
     json_path: Optional[Path] = typer.Option(None, "--json",
                                              help="Write the comparison as JSON."),
     csv_path: Optional[Path] = typer.Option(None, "--csv", help="Write the comparison as CSV."),

@@ -14,7 +14,8 @@ from ..tables import SENSITIVITY_COLUMNS
 from ..units import to_rpm
 from .common import console, input_errors, load, print_table, print_warnings, write_outputs
 from .criticals import apply_overrides
-from .whatif_common import busy, check_outputs, command_help, without_response
+from .whatif_common import (busy, check_outputs, command_help, with_sources_option,
+                            without_response)
 
 LEVERS_EXAMPLE = "[bold]Example[/]: rotorcalc levers cases/compressor.toml --csv levers.csv"
 
@@ -33,10 +34,7 @@ def command(
                                help="Relative step of the central difference (0.01 = 1 %)."),
     speed_count: Optional[int] = typer.Option(None, "--speed-count", min=3,
                                               help="Number of sweep speeds for the criticals."),
-    with_sources: bool = typer.Option(
-        False, "--with-sources", help="Keep the rotor file's destabilising sources "
-                                      "([[cross_coupling]]) in every screening; by default a "
-                                      "what-if study leaves them out."),
+    with_sources: bool = with_sources_option(),
     json_path: Optional[Path] = typer.Option(None, "--json",
                                              help="Write the sensitivities as JSON."),
     csv_path: Optional[Path] = typer.Option(None, "--csv",

@@ -7,6 +7,7 @@ import dataclasses
 import re
 from contextlib import contextmanager
 
+import typer
 from rich.markup import escape
 from rich.progress import BarColumn, Progress, TextColumn, TimeElapsedColumn
 
@@ -115,6 +116,13 @@ def heading(text):
 
 def critical_text(c):
     return f"{to_rpm(c.speed):.0f} rpm {c.whirl} (log dec {c.log_dec:.3f})"
+
+
+def with_sources_option():
+    """The what-if commands' ``--with-sources`` flag (:func:`~rotorcalc.analysis.whatif.what_if_rotor`)."""
+    return typer.Option(False, "--with-sources",
+                        help="Keep the rotor file's destabilising sources (\\[\\[cross_coupling]]) "
+                             "in every screening; by default a what-if study leaves them out.")
 
 
 def command_help(command, example):

@@ -16,7 +16,7 @@ from ..analysis.whatif import WINDOW_CAPTION, WINDOW_DEFAULT
 from .common import console, fail_input, input_errors, load, print_table, write_outputs
 from .criticals import apply_overrides
 from .whatif_common import (bearing_target, check_outputs, command_help, critical_text, heading,
-                            progress_bar, without_response)
+                            progress_bar, with_sources_option, without_response)
 
 WINDOW_EXAMPLE = ('[bold]Example[/]: rotorcalc window cases/overhung_fan.toml --bearing FE '
                   '--factor-from 0.2 --factor-to 5 --json window.json')
@@ -82,10 +82,7 @@ def command(
                                 help="Factors in the log-spaced scan (1 is always added)."),
     speed_count: Optional[int] = typer.Option(None, "--speed-count", min=3,
                                               help="Number of sweep speeds per screening."),
-    with_sources: bool = typer.Option(
-        False, "--with-sources", help="Keep the rotor file's destabilising sources "
-                                      "([[cross_coupling]]) in every screening; by default a "
-                                      "what-if study leaves them out."),
+    with_sources: bool = with_sources_option(),
     json_path: Optional[Path] = typer.Option(None, "--json", help="Write the window as JSON."),
     csv_path: Optional[Path] = typer.Option(None, "--csv", help="Write the scan as CSV."),
 ):
