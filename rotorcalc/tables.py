@@ -371,11 +371,11 @@ COUPLING_STEP_COLUMNS = [
 
 #: Rows: destabilising sources (Bearing objects of role "source") with the speed bound.
 def source_columns(speed):
+    from .analysis.coupling_screen import source_q
     return [
         Column("Source", lambda s: s.name, "{}", "name"),
         Column("Station", lambda s: s.station, "{:d}", "station"),
-        Column("q N/m", lambda s: float(s.matrices(speed)[0][0, 1] - s.matrices(speed)[0][1, 0])
-               / 2.0, "{:.4g}", "q_n_m"),
+        Column("q N/m", lambda s: source_q(s, speed), "{:.4g}", "q_n_m"),
         Column("kxx N/m", lambda s: float(s.matrices(speed)[0][0, 0]), "{:.4g}", "kxx_n_m"),
         Column("cxx N s/m", lambda s: float(s.matrices(speed)[1][0, 0]), "{:.4g}", "cxx_n_s_m"),
     ]

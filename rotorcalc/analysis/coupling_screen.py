@@ -117,6 +117,13 @@ class CouplingScreen:
         }
 
 
+def source_q(source, speed):
+    """A source's destabilising cross-coupling at ``speed``: the antisymmetric part
+    (kxy - kyx) / 2 of its stiffness, N/m."""
+    k = source.matrices(speed)[0]
+    return float(k[0, 1] - k[1, 0]) / 2.0
+
+
 def applied_sources(shares, total):
     """The sources that apply ``total`` (N/m) cross-coupling split by ``shares``."""
     return tuple(Bearing(station, {"kxx": (0.0,), "kyy": (0.0,), "kxy": (share * total,),
@@ -134,10 +141,9 @@ def _first_forward(modes):
     return None
 
 
-def _station_shares(rotor, placement, base_modes, first):
+def _station_shares(rotor, placement, speed, mode_count):
     if placement == "sources":
-        amounts = [(s.station, s.matrices(rotor.operating.max_speed)[0]) for s in rotor.sources]
-        qs = [(st, (k[0, 1] - k[1, 0]) / 2.0) for st, k in amounts]
+        qs = [(s.station, source_q(s, rotor.operating.max_speed)) for s in rotor.sources]
         total = sum(q for _, q in qs)
         if not qs or not total > 0:
             raise InputError("cross_coupling", "gives no destabilising cross-coupling to "
@@ -149,10 +155,26 @@ def _station_shares(rotor, placement, base_modes, first):
         z = np.concatenate([[0.0], np.cumsum([s.length for s in rotor.sections])])
         middle = 0.5 * (z[ends[0]] + z[ends[-1]]) if ends else 0.5 * z[-1]
         return ((int(np.argmin(np.abs(z - middle))), 1.0),)
-    # largest first-mode amplitude among the stations
-    system = assemble(rotor)
-    amplitude = np.abs(base_modes.shapes[first])[system.mesh.station_nodes].max(axis=1)
+    # largest first-mode amplitude among the stations, without the sources
+    bare = dataclasses.replace(rotor, sources=())
+    modes = modes_at(bare, speed, mode_count)
+    first = _first_forward(modes)
+    if first is None:
+        raise _no_forward_mode()
+    system = assemble(bare)
+    amplitude = np.abs(modes.shapes[first])[system.mesh.station_nodes].max(axis=1)
     return ((int(np.argmax(amplitude)), 1.0),)
+
+
+def _no_forward_mode():
+    return InputError("coupling_screen", "finds no forward mode at the maximum continuous "
+                      "speed", expected="more modes (analysis.mode_count)", kind="range")
+
+
+def _modes_with(rotor, shares, q, speed, mode_count):
+    """The modes at ``speed`` with ``q`` (N/m) applied as ``shares`` say."""
+    return modes_at(dataclasses.replace(rotor, sources=applied_sources(shares, q)), speed,
+                    mode_count)
 
 
 def _follow(rotor, shares, amounts, speed, mode_count):
@@ -161,14 +183,11 @@ def _follow(rotor, shares, amounts, speed, mode_count):
     log_dec, freq, shapes = [], [], []
     reference = None
     for q in amounts:
-        model = dataclasses.replace(rotor, sources=applied_sources(shares, q))
-        modes = modes_at(model, speed, mode_count)
+        modes = _modes_with(rotor, shares, q, speed, mode_count)
         if reference is None:
             j = _first_forward(modes)
             if j is None:
-                raise InputError("stability_screen", "finds no forward mode at the maximum "
-                                 "continuous speed", expected="more modes (analysis.mode_count)",
-                                 kind="range")
+                raise _no_forward_mode()
         else:
             mac = mac_matrix(reference[None], modes.shapes)[0]
             j = int(np.argmax(mac))
@@ -203,21 +222,18 @@ def cross_coupling_screen(rotor, expected=None, placement=None, top_ratio=None,
     top_ratio = top_ratio or criteria.top_ratio
     expected = criteria.expected if expected is None else expected
     if placement not in PLACEMENTS:
-        raise InputError("stability_screen.placement", "is not a known placement",
+        raise InputError("coupling_screen.placement", "is not a known placement",
                          value=placement, expected=" or ".join(PLACEMENTS), kind="choice")
     speed = rotor.operating.max_speed
     mode_count = rotor.settings.mode_count
     if expected is None:
-        expected = sum((s.matrices(speed)[0][0, 1] - s.matrices(speed)[0][1, 0]) / 2.0
-                       for s in rotor.sources)
+        expected = sum(source_q(s, speed) for s in rotor.sources)
     if not (math.isfinite(expected) and expected > 0):
-        raise InputError("stability_screen.expected", "must be a positive cross-coupling",
+        raise InputError("coupling_screen.expected", "must be a positive cross-coupling",
                          value=expected, expected='e.g. "2e6 N/m", or [[cross_coupling]] '
                          "sources in the rotor file", kind="range")
     bare = dataclasses.replace(rotor, sources=())
-    base_modes = modes_at(bare, speed, mode_count)
-    first = _first_forward(base_modes)
-    shares = _station_shares(rotor, placement, base_modes, first)
+    shares = _station_shares(rotor, placement, speed, mode_count)
     amounts = np.linspace(0.0, max(top_ratio, 10.0) * expected, steps)
     amounts = np.unique(np.concatenate([amounts, [expected]]))
     log_dec, freq, shapes = _follow(bare, shares, amounts, speed, mode_count)
@@ -236,8 +252,7 @@ def _threshold(rotor, shares, amounts, log_dec, shapes, speed, mode_count, xtol)
     k = int(crossing[0])
 
     def g(q):
-        model = dataclasses.replace(rotor, sources=applied_sources(shares, q))
-        modes = modes_at(model, speed, mode_count)
+        modes = _modes_with(rotor, shares, q, speed, mode_count)
         j = int(np.argmax(mac_matrix(shapes[k][None], modes.shapes)[0]))
         return float(modes.log_dec[j])
     return float(brentq(g, amounts[k], amounts[k + 1], xtol=xtol))

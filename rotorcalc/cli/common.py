@@ -117,6 +117,24 @@ def speed_option(text: str, option: str) -> float:
         return u.parse(text.strip(), u.SPEED, option)
 
 
+def quantity_option(text, dim, option, example):
+    """A quantity from the command line; a unit is required so a bare number is never misread."""
+    with input_errors():
+        stripped = text.strip()
+        try:
+            float(stripped)
+        except ValueError:
+            return u.parse(stripped, dim, option)
+        raise InputError(option, "needs a unit", value=text, expected=example, kind="unit")
+
+
+def stiffness_option(text, option):
+    if text is None:
+        return None
+    return quantity_option(text, u.STIFFNESS, option, 'a stiffness such as "1e8 N/m" or '
+                                                      '"570 klbf/in"')
+
+
 def check_output(path: Path | None, case: Path, option: str):
     """Refuse to write over the input file."""
     if path is None:

@@ -10,13 +10,13 @@ from typing import Optional
 import typer
 from rich.markup import escape
 
-from .. import units as u
 from ..analysis.margins import CAUTION
 from ..errors import InputError
 from ..rules import PLACEMENTS, CouplingRule
 from ..tables import COUPLING_STEP_COLUMNS, SOURCES_CHECK_COLUMNS, source_columns
 from ..units import to_rpm
-from .common import console, input_errors, load, print_table, save_figure, write_outputs
+from .common import (console, input_errors, load, print_table, save_figure,
+                     stiffness_option, write_outputs)
 from .whatif_common import busy, check_outputs, command_help, heading
 
 EXAMPLE = ('[bold]Example[/]: rotorcalc cross-coupling cases/compressor.toml --plot screen.png '
@@ -29,7 +29,7 @@ def _rule(rotor, expected, placement, min_log_dec, min_ratio):
     changes = {}
     with input_errors():
         if expected is not None:
-            changes["expected"] = u.parse(expected.strip(), u.STIFFNESS, "--expected")
+            changes["expected"] = stiffness_option(expected, "--expected")
         if placement is not None:
             if placement not in PLACEMENTS:
                 raise InputError("--placement", "is not a known placement", value=placement,

@@ -11,7 +11,6 @@ from typing import Optional
 import typer
 from rich.markup import escape
 
-from .. import units as u
 from ..analysis.margins import CAUTION
 from ..analysis.stiffness_study import (CROSSINGS_CAPTION, ENDS_CAPTION, SHAPES_CAPTION,
                                         stiffness_study)
@@ -20,31 +19,13 @@ from ..tables import MAP_SHAPE_COLUMNS, crossing_columns, map_end_columns
 from ..units import to_rpm
 from ..vocabulary import Whirl
 from .common import (console, fail_input, input_errors, load, print_table, save_figure,
-                     speed_option, write_outputs)
+                     speed_option, stiffness_option, write_outputs)
 from .whatif_common import bearing_target, busy, check_outputs, command_help, heading
 from .window import run_window
 
 MAP_EXAMPLE = ('[bold]Example[/]: rotorcalc stiffness-map cases/compressor.toml '
                '--stiffness-from "1e7 N/m" --stiffness-to "1e10 N/m" --plot csmap.png --window '
                '--shapes-at "1e8 N/m:1,1e9 N/m:2"')
-
-
-def quantity_option(text, dim, option, example):
-    """A quantity from the command line; a unit is required so a bare number is never misread."""
-    with input_errors():
-        stripped = text.strip()
-        try:
-            float(stripped)
-        except ValueError:
-            return u.parse(stripped, dim, option)
-        raise InputError(option, "needs a unit", value=text, expected=example, kind="unit")
-
-
-def stiffness_option(text, option):
-    if text is None:
-        return None
-    return quantity_option(text, u.STIFFNESS, option, 'a stiffness such as "1e8 N/m" or '
-                                                      '"570 klbf/in"')
 
 
 def parse_shapes(text, mode_count):

@@ -13,7 +13,7 @@ COMMANDS = sorted((PACKAGE / "cli").glob("*.py"))
 #: Layers, lowest first; a module may import its own layer and the ones below.
 LAYERS = [
     {"errors", "notices", "vocabulary", "units", "threads", "_checks", "_toml"},
-    {"rules", "unbalance", "standards", "statics", "model", "_read_response", "reader",
+    {"rules", "supports", "unbalance", "standards", "statics", "model", "_read_response", "reader",
      "variants", "fe", "assembly", "solvers", "output"},
     {"analysis"},
     {"tables", "plotting"},
