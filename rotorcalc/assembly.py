@@ -118,10 +118,10 @@ class SystemMatrices:
         base = DOF_PER_NODE * np.arange(self.mesh.n_nodes)
         return np.stack([base, base + 1], axis=1)
 
-    def _bearing_part(self, omega, which):
+    def _bearing_part(self, omega, which, whirl):
         rows, cols, data = [], [], []
         for link in self.links + self.source_links:
-            k2, c2 = link.bearing.matrices(omega)
+            k2, c2 = link.bearing.matrices(omega, whirl)
             block = k2 if which == "k" else c2
             local = fe_bearing.grounded(block) if len(link.dofs) == 2 else fe_bearing.linked(block)
             r, c = np.meshgrid(link.dofs, link.dofs, indexing="ij")
@@ -133,13 +133,22 @@ class SystemMatrices:
         return sp.coo_matrix((np.concatenate(data), (np.concatenate(rows), np.concatenate(cols))),
                              shape=(self.n_dof, self.n_dof)).tocsr()
 
-    def stiffness(self, omega):
-        """K(spin): shaft, bearings at ``omega`` (rad/s) and supports."""
-        return self.shaft_stiffness + self.support_stiffness + self._bearing_part(omega, "k")
+    def stiffness(self, omega, whirl=None):
+        """K(spin): shaft, bearings at ``omega`` (rad/s) and supports.  ``whirl`` (rad/s):
+        the whirl frequency two-way bearing tables are read at (default: synchronous)."""
+        return (self.shaft_stiffness + self.support_stiffness
+                + self._bearing_part(omega, "k", whirl))
 
-    def damping(self, omega):
-        """C(spin): bearings at ``omega`` (rad/s) and supports (no spin * G term)."""
-        return self.support_damping + self._bearing_part(omega, "c")
+    def damping(self, omega, whirl=None):
+        """C(spin): bearings at ``omega`` (rad/s) and supports (no spin * G term);
+        ``whirl`` as for :meth:`stiffness`."""
+        return self.support_damping + self._bearing_part(omega, "c", whirl)
+
+    @property
+    def whirl_dependent(self):
+        """The bearings, seals and sources whose coefficients depend on whirl frequency."""
+        return tuple(link.bearing for link in self.links + self.source_links
+                     if link.bearing.whirl_dependent)
 
     def rigid_body_basis(self, omega):
         """Orthonormal basis (n_dof, r) of the rigid-body motions the bearings leave free.

@@ -17,6 +17,7 @@ CODES = {
     "growth": "a non-oscillating motion grows (static divergence)",
     "unstable-response": "no steady state where a mode is unstable",
     "response-coverage": "the response sweep misses part of the operating range",
+    "whirl-iteration": "a mode's whirl-frequency-dependent coefficients reached no fixed point",
     "note": "a remark",
 }
 

@@ -36,7 +36,8 @@ SECTION_KEYS = {"length", "outer_diameter", "inner_diameter", "material", "eleme
 DISK_KEYS = {"at", "name", "mass", "polar_inertia", "transverse_inertia", "inertia_as_given",
              "outer_diameter",
              "inner_diameter", "width", "material"}
-BEARING_KEYS = {"at", "name", "role", "speeds", "support", *COEFFICIENT_NAMES}
+BEARING_KEYS = {"at", "name", "role", "speeds", "whirl_frequencies", "support",
+                *COEFFICIENT_NAMES}
 SUPPORT_KEYS = {"mass", "kx", "ky", "cx", "cy"}
 OPERATING_KEYS = {"min_speed", "max_speed", "trip_speed"}
 ANALYSIS_KEYS = {"speed_from", "speed_to", "speed_count", "mode_count", "orders", "beam_theory",
@@ -222,7 +223,7 @@ def _bearing(table, i, names, n_sections):
     if role not in tuple(BearingRole):
         raise InputError(f"{where}.role", "is not a known role", value=role,
                          expected=" or ".join(BearingRole), kind="choice")
-    speeds, coefficients = _coefficient_tables(table, where)
+    speeds, whirl, coefficients = _coefficient_tables(table, where)
     for direct in ("kxx", "kyy"):
         if direct not in coefficients:
             raise InputError(f"{where}.{direct}", "is missing",
@@ -239,42 +240,67 @@ def _bearing(table, i, names, n_sections):
                           cx=_quantity(st, "cx", u.DAMPING, sw, default=0.0),
                           cy=_quantity(st, "cy", u.DAMPING, sw, default=0.0), key=sw)
     return Bearing(station=station, coefficients=coefficients, speeds=speeds, name=name,
-                   role=role, support=support, key=where)
+                   role=role, support=support, key=where, whirl=whirl)
 
 
 def _coefficient_tables(table, where):
-    """(speeds, {name: values}) of a bearing's or a source's coefficients: each a constant
-    or a list with one value per speed."""
-    speeds = ()
-    if "speeds" in table:
-        raw = table["speeds"]
-        if not isinstance(raw, list) or not raw:
-            raise InputError(f"{where}.speeds", "must be a list of speeds", value=_short(raw),
-                             expected='e.g. ["1000 rpm", "3000 rpm"]', kind="type")
-        speeds = tuple(u.parse(v, u.SPEED, f"{where}.speeds[{j}]") for j, v in enumerate(raw))
+    """(speeds, whirl frequencies, {name: values}) of a bearing's or a source's
+    coefficients: each a constant, a list with one value per speed, or (with
+    ``whirl_frequencies``) a list of rows, one per speed, of one value per whirl frequency."""
+    speeds = _axis(table, "speeds", where, '["1000 rpm", "3000 rpm"]')
+    whirl = _axis(table, "whirl_frequencies", where, '["20 Hz", "100 Hz", "200 Hz"]')
     coefficients = {}
     for cname in COEFFICIENT_NAMES:
         if cname not in table:
             continue
         dim = u.STIFFNESS if cname[0] == "k" else u.DAMPING
         raw = table[cname]
-        if isinstance(raw, list):
-            if not raw:
-                raise InputError(f"{where}.{cname}", "is an empty list", kind="length")
-            if len(raw) != max(len(speeds), 1):
-                raise InputError(f"{where}.{cname}",
-                                 f"has {len(raw)} values but speeds has {len(speeds)}",
-                                 expected="one value per speed, or a single value (not a list)"
-                                 " for a constant", kind="length")
-            values = tuple(u.parse(v, dim, f"{where}.{cname}[{j}]") for j, v in enumerate(raw))
+        key = f"{where}.{cname}"
+        if isinstance(raw, list) and raw and all(isinstance(r, list) for r in raw):
+            if not whirl:
+                raise InputError(key, "is a table of rows but there are no whirl frequencies",
+                                 expected="whirl_frequencies = [...] with one value per row "
+                                 "entry, or one value per speed", kind="length")
+            _table_length(key, raw, speeds, "row per speed (one row when there are no speeds)")
+            values = tuple(_row(f"{key}[{i}]", row, whirl, dim) for i, row in enumerate(raw))
+        elif isinstance(raw, list):
+            _table_length(key, raw, speeds, "value per speed, or a single value (not a list) "
+                          "for a constant")
+            values = tuple(u.parse(v, dim, f"{key}[{j}]") for j, v in enumerate(raw))
         else:
-            values = (u.parse(raw, dim, f"{where}.{cname}"),)
+            values = (u.parse(raw, dim, key),)
         coefficients[cname] = values
-    return speeds, coefficients
+    return speeds, whirl, coefficients
+
+
+def _axis(table, name, where, example):
+    if name not in table:
+        return ()
+    raw = table[name]
+    if not isinstance(raw, list) or not raw:
+        what = "speeds" if name == "speeds" else "frequencies"
+        raise InputError(f"{where}.{name}", f"must be a list of {what}", value=_short(raw),
+                         expected=f"e.g. {example}", kind="type")
+    return tuple(u.parse(v, u.SPEED, f"{where}.{name}[{j}]") for j, v in enumerate(raw))
+
+
+def _table_length(key, raw, speeds, what):
+    if not raw:
+        raise InputError(key, "is an empty list", kind="length")
+    if len(raw) != max(len(speeds), 1):
+        raise InputError(key, f"has {len(raw)} {'rows' if isinstance(raw[0], list) else 'values'}"
+                         f" but speeds has {len(speeds)}", expected=f"one {what}", kind="length")
+
+
+def _row(key, row, whirl, dim):
+    if len(row) != len(whirl):
+        raise InputError(key, f"has {len(row)} values but whirl_frequencies has {len(whirl)}",
+                         expected="one value per whirl frequency", kind="length")
+    return tuple(u.parse(v, dim, f"{key}[{j}]") for j, v in enumerate(row))
 
 
 #: Keys of a [[cross_coupling]] table: a destabilising source.
-SOURCE_KEYS = {"at", "name", "speeds", "q", "stage", *COEFFICIENT_NAMES}
+SOURCE_KEYS = {"at", "name", "speeds", "whirl_frequencies", "q", "stage", *COEFFICIENT_NAMES}
 STAGE_KEYS = {"power", "impeller_diameter", "passage_width", "density_ratio",
               "molecular_weight", "form"}
 
@@ -293,17 +319,17 @@ def _source(table, i, names, n_sections, operating):
                          expected="one of: q, a stage estimate, or kxx..cyy", kind="conflict")
     if "stage" in table:
         q = _stage_estimate(table["stage"], f"{where}.stage", operating)
-        coefficients, speeds = {"kxy": (q,), "kyx": (-q,)}, ()
+        coefficients, speeds, whirl = {"kxy": (q,), "kyx": (-q,)}, (), ()
     elif "q" in table:
         q = _quantity(table, "q", u.STIFFNESS, where, required=True)
-        coefficients, speeds = {"kxy": (q,), "kyx": (-q,)}, ()
+        coefficients, speeds, whirl = {"kxy": (q,), "kyx": (-q,)}, (), ()
     else:
-        speeds, coefficients = _coefficient_tables(table, where)
+        speeds, whirl, coefficients = _coefficient_tables(table, where)
         if not coefficients:
             raise InputError(f"{where}.q", "is missing", expected='q = "2e6 N/m", a stage '
                              "table, or coefficients kxy, kyx, ...", kind="missing")
     return Bearing(station=station, coefficients=coefficients, speeds=speeds, name=name,
-                   role=BearingRole.SOURCE, key=where)
+                   role=BearingRole.SOURCE, key=where, whirl=whirl)
 
 
 def _stage_estimate(table, where, operating):
@@ -325,7 +351,7 @@ def _stage_estimate(table, where, operating):
 
 
 COUPLING_KEYS = {"placement", "top_ratio", "min_log_dec", "min_ratio", "min_log_dec_sources",
-                 "expected", "in_check"}
+                 "expected", "in_check", "coefficients_at"}
 
 
 def _coupling_rule(table):
@@ -344,7 +370,9 @@ def _coupling_rule(table):
                         min_ratio=_number(table, "min_ratio", where, 2.0),
                         min_log_dec_sources=_number(table, "min_log_dec_sources", where, 0.1),
                         expected=_quantity(table, "expected", u.STIFFNESS, where),
-                        in_check=in_check)
+                        in_check=in_check,
+                        coefficients_at=_string(table, "coefficients_at", where,
+                                                default="synchronous"))
 
 
 def _operating(table):

@@ -135,6 +135,10 @@ class StabilityRule:
 PLACEMENTS = ("sources", "mid-span", "largest-amplitude")
 
 
+#: Where a stability eigenvalue reads coefficients tabulated over whirl frequency.
+COEFFICIENTS_AT = ("synchronous", "mode-frequency")
+
+
 @dataclass(frozen=True)
 class CouplingRule:
     """The cross-coupling screen a rotor file asks for (``[coupling_screen]``).
@@ -156,9 +160,14 @@ class CouplingRule:
     min_log_dec_sources: float = 0.1
     expected: float | None = None      # N/m; None: the sources' own total
     in_check: bool = True
+    #: Where coefficients tabulated over whirl frequency are read: at the spin speed
+    #: ("synchronous", the default) or at each mode's own frequency ("mode-frequency",
+    #: iterated to a fixed point per mode).
+    coefficients_at: str = "synchronous"
 
     def __post_init__(self):
         _one_of("coupling_screen.placement", self.placement, PLACEMENTS)
+        _one_of("coupling_screen.coefficients_at", self.coefficients_at, COEFFICIENTS_AT)
         for key in ("min_log_dec", "min_ratio", "min_log_dec_sources"):
             _positive(f"coupling_screen.{key}", getattr(self, key), allow_zero=True)
         if not (math.isfinite(self.top_ratio) and self.top_ratio >= 10.0):

@@ -381,7 +381,8 @@ def source_columns(speed):
     ]
 
 
-#: Rows: (mode number, frequency rad/s, log dec, whirl, passed) of a SourcesCheck.
+#: Rows: (mode number, frequency rad/s, log dec, whirl, passed, synchronous log dec,
+#: converged) of a SourcesCheck.
 SOURCES_CHECK_COLUMNS = [
     Column("Mode", lambda r: r[0], "{:d}", "mode"),
     Column("Freq (Hz)", lambda r: float(to_hz(r[1])), "{:.2f}", "frequency_hz"),
@@ -389,3 +390,10 @@ SOURCES_CHECK_COLUMNS = [
     Column("Whirl", lambda r: r[3], "{}", "whirl"),
     Column("Verdict", lambda r: "pass" if r[4] else "fail", "{}", "verdict"),
 ]
+
+#: The same rows read at each mode's own whirl frequency: the synchronous log decrement
+#: beside it, and whether the iteration converged.
+SOURCES_OWN_COLUMNS = SOURCES_CHECK_COLUMNS[:3] + [
+    Column("Log dec (synchronous)", lambda r: float(r[5]), "{:+.4f}", "log_dec_synchronous"),
+    Column("Fixed point", lambda r: "yes" if r[6] else "NOT REACHED", "{}", "converged"),
+] + SOURCES_CHECK_COLUMNS[3:]

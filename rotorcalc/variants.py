@@ -35,6 +35,7 @@ from pathlib import Path
 from . import units as u
 from .errors import InputError
 from .model import COEFFICIENT_NAMES, Rotor
+from .supports import scale_table
 from .reader import check_keys, load_toml, locate, read_rotor
 
 GROUPS = {
@@ -241,7 +242,7 @@ def _change_bearings(rotor, change, parts, head_index):
         for name in names:
             dim = u.STIFFNESS if name[0] == "k" else u.DAMPING
             if change.op == "scale":
-                coefficients[name] = tuple(v * change.value for v in new[i].table(name))
+                coefficients[name] = scale_table(new[i].table(name), change.value)
             else:
                 coefficients[name] = (_new_value(change, None, dim),)
         new[i] = dataclasses.replace(new[i], coefficients=coefficients)

@@ -51,6 +51,9 @@ MODULE_SECTIONS = (
     ("test_coupling_screen.py",
      "12. Cross-coupling screen: thresholds of the Jeffcott and rigid rotors, log decrement "
      "against cross-coupling, the stage estimate"),
+    ("test_whirl_frequency.py",
+     "12. Cross-coupling screen: thresholds of the Jeffcott and rigid rotors, log decrement "
+     "against cross-coupling, the stage estimate"),
 )
 
 INTRO = """\

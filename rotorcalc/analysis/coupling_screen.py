@@ -11,6 +11,10 @@ screening criteria (common practice, from memory; both selectable).
 
 The rotor's own destabilising sources (``Rotor.sources``) are left out: the screen applies
 only the swept amount, the way the trade's first-level screen is done.
+
+Bearings and seals tabulated over whirl frequency are read at the spin speed (synchronous) by
+default; with the rule's ``coefficients_at = "mode-frequency"`` each judged mode is iterated
+to its own frequency (:mod:`rotorcalc.analysis.own_frequency`).
 """
 
 from __future__ import annotations
@@ -29,7 +33,9 @@ from ..rules import PLACEMENTS, CouplingRule
 from ..units import to_rpm
 from ..vocabulary import BearingRole, Outcome
 from .margins import CAUTION
+from ..notices import Notice
 from .modes import modes_at, read_only
+from .own_frequency import at_own_frequency, own_frequency_notes
 from .tracking import mac_matrix
 
 #: Steps of the sweep from zero to the top amount.
@@ -50,6 +56,7 @@ class CouplingScreen:
     threshold: float | None  # where the log decrement reaches zero (None: not within the
     #                          sweep; 0 when it is not positive without cross-coupling)
     criteria: CouplingRule
+    notes: tuple = ()        # Notice records: unconverged whirl iterations, table ends
 
     def __post_init__(self):
         read_only(self)
@@ -68,7 +75,9 @@ class CouplingScreen:
         """The screen's outcome in one sentence, with its rule."""
         threshold = ("not reached within the sweep" if self.threshold is None else
                      f"{self.threshold:.4g} N/m ({self.ratio:.2f} x expected)")
-        return (f"Expected cross-coupling {self.expected:.4g} N/m ({self.placement}): log "
+        where = (" (tables over whirl frequency read at the mode's own)"
+                 if self.criteria.coefficients_at == "mode-frequency" else "")
+        return (f"Expected cross-coupling {self.expected:.4g} N/m ({self.placement}){where}: log "
                 f"decrement {self.log_dec_zero:.3f} without it, {self.log_dec_expected:.3f} "
                 f"with it; threshold {threshold}. Verdict: {self.verdict} "
                 f"({self.criteria.describe()}; {self.criteria.label}).")
@@ -113,6 +122,8 @@ class CouplingScreen:
             "criteria": {"min_log_dec": self.criteria.min_log_dec,
                          "min_ratio": self.criteria.min_ratio,
                          "text": self.criteria.describe(), "label": self.criteria.label},
+            "coefficients_at": self.criteria.coefficients_at,
+            "notes": [n.to_dict() for n in self.notes],
             "verdict": self.verdict, "caution": CAUTION,
         }
 
@@ -171,29 +182,46 @@ def _no_forward_mode():
                       "speed", expected="more modes (analysis.mode_count)", kind="range")
 
 
-def _modes_with(rotor, shares, q, speed, mode_count):
-    """The modes at ``speed`` with ``q`` (N/m) applied as ``shares`` say."""
-    return modes_at(dataclasses.replace(rotor, sources=applied_sources(shares, q)), speed,
-                    mode_count)
+class _Judge:
+    """Solves one rotor state and picks the mode to judge: by shape against a reference, or
+    the first forward mode; at its own whirl frequency when the rule asks and a table
+    depends on it.  Collects the notes of the iterations."""
 
+    def __init__(self, rotor, shares, speed, mode_count, own):
+        self.rotor, self.shares, self.speed, self.mode_count = rotor, shares, speed, mode_count
+        self.own, self.notes = own, []
 
-def _follow(rotor, shares, amounts, speed, mode_count):
-    """Log decrement and frequency of the first forward mode at each amount, followed by
-    shape from the previous amount; also the shapes (for refining between two steps)."""
-    log_dec, freq, shapes = [], [], []
-    reference = None
-    for q in amounts:
-        modes = _modes_with(rotor, shares, q, speed, mode_count)
+    def __call__(self, q, reference=None):
+        """(log dec, frequency rad/s, shape) of the judged mode with ``q`` (N/m) applied."""
+        system = assemble(dataclasses.replace(self.rotor,
+                                              sources=applied_sources(self.shares, q)))
+        modes = modes_at(system, self.speed, self.mode_count)
         if reference is None:
             j = _first_forward(modes)
             if j is None:
                 raise _no_forward_mode()
         else:
-            mac = mac_matrix(reference[None], modes.shapes)[0]
-            j = int(np.argmax(mac))
-        reference = modes.shapes[j]
-        log_dec.append(float(modes.log_dec[j]))
-        freq.append(float(modes.frequency[j]))
+            j = int(np.argmax(mac_matrix(reference[None], modes.shapes)[0]))
+        if not (self.own and system.whirl_dependent):
+            return float(modes.log_dec[j]), float(modes.frequency[j]), modes.shapes[j]
+        r = at_own_frequency(system, self.speed, modes.shapes[j], modes.frequency[j],
+                             modes.log_dec[j], self.mode_count)
+        for note in own_frequency_notes(system, [(f"{q:.4g} N/m", r)], self.speed,
+                                        "the first forward mode with q ="):
+            if note not in self.notes:
+                self.notes.append(note)
+        return r.log_dec, r.frequency, r.shape
+
+
+def _follow(judge, amounts):
+    """Log decrement and frequency of the first forward mode at each amount, followed by
+    shape from the previous amount; also the shapes (for refining between two steps)."""
+    log_dec, freq, shapes = [], [], []
+    reference = None
+    for q in amounts:
+        d, f, reference = judge(q, reference)
+        log_dec.append(d)
+        freq.append(f)
         shapes.append(reference)
     return np.array(log_dec), np.array(freq), shapes
 
@@ -236,32 +264,44 @@ def cross_coupling_screen(rotor, expected=None, placement=None, top_ratio=None,
     shares = _station_shares(rotor, placement, speed, mode_count)
     amounts = np.linspace(0.0, max(top_ratio, 10.0) * expected, steps)
     amounts = np.unique(np.concatenate([amounts, [expected]]))
-    log_dec, freq, shapes = _follow(bare, shares, amounts, speed, mode_count)
-    threshold = _threshold(bare, shares, amounts, log_dec, shapes, speed, mode_count,
-                           xtol_share * amounts[-1])
+    judge = _Judge(bare, shares, speed, mode_count,
+                   criteria.coefficients_at == "mode-frequency")
+    log_dec, freq, shapes = _follow(judge, amounts)
+    threshold = _threshold(judge, amounts, log_dec, shapes, xtol_share * amounts[-1])
+    notes = judge.notes + _synchronous_note(bare, criteria)
     return CouplingScreen(speed, float(expected), placement, shares, amounts, log_dec, freq,
-                          threshold, criteria)
+                          threshold, criteria, tuple(notes))
 
 
-def _threshold(rotor, shares, amounts, log_dec, shapes, speed, mode_count, xtol):
+def _synchronous_note(rotor, criteria):
+    """A note when tables over whirl frequency were read at the spin speed."""
+    tables = [b.name for b in rotor.bearings + rotor.sources if b.whirl_dependent]
+    if not tables or criteria.coefficients_at != "synchronous":
+        return []
+    verb = "gives" if len(tables) == 1 else "give"
+    return [Notice(f"{', '.join(tables)} {verb} coefficients over whirl frequency; the "
+                   "stability screen read them at the spin speed (synchronous, the default); "
+                   "[coupling_screen] coefficients_at = \"mode-frequency\" (or "
+                   "--coefficients-at) reads them at each mode's own frequency", "note")]
+
+
+def _threshold(judge, amounts, log_dec, shapes, xtol):
     if log_dec[0] <= 0:
         return 0.0          # no margin at all: undamped or unstable without cross-coupling
     crossing = np.nonzero((log_dec[:-1] > 0) & (log_dec[1:] <= 0))[0]
     if not len(crossing):
         return None
     k = int(crossing[0])
-
-    def g(q):
-        modes = _modes_with(rotor, shares, q, speed, mode_count)
-        j = int(np.argmax(mac_matrix(shapes[k][None], modes.shapes)[0]))
-        return float(modes.log_dec[j])
-    return float(brentq(g, amounts[k], amounts[k + 1], xtol=xtol))
+    return float(brentq(lambda q: judge(q, shapes[k])[0], amounts[k], amounts[k + 1],
+                        xtol=xtol))
 
 
 @dataclass(frozen=True)
 class SourcesCheck:
     """Every forward mode at the maximum continuous speed with every source of the rotor
-    file applied, against ``min_log_dec``."""
+    file applied, against ``min_log_dec``.  With ``coefficients_at = "mode-frequency"``
+    ``frequency`` and ``log_dec`` are each mode's at its own whirl frequency and
+    ``synchronous_log_dec`` the values with every table read at the spin speed."""
 
     speed: float
     min_log_dec: float
@@ -269,6 +309,10 @@ class SourcesCheck:
     frequency: np.ndarray
     log_dec: np.ndarray
     whirl: tuple
+    coefficients_at: str = "synchronous"
+    synchronous_log_dec: np.ndarray | None = None
+    converged: tuple = ()
+    notes: tuple = ()
 
     def __post_init__(self):
         read_only(self)
@@ -279,9 +323,18 @@ class SourcesCheck:
 
     @property
     def rows(self):
-        """(mode number, frequency rad/s, log dec, whirl, passed) per forward mode."""
-        return [(n, float(f), float(d), w, bool(d >= self.min_log_dec))
-                for n, f, d, w in zip(self.numbers, self.frequency, self.log_dec, self.whirl)]
+        """(mode number, frequency rad/s, log dec, whirl, passed, synchronous log dec,
+        converged) per forward mode."""
+        sync = self.log_dec if self.synchronous_log_dec is None else self.synchronous_log_dec
+        converged = self.converged or (True,) * len(self.numbers)
+        return [(n, float(f), float(d), w, bool(d >= self.min_log_dec), float(ds), bool(ok))
+                for n, f, d, w, ds, ok in zip(self.numbers, self.frequency, self.log_dec,
+                                              self.whirl, sync, converged)]
+
+    @property
+    def at_own_frequency(self):
+        """True when the modes were read at their own whirl frequencies."""
+        return self.synchronous_log_dec is not None
 
     @property
     def verdict(self):
@@ -289,26 +342,39 @@ class SourcesCheck:
 
     def to_dict(self):
         return {"speed_rpm": float(to_rpm(self.speed)), "min_log_dec": self.min_log_dec,
+                "coefficients_at": self.coefficients_at,
                 "modes": [{"mode": int(n), "frequency_hz": float(f / (2 * math.pi)),
-                           "log_dec": float(d), "whirl": w,
-                           "passed": bool(d >= self.min_log_dec)}
-                          for n, f, d, w in zip(self.numbers, self.frequency, self.log_dec,
-                                                self.whirl)],
+                           "log_dec": d, "log_dec_synchronous": ds, "converged": ok,
+                           "whirl": w, "passed": ok_d}
+                          for n, f, d, w, ok_d, ds, ok in self.rows],
+                "notes": [n.to_dict() for n in self.notes],
                 "verdict": self.verdict}
 
 
 def sources_check(rotor, min_log_dec=None):
-    """The forward modes' log decrements at the maximum continuous speed, sources applied."""
+    """The forward modes' log decrements at the maximum continuous speed, sources applied
+    (each at its own whirl frequency when the rule asks, :mod:`.own_frequency`)."""
     rule = rotor.coupling_rule or CouplingRule()
     need = rule.min_log_dec_sources if min_log_dec is None else min_log_dec
     speed = rotor.operating.max_speed
-    modes = modes_at(rotor, speed, rotor.settings.mode_count)
+    system = assemble(rotor)
+    modes = modes_at(system, speed, rotor.settings.mode_count)
     order = [int(i) for i in np.argsort(modes.frequency)]
     keep = [i for i in order if modes.forward_fraction[i] >= 0.5]
-    return SourcesCheck(speed, need, tuple(order.index(i) + 1 for i in keep),
-                        np.array([modes.frequency[i] for i in keep]),
-                        np.array([modes.log_dec[i] for i in keep]),
-                        tuple(modes.whirl[i] for i in keep))
+    numbers = tuple(order.index(i) + 1 for i in keep)
+    frequency = np.array([modes.frequency[i] for i in keep])
+    log_dec = np.array([modes.log_dec[i] for i in keep])
+    whirl = tuple(modes.whirl[i] for i in keep)
+    if rule.coefficients_at != "mode-frequency" or not system.whirl_dependent:
+        return SourcesCheck(speed, need, numbers, frequency, log_dec, whirl,
+                            rule.coefficients_at, None, (),
+                            tuple(_synchronous_note(rotor, rule)))
+    own = [at_own_frequency(system, speed, modes.shapes[i], modes.frequency[i],
+                            modes.log_dec[i], rotor.settings.mode_count) for i in keep]
+    notes = own_frequency_notes(system, list(zip(numbers, own)), speed, "mode")
+    return SourcesCheck(speed, need, numbers, np.array([r.frequency for r in own]),
+                        np.array([r.log_dec for r in own]), whirl, rule.coefficients_at,
+                        log_dec, tuple(r.converged for r in own), tuple(notes))
 
 
 @dataclass(frozen=True)
@@ -322,6 +388,12 @@ class CouplingResult:
     def passed(self):
         return self.screen.verdict == Outcome.PASS and (self.sources is None
                                                         or self.sources.passed)
+
+    @property
+    def notes(self):
+        """The screen's and the check's notices, each once."""
+        more = () if self.sources is None else self.sources.notes
+        return tuple(dict.fromkeys(self.screen.notes + more))
 
     def to_dict(self):
         return {"screen": self.screen.to_dict(),

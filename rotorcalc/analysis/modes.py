@@ -280,7 +280,7 @@ class Modes:
 
 
 @old_keywords(n_modes="mode_count")
-def modes_at(rotor_or_system, speed, mode_count=None, solver=None, near=None):
+def modes_at(rotor_or_system, speed, mode_count=None, solver=None, near=None, whirl=None):
     """Damped modes at spin speed ``speed`` (rad/s).
 
     Parameters
@@ -295,6 +295,10 @@ def modes_at(rotor_or_system, speed, mode_count=None, solver=None, near=None):
         From :func:`rotorcalc.solvers.make_solver`; ``"auto"`` (by model size) by default.
     near : complex, optional
         rad/s: the ``mode_count`` modes nearest this eigenvalue instead of the lowest.
+    whirl : float, optional
+        rad/s: read bearing tables over whirl frequency at this frequency for every mode
+        (:mod:`rotorcalc.analysis.own_frequency` iterates it per mode); by default at the
+        spin speed (synchronous coefficients).
 
     Returns
     -------
@@ -305,7 +309,7 @@ def modes_at(rotor_or_system, speed, mode_count=None, solver=None, near=None):
     n = system.rotor.settings.mode_count if mode_count is None else mode_count
     solve = solver if solver is not None else make_solver()
     speed = float(speed)
-    c_mat, k_mat = system.damping(speed), system.stiffness(speed)
+    c_mat, k_mat = system.damping(speed, whirl), system.stiffness(speed, whirl)
     d_mat = c_mat + speed * system.gyroscopic
     basis = system.rigid_body_basis(speed)
     zeros = system.zero_eigenvalues(speed, basis, d_mat)

@@ -12,8 +12,9 @@ from rich.markup import escape
 
 from ..analysis.margins import CAUTION
 from ..errors import InputError
-from ..rules import PLACEMENTS, CouplingRule
-from ..tables import COUPLING_STEP_COLUMNS, SOURCES_CHECK_COLUMNS, source_columns
+from ..rules import COEFFICIENTS_AT, PLACEMENTS, CouplingRule
+from ..tables import (COUPLING_STEP_COLUMNS, SOURCES_CHECK_COLUMNS, SOURCES_OWN_COLUMNS,
+                      source_columns)
 from ..units import to_rpm
 from .common import (console, input_errors, load, print_table, save_figure,
                      stiffness_option, write_outputs)
@@ -23,7 +24,7 @@ EXAMPLE = ('[bold]Example[/]: rotorcalc cross-coupling cases/compressor.toml --p
            '--json screen.json')
 
 
-def _rule(rotor, expected, placement, min_log_dec, min_ratio):
+def _rule(rotor, expected, placement, min_log_dec, min_ratio, coefficients_at):
     """The file's rule (or the defaults) with the command line's changes."""
     rule = rotor.coupling_rule or CouplingRule()
     changes = {}
@@ -39,6 +40,12 @@ def _rule(rotor, expected, placement, min_log_dec, min_ratio):
             changes["min_log_dec"] = min_log_dec
         if min_ratio is not None:
             changes["min_ratio"] = min_ratio
+        if coefficients_at is not None:
+            if coefficients_at not in COEFFICIENTS_AT:
+                raise InputError("--coefficients-at", "is not a known choice",
+                                 value=coefficients_at, expected=" or ".join(COEFFICIENTS_AT),
+                                 kind="choice")
+            changes["coefficients_at"] = coefficients_at
         return dataclasses.replace(rule, **changes)
 
 
@@ -58,6 +65,11 @@ def command(
     min_ratio: Optional[float] = typer.Option(
         None, "--min-ratio", min=0.0, help="Least threshold / expected (2: common practice, "
                                           "from memory)."),
+    coefficients_at: Optional[str] = typer.Option(
+        None, "--coefficients-at", help="Where bearing and seal tables over whirl frequency "
+                                        "are read: synchronous (at the spin speed, the "
+                                        "default) or mode-frequency (each mode at its own "
+                                        "frequency, iterated)."),
     plot: Optional[Path] = typer.Option(None, "--plot", help="Write the screen's picture."),
     json_path: Optional[Path] = typer.Option(None, "--json", help="Write the screen as JSON."),
     csv_path: Optional[Path] = typer.Option(None, "--csv",
@@ -69,7 +81,7 @@ def command(
     forward mode with all the file's sources applied."""
     rotor = load(case)
     check_outputs(case, {"--plot": plot, "--json": json_path, "--csv": csv_path})
-    rule = _rule(rotor, expected, placement, min_log_dec, min_ratio)
+    rule = _rule(rotor, expected, placement, min_log_dec, min_ratio, coefficients_at)
     from ..analysis.coupling_screen import coupling_study
     with busy("sweeping the applied cross-coupling"), input_errors():
         result = coupling_study(dataclasses.replace(rotor, coupling_rule=rule))
@@ -87,10 +99,15 @@ def command(
     if result.sources is not None:
         check = result.sources
         print_table(f"Forward modes with every source applied (need log dec "
-                    f"{check.min_log_dec:g})", SOURCES_CHECK_COLUMNS, check.rows)
+                    f"{check.min_log_dec:g}" + (", each at its own whirl frequency)"
+                                                if check.at_own_frequency else ")"),
+                    SOURCES_OWN_COLUMNS if check.at_own_frequency else SOURCES_CHECK_COLUMNS,
+                    check.rows)
         if not check.passed:
             console.print("[bold red]fail[/] a forward mode is below the required log "
                           "decrement with the file's sources applied", highlight=False)
+    for note in result.notes:
+        console.print(f"[yellow]note[/] {escape(note)}", highlight=False)
     console.print(f"[dim]{CAUTION}[/]", highlight=False)
     write_outputs("cross-coupling", case, result.to_dict(), (), json_path, csv_path,
                   COUPLING_STEP_COLUMNS, screen.rows)

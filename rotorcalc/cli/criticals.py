@@ -129,6 +129,8 @@ def print_margins(result, brief=False):
                           f"applied, a forward mode's log decrement is below "
                           f"{check.min_log_dec:g} ('rotorcalc cross-coupling' lists them)",
                           highlight=False)
+        for note in result.coupling.notes:
+            console.print(f"[yellow]note[/] {escape(note)}", highlight=False)
     for note in table.notes:
         console.print(f"[yellow]note[/] {escape(note)}", highlight=False)
     for gap in result.gaps:

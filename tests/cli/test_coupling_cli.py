@@ -106,3 +106,32 @@ def test_what_if_studies_leave_the_sources_out_unless_told(tmp_path):
     assert speeds[False] == pytest.approx(first_forward(plain), rel=1e-9)
     assert speeds[True] == pytest.approx(first_forward(gas), rel=1e-9)
     assert speeds[True] != pytest.approx(speeds[False], rel=1e-4)
+
+
+def test_a_seal_over_whirl_frequency_is_read_where_the_option_says(tmp_path):
+    """A balance-piston seal whose damping grows with whirl frequency: the synchronous
+    reading is the default (and says so); --coefficients-at mode-frequency iterates each
+    forward mode and shows the synchronous value beside it."""
+    seal = ('\n[[bearing]]\nname = "piston seal"\nat = "balance_piston"\nrole = "seal"\n'
+            'whirl_frequencies = ["0 Hz", "400 Hz"]\nkxx = 0\nkyy = 0\n'
+            'cxx = [["1000 N*s/m", "9000 N*s/m"]]\ncyy = [["1000 N*s/m", "9000 N*s/m"]]\n')
+    case = with_source(tmp_path, 3e6)
+    case.write_text(case.read_text().replace("\n[[cross_coupling]]", seal + "\n[[cross_coupling]]"))
+    plain = runner.invoke(app, ["cross-coupling", str(case), "--json", str(tmp_path / "a.json")])
+    assert plain.exit_code == 0, plain.output
+    assert " ".join(plain.output.split()).count("read them at the spin speed") == 1
+    own = runner.invoke(app, ["cross-coupling", str(case), "--coefficients-at",
+                              "mode-frequency", "--json", str(tmp_path / "b.json")])
+    assert own.exit_code == 0, own.output
+    a = json.loads((tmp_path / "a.json").read_text())["result"]
+    b = json.loads((tmp_path / "b.json").read_text())["result"]
+    assert b["screen"]["coefficients_at"] == "mode-frequency" and not b["screen"]["notes"]
+    modes = b["with_sources"]["modes"]
+    assert all(m["converged"] for m in modes)
+    # the first forward mode whirls near 60 Hz, below the 191 Hz spin speed: less seal
+    # damping there than the synchronous reading gives
+    assert modes[0]["log_dec"] < modes[0]["log_dec_synchronous"]
+    assert b["screen"]["threshold_n_m"] < a["screen"]["threshold_n_m"]
+    assert "Fixed point" in own.output
+    bad = runner.invoke(app, ["cross-coupling", str(case), "--coefficients-at", "own"])
+    assert bad.exit_code == 2 and "--coefficients-at" in bad.output

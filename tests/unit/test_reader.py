@@ -109,6 +109,22 @@ BAD = [
     ('title = "test rotor"', 'title = "test rotor"\ncolour = "red"', "colour", "unknown-key"),
     ('[operating]', '[operatng]', "operatng", "unknown-key"),
     ('length = "300 mm"', 'length = "300 mm', "(syntax)", "syntax"),
+    # tables over speed and whirl frequency: one row per speed, one value per frequency
+    ('cxx = 1000', 'cxx = [[1000, 2000], [1000, 2000]]', "bearing[0].cxx", "length"),
+    ('cxx = 1000', 'whirl_frequencies = ["10 Hz", "100 Hz"]\ncxx = [[1000, 2000]]',
+     "bearing[0].cxx", "length"),
+    ('cxx = 1000', 'whirl_frequencies = ["10 Hz", "100 Hz"]\ncxx = [[1000, 2000], [1000]]',
+     "bearing[0].cxx[1]", "length"),
+    ('cxx = 1000', 'whirl_frequencies = ["100 Hz", "10 Hz"]\ncxx = [[1, 2], [1, 2]]',
+     "bearing[0].whirl_frequencies[1]", "order"),
+    ('cxx = 1000', 'whirl_frequencies = "10 Hz"', "bearing[0].whirl_frequencies", "type"),
+    ('cxx = 1000', 'whirl_frequencies = ["10 Hz", "100 Hz"]\ncxx = [[1000, -2], [1, 2]]',
+     "bearing[0].cxx[0][1]", "range"),
+    ('cxx = 1000', 'whirl_frequencies = ["10 Hz", "100 Hz"]\n'
+     'kxy = [["1e7 N/m", "3e8 N/m"], [0, 0]]\nkyx = [["1e7 N/m", "3e8 N/m"], [0, 0]]',
+     "bearing[0].kxy[0][1]", "physics"),
+    ('max_speed = "3000 rpm"', 'max_speed = "3000 rpm"\n[coupling_screen]\nexpected = "1e6 N/m"'
+     '\ncoefficients_at = "own"', "coupling_screen.coefficients_at", "choice"),
 ]
 
 
@@ -186,3 +202,45 @@ def test_cross_coupling_sources_are_read_apart_from_the_bearings():
     with pytest.raises(InputError) as err:
         parse_rotor(text.replace('density_ratio = 1.8', 'density_ratio = -1'))
     assert err.value.key == "cross_coupling[1].stage.density_ratio"
+
+
+def test_tables_over_speed_and_whirl_frequency():
+    """A row per speed, a value per whirl frequency; read at the spin speed unless a whirl
+    frequency is given; constants and one-way tables mix with two-way ones."""
+    rotor = parse_rotor(mutate('cxx = 1000', 'whirl_frequencies = ["10 Hz", "110 Hz"]\n'
+                               'cxx = [[1000, 2000], ["3000 N*s/m", 4000]]'))
+    b = rotor.bearings[0]
+    assert b.whirl_dependent and not rotor.bearings[1].whirl_dependent
+    assert b.whirl == pytest.approx((2 * math.pi * 10, 2 * math.pi * 110))
+    rpm = 2 * math.pi / 60
+    # at 2000 rpm (mid-table in speed) and 60 Hz (mid-table in frequency): 2500
+    assert b.matrices(2000 * rpm, 2 * math.pi * 60)[1][0, 0] == pytest.approx(2500.0)
+    # synchronous at 3000 rpm = 50 Hz: 3000 + 1000 * 40 / 100
+    assert b.matrices(3000 * rpm)[1][0, 0] == pytest.approx(3400.0)
+    # ends held in both directions
+    assert b.matrices(100 * rpm, 0.0)[1][0, 0] == pytest.approx(1000.0)
+    assert b.outside_whirl_table(2 * math.pi * 200) and not b.outside_whirl_table(100.0)
+
+
+
+def test_the_two_way_table_of_the_input_reference_reads():
+    """The example of docs/input.md is a valid table (it is what users copy)."""
+    import re
+    from pathlib import Path
+    text = (Path(__file__).parents[2] / "docs" / "input.md").read_text()
+    block = next(b for b in re.findall(r"```toml\n(.*?)```", text, re.S)
+                 if "whirl_frequencies" in b)
+    rotor = parse_rotor(BASE + block.replace('"balance_piston"', '"right"'))
+    seal = rotor.bearings[-1]
+    assert seal.whirl_dependent and seal.role == "seal"
+    k, c = seal.matrices(10000 * math.pi / 30, 2 * math.pi * 150)
+    assert k[0, 1] == pytest.approx(3e6) and c[0, 0] == pytest.approx(7500.0)
+
+
+def test_a_what_if_scales_every_point_of_a_two_way_table():
+    from rotorcalc.variants import Variant, apply_variant, parse_change
+    rotor = parse_rotor(mutate('cxx = 1000', 'whirl_frequencies = ["10 Hz", "110 Hz"]\n'
+                               'cxx = [[1000, 2000], [3000, 4000]]'))
+    half = apply_variant(rotor, Variant("half", (parse_change("bearing.A.c *= 0.5"),)))
+    assert half.bearings[0].table("cxx") == ((500.0, 1000.0), (1500.0, 2000.0))
+    assert half.bearings[0].whirl == rotor.bearings[0].whirl
