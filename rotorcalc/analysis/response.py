@@ -167,6 +167,20 @@ class Response:
         return orbit_axes(st[..., 0], st[..., 1])
 
     @property
+    def steady_peaks(self):
+        """The peaks at speeds where every mode is stable: a peak inside an unstable range
+        is no steady-state response and measures no amplification factor."""
+        speeds = np.array([p.speed for p in self.peaks], dtype=float)
+        inside = _flag_unstable(speeds, self.unstable_ranges)
+        return tuple(p for p, bad in zip(self.peaks, inside) if not bad)
+
+    @property
+    def unsteady_peak_speeds(self):
+        """The speeds (rad/s, rising, each once) of the peaks inside unstable ranges."""
+        kept = {p.speed for p in self.steady_peaks}
+        return tuple(sorted({p.speed for p in self.peaks if p.speed not in kept}))
+
+    @property
     def steady(self):
         """False when a mode is unstable at a speed some check reads: there the
         response has no steady state to compare with a limit."""
@@ -267,7 +281,8 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None, un
     if flagged.any():
         spans = ", ".join(f"{to_rpm(lo):.0f}-{to_rpm(hi):.0f} rpm" for lo, hi in unstable)
         warnings.append(Notice(f"a mode is unstable at {spans}: no steady state exists there, "
-                               "the response shown at those speeds is not physical",
+                               "the response shown at those speeds is not physical and its "
+                               "peaks measure no amplification factor",
                                "unstable-response", speeds[flagged]))
     vibration, clearance = _limit_checks(rotor, speeds, st, pv, flagged, cases, probes,
                                          warnings)

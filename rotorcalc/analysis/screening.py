@@ -125,7 +125,7 @@ def screen(rotor: Rotor, speeds=None, orders=None, solver=None, progress=None,
     judgement = Judgement.of(rotor)
     table = separation_margins(crits, rotor.operating, rotor.settings.margin_rule,
                                float(result.speeds[-1]),
-                               peaks=None if response is None else response.peaks,
+                               peaks=None if response is None else response.steady_peaks,
                                judgement=judgement,
                                response_span=None if response is None else
                                (float(response.speeds[0]), float(response.speeds[-1])))

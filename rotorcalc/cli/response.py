@@ -59,6 +59,12 @@ def command(
                 caption=f"Residual: {RESIDUAL_RULE_TEXT}.")
     print_table(f"{rotor.name}: unbalance response peaks", PEAK_COLUMNS, result.peaks,
                 caption="AF = peak speed / half-power bandwidth (0.707 of the peak).")
+    unsteady = result.unsteady_peak_speeds
+    if unsteady:
+        console.print("[yellow]note[/] the peaks at " + ", ".join(
+            f"{to_rpm(w):.0f}" for w in unsteady) + " rpm lie where a mode is unstable: no "
+            "steady state, so no margin takes its amplification factor from them",
+            highlight=False)
     if result.vibration or result.clearance:
         print_table("Vibration (operating range) and clearance (up to trip)", LIMIT_COLUMNS,
                     result.vibration + result.clearance,
