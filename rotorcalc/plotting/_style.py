@@ -66,6 +66,7 @@ BORE = "#f5f7f9"
 ADDED_MASS_HATCH = "#7b8a97"
 BEARING = "#3f4f5e"
 SEAL = "#a0522d"
+SOURCE = "#b1172f"       # a destabilising source (gas forces, a seal given as cross-coupling)
 
 FONT_TICK = 8.5
 FONT_LABEL = 9.5

@@ -300,15 +300,15 @@ def _leader_clear(anchor, rect, boxes):
 
 def _place(ax, text, xy, offsets, taken, colour=st.INK, leader=True):
     """A boxed label by the first of ``offsets`` clear of the curve and of the marks and
-    labels so far (``taken``: those two lists of boxes), its leader clear of the labels;
-    else clear of the marks and labels only.  The label's box joins ``taken``."""
+    labels so far (``taken``: those two lists of boxes), its leader (when it has one) clear
+    of the labels; else clear of the marks and labels only.  The label's box joins ``taken``."""
     size = st.FONT_NOTE + 0.5
     w, h = _size(text, size)
     anchor, frame = lb.points(ax, xy), lb.frame(ax)
     tries = ((dx, dy, lb.box_beside(anchor, w, h, dx, dy), boxes)
              for boxes in (taken[0] + taken[1], taken[1]) for dx, dy in offsets)
     dx, dy, rect, _ = next((t for t in tries if lb.fits(t[2], frame, t[3])
-                            and _leader_clear(anchor, t[2], taken[1])),
+                            and (not leader or _leader_clear(anchor, t[2], taken[1]))),
                            lb.first_fit(anchor, w, h, offsets[:1], [], None) + (None,))
     taken[1].append(rect)
     far = leader and (abs(dy + h / 2) > 14 or abs(dx) > 12)
@@ -335,7 +335,9 @@ def _labels(ax, screen, scale, unit, taken, ratio_line):
     out["threshold"] = _place(ax, text, xy, offsets, taken, colour=THRESHOLD)
     text = f"required minimum \u03b4 {screen.criteria.min_log_dec:g}"
     h = _size(text, st.FONT_NOTE + 0.5)[1]
-    offsets = [(-4 - 40 * k, dy) for k in range(8) for dy in (2, -2 - h)]
+    frame = lb.frame(ax)
+    steps = max(8, int((frame[2] - frame[0]) / 40.0))    # along the whole line if need be
+    offsets = [(-4 - 40 * k, dy) for dy in (2, -2 - h) for k in range(steps)]   # above first
     out["required"] = _place(ax, text, (x_hi, screen.criteria.min_log_dec), offsets, taken,
                              colour=REQUIRED, leader=False)
     out["ratio"] = None

@@ -6,13 +6,13 @@ import math
 from dataclasses import dataclass, field
 
 import numpy as np
-from matplotlib.lines import Line2D
-from matplotlib.patches import Patch, Polygon, Rectangle
+from matplotlib.patches import Polygon, Rectangle
 
 from . import _labels as lb
 from . import _style as st
 from ._artists import Artists
 from ._geometry import disk_size, shaft_diameter
+from ._layout_parts import SEAL_H, draw_seal, draw_source, layout_legend, soft_hatch
 from ._units import MM
 from ..errors import InputError
 
@@ -26,7 +26,6 @@ _TRI_H, _TRI_HALF = 0.22, 0.10
 _MASS_W, _MASS_H = 0.18, 0.11
 _SPRING_H = 0.24
 _GROUND_HALF = 0.15
-_SEAL_W, _SEAL_H = 0.05, 0.07
 
 
 @dataclass(frozen=True)
@@ -44,6 +43,8 @@ class LayoutArtists(Artists):
     bearings : list of list
         The artists of each bearing or seal symbol, in the order of
         ``rotor.bearings``.
+    sources : list
+        One marker per destabilising source (``rotor.sources``), in their order.
     station_axis : SecondaryAxis
         Station numbers (and names) along the top.
     radial_scale : float
@@ -54,6 +55,7 @@ class LayoutArtists(Artists):
     bores: list = field(default_factory=list)
     disks: list = field(default_factory=list)
     bearings: list = field(default_factory=list)
+    sources: list = field(default_factory=list)
     station_axis: object = None
     radial_scale: float = 1.0
 
@@ -77,8 +79,8 @@ def plot_rotor_layout(rotor, *, ax=None, radial_scale=None):
     Shaft sections are drawn as rectangles of their outer diameter (a bore as
     dashed hidden lines, added mass hatched), disks as the uniform disks of
     their mass and inertia, bearings as supports below the shaft (pedestals
-    with mass and spring where given) and seals as blocks at the shaft
-    surface.  Station numbers and names run along the top, the axial
+    with mass and spring where given), seals as blocks at the shaft
+    surface and destabilising sources as rings on the centre line.  Station numbers and names run along the top, the axial
     position in mm along the bottom.
 
     Parameters
@@ -119,20 +121,28 @@ def plot_rotor_layout(rotor, *, ax=None, radial_scale=None):
     sections, bores = _draw_sections(ax, rotor, z)
     disks = _draw_disks(ax, rotor, z, disk_sizes)
     _label_diameters(ax, rotor, z, disk_sizes, ym, mm_per_in)
-    bearings = [_draw_seal(ax, b, rotor, z, ym, mm_per_in) if b.role == "seal" else
+    bearings = [draw_seal(ax, b, rotor, z, ym, mm_per_in) if b.role == "seal" else
                 _draw_bearing(ax, b, rotor, z, frame.y_ground, ym, mm_per_in)
                 for b in rotor.bearings]
+    sources = [draw_source(ax, s, z) for s in rotor.sources]
     _label_disks(ax, rotor, z, disk_sizes, frame.plan)
     _label_bearings(ax, rotor, z, frame.name_y)
     station_axis = _station_axis(ax, rotor, z)
     scale_note = "true scale" if f == 1 else f"radial scale \u00d7{f:g}"
+    note = f"length {length:.0f} mm \u00b7 rotor mass {rotor.mass:.1f} kg \u00b7 {scale_note}"
+    ax.apply_aspect()          # the box the equal aspect leaves, not the one asked for
+    box = lb.frame(ax)
     ax.set_title(rotor.name, fontsize=st.FONT_TITLE, color=st.INK, loc="left", pad=8)
-    ax.set_title(f"length {length:.0f} mm \u00b7 rotor mass {rotor.mass:.1f} kg \u00b7 "
-                 f"{scale_note}", fontsize=st.FONT_NOTE + 0.5, color=st.MUTED, loc="right",
-                 pad=8)
+    if (lb.text_width(rotor.name, st.FONT_TITLE) + lb.text_width(note, st.FONT_NOTE + 0.5)
+            + 12.0 <= box[2] - box[0]):
+        ax.set_title(note, fontsize=st.FONT_NOTE + 0.5, color=st.MUTED, loc="right", pad=8)
+    else:   # side by side they would run into each other: the note joins the axis label
+        ax.set_xlabel(f"Axial position (mm) \u00b7 {note}", fontsize=st.FONT_LABEL,
+                      color=st.INK)
     return LayoutArtists(figure=fig, ax=ax, sections=sections, bores=bores, disks=disks,
-                         bearings=bearings, station_axis=station_axis, radial_scale=f,
-                         legend=_legend(ax, rotor))
+                         bearings=bearings, sources=sources, station_axis=station_axis,
+                         radial_scale=f,
+                         legend=layout_legend(ax, rotor))
 
 
 def _fitted(ax, rotor, z, disk_sizes, f):
@@ -191,7 +201,7 @@ def _frame(rotor, z, disk_sizes, f, width_in):
     r_bear = max([shaft_diameter(rotor, b.station) * MM / 2 for b in plain], default=0.0)
     drop = _PAD_H + _TRI_H + ((_MASS_H + _SPRING_H) if has_support else 0.0)
     y_ground = -(r_bear + drop * ym) if plain else -r_top
-    name_y = {i: _name_level(rotor, b, disk_sizes, y_ground, ym)
+    name_y = {i: _name_level(rotor, b, disk_sizes, y_ground, ym, z, mm_per_in)
               for i, b in enumerate(rotor.bearings)}
     y_bottom = min([y_ground - 0.35 * ym, -r_top - 0.1 * ym] +
                    [y - 0.22 * ym for y in name_y.values()])
@@ -211,7 +221,7 @@ def _draw_sections(ax, rotor, z):
         hatch = "////" if s.added_mass > 0 else None
         rect = Rectangle((z[i], -r), z[i + 1] - z[i], 2 * r, facecolor=st.STEEL,
                          edgecolor=st.STEEL_EDGE, linewidth=0.8, hatch=hatch, zorder=2)
-        _soft_hatch(rect)
+        soft_hatch(rect)
         ax.add_patch(rect)
         sections.append(rect)
         if s.inner_diameter > 0:
@@ -223,14 +233,6 @@ def _draw_sections(ax, rotor, z):
                             zorder=2.2)
             bores.append(lines)
     return sections, bores
-
-
-def _soft_hatch(patch):
-    """Thin, lighter hatching where matplotlib can set it apart from the edge (3.10+)."""
-    if hasattr(patch, "set_hatchcolor"):
-        patch.set_hatchcolor(st.ADDED_MASS_HATCH)
-    if hasattr(patch, "set_hatch_linewidth"):
-        patch.set_hatch_linewidth(0.5)
 
 
 def _draw_disks(ax, rotor, z, sizes):
@@ -327,19 +329,6 @@ def _draw_bearing(ax, bearing, rotor, z, y_ground, ym, xm):
     return artists
 
 
-def _draw_seal(ax, bearing, rotor, z, ym, xm):
-    x = z[bearing.station]
-    r = shaft_diameter(rotor, bearing.station) * MM / 2
-    artists = []
-    for sign in (1, -1):
-        for dx in (-0.045, 0.045):
-            y0 = r if sign > 0 else -r - _SEAL_H * ym
-            rect = Rectangle((x + (dx - _SEAL_W / 2) * xm, y0), _SEAL_W * xm, _SEAL_H * ym,
-                             facecolor=st.SEAL, edgecolor=st.SEAL, linewidth=0.5, zorder=5)
-            artists.append(ax.add_patch(rect))
-    return artists
-
-
 def _disk_label_plan(rotor, z, xm):
     """(disk index, text, row) of every disk label; rows keep neighbours apart."""
     order = sorted(range(len(rotor.disks)), key=lambda i: z[rotor.disks[i].station])
@@ -370,14 +359,20 @@ def _label_disks(ax, rotor, z, sizes, plan):
                                     shrinkA=0, shrinkB=0) if row else None)
 
 
-def _name_level(rotor, bearing, disk_sizes, y_ground, ym):
-    """Height of the top of a bearing's or seal's name: below its symbol and any disk there."""
+def _name_level(rotor, bearing, disk_sizes, y_ground, ym, z, mm_per_in):
+    """Height of the top of a bearing's or seal's name: below its symbol and any disk the
+    name would run into."""
     lowest = y_ground if bearing.role != "seal" else \
-        -shaft_diameter(rotor, bearing.station) * MM / 2 - _SEAL_H * ym
-    for disk, (d, _) in zip(rotor.disks, disk_sizes):
-        if disk.station == bearing.station:
+        -shaft_diameter(rotor, bearing.station) * MM / 2 - SEAL_H * ym
+    half = 0.29 * st.FONT_NOTE * len(_bearing_text(bearing)) / 72.0 * mm_per_in
+    for disk, (d, w) in zip(rotor.disks, disk_sizes):
+        if abs(z[disk.station] - z[bearing.station]) <= half + w / 2:
             lowest = min(lowest, -d / 2)
     return lowest - 0.08 * ym
+
+
+def _bearing_text(bearing):
+    return bearing.name or ("seal" if bearing.role == "seal" else "bearing")
 
 
 def _label_bearings(ax, rotor, z, name_y):
@@ -385,7 +380,7 @@ def _label_bearings(ax, rotor, z, name_y):
     if not order:
         return
     items = [rotor.bearings[i] for i in order]
-    texts = [b.name or ("seal" if b.role == "seal" else "bearing") for b in items]
+    texts = [_bearing_text(b) for b in items]
     centres = [lb.points(ax, (z[b.station], 0.0))[0] for b in items]
     halves = [0.29 * st.FONT_NOTE * len(t) for t in texts]
     rows = lb.stack_rows(centres, halves, gap=3.0)
@@ -413,34 +408,3 @@ def _station_axis(ax, rotor, z):
                 textcoords="offset points", ha="right", va="center", fontsize=st.FONT_NOTE,
                 color=st.MUTED, annotation_clip=False)
     return sec
-
-
-def _legend(ax, rotor):
-    handles = [Patch(facecolor=st.STEEL, edgecolor=st.STEEL_EDGE, linewidth=0.8)]
-    labels = ["shaft section"]
-    if any(s.inner_diameter > 0 for s in rotor.sections):
-        handles.append(Line2D([], [], color=st.STEEL_EDGE, linewidth=0.7,
-                              linestyle=(0, (4, 2))))
-        labels.append("bore (hidden line)")
-    if any(s.added_mass > 0 for s in rotor.sections):
-        patch = Patch(facecolor=st.STEEL, edgecolor=st.STEEL_EDGE, linewidth=0.8, hatch="////")
-        _soft_hatch(patch)
-        handles.append(patch)
-        labels.append("carries added mass")
-    if rotor.disks:
-        handles.append(Patch(facecolor=st.DISK, edgecolor=st.STEEL_EDGE, linewidth=0.8))
-        labels.append("disk (drawn from its mass and inertia)")
-    if any(b.role != "seal" for b in rotor.bearings):
-        handles.append(Line2D([], [], linestyle="none", marker="^", markersize=7,
-                              markerfacecolor=st.PAPER, markeredgecolor=st.BEARING))
-        labels.append("bearing")
-    if any(b.support is not None and b.role != "seal" for b in rotor.bearings):
-        handles.append(Line2D([], [], linestyle="none", marker="s", markersize=6,
-                              markerfacecolor=st.FAINT, markeredgecolor=st.BEARING))
-        labels.append("support mass on spring")
-    if any(b.role == "seal" for b in rotor.bearings):
-        handles.append(Patch(facecolor=st.SEAL, edgecolor=st.SEAL))
-        labels.append("seal")
-    return lb.legend_below(ax, handles, labels, 34,
-                           st.legend_columns(ax, labels, st.FONT_NOTE + 0.5, 1.8, 1.6),
-                           handlelength=1.8, columnspacing=1.6)

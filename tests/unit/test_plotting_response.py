@@ -171,6 +171,17 @@ def test_bode_shades_the_operating_range_on_both_axes():
     assert bare.bands == () and bare.band_labels == () and bare.trip_lines == ()
 
 
+def test_bode_hatches_the_unstable_speeds_on_both_panels_and_says_so_once():
+    import dataclasses
+    out = plot_bode(dataclasses.replace(_response(), unstable_ranges=((5500.0 * RPM,
+                                                                       6000.0 * RPM),)))
+    spans = [a for a in out.unstable_spans if not isinstance(a, Text)]
+    words = [a.get_text() for a in out.unstable_spans if isinstance(a, Text)]
+    assert len(spans) == 2 and all(s.get_hatch() == "///" for s in spans)
+    assert words == [" unstable: no steady state"]
+    assert plot_bode(_response()).unstable_spans == ()
+
+
 def test_bode_on_given_axes_pair_or_single():
     fig = Figure()
     top, bottom = fig.add_subplot(2, 1, 1), fig.add_subplot(2, 1, 2)
