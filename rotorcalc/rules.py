@@ -183,7 +183,15 @@ class CouplingRule:
             return FROM_MEMORY
         return "set by the user"
 
-    def describe(self):
+    def describe_screen(self):
+        """The screen's own criteria."""
         return (f"log decrement at the expected cross-coupling at least {self.min_log_dec:g}, "
-                f"threshold at least {self.min_ratio:g} x the expected amount; with every "
-                f"source applied, each forward mode at least {self.min_log_dec_sources:g}")
+                f"threshold at least {self.min_ratio:g} x the expected amount")
+
+    def describe_sources(self):
+        """The criterion of the check with every source applied."""
+        return (f"with every source applied, each forward mode's log decrement at least "
+                f"{self.min_log_dec_sources:g}")
+
+    def describe(self):
+        return f"{self.describe_screen()}; {self.describe_sources()}"

@@ -215,6 +215,17 @@ def tiny_rotor(rng):
         if rng.random() < 0.25:
             brg["support"] = {"kx": "2e8 N/m", "ky": "3e8 N/m", "mass": "20 kg"}
         doc["bearing"].append(brg)
+    if rng.random() < 0.25:    # a seal tabulated over speed and whirl frequency, and a screen
+        doc["bearing"].append({"name": "wheel seal", "at": d, "role": "seal",
+                               "speeds": ["1000 rpm", "5000 rpm"],
+                               "whirl_frequencies": ["0 Hz", "50 Hz", "150 Hz"],
+                               "kxx": "1e6 N/m", "kyy": "1e6 N/m",
+                               "kxy": [["2e5 N/m", "3e5 N/m", "4e5 N/m"], ["3e5 N/m", "4e5 N/m", "5e5 N/m"]],
+                               "kyx": [["-2e5 N/m", "-3e5 N/m", "-4e5 N/m"], ["-3e5 N/m", "-4e5 N/m", "-5e5 N/m"]],
+                               "cxx": [[500, 800, 1200], [600, 900, 1300]],
+                               "cyy": [[500, 800, 1200], [600, 900, 1300]]})
+        doc["cross_coupling"] = [{"name": "wheel gas", "at": d, "q": "3e5 N/m"}]
+        doc["coupling_screen"] = {"coefficients_at": rng.choice(["synchronous", "mode-frequency"])}
     rpm = rng.choice([1500, 1800, 3000, 3600, 4500])
     doc["operating"] = {"min_speed": f"{int(rpm * 0.8)} rpm", "max_speed": f"{rpm} rpm",
                         "trip_speed": f"{int(rpm * 1.1)} rpm"}
@@ -553,7 +564,8 @@ OPTION_ERRORS = {
                ["--speed-count", "1"], ["--relative-step", "nan"]],
     "cross-coupling": [["--expected", "abc"], ["--expected", "3"], ["--expected", "-1e6 N/m"],
                        ["--expected", "1e6 kg"], ["--placement", "everywhere"],
-                       ["--min-ratio", "-1"], ["--min-log-dec", "nan"]],
+                       ["--min-ratio", "-1"], ["--min-log-dec", "nan"],
+                       ["--coefficients-at", "own"], ["--coefficients-at", ""]],
 }
 OPTION_ERRORS["check"] = OPTION_ERRORS["criticals"]
 COMMON_OPTION_ERRORS = [["--bogus"], ["--json"], ["NOCASE"]]

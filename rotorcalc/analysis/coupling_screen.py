@@ -57,6 +57,7 @@ class CouplingScreen:
     #                          sweep; 0 when it is not positive without cross-coupling)
     criteria: CouplingRule
     notes: tuple = ()        # Notice records: unconverged whirl iterations, table ends
+    expected_from: str = "given to the screen"   # where the expected amount comes from
 
     def __post_init__(self):
         read_only(self)
@@ -75,12 +76,22 @@ class CouplingScreen:
         """The screen's outcome in one sentence, with its rule."""
         threshold = ("not reached within the sweep" if self.threshold is None else
                      f"{self.threshold:.4g} N/m ({self.ratio:.2f} x expected)")
-        where = (" (tables over whirl frequency read at the mode's own)"
+        whirl = ("; tables over whirl frequency read at each mode's own"
                  if self.criteria.coefficients_at == "mode-frequency" else "")
-        return (f"Expected cross-coupling {self.expected:.4g} N/m ({self.placement}){where}: log "
-                f"decrement {self.log_dec_zero:.3f} without it, {self.log_dec_expected:.3f} "
-                f"with it; threshold {threshold}. Verdict: {self.verdict} "
-                f"({self.criteria.describe()}; {self.criteria.label}).")
+        return (f"Expected cross-coupling {self.expected:.4g} N/m ({self.expected_from}; "
+                f"{self.where_applied()}{whirl}): log decrement {self.log_dec_zero:.3f} "
+                f"without it, {self.log_dec_expected:.3f} with it; threshold {threshold}. "
+                f"Verdict: {self.verdict} ({self.criteria.describe_screen()}; "
+                f"{self.criteria.label}).")
+
+    def where_applied(self):
+        """Where the swept amount acts, in words."""
+        if self.placement == "sources":
+            return "applied split over the sources' stations as their own amounts"
+        station = self.shares[0][0]
+        if self.placement == "mid-span":
+            return f"applied at station {station}, mid-span between the outer bearings"
+        return f"applied at station {station}, the first forward mode's largest amplitude"
 
     @property
     def log_dec_zero(self):
@@ -111,7 +122,8 @@ class CouplingScreen:
     def to_dict(self):
         return {
             "speed_rpm": float(to_rpm(self.speed)),
-            "expected_n_m": self.expected, "placement": self.placement,
+            "expected_n_m": self.expected, "expected_from": self.expected_from,
+            "placement": self.placement, "applied": self.where_applied(),
             "stations": [{"station": int(s), "share": float(f)} for s, f in self.shares],
             "applied_n_m": [float(v) for v in self.applied],
             "log_dec": [float(v) for v in self.log_dec],
@@ -121,7 +133,8 @@ class CouplingScreen:
             "threshold_ratio": None if self.threshold is None else self.ratio,
             "criteria": {"min_log_dec": self.criteria.min_log_dec,
                          "min_ratio": self.criteria.min_ratio,
-                         "text": self.criteria.describe(), "label": self.criteria.label},
+                         "text": self.criteria.describe_screen(),
+                         "label": self.criteria.label},
             "coefficients_at": self.criteria.coefficients_at,
             "notes": [n.to_dict() for n in self.notes],
             "verdict": self.verdict, "caution": CAUTION,
@@ -248,6 +261,9 @@ def cross_coupling_screen(rotor, expected=None, placement=None, top_ratio=None,
     criteria = criteria or rotor.coupling_rule or CouplingRule()
     placement = placement or criteria.placement
     top_ratio = top_ratio or criteria.top_ratio
+    expected_from = ("given to the screen" if expected is not None else
+                     "set in [coupling_screen]" if criteria.expected is not None else
+                     "the sum of the file's sources")
     expected = criteria.expected if expected is None else expected
     if placement not in PLACEMENTS:
         raise InputError("coupling_screen.placement", "is not a known placement",
@@ -270,7 +286,7 @@ def cross_coupling_screen(rotor, expected=None, placement=None, top_ratio=None,
     threshold = _threshold(judge, amounts, log_dec, shapes, xtol_share * amounts[-1])
     notes = judge.notes + _synchronous_note(bare, criteria)
     return CouplingScreen(speed, float(expected), placement, shares, amounts, log_dec, freq,
-                          threshold, criteria, tuple(notes))
+                          threshold, criteria, tuple(notes), expected_from)
 
 
 def _synchronous_note(rotor, criteria):
@@ -313,6 +329,7 @@ class SourcesCheck:
     synchronous_log_dec: np.ndarray | None = None
     converged: tuple = ()
     notes: tuple = ()
+    label: str = ""       # where the required log decrement comes from
 
     def __post_init__(self):
         read_only(self)
@@ -331,6 +348,13 @@ class SourcesCheck:
                 for n, f, d, w, ds, ok in zip(self.numbers, self.frequency, self.log_dec,
                                               self.whirl, sync, converged)]
 
+    def summary(self):
+        """The check's outcome in one sentence, with its rule."""
+        lowest = float(np.min(self.log_dec)) if len(self.log_dec) else math.nan
+        return (f"Lowest forward-mode log decrement {lowest:.3f} at {to_rpm(self.speed):.0f} "
+                f"rpm with every source of the file applied; needed {self.min_log_dec:g} "
+                f"({self.label}).")
+
     @property
     def at_own_frequency(self):
         """True when the modes were read at their own whirl frequencies."""
@@ -342,7 +366,7 @@ class SourcesCheck:
 
     def to_dict(self):
         return {"speed_rpm": float(to_rpm(self.speed)), "min_log_dec": self.min_log_dec,
-                "coefficients_at": self.coefficients_at,
+                "label": self.label, "coefficients_at": self.coefficients_at,
                 "modes": [{"mode": int(n), "frequency_hz": float(f / (2 * math.pi)),
                            "log_dec": d, "log_dec_synchronous": ds, "converged": ok,
                            "whirl": w, "passed": ok_d}
@@ -356,6 +380,7 @@ def sources_check(rotor, min_log_dec=None):
     (each at its own whirl frequency when the rule asks, :mod:`.own_frequency`)."""
     rule = rotor.coupling_rule or CouplingRule()
     need = rule.min_log_dec_sources if min_log_dec is None else min_log_dec
+    label = rule.label if min_log_dec is None else "set by the user"
     speed = rotor.operating.max_speed
     system = assemble(rotor)
     modes = modes_at(system, speed, rotor.settings.mode_count)
@@ -368,13 +393,13 @@ def sources_check(rotor, min_log_dec=None):
     if rule.coefficients_at != "mode-frequency" or not system.whirl_dependent:
         return SourcesCheck(speed, need, numbers, frequency, log_dec, whirl,
                             rule.coefficients_at, None, (),
-                            tuple(_synchronous_note(rotor, rule)))
+                            tuple(_synchronous_note(rotor, rule)), label)
     own = [at_own_frequency(system, speed, modes.shapes[i], modes.frequency[i],
                             modes.log_dec[i], rotor.settings.mode_count) for i in keep]
     notes = own_frequency_notes(system, list(zip(numbers, own)), speed, "mode")
     return SourcesCheck(speed, need, numbers, np.array([r.frequency for r in own]),
                         np.array([r.log_dec for r in own]), whirl, rule.coefficients_at,
-                        log_dec, tuple(r.converged for r in own), tuple(notes))
+                        log_dec, tuple(r.converged for r in own), tuple(notes), label)
 
 
 @dataclass(frozen=True)
@@ -388,6 +413,15 @@ class CouplingResult:
     def passed(self):
         return self.screen.verdict == Outcome.PASS and (self.sources is None
                                                         or self.sources.passed)
+
+    def brief(self):
+        """The outcome in a few words, for a table cell."""
+        sc = self.screen
+        ratio = "not reached" if sc.threshold is None else f"{sc.ratio:.2f} x"
+        text = f"{sc.verdict}: log dec {sc.log_dec_expected:.3f}, threshold {ratio}"
+        if self.sources is not None:
+            text += f"; with sources {self.sources.verdict}"
+        return text
 
     @property
     def notes(self):

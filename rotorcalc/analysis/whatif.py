@@ -107,11 +107,14 @@ def match_criticals(criticals, base):
     return out
 
 
-def what_if_rotor(rotor, with_sources=False):
+def what_if_rotor(rotor, with_sources=False, with_screen=False):
     """The rotor a what-if study screens: without its destabilising sources (and their
-    screen) unless ``with_sources``; the what-if questions are about supports and masses."""
+    screen) unless ``with_sources``; the what-if questions are about supports and masses.
+    ``with_screen`` (with the sources only) keeps the file's cross-coupling screen too, so
+    that each variant's verdict includes it (``compare``); the stiffness window and the
+    levers, which screen many perturbed rotors, leave it out."""
     if with_sources:
-        return dataclasses.replace(rotor, coupling_rule=None)
+        return rotor if with_screen else dataclasses.replace(rotor, coupling_rule=None)
     return dataclasses.replace(rotor, sources=(), coupling_rule=None)
 
 
@@ -125,7 +128,7 @@ def compare(rotor, variants, progress=None, with_sources=False):
     progress : callable, optional
         ``progress(done, total)`` after each screening.
     """
-    rotor = what_if_rotor(rotor, with_sources)
+    rotor = what_if_rotor(rotor, with_sources, with_screen=True)
     models = [("base", rotor)] + [(v.name, apply_variant(rotor, v)) for v in variants]
     screenings = []
     for i, (_, model) in enumerate(models):

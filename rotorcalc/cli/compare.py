@@ -133,15 +133,22 @@ def command(
         (v.name, "; ".join(c.text for c in v.changes), s)
         for v, s in zip(variants, comparison.screenings[1:])]
     from ..tables import Column
-    print_table(f"{rotor.name}: variants", [
+    columns = [
         Column("Variant", lambda r: r[0], "{}"),
         Column("Changes", lambda r: r[1], "{}"),
         Column("Criticals", lambda r: len(r[2].margins.rows), "{:d}"),
         Column("Screening", lambda r: {"pass": "passes", "fail": "FAILS",
                                        "incomplete": "NOT COVERED"}[r[2].verdict], "{}"),
-    ], summary, caption="Screening: every verdict 'check' gives (separation margins by log dec "
+    ]
+    screened = comparison.screenings[0].coupling is not None
+    if screened:
+        columns.append(Column("Cross-coupling screen", lambda r: r[2].coupling.brief(), "{}"))
+    print_table(f"{rotor.name}: variants", columns, summary,
+                caption="Screening: every verdict 'check' gives (separation margins by log dec "
                         "and, with unbalance cases, by response; stability up to trip; response "
-                        "limits; coverage).")
+                        "limits; coverage" + ("; the file's cross-coupling screen, at the "
+                        "expected amount, and the check with every source applied)."
+                        if screened else ")."))
     op = rotor.operating
     print_table(f"Critical speeds of each variant (base operating range "
                 f"{to_rpm(op.min_speed):.0f}-{to_rpm(op.max_speed):.0f} rpm)",

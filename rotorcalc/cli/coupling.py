@@ -25,12 +25,13 @@ EXAMPLE = ('[bold]Example[/]: rotorcalc cross-coupling cases/compressor.toml --p
 
 
 def _rule(rotor, expected, placement, min_log_dec, min_ratio, coefficients_at):
-    """The file's rule (or the defaults) with the command line's changes."""
+    """The file's rule (or the defaults) with the command line's changes, and the expected
+    amount the command line gives (None: the rule's or the sources')."""
     rule = rotor.coupling_rule or CouplingRule()
     changes = {}
     with input_errors():
         if expected is not None:
-            changes["expected"] = stiffness_option(expected, "--expected")
+            expected = stiffness_option(expected, "--expected")
         if placement is not None:
             if placement not in PLACEMENTS:
                 raise InputError("--placement", "is not a known placement", value=placement,
@@ -46,7 +47,7 @@ def _rule(rotor, expected, placement, min_log_dec, min_ratio, coefficients_at):
                                  value=coefficients_at, expected=" or ".join(COEFFICIENTS_AT),
                                  kind="choice")
             changes["coefficients_at"] = coefficients_at
-        return dataclasses.replace(rule, **changes)
+        return dataclasses.replace(rule, **changes), expected
 
 
 def command(
@@ -81,10 +82,11 @@ def command(
     forward mode with all the file's sources applied."""
     rotor = load(case)
     check_outputs(case, {"--plot": plot, "--json": json_path, "--csv": csv_path})
-    rule = _rule(rotor, expected, placement, min_log_dec, min_ratio, coefficients_at)
+    rule, expected = _rule(rotor, expected, placement, min_log_dec, min_ratio, coefficients_at)
     from ..analysis.coupling_screen import coupling_study
     with busy("sweeping the applied cross-coupling"), input_errors():
-        result = coupling_study(dataclasses.replace(rotor, coupling_rule=rule))
+        result = coupling_study(dataclasses.replace(rotor, coupling_rule=rule),
+                                expected=expected)
     screen = result.screen
     heading(f"{rotor.name}: cross-coupling screen at {to_rpm(screen.speed):.0f} rpm "
             f"(maximum continuous speed)")
@@ -95,7 +97,8 @@ def command(
                 screen.some_rows(4),
                 caption="Every fourth step shown; --csv writes them all.")
     colour = "green" if screen.verdict == "pass" else "bold red"
-    console.print(f"[{colour}]{screen.verdict}[/] {escape(screen.summary())}", highlight=False)
+    console.print(f"Cross-coupling screen: [{colour}]{screen.verdict}[/]. "
+                  f"{escape(screen.summary())}", highlight=False)
     if result.sources is not None:
         check = result.sources
         print_table(f"Forward modes with every source applied (need log dec "
@@ -103,9 +106,9 @@ def command(
                                                 if check.at_own_frequency else ")"),
                     SOURCES_OWN_COLUMNS if check.at_own_frequency else SOURCES_CHECK_COLUMNS,
                     check.rows)
-        if not check.passed:
-            console.print("[bold red]fail[/] a forward mode is below the required log "
-                          "decrement with the file's sources applied", highlight=False)
+        colour = "green" if check.passed else "bold red"
+        console.print(f"Check with every source applied: [{colour}]{check.verdict}[/]. "
+                      f"{escape(check.summary())}", highlight=False)
     for note in result.notes:
         console.print(f"[yellow]note[/] {escape(note)}", highlight=False)
     console.print(f"[dim]{CAUTION}[/]", highlight=False)

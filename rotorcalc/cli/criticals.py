@@ -121,13 +121,14 @@ def print_margins(result, brief=False):
     if result.coupling is not None:
         screen = result.coupling.screen
         colour = "green" if screen.verdict == "pass" else "bold red"
-        console.print(f"Cross-coupling screen: [{colour}]{screen.verdict}[/] "
+        console.print(f"Cross-coupling screen: [{colour}]{screen.verdict}[/]. "
                       f"{escape(screen.summary())}", highlight=False)
         check = result.coupling.sources
-        if check is not None and not check.passed:
-            console.print(f"[bold red]stability fails[/] with every source of the file "
-                          f"applied, a forward mode's log decrement is below "
-                          f"{check.min_log_dec:g} ('rotorcalc cross-coupling' lists them)",
+        if check is not None:
+            colour = "green" if check.passed else "bold red"
+            console.print(f"Check with every source applied: [{colour}]{check.verdict}[/]. "
+                          f"{escape(check.summary())} ('rotorcalc cross-coupling' lists "
+                          "every mode.)",
                           highlight=False)
         for note in result.coupling.notes:
             console.print(f"[yellow]note[/] {escape(note)}", highlight=False)
