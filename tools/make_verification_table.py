@@ -40,6 +40,9 @@ SECTIONS = (
 
 #: Sections given by test module rather than by test name, in document order
 #: after those above.
+TITLE_12 = ("12. Cross-coupling screen: thresholds of the Jeffcott and rigid rotors, log "
+            "decrement against cross-coupling, the stage estimate, coefficients read at the "
+            "mode's own whirl frequency")
 MODULE_SECTIONS = (
     ("test_unbalance_response.py",
      "9. Unbalance response, amplification factor and residual-unbalance rules"),
@@ -49,11 +52,9 @@ MODULE_SECTIONS = (
      "11. Verdicts: stability onset, rigid-body count, whirl share, undamped models, "
      "rules of industry practice"),
     ("test_coupling_screen.py",
-     "12. Cross-coupling screen: thresholds of the Jeffcott and rigid rotors, log decrement "
-     "against cross-coupling, the stage estimate"),
-    ("test_whirl_frequency.py",
-     "12. Cross-coupling screen: thresholds of the Jeffcott and rigid rotors, log decrement "
-     "against cross-coupling, the stage estimate"),
+     TITLE_12),
+    ("test_whirl_frequency.py",      # the same section: the screen's whirl-frequency reading
+     TITLE_12),
 )
 
 INTRO = """\
@@ -130,7 +131,8 @@ def render(rows, xfails):
     groups = {}
     for row in rows:
         groups.setdefault(section_of(row["test"]), []).append(row)
-    for title in [t for _, t in SECTIONS + MODULE_SECTIONS] + ["Other checks"]:
+    titles = [t for _, t in SECTIONS + MODULE_SECTIONS] + ["Other checks"]
+    for title in dict.fromkeys(titles):      # a title several modules share comes once
         if title not in groups:
             continue
         out.append(f"## {title}\n")
