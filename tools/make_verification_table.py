@@ -54,6 +54,9 @@ MODULE_SECTIONS = (
     ("test_whirl_frequency.py",
      "12. Cross-coupling screen: thresholds of the Jeffcott and rigid rotors, log decrement "
      "against cross-coupling, the stage estimate"),
+    ("test_film.py",
+     "13. Fluid-film bearings: short- and long-bearing limits, the finite bearing at L/D = 1, "
+     "friction, grid convergence"),
 )
 
 INTRO = """\
