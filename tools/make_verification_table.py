@@ -55,6 +55,9 @@ MODULE_SECTIONS = (
      TITLE_12),
     ("test_whirl_frequency.py",      # the same section: the screen's whirl-frequency reading
      TITLE_12),
+    ("test_film.py",
+     "13. Fluid-film bearings: short- and long-bearing limits, the finite bearing at L/D = 1, "
+     "friction, grid convergence"),
 )
 
 INTRO = """\
