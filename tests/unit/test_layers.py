@@ -14,7 +14,7 @@ COMMANDS = sorted((PACKAGE / "cli").glob("*.py"))
 LAYERS = [
     {"errors", "notices", "vocabulary", "units", "threads", "_checks", "_toml"},
     {"rules", "supports", "unbalance", "standards", "statics", "model", "_read_response", "reader",
-     "variants", "fe", "assembly", "solvers", "output"},
+     "variants", "fe", "assembly", "solvers", "output", "bearings"},
     {"analysis"},
     {"tables", "plotting"},
     {"cli"},
