@@ -266,6 +266,36 @@ class Settings:
                              kind="order")
 
 
+#: Where gravity may point (y is vertical in the usual set-up: "-y", the default, is
+#: down), or "none" for a rotor whose weight no bearing carries (a vertical machine).
+GRAVITY_DIRECTIONS = ("-y", "+y", "-x", "+x", "none")
+
+
+@dataclass(frozen=True)
+class StaticLoad:
+    """A steady force and moment on the shaft at a station (a gear mesh, a coupling's
+    misalignment, a magnetic pull), for the statics.
+
+    ``fx``, ``fy`` in N; ``mxz``, ``myz`` in N m: the bending moments in the x-z and y-z
+    planes, each positive where it turns the shaft's slope dx/dz (dy/dz) positive.
+    """
+
+    station: int
+    fx: float = 0.0
+    fy: float = 0.0
+    mxz: float = 0.0
+    myz: float = 0.0
+    name: str = ""
+    key: str = "static_load"
+
+    def __post_init__(self):
+        for field_name in ("fx", "fy", "mxz", "myz"):
+            value = getattr(self, field_name)
+            if not math.isfinite(value):
+                raise InputError(f"{self.key}.{field_name}", "is not a finite number",
+                                 value=value, kind="not-finite")
+
+
 @dataclass(frozen=True)
 class Rotor:
     """A rotor-bearing system.
@@ -300,9 +330,14 @@ class Rotor:
     sources: tuple = ()
     #: The cross-coupling screen the file asks for (``[coupling_screen]``), or None.
     coupling_rule: CouplingRule | None = None
+    #: Steady loads at stations for the statics (``[[static_load]]``), and where gravity
+    #: points (``[statics] gravity``).
+    static_loads: tuple = ()
+    gravity: str = "-y"
 
     def __post_init__(self):
         _freeze(self, "station_names", self.station_names)
+        _one_of("statics.gravity", self.gravity, GRAVITY_DIRECTIONS)
         for part in self.sources:
             if part.role != BearingRole.SOURCE or part.support is not None:
                 raise InputError(f"{part.key}", "is not a destabilising source",
@@ -326,6 +361,7 @@ class Rotor:
                              "(lower 'elements' in some sections)", kind="size")
         for label, group in (("disk", self.disks), ("bearing", self.bearings),
                              ("cross_coupling", self.sources),
+                             ("static_load", self.static_loads),
                              ("unbalance", self.unbalance), ("probe", self.probes),
                              ("clearance", self.clearances)):
             if len(group) > LIMITS["parts"]:
@@ -333,7 +369,7 @@ class Rotor:
                                  expected=f"at most {LIMITS['parts']}", kind="size")
         weights = tuple(w for case in self.unbalance for w in case.weights)
         for group in (self.disks, self.bearings, self.sources, weights, self.probes,
-                      self.clearances):
+                      self.clearances, self.static_loads):
             for part in group:
                 if not (isinstance(part.station, int) and 0 <= part.station <= last):
                     raise InputError(f"{part.key}.at", "names a station that does not exist",

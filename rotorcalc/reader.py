@@ -15,6 +15,7 @@ from pathlib import Path
 
 from . import standards
 from . import units as u
+from ._read_statics import read_statics
 from ._read_response import (CLEARANCE_KEYS, PROBE_KEYS, RESPONSE_KEYS,  # noqa: F401
                              UNBALANCE_KEYS, WEIGHT_KEYS, _clearance, _probe, _response,
                              _unbalance_cases)
@@ -28,7 +29,7 @@ from .model import (COEFFICIENT_NAMES, Bearing, CouplingRule, Disk, MarginRule, 
 from .vocabulary import RENAMED_KEYS, BearingRole, renamed
 
 TOP_KEYS = {"title", "stations", "materials", "section", "disk", "bearing", "cross_coupling",
-            "coupling_screen", "operating",
+            "coupling_screen", "operating", "statics", "static_load",
             "analysis", "unbalance", "probe", "clearance", "response"}
 MATERIAL_KEYS = {"youngs_modulus", "shear_modulus", "poisson_ratio", "density"}
 SECTION_KEYS = {"length", "outer_diameter", "inner_diameter", "material", "elements",
@@ -108,8 +109,10 @@ def rotor_from_dict(data: dict) -> Rotor:
                        for i, t in enumerate(_array_of_tables(data, "clearance")))
     sources = tuple(_source(t, i, names, len(sections), operating)
                     for i, t in enumerate(_array_of_tables(data, "cross_coupling")))
+    gravity, static_loads = read_statics(data, names, len(sections))
     rotor = Rotor(sections=sections, operating=operating, disks=disks, bearings=bearings,
                   sources=sources, coupling_rule=_coupling_rule(data.get("coupling_screen")),
+                  gravity=gravity, static_loads=static_loads,
                   settings=settings, station_names=names, name=title,
                   probes=probes, clearances=clearances,
                   response=_response(data.get("response", {})))

@@ -397,3 +397,15 @@ SOURCES_OWN_COLUMNS = SOURCES_CHECK_COLUMNS[:3] + [
     Column("Log dec (synchronous)", lambda r: float(r[5]), "{:+.4f}", "log_dec_synchronous"),
     Column("Fixed point", lambda r: "yes" if r[6] else "NOT REACHED", "{}", "converged"),
 ] + SOURCES_CHECK_COLUMNS[3:]
+
+
+#: Rows: (name, station, fx N, fy N, magnitude N, share of the applied force) of a
+#: StaticSolution, one per journal bearing.
+STATIC_REACTION_COLUMNS = [
+    Column("Bearing", lambda r: r[0], "{}", "bearing"),
+    Column("Station", lambda r: r[1], "{:d}", "station"),
+    Column("Fx N", lambda r: r[2], "{:.5g}", "fx_n"),
+    Column("Fy N", lambda r: r[3], "{:.5g}", "fy_n"),
+    Column("Load N", lambda r: r[4], "{:.5g}", "magnitude_n"),
+    Column("Share", lambda r: r[5], "{:.1%}", "share_of_applied"),
+]

@@ -64,6 +64,8 @@ POWER = Dimension("power", "W", '"1.2 MW", "1500 hp"', 1e-3, 1e10)
 DENSITY = Dimension("density", "kg/m**3", '"7850 kg/m^3", "0.283 lb/in^3"', 1e-6, 1e6)
 UNBALANCE = Dimension("unbalance", "kg*m", '"12 g*mm", "0.05 oz*in"', 1e-12, 1e3)
 ANGLE = Dimension("angle", "rad", '"30 deg", "0.5 rad"', 1e-12, 1e4)
+FORCE = Dimension("force", "N", '"2.5 kN", "500 lbf"', 1e-6, 1e9)
+MOMENT = Dimension("moment", "N*m", '"150 N*m", "1200 lbf*in"', 1e-9, 1e9)
 
 #: Longest text a quantity may be written with, and the largest power in a unit.
 TEXT_LIMIT = 100

@@ -109,6 +109,19 @@ BAD = [
     ('title = "test rotor"', 'title = "test rotor"\ncolour = "red"', "colour", "unknown-key"),
     ('[operating]', '[operatng]', "operatng", "unknown-key"),
     ('length = "300 mm"', 'length = "300 mm', "(syntax)", "syntax"),
+    # the statics: where gravity points, steady loads at stations
+    ('max_speed = "3000 rpm"', 'max_speed = "3000 rpm"\n[statics]\ngravity = "down"',
+     "statics.gravity", "choice"),
+    ('max_speed = "3000 rpm"', 'max_speed = "3000 rpm"\n[statics]\ngravty = "-y"',
+     "statics.gravty", "unknown-key"),
+    ('max_speed = "3000 rpm"', 'max_speed = "3000 rpm"\n[[static_load]]\nat = 1\nname = "mesh"',
+     "static_load[0].fy", "missing"),
+    ('max_speed = "3000 rpm"', 'max_speed = "3000 rpm"\n[[static_load]]\nat = 1\nfy = "3 kg"',
+     "static_load[0].fy", "unit"),
+    ('max_speed = "3000 rpm"', 'max_speed = "3000 rpm"\n[[static_load]]\nat = 9\nfy = "3 kN"',
+     "static_load[0].at", "station"),
+    ('max_speed = "3000 rpm"', 'max_speed = "3000 rpm"\n[[static_load]]\nat = 1\nmxz = "3 kN"',
+     "static_load[0].mxz", "unit"),
     # tables over speed and whirl frequency: one row per speed, one value per frequency
     ('cxx = 1000', 'cxx = [[1000, 2000], [1000, 2000]]', "bearing[0].cxx", "length"),
     ('cxx = 1000', 'whirl_frequencies = ["10 Hz", "100 Hz"]\ncxx = [[1000, 2000]]',
@@ -244,3 +257,15 @@ def test_a_what_if_scales_every_point_of_a_two_way_table():
     half = apply_variant(rotor, Variant("half", (parse_change("bearing.A.c *= 0.5"),)))
     assert half.bearings[0].table("cxx") == ((500.0, 1000.0), (1500.0, 2000.0))
     assert half.bearings[0].whirl == rotor.bearings[0].whirl
+
+
+def test_statics_input_is_read():
+    rotor = parse_rotor(BASE + '[statics]\ngravity = "-x"\n[[static_load]]\nat = "right"\n'
+                        'name = "gear mesh"\nfx = "2 kN"\nfy = "-500 lbf"\nmyz = "150 N*m"\n')
+    assert rotor.gravity == "-x"
+    load = rotor.static_loads[0]
+    assert (load.station, load.name, load.fx, load.mxz, load.myz) == (2, "gear mesh", 2000.0,
+                                                                      0.0, 150.0)
+    assert load.fy == pytest.approx(-500 * 4.4482216152605)
+    assert parse_rotor(BASE).gravity == "-y" and parse_rotor(BASE).static_loads == ()
+

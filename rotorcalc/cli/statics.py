@@ -1,0 +1,58 @@
+"""``rotorcalc statics``: the rotor at rest under its weight and steady loads."""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Optional
+
+import typer
+from rich.markup import escape
+
+from ..statics import CAUTION
+from ..tables import STATIC_REACTION_COLUMNS
+from ..units import to_rpm
+from .common import (check_output, console, input_errors, load, print_table, save_figure,
+                     speed_option, write_outputs)
+
+EXAMPLE = ("[bold]Example[/]: rotorcalc statics cases/feed_pump.toml --plot sag.png "
+           "--json statics.json")
+
+
+def command(
+    case: Path = typer.Argument(..., help="Rotor description (TOML)."),
+    speed: Optional[str] = typer.Option(
+        None, "--speed", help='Speed at which the journals\' stiffness is read, e.g. "3000 '
+                              'rpm" (default: the maximum continuous speed).'),
+    plot: Optional[Path] = typer.Option(None, "--plot", help="Write the deflected shaft."),
+    json_path: Optional[Path] = typer.Option(None, "--json",
+                                             help="Write the reactions and deflection as JSON."),
+    csv_path: Optional[Path] = typer.Option(None, "--csv", help="Write the reactions as CSV."),
+):
+    """The rotor at rest: the load every journal bearing carries under the rotor's weight
+    (gravity along -y unless [statics] says otherwise) and its [[static_load]] forces and
+    moments, and the shaft's static deflection."""
+    rotor = load(case)
+    for option, path in (("--plot", plot), ("--json", json_path), ("--csv", csv_path)):
+        if path is not None:
+            check_output(path, case, option)
+    at = None if speed is None else speed_option(speed, "--speed")
+    from ..statics import static_solution
+    with input_errors():
+        solution = static_solution(rotor, at)
+    print_table(f"{escape(rotor.name)}: journal loads at rest (gravity {solution.gravity}, "
+                f"stiffness at {to_rpm(solution.speed):.0f} rpm)", STATIC_REACTION_COLUMNS,
+                solution.rows,
+                caption=f"Force of each journal bearing on the shaft. Weight "
+                        f"{solution.weight:.5g} N; applied in all (x, y) "
+                        f"{solution.applied[0]:.5g}, {solution.applied[1]:.5g} N; the "
+                        f"reactions balance it to {solution.balance_error:.1e}.")
+    console.print(escape(solution.summary()), highlight=False)
+    console.print(f"[dim]{CAUTION}[/]", highlight=False)
+    write_outputs("statics", case, solution.to_dict(), (), json_path, csv_path,
+                  STATIC_REACTION_COLUMNS, solution.rows)
+    if plot is not None:
+        save_figure(solution.plot().figure, plot)
+
+
+def register(app: typer.Typer):
+    app.command("statics", help=command.__doc__ + "\n\n" + EXAMPLE)(command)
