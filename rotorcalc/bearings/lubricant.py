@@ -137,10 +137,16 @@ class Lubricant:
 
     def __post_init__(self):
         k = self.key
-        if self.grade is not None and self.points:
+        if self.points is None:
+            object.__setattr__(self, "points", ())
+        try:
+            given = len(self.points) > 0
+        except TypeError:
+            given = True                # not a sequence: the points check says so
+        if self.grade is not None and given:
             raise InputError(f"{k}.points", "is given together with a grade", value=self.points,
                              expected="either a grade or two points", kind="conflict")
-        if self.grade is None and not self.points:
+        if self.grade is None and not given:
             raise InputError(f"{k}.grade", "is missing, and so are the points",
                              expected="an ISO viscosity grade or two (temperature, "
                              "kinematic viscosity) points", kind="missing")

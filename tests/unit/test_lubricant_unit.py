@@ -89,6 +89,15 @@ def test_given_points_are_reproduced_in_either_order():
         assert oil.kinematic_viscosity(t) == pytest.approx(nu, rel=1e-12)
 
 
+def test_points_as_an_array_or_none():
+    oil = Lubricant(points=np.array(POINTS))
+    assert oil.points == POINTS and isinstance(oil.points[0][0], float)
+    assert Lubricant(grade=46, points=None) == Lubricant(grade=46)
+    with pytest.raises(InputError) as info:
+        Lubricant(grade=46, points=np.array(POINTS))
+    assert info.value.key == "lubricant.points" and info.value.kind == "conflict"
+
+
 def test_datasheet_edge_is_the_same_oil_in_si():
     sheet = Lubricant.from_datasheet(40.0, 46.0, 100.0, 6.8)
     assert np.allclose(sheet.points, ((T40, 46e-6), (T100, 6.8e-6)), rtol=1e-15, atol=0.0)
