@@ -2,7 +2,8 @@
 
 ``geometry`` holds the bores (plain, lobed), ``film`` solves Reynolds' equation on
 their lands, ``equilibrium`` finds where the film carries a static load and
-``fixed_film`` linearises the film there into the eight coefficients.  Theory and
+``fixed_film`` linearises the film there into the eight coefficients; ``lubricant``
+gives the film its viscosity at a temperature.  Theory and
 conventions: docs/bearings.md.  Screening only: confirm bearing data against the
 maker's analysis, the applicable standard and a licensed engineer's review.
 """
@@ -10,10 +11,11 @@ maker's analysis, the applicable standard and a licensed engineer's review.
 from .equilibrium import Equilibrium, find_equilibrium
 from .film import CAVITATION_MODELS, FilmOptions, FilmSolution, solve_film
 from .fixed_film import FilmCoefficients, coefficients
+from .lubricant import Lubricant, effective_temperature
 from .geometry import (Groove, Land, LobedBore, PlainBore, elliptical_bore, lobe,
                        offset_halves_bore, plain_bore)
 
 __all__ = ["coefficients", "FilmCoefficients", "find_equilibrium", "Equilibrium",
            "CAVITATION_MODELS", "FilmOptions", "FilmSolution", "solve_film", "Groove", "Land",
            "LobedBore", "PlainBore", "elliptical_bore", "lobe", "offset_halves_bore",
-           "plain_bore"]
+           "plain_bore", "Lubricant", "effective_temperature"]
