@@ -87,7 +87,7 @@ os.environ["MPLBACKEND"] = "Agg"
 
 ROOT = Path(__file__).resolve().parents[1]
 COMMANDS = ["modes", "sweep", "criticals", "check", "response", "layout", "stiffness-map",
-            "compare", "window", "levers", "cross-coupling"]
+            "compare", "window", "levers", "cross-coupling", "statics"]
 KINDS = ["markup", "math-text", "dimensionless-unit", "odd-speed-unit", "extreme-magnitude",
          "impossible-physics", "size-bomb", "encoding", "option-error", "output-fault",
          "structural-mutation"]
@@ -102,13 +102,14 @@ RESTART = 75         # worker exit code: restart me after a hang (fresh interpre
 
 # Which options of each command take a speed, write a file, or draw a picture.
 SPEED_OPT = {"modes": "--speed", "sweep": "--speed-to", "criticals": "--speed-to", "check": "--speed-to",
-             "response": "--orbit-speeds", "stiffness-map": "--curve-speed-to"}
+             "response": "--orbit-speeds", "stiffness-map": "--curve-speed-to", "statics": "--speed"}
 OUT_OPTS = {"modes": ["--json", "--csv", "--plot"], "sweep": ["--plot", "--json", "--csv"],
             "criticals": ["--plot", "--json", "--csv"], "check": ["--plot", "--json", "--csv"],
             "response": ["--json", "--csv", "--plot-bode", "--plot-polar", "--plot-orbits"],
             "layout": ["--plot"], "stiffness-map": ["--plot", "--json", "--csv", "--plot-shapes"],
             "compare": ["--plot", "--json", "--csv"], "window": ["--json", "--csv"],
-            "levers": ["--json", "--csv"], "cross-coupling": ["--plot", "--json", "--csv"]}
+            "levers": ["--json", "--csv"], "cross-coupling": ["--plot", "--json", "--csv"],
+            "statics": ["--plot", "--json", "--csv"]}
 PICTURE_OPTS = {"--plot", "--plot-bode", "--plot-polar", "--plot-orbits", "--plot-shapes"}
 
 
@@ -226,6 +227,9 @@ def tiny_rotor(rng):
                                "cyy": [[500, 800, 1200], [600, 900, 1300]]})
         doc["cross_coupling"] = [{"name": "wheel gas", "at": d, "q": "3e5 N/m"}]
         doc["coupling_screen"] = {"coefficients_at": rng.choice(["synchronous", "mode-frequency"])}
+    if rng.random() < 0.25:    # the statics: gravity somewhere, a steady load
+        doc["statics"] = {"gravity": rng.choice(["-y", "+x", "none"])}
+        doc["static_load"] = [{"name": "coupling pull", "at": 0, "fy": "-800 N", "mxz": "20 N*m"}]
     rpm = rng.choice([1500, 1800, 3000, 3600, 4500])
     doc["operating"] = {"min_speed": f"{int(rpm * 0.8)} rpm", "max_speed": f"{rpm} rpm",
                         "trip_speed": f"{int(rpm * 1.1)} rpm"}
@@ -566,6 +570,7 @@ OPTION_ERRORS = {
                        ["--expected", "1e6 kg"], ["--placement", "everywhere"],
                        ["--min-ratio", "-1"], ["--min-log-dec", "nan"],
                        ["--coefficients-at", "own"], ["--coefficients-at", ""]],
+    "statics": [["--speed", "3000"], ["--speed", "-5 rpm"], ["--speed", "3 kg"]],
 }
 OPTION_ERRORS["check"] = OPTION_ERRORS["criticals"]
 COMMON_OPTION_ERRORS = [["--bogus"], ["--json"], ["NOCASE"]]

@@ -43,6 +43,8 @@ SECTIONS = (
 TITLE_12 = ("12. Cross-coupling screen: thresholds of the Jeffcott and rigid rotors, log "
             "decrement against cross-coupling, the stage estimate, coefficients read at the "
             "mode's own whirl frequency")
+TITLE_13 = ("13. Fluid-film bearings: short- and long-bearing limits, the finite bearing at "
+            "L/D = 1, friction, grid convergence; the lubricant's viscosity and heat balance")
 MODULE_SECTIONS = (
     ("test_unbalance_response.py",
      "9. Unbalance response, amplification factor and residual-unbalance rules"),
@@ -55,9 +57,10 @@ MODULE_SECTIONS = (
      TITLE_12),
     ("test_whirl_frequency.py",      # the same section: the screen's whirl-frequency reading
      TITLE_12),
-    ("test_film.py",
-     "13. Fluid-film bearings: short- and long-bearing limits, the finite bearing at L/D = 1, "
-     "friction, grid convergence"),
+    ("test_film.py", TITLE_13),
+    ("test_lubricant.py", TITLE_13),
+    ("test_statics.py",
+     "14. Statics: journal reactions and deflection against beam formulas, the lever rule"),
 )
 
 INTRO = """\
