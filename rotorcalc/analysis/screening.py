@@ -70,11 +70,13 @@ class Screening:
         return Outcome.FAIL if self.failed else (Outcome.INCOMPLETE if self.gaps else Outcome.PASS)
 
     def plot(self, *, ax=None):
-        """The whirl-speed map of this screening, criticals marked by verdict
-        (:func:`rotorcalc.plotting.plot_whirl_speed_map`); returns its artists record."""
+        """The whirl-speed map of this screening, titled with the rotor's name and the
+        criticals marked by verdict (:func:`rotorcalc.plotting.plot_whirl_speed_map`);
+        returns its artists record."""
         from ..plotting import plot_whirl_speed_map
         return plot_whirl_speed_map(self.sweep, self.criticals, self.rotor.operating,
-                               self.rotor.settings.orders, ax=ax, margins=self.margins)
+                                    self.rotor.settings.orders, ax=ax, margins=self.margins,
+                                    title=self.rotor.name)
 
     def to_dict(self):
         """The screening's one document, written by ``criticals``, ``check`` and ``sweep``

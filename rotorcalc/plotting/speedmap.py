@@ -57,7 +57,7 @@ class SpeedMapArtists(WhirlMapArtists):
 
 @st.literal_text
 def plot_whirl_speed_map(sweep, criticals=(), operating=None, orders=(1.0,), *, ax=None,
-                    margins=None, freq_max=None):
+                    margins=None, freq_max=None, title=None):
     """Draw the whirl-speed map (Campbell diagram) of a speed sweep.
 
     Each tracked branch is drawn as a curve of damped natural frequency over
@@ -90,6 +90,8 @@ def plot_whirl_speed_map(sweep, criticals=(), operating=None, orders=(1.0,), *, 
         two lowest branches and 1.08 x the highest critical frequency, so one
         very high branch cannot squash the map; branches above are clipped
         and counted in the key.
+    title : str, optional
+        What the map is of (the rotor's name), after "Whirl-speed map: ".
 
     Returns
     -------
@@ -122,8 +124,8 @@ def plot_whirl_speed_map(sweep, criticals=(), operating=None, orders=(1.0,), *, 
     markers = _critical_markers(ax, criticals, verdicts)
     st.label_axes(ax, "Spin speed (rpm)", "Damped natural frequency (cpm)")
     # Room for the range labels above the frame.
-    ax.set_title("Whirl-speed map", fontsize=st.FONT_TITLE, color=st.INK, loc="left",
-                 pad=6 + 10 * label_rows)
+    ax.set_title("Whirl-speed map" + ("" if not title else f": {title}"),
+                 fontsize=st.FONT_TITLE, color=st.INK, loc="left", pad=6 + 10 * label_rows)
     legend = _legend(ax, orders, operating, criticals, verdicts, margins, hidden, top)
     labels = _label_criticals(ax, criticals, order_labels)
     return SpeedMapArtists(

@@ -364,3 +364,10 @@ def test_plotting_modules_choose_no_backend_and_avoid_pyplot():
             else:
                 continue
             assert not any(n.startswith("matplotlib.pyplot") for n in names), source.name
+
+
+def test_whirl_speed_map_names_what_it_is_of():
+    assert plot_whirl_speed_map(_sweep()).ax.get_title(loc="left") == "Whirl-speed map"
+    named = plot_whirl_speed_map(_sweep(), title="Brine pump 3")
+    assert named.ax.get_title(loc="left") == "Whirl-speed map: Brine pump 3"
+
