@@ -23,16 +23,13 @@ import scipy.sparse.linalg as spla
 
 from .assembly import assemble
 from .errors import InputError
-from .vocabulary import BearingRole
+from .vocabulary import CAUTION, BearingRole
 
 #: Standard gravity, m/s^2 (a load is also reported as the mass it carries, load / g).
 GRAVITY = 9.80665
 #: Unit vectors (x, y) of the gravity directions a rotor file may name.
 DIRECTIONS = {"-y": (0.0, -1.0), "+y": (0.0, 1.0), "-x": (-1.0, 0.0), "+x": (1.0, 0.0),
               "none": (0.0, 0.0)}
-#: The caution every statics document carries.
-CAUTION = ("Screening result only: confirm against the applicable standard, the purchase "
-           "specification, local codes and a licensed engineer's review.")
 
 
 @dataclass(frozen=True)

@@ -15,6 +15,10 @@ from __future__ import annotations
 import warnings
 from enum import Enum
 
+#: The caution every verdict and screening document carries (one text for every layer).
+CAUTION = ("Screening result only: confirm against the applicable standard, the purchase "
+           "specification, local codes and a licensed engineer's review.")
+
 #: The version in which the old spellings stop being read.
 OLD_SPELLINGS_UNTIL = "0.3"
 

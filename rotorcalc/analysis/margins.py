@@ -39,13 +39,11 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..vocabulary import Side, Verdict, renamed
+from ..vocabulary import CAUTION, Side, Verdict, renamed  # noqa: F401 (CAUTION re-exported)
 from ..model import MarginRule, OperatingRange
 from ..units import to_rpm
 from .criticals import CriticalSpeed
 
-CAUTION = ("Screening result only: confirm against the applicable standard, the purchase "
-           "specification, local codes and a licensed engineer's review.")
 
 
 def af_from_log_dec(log_dec):

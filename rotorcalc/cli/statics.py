@@ -11,8 +11,9 @@ from rich.markup import escape
 from ..statics import CAUTION
 from ..tables import STATIC_REACTION_COLUMNS
 from ..units import to_rpm
-from .common import (check_output, console, input_errors, load, print_table, save_figure,
-                     speed_option, write_outputs)
+from .common import (console, input_errors, load, print_table, save_figure, speed_option,
+                     write_outputs)
+from .whatif_common import check_outputs
 
 EXAMPLE = ("[bold]Example[/]: rotorcalc statics cases/feed_pump.toml --plot sag.png "
            "--json statics.json")
@@ -32,9 +33,7 @@ def command(
     (gravity along -y unless [statics] says otherwise) and its [[static_load]] forces and
     moments, and the shaft's static deflection."""
     rotor = load(case)
-    for option, path in (("--plot", plot), ("--json", json_path), ("--csv", csv_path)):
-        if path is not None:
-            check_output(path, case, option)
+    check_outputs(case, {"--plot": plot, "--json": json_path, "--csv": csv_path})
     at = None if speed is None else speed_option(speed, "--speed")
     from ..statics import static_solution
     with input_errors():
