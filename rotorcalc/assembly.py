@@ -319,7 +319,11 @@ def assemble(rotor: Rotor) -> SystemMatrices:
         gyro.add(dofs, disk_gyroscopic(disk.polar_inertia))
 
     links, support_dofs, next_dof = [], [], n_shaft
-    for bearing in rotor.bearings:
+    for i, bearing in enumerate(rotor.bearings):
+        if bearing.film is not None and not bearing.coefficients:
+            raise InputError(f"{bearing.key}.film", "has no coefficients computed yet",
+                             expected="a rotor read by read_rotor, or passed through "
+                                      "rotorcalc.bearings.tabulate_films", kind="missing")
         shaft = DOF_PER_NODE * m.station_nodes[bearing.station] + np.arange(2)
         if bearing.support is None:
             links.append(_Link(bearing, shaft))

@@ -15,7 +15,9 @@ from pathlib import Path
 
 from . import standards
 from . import units as u
+from ._read_film import read_film
 from ._read_statics import read_statics
+from .bearings.tabulate import tabulate_films
 from ._read_response import (CLEARANCE_KEYS, PROBE_KEYS, RESPONSE_KEYS,  # noqa: F401
                              UNBALANCE_KEYS, WEIGHT_KEYS, _clearance, _probe, _response,
                              _unbalance_cases)
@@ -37,7 +39,7 @@ SECTION_KEYS = {"length", "outer_diameter", "inner_diameter", "material", "eleme
 DISK_KEYS = {"at", "name", "mass", "polar_inertia", "transverse_inertia", "inertia_as_given",
              "outer_diameter",
              "inner_diameter", "width", "material"}
-BEARING_KEYS = {"at", "name", "role", "speeds", "whirl_frequencies", "support",
+BEARING_KEYS = {"at", "name", "role", "speeds", "whirl_frequencies", "support", "film", "oil",
                 *COEFFICIENT_NAMES}
 SUPPORT_KEYS = {"mass", "kx", "ky", "cx", "cy"}
 OPERATING_KEYS = {"min_speed", "max_speed", "trip_speed"}
@@ -116,6 +118,7 @@ def rotor_from_dict(data: dict) -> Rotor:
                   settings=settings, station_names=names, name=title,
                   probes=probes, clearances=clearances,
                   response=_response(data.get("response", {})))
+    rotor = tabulate_films(rotor)
     unbalance = _unbalance_cases(data.get("unbalance", {}), names, len(sections), rotor)
     return dataclasses.replace(rotor, unbalance=unbalance) if unbalance else rotor
 
@@ -226,8 +229,26 @@ def _bearing(table, i, names, n_sections):
     if role not in tuple(BearingRole):
         raise InputError(f"{where}.role", "is not a known role", value=role,
                          expected=" or ".join(BearingRole), kind="choice")
-    speeds, whirl, coefficients = _coefficient_tables(table, where)
-    for direct in ("kxx", "kyy"):
+    film = None
+    if "film" in table:
+        given = sorted(set(table) & {"speeds", "whirl_frequencies", *COEFFICIENT_NAMES})
+        if given:
+            raise InputError(f"{where}.{given[0]}", "is given for a bearing computed from its "
+                             "geometry", expected="either coefficient tables or a "
+                             "[bearing.film] table, not both", kind="conflict")
+        if role != BearingRole.BEARING:
+            raise InputError(f"{where}.role", "is not a journal bearing, but has a film",
+                             value=role, expected="role 'bearing' (or no role) for a film "
+                             "computed from its geometry", kind="choice")
+        film = read_film(table, where)
+        speeds, whirl, coefficients = (), (), {}
+    elif "oil" in table:
+        raise InputError(f"{where}.oil", "is given without a film", expected="a "
+                         "[bearing.film] table beside the oil (or no oil for a table "
+                         "bearing)", kind="missing")
+    else:
+        speeds, whirl, coefficients = _coefficient_tables(table, where)
+    for direct in () if film else ("kxx", "kyy"):
         if direct not in coefficients:
             raise InputError(f"{where}.{direct}", "is missing",
                              expected="both direct stiffnesses kxx and kyy (0 is allowed)",
@@ -243,7 +264,7 @@ def _bearing(table, i, names, n_sections):
                           cx=_quantity(st, "cx", u.DAMPING, sw, default=0.0),
                           cy=_quantity(st, "cy", u.DAMPING, sw, default=0.0), key=sw)
     return Bearing(station=station, coefficients=coefficients, speeds=speeds, name=name,
-                   role=role, support=support, key=where, whirl=whirl)
+                   role=role, support=support, key=where, whirl=whirl, film=film)
 
 
 def _coefficient_tables(table, where):

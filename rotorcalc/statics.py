@@ -8,13 +8,22 @@ default: y is vertical, up) plus the ``[[static_load]]`` forces and moments, and
 shaft, journal and support stiffness at the maximum continuous speed (or the speed asked
 for).  On two journals the reactions follow the lever rule whatever the stiffness
 (statically determinate); on three or more they follow the shaft's and the bearings'
-stiffness, as a continuous beam on springs does.  Bearings with a nonlinear
-load-deflection relation (fluid films from their geometry) are not iterated here yet.
+stiffness, as a continuous beam on springs does.
+
+Journal bearings computed from their geometry (``Bearing.film``) carry their load by a
+nonlinear film: Newton's method on the journal loads.  Each step linearises every film
+about its equilibrium under the current load ``W`` (position ``p``, tangent stiffness
+``K``), so the film's force on the shaft is ``-W - K (q - p)`` at journal displacement
+``q``, solves the linear rotor for ``q`` and takes the new load ``W + K (q - p)``; it
+stops when no load changes by more than :data:`LOAD_TOLERANCE` of the applied force.  On
+two journals the first step is exact (the lever rule); more take a few steps.  The
+journals' film states (eccentricity, minimum film, temperature) come with the solution.
 """
 
 from __future__ import annotations
 
 import dataclasses
+import functools
 import math
 from dataclasses import dataclass
 
@@ -25,6 +34,12 @@ from .assembly import assemble
 from .errors import InputError
 from .vocabulary import CAUTION, BearingRole
 
+#: Newton on film journal loads stops when no load changes by more than this share of
+#: the applied force, within :data:`FILM_STEPS` steps.
+LOAD_TOLERANCE = 1e-7
+FILM_STEPS = 30
+#: Stiffness (N/m) of the rigid start that gives the films their first loads.
+STIFF_START = 1e11
 #: Standard gravity, m/s^2 (a load is also reported as the mass it carries, load / g).
 GRAVITY = 9.80665
 #: Unit vectors (x, y) of the gravity directions a rotor file may name.
@@ -63,6 +78,9 @@ class StaticSolution:
     reactions: np.ndarray
     applied: np.ndarray
     weight: float            # the rotor's weight, N (mass times g)
+    #: (bearing index, FilmCoefficients) of each journal computed from its geometry:
+    #: its equilibrium in the film under the static load, and the coefficients there.
+    films: tuple = ()
 
     @property
     def balance_error(self):
@@ -116,19 +134,38 @@ class StaticSolution:
         }
 
 
-def static_solution(rotor, speed=None):
+def static_solution(rotor, speed=None, *, starts=None, check_step=False):
     """Solve the rotor at rest on its journal bearings (module docstring).
+
+    Parameters
+    ----------
+    rotor : Rotor
+    speed : float, optional
+        rad/s; the maximum continuous speed by default.
+    starts : dict, optional
+        ``{bearing index: FilmCoefficients}`` of film journals at a nearby state: their
+        journal positions and temperatures start this solve's film searches.
+    check_step : bool
+        Check the film coefficients' perturbation step (see
+        :func:`rotorcalc.bearings.coefficients`).
 
     Raises
     ------
     InputError
-        When the journals leave the rotor free to move under the loads.
+        When the journals leave the rotor free to move under the loads, or when film
+        journals are asked to carry a load at rest.
     """
     journals = [i for i, b in enumerate(rotor.bearings) if b.role == BearingRole.BEARING]
     hanging = dataclasses.replace(rotor, bearings=tuple(rotor.bearings[i] for i in journals),
                                   unbalance=(), sources=())
-    system = assemble(hanging)
     omega = rotor.operating.max_speed if speed is None else float(speed)
+    films = [k for k, b in enumerate(hanging.bearings) if b.film is not None]
+    if films and omega == 0.0:
+        raise InputError("speed", "is zero, but film bearings carry no steady load at rest",
+                         value=0.0, expected="a running speed (the film needs it)",
+                         kind="range")
+    system = assemble(_linearised(hanging, {k: (np.eye(2) * STIFF_START, None, None)
+                                            for k in films}))
     gx, gy = DIRECTIONS[rotor.gravity]
     accel = np.zeros(system.n_dof)
     tdofs = system.translation_dofs
@@ -141,11 +178,21 @@ def static_solution(rotor, speed=None):
     u = np.zeros(system.n_dof)
     if np.any(force):
         u = _solve(system.stiffness(omega).tocsc(), force)
+    states = {}
+    if films:
+        u, system, states = _film_newton(hanging, films, omega, force, u, system,
+                                         {journals.index(i): c for i, c in
+                                          (starts or {}).items() if i in journals},
+                                         check_step, float(np.linalg.norm(applied)))
     reactions = []
-    for link in system.links:
-        k, _ = link.bearing.matrices(omega)
-        rel = u[link.dofs[:2]] - (u[link.dofs[2:]] if len(link.dofs) == 4 else 0.0)
-        reactions.append(-(k @ rel))
+    for k, link in enumerate(system.links):
+        stiffness, _ = link.bearing.matrices(omega)
+        rel = _relative(u, link)
+        if k in states:     # the film's force, linearised about its equilibrium
+            eq = states[k].equilibrium
+            reactions.append(-eq.load - stiffness @ (rel - eq.position))
+        else:
+            reactions.append(-(stiffness @ rel))
     reactions = np.array(reactions).reshape(-1, 2)
     # a component within roundoff of nothing is nothing (x reactions under gravity in y)
     reactions[np.abs(reactions) <= 1e-12 * max(float(np.linalg.norm(applied)), 1e-300)] = 0.0
@@ -156,7 +203,63 @@ def static_solution(rotor, speed=None):
         np.stack([u[node_dofs + 2], u[node_dofs + 3]], axis=1),
         system.mesh.station_nodes,
         tuple((i, rotor.bearings[i].name, rotor.bearings[i].station) for i in journals),
-        reactions, applied, float(rotor.mass * GRAVITY))
+        reactions, applied, float(rotor.mass * GRAVITY),
+        tuple((journals[k], states[k]) for k in sorted(states)))
+
+
+def _relative(u, link):
+    """Journal displacement relative to its support (or to ground)."""
+    return u[link.dofs[:2]] - (u[link.dofs[2:]] if len(link.dofs) == 4 else 0.0)
+
+
+def _linearised(rotor, springs):
+    """``rotor`` with the bearings ``springs`` keys replaced by constant stiffness
+    (``{index: (K, ...)}``), supports kept."""
+    bearings = list(rotor.bearings)
+    for k, (stiffness, _, _) in springs.items():
+        b = bearings[k]
+        bearings[k] = type(b)(station=b.station, name=b.name, support=b.support, key=b.key,
+                              film=b.film,
+                              coefficients=dict(zip(("kxx", "kxy", "kyx", "kyy"),
+                                                    ((float(v),) for v in stiffness.ravel()))))
+    return dataclasses.replace(rotor, bearings=tuple(bearings))
+
+
+def _film_newton(rotor, films, omega, force, u, system, starts, check_step, scale):
+    """Newton on the film journals' loads (module docstring): (u, system, states)."""
+    loads = {k: -_reaction_of_stiff(u, system.links[k]) for k in films}
+    states = {}
+    for _ in range(FILM_STEPS):
+        for k in films:
+            near = states.get(k) or starts.get(k)
+            states[k] = rotor.bearings[k].film.coefficients(
+                omega, tuple(loads[k]), check_step=check_step,
+                start=None if near is None else near.equilibrium.position,
+                temperature=None if near is None else near.temperature)
+        system = assemble(_linearised(rotor, {k: (states[k].stiffness, None, None)
+                                              for k in films}))
+        pre = np.zeros(system.n_dof)
+        for k in films:
+            link, eq = system.links[k], states[k].equilibrium
+            offset = states[k].stiffness @ eq.position - eq.load
+            pre[link.dofs[:2]] += offset
+            if len(link.dofs) == 4:
+                pre[link.dofs[2:]] -= offset
+        u = _solve(system.stiffness(omega).tocsc(), force + pre)
+        new = {k: states[k].equilibrium.load + states[k].stiffness @
+               (_relative(u, system.links[k]) - states[k].equilibrium.position) for k in films}
+        change = max(float(np.linalg.norm(new[k] - loads[k])) for k in films)
+        loads = new
+        if change <= LOAD_TOLERANCE * max(scale, 1e-300):
+            return u, system, states
+    raise InputError("bearing", "film journals found no static equilibrium together "
+                     f"(the loads still changed by {change:.3g} N after {FILM_STEPS} Newton "
+                     "steps)", value=None, expected="film bearings that can carry the "
+                     "rotor's weight and static loads at this speed", kind="physics")
+
+
+def _reaction_of_stiff(u, link):
+    return -(link.bearing.matrices(0.0)[0] @ _relative(u, link))
 
 
 def _solve(stiffness, force):
@@ -186,6 +289,13 @@ def journal_static_loads(rotor, speed=None):
         says, and the file's steady loads left out: the residual-unbalance rule asks for
         the weight a journal carries.
     """
+    return dict(_journal_static_loads(rotor, speed))
+
+
+@functools.lru_cache(maxsize=16)
+def _journal_static_loads(rotor, speed):
+    """Memoised: the residual-unbalance rule asks once per weight, and a film journal's
+    load costs film solves."""
     journals = [i for i, b in enumerate(rotor.bearings) if b.role == BearingRole.BEARING]
     if len({rotor.bearings[i].station for i in journals}) < 2:
         return {}

@@ -65,6 +65,12 @@ class Bearing:
         rad/s, strictly increasing: the whirl frequencies of the two-way tables;
         empty when no coefficient depends on the whirl frequency.
     support : Support or None
+    film : object, optional
+        The bearing model the tables were computed from (a
+        :class:`rotorcalc.bearings.FilmJournal`), or None for tables given as they are.
+        A film bearing's ``speeds`` and ``coefficients`` are the grid that
+        :func:`rotorcalc.bearings.tabulate_films` computed under the rotor's static
+        loads; ``film_record`` says how (loads, film states, interpolation error).
 
     Notes
     -----
@@ -81,6 +87,8 @@ class Bearing:
     support: Support | None = None
     key: str = "bearing"
     whirl: tuple = ()
+    film: object = None
+    film_record: object = dataclasses.field(default=None, compare=False, repr=False)
 
     def __post_init__(self):
         _one_of(f"{self.key}.role", self.role, tuple(BearingRole))
@@ -123,7 +131,9 @@ class Bearing:
                         raise InputError(f"{self.key}.{name}{at}",
                                          f"direct {what} must not be negative", value=v,
                                          kind="range")
-        if self.role != BearingRole.SOURCE:   # a source may feed energy: that is its point
+        # a source may feed energy: that is its point; a film computed from its geometry
+        # is what its physics makes it (a lightly loaded plain film may have kxx < 0)
+        if self.role != BearingRole.SOURCE and self.film is None:
             self._check_principal(speeds)
 
     def _check_axis(self, axis, values):

@@ -66,6 +66,11 @@ UNBALANCE = Dimension("unbalance", "kg*m", '"12 g*mm", "0.05 oz*in"', 1e-12, 1e3
 ANGLE = Dimension("angle", "rad", '"30 deg", "0.5 rad"', 1e-12, 1e4)
 FORCE = Dimension("force", "N", '"2.5 kN", "500 lbf"', 1e-6, 1e9)
 MOMENT = Dimension("moment", "N*m", '"150 N*m", "1200 lbf*in"', 1e-9, 1e9)
+# a bare number is refused for a temperature (kelvin or Celsius would both be a guess)
+TEMPERATURE = Dimension("temperature", "K", '"50 degC", "120 degF", "323 K"', 1.0, 1000.0)
+KINEMATIC_VISCOSITY = Dimension("kinematic viscosity", "m**2/s", '"46 mm^2/s", "46 cSt"',
+                                1e-7, 1e-1)
+GAUGE_PRESSURE = Dimension("pressure", "Pa", '"0.15 MPa", "1.5 bar", "20 psi"', 1e-3, 1e9)
 
 #: Longest text a quantity may be written with, and the largest power in a unit.
 TEXT_LIMIT = 100
@@ -99,6 +104,8 @@ def parse(value, dim: Dimension, key: str) -> float:
         number = float(value)
         if dim is SPEED and number != 0.0:
             raise _bare_speed(key, value)
+        if dim is TEMPERATURE:
+            raise _bare_temperature(key, value)
     elif isinstance(value, str):
         number = _parse_text(value, dim, key, expected)
     else:
@@ -165,15 +172,25 @@ def _bare_speed(key, value):
                                '"314 rad/s" (only 0 may be written without one)', kind="unit")
 
 
+def _bare_temperature(key, value):
+    return InputError(key, "needs a unit: a bare number could be kelvin or Celsius",
+                      value=value, expected='a temperature with its unit, such as "50 degC", '
+                      '"120 degF" or "323 K"', kind="unit")
+
+
 def _to_si(quantity, dim, key, text, expected):
     if not isinstance(quantity, _UREG.Quantity):
         number = float(quantity)  # plain number written as text: SI
         if dim is SPEED and number != 0.0:
             raise _bare_speed(key, text)
+        if dim is TEMPERATURE:
+            raise _bare_temperature(key, text)
         return number
     if str(quantity.units) == "dimensionless":   # a plain number: SI (speeds excepted)
         if dim is SPEED and quantity.magnitude != 0:
             raise _bare_speed(key, text)
+        if dim is TEMPERATURE:
+            raise _bare_temperature(key, text)
         return float(quantity.magnitude)
     if quantity.dimensionless and dim is not ANGLE:
         # "50 percent", "500 mm/m", "500000 ppm": a ratio, not a length or a speed

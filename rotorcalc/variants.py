@@ -14,6 +14,12 @@ Targets:
   (kxx, kyy), ``cdirect`` (cxx, cyy), ``all``.  Scaling scales every table
   value; setting replaces the table by a constant.
 * ``bearing.SEL.support.FIELD``: mass, kx, ky, cx, cy.
+* ``bearing.SEL.film.FIELD`` for a bearing computed from its geometry: diameter,
+  length, clearance, preload, groove_width, feed_pressure; ``bearing.SEL.oil.FIELD``:
+  grade (set only), inlet_temperature, film_temperature (set only, with a unit).  The
+  bearing's coefficients are computed again, under the changed rotor's own loads, once
+  every change of the variant is in.  Its coefficients themselves cannot be changed
+  (no bearing has a film whose stiffness alone halves): change its geometry or oil.
 * ``section[i].FIELD`` (or ``section.*``): length, outer_diameter,
   inner_diameter, added_mass.
 * ``disk[i].FIELD`` or ``disk.NAME.FIELD`` (or ``disk.*``): mass,
@@ -36,6 +42,7 @@ from . import units as u
 from .errors import InputError
 from .model import COEFFICIENT_NAMES, Rotor
 from .supports import scale_table
+from .bearings.tabulate import tabulate_films
 from .reader import check_keys, load_toml, locate, read_rotor
 
 GROUPS = {
@@ -51,6 +58,10 @@ SUPPORT_FIELDS = {"mass": u.MASS, "kx": u.STIFFNESS, "ky": u.STIFFNESS, "cx": u.
 SECTION_FIELDS = {"length": u.LENGTH, "outer_diameter": u.LENGTH, "inner_diameter": u.LENGTH,
                   "added_mass": u.MASS}
 DISK_FIELDS = {"mass": u.MASS, "polar_inertia": u.INERTIA, "transverse_inertia": u.INERTIA}
+FILM_FIELDS = {"diameter": u.LENGTH, "length": u.LENGTH, "clearance": u.LENGTH,
+               "preload": None, "groove_width": u.ANGLE, "feed_pressure": u.GAUGE_PRESSURE}
+OIL_FIELDS = {"grade": None, "inlet_temperature": u.TEMPERATURE,
+              "film_temperature": u.TEMPERATURE}
 OPERATING_FIELDS = {"min_speed": u.SPEED, "max_speed": u.SPEED, "trip_speed": u.SPEED}
 
 _CHANGE = re.compile(r"^\s*(?P<path>[A-Za-z0-9_.*\[\]\- ]+?)\s*(?P<op>\*=|=)\s*(?P<value>.+?)\s*$")
@@ -210,6 +221,14 @@ def _change_bearings(rotor, change, parts, head_index):
                              kind="syntax")
         chosen, rest = _pick(rotor.bearings, parts[1][0], None, "bearing", key, text), parts[2:]
     new = list(rotor.bearings)
+    if rest and rest[0][0] in ("film", "oil"):
+        if parts[1][0] == "*" and head_index is None:
+            chosen = [i for i in chosen if new[i].film is not None]   # those that have one
+            if not chosen:
+                raise InputError(key, f"changes the {rest[0][0]} of film bearings, but no "
+                                 "bearing is computed from its geometry", value=text,
+                                 kind="missing")
+        return dataclasses.replace(rotor, bearings=_change_films(new, chosen, rest, change))
     if rest and rest[0][0] == "support":
         if len(rest) != 2:
             raise InputError(key, "needs one support field", value=text,
@@ -238,6 +257,12 @@ def _change_bearings(rotor, change, parts, head_index):
                          expected="set the k and c coefficients in separate changes",
                          kind="conflict")
     for i in chosen:
+        if new[i].film is not None:
+            raise InputError(key, f"changes the coefficients of bearing {new[i].name!r}, which "
+                             "are computed from its geometry", value=text,
+                             expected="a change of its geometry or oil (bearing.NAME.film."
+                                      "clearance, .length, .preload; bearing.NAME.oil.grade, "
+                                      ".inlet_temperature)", kind="conflict")
         coefficients = dict(new[i].coefficients)
         for name in names:
             dim = u.STIFFNESS if name[0] == "k" else u.DAMPING
@@ -247,6 +272,64 @@ def _change_bearings(rotor, change, parts, head_index):
                 coefficients[name] = (_new_value(change, None, dim),)
         new[i] = dataclasses.replace(new[i], coefficients=coefficients)
     return dataclasses.replace(rotor, bearings=tuple(new))
+
+
+def _change_films(bearings, chosen, rest, change):
+    """Bearings with a film or oil input changed (their tables computed later)."""
+    key, text = change.key, change.text
+    part = rest[0][0]
+    fields = FILM_FIELDS if part == "film" else OIL_FIELDS
+    if len(rest) != 2:
+        raise InputError(key, f"needs one {part} field", value=text,
+                         expected=f"{part}." + ", ".join(fields), kind="syntax")
+    name = rest[1][0]
+    dim = _field(fields, name, change)
+    for i in chosen:
+        film = bearings[i].film
+        if film is None:
+            raise InputError(key, f"changes the {part} of bearing {bearings[i].name!r}, which "
+                             "is given by coefficient tables", value=text,
+                             expected="a bearing with a [bearing.film] table", kind="missing")
+        if part == "film":
+            film = film.changed(**{name: _plain_or_quantity(change, getattr(film, name), dim)})
+        else:
+            film = _change_oil(film, name, change, dim)
+        bearings[i] = dataclasses.replace(bearings[i], film=film, speeds=(), coefficients={},
+                                          film_record=None)
+    return tuple(bearings)
+
+
+def _plain_or_quantity(change, old, dim):
+    """A new value: a quantity, or a plain number where ``dim`` is None."""
+    if dim is not None:
+        return _new_value(change, old, dim)
+    if change.op == "scale":
+        return old * change.value
+    try:
+        return float(str(change.value))
+    except ValueError:
+        raise InputError(change.key, "sets a number to text", value=change.text,
+                         expected="a plain number", kind="type") from None
+
+
+def _change_oil(film, name, change, dim):
+    if change.op == "scale" and name != "grade" and dim is u.TEMPERATURE:
+        raise InputError(change.key, "scales a temperature", value=change.text,
+                         expected=f"oil.{name} = a temperature with its unit, such as "
+                                  '"55 degC"', kind="syntax")
+    if name == "grade":
+        if change.op == "scale":
+            raise InputError(change.key, "scales an oil grade", value=change.text,
+                             expected="oil.grade = an ISO viscosity grade such as 46",
+                             kind="syntax")
+        old = film.lubricant
+        grade = _plain_or_quantity(change, None, None)
+        lubricant = type(old)(grade=int(grade) if grade == int(grade) else grade,
+                              reference_density=old.reference_density,
+                              expansion=old.expansion, specific_heat=old.specific_heat,
+                              name=old.name, key=old.key)
+        return film.changed(lubricant=lubricant)
+    return film.changed(**{name: _new_value(change, getattr(film, name), dim)})
 
 
 def apply_variant(rotor: Rotor, variant: Variant) -> Rotor:
@@ -261,8 +344,10 @@ def apply_variant(rotor: Rotor, variant: Variant) -> Rotor:
         dataclasses.replace(d, inertia_as_given=True) for d in rotor.disks))
     for change in variant.changes:
         rotor = apply_change(rotor, change)
-    return dataclasses.replace(rotor, disks=tuple(
+    rotor = dataclasses.replace(rotor, disks=tuple(
         dataclasses.replace(d, inertia_as_given=flag) for d, flag in zip(rotor.disks, flags)))
+    # film bearings carry the changed rotor's loads, over its (maybe changed) speeds
+    return tabulate_films(rotor) if variant.changes else rotor
 
 
 VARIANTS_TOP = {"base", "variant"}

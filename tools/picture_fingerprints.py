@@ -237,16 +237,22 @@ def case_pictures(path):
 #: Bundled cases whose pictures take no drawing path another case does not: left out to
 #: keep the run short (the high-pressure compressors draw what the compressor and the feed
 #: pump draw: sources, seals, tables over speed; their response's unstable hatching is
-#: drawn by tests/unit/test_plotting.py).
-SKIPPED = {"hp_compressor", "hp_compressor_damper_seal"}
+#: drawn by tests/unit/test_plotting.py; the cases on bearings from their geometry draw
+#: what the feed pump draws, from tables the film computed).
+SKIPPED = {"hp_compressor", "hp_compressor_damper_seal", "feed_pump_sleeve",
+           "blower_two_lobe"}
 
 
 def versions():
-    """The libraries whose versions decide the pixels: matplotlib (fonts, hinting,
-    anti-aliasing) and numpy and scipy (the last bits of the results drawn)."""
+    """What decides the pixels: matplotlib's version (fonts, hinting, anti-aliasing),
+    numpy's and scipy's and the BLAS's code path for this processor (the last bits of the
+    results drawn: the same libraries moved markers by a pixel on another processor)."""
     import scipy
+    from threadpoolctl import threadpool_info
+    blas = sorted(f"{i.get('internal_api')} {i.get('architecture', '')}".strip()
+                  for i in threadpool_info() if i.get("user_api") == "blas")
     return {"matplotlib": matplotlib.__version__, "numpy": np.__version__,
-            "scipy": scipy.__version__}
+            "scipy": scipy.__version__, "blas": ", ".join(blas)}
 
 
 def fingerprints(cases=None):

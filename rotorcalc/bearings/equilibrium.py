@@ -3,7 +3,7 @@
 The load ``W = (Wx, Wy)`` (N) acts on the journal (gravity: ``(0, -m g)``); at
 equilibrium the film force ``F`` on the journal balances it, ``F + W = 0``.
 Newton's method on the journal position, in units of the reference clearance,
-with a forward-difference Jacobian, a step limited to half the clearance and
+with a forward-difference Jacobian (Broyden's update between fresh ones), a step limited to half the clearance and
 halved until the residual falls, started from the short-bearing (Ocvirk)
 estimate; when that fails, from 50, 80 and 95 % of the way to the bore along the
 load, and last with the load applied in ten steps, each started from the last
@@ -135,7 +135,7 @@ def check_operating(speed, load, viscosity):
 
 @one_blas_thread
 def find_equilibrium(geometry, speed, load, viscosity, *, options=FilmOptions(),
-                     tolerance=1e-9, max_iterations=50):
+                     tolerance=1e-9, max_iterations=50, start=None):
     """Find the journal position where the film carries ``load``.
 
     Parameters
@@ -152,6 +152,9 @@ def find_equilibrium(geometry, speed, load, viscosity, *, options=FilmOptions(),
         Largest ``|F + W| / |W|`` accepted.
     max_iterations : int
         Newton steps allowed (per load step when the load is ramped).
+    start : pair of float, optional
+        A journal position (m) to try first: a neighbouring equilibrium (the same
+        bearing at a nearby speed or load) saves most of the film solves.
 
     Returns
     -------
@@ -174,10 +177,14 @@ def find_equilibrium(geometry, speed, load, viscosity, *, options=FilmOptions(),
     solver = _Newton(geometry, omega, mu, options, tol,
                      whole("max_iterations", max_iterations, 1, 1000))
     short = short_bearing_start(geometry, omega, w, mu) / geometry.clearance
-    starts = [solver.feasible_start(short)]
-    starts += [share * solver.to_wall(w) for share in (0.5, 0.8, 0.95)]
-    for start in starts:
-        found = solver.run(w, start)
+    starts = [lambda: solver.feasible_start(short)]
+    if start is not None:
+        near = np.asarray(pair("start", start)) / geometry.clearance
+        if solver.thinnest(near) > 0.05:
+            starts.insert(0, lambda: near)
+    starts += [lambda s=share: s * solver.to_wall(w) for share in (0.5, 0.8, 0.95)]
+    for begin in starts:        # the later starts cost a search for the wall: only if needed
+        found = solver.run(w, begin())
         if found is not None:
             return _result(geometry, omega, w, mu, solver, found)
     u = np.zeros(2)
@@ -228,27 +235,44 @@ class _Newton:
                       options=self.options, start=start)
 
     def run(self, w, u):
-        """The equilibrium under ``w`` from ``u`` (clearances), or None."""
+        """The equilibrium under ``w`` from ``u`` (clearances), or None.
+
+        The Jacobian is a forward difference at the start and after a failed line
+        search, and a Broyden update in between (one film solve a step, not three).
+        """
         scale = float(np.hypot(*w))
         film = self.force(u, self.film)
         r = (film.force + w) / scale
+        jac = None
         for _ in range(self.max_iterations):
             if np.hypot(*r) <= self.tol:
                 self.film = film
                 return u
             self.iterations += 1
-            jac = np.empty((2, 2))
-            for j, du in enumerate(np.eye(2) * 1e-6):
-                jac[:, j] = (self.force(u + du, film).force / scale - (r - w / scale)) / 1e-6
+            fresh = jac is None
+            if fresh:
+                jac = self._jacobian(u, r, w, scale, film)
             try:
                 step = -np.linalg.solve(jac, r)
             except np.linalg.LinAlgError:
                 return None
             step *= min(1.0, 0.5 / max(float(np.hypot(*step)), 1e-300))
-            film, u, r = self._line_search(u, r, step, film, w, scale)
-            if film is None:
-                return None
+            new, u_new, r_new = self._line_search(u, r, step, film, w, scale)
+            if new is None:
+                if fresh:
+                    return None
+                jac = None              # a stale Jacobian: take a fresh one and retry
+                continue
+            s_u, s_r = u_new - u, r_new - r
+            jac = jac + np.outer(s_r - jac @ s_u, s_u) / float(s_u @ s_u)
+            film, u, r = new, u_new, r_new
         return None
+
+    def _jacobian(self, u, r, w, scale, film):
+        jac = np.empty((2, 2))
+        for j, du in enumerate(np.eye(2) * 1e-6):
+            jac[:, j] = (self.force(u + du, film).force / scale - (r - w / scale)) / 1e-6
+        return jac
 
     def _line_search(self, u, r, step, film, w, scale):
         """Halve the step until the residual falls (and the journal stays off the wall)."""

@@ -24,6 +24,7 @@ ruptures) moved within the step, or the step is too coarse for the grid.
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 import numpy as np
@@ -71,6 +72,8 @@ class FilmCoefficients:
     velocity_step: float
     step_change: tuple
     warnings: tuple = ()
+    #: Effective film temperature (K) where a bearing model chose the viscosity.
+    temperature: float | None = None
 
     def dimensionless(self):
         """``(K C / W, C C omega / W)`` with ``C`` the reference clearance."""
@@ -92,9 +95,14 @@ class FilmCoefficients:
                                                                  c_bar.ravel()]).tolist())),
                 "equilibrium": self.equilibrium.to_dict(), "step_m": self.step,
                 "velocity_step_m_per_s": self.velocity_step,
-                "step_change": {"stiffness": self.step_change[0],
-                                "damping": self.step_change[1]},
+                "step_change": {"stiffness": _number_or_none(self.step_change[0]),
+                                "damping": _number_or_none(self.step_change[1])},
+                "film_temperature_K": self.temperature,
                 "warnings": [w.to_dict() for w in self.warnings], "caution": CAUTION}
+
+
+def _number_or_none(value):
+    return None if math.isnan(value) else float(value)
 
 
 def _derivatives(geometry, eq, options, dq, dv, hold):
@@ -125,7 +133,8 @@ def _change(coarse, fine):
 
 @one_blas_thread
 def coefficients(geometry, speed, load, viscosity, *, options=FilmOptions(), step=1e-3,
-                 step_tolerance=1e-3, rupture="held", tolerance=1e-9):
+                 step_tolerance=1e-3, rupture="held", tolerance=1e-9, start=None,
+                 check_step=True, equilibrium=None):
     """Static equilibrium and the eight linear coefficients of a film bearing.
 
     Parameters
@@ -148,6 +157,14 @@ def coefficients(geometry, speed, load, viscosity, *, options=FilmOptions(), ste
         ``"solved"`` (solved anew in each perturbed film).
     tolerance : float
         Equilibrium residual ``|F + W| / |W|`` accepted.
+    start : pair of float, optional
+        Journal position (m) the equilibrium search tries first.
+    check_step : bool
+        Compute the matrices again with half the step and compare (the default);
+        False halves the cost and reports the step change as NaN (a caller checking
+        the step at some points of a series only).
+    equilibrium : Equilibrium, optional
+        The equilibrium for these inputs when the caller has found it already.
 
     Returns
     -------
@@ -164,15 +181,17 @@ def coefficients(geometry, speed, load, viscosity, *, options=FilmOptions(), ste
         raise InputError("rupture", "is not a known choice", value=rupture,
                          expected=" or ".join(RUPTURE_CHOICES), kind="choice")
     hold = rupture == "held"
-    eq = find_equilibrium.__wrapped__(geometry, speed, load, viscosity, options=options,
-                                      tolerance=tolerance)
+    eq = equilibrium or find_equilibrium.__wrapped__(
+        geometry, speed, load, viscosity, options=options, tolerance=tolerance, start=start)
     dq = share * eq.min_thickness
     dv = dq * abs(eq.speed)
-    k1, c1 = _derivatives(geometry, eq, options, dq, dv, hold)
     k2, c2 = _derivatives(geometry, eq, options, 0.5 * dq, 0.5 * dv, hold)
-    change = (_change(k1, k2), _change(c1, c2))
+    change = (math.nan, math.nan)
+    if check_step:
+        k1, c1 = _derivatives(geometry, eq, options, dq, dv, hold)
+        change = (_change(k1, k2), _change(c1, c2))
     warnings = ()
-    if max(change) > limit:
+    if check_step and max(change) > limit:
         warnings = (Notice(f"film coefficients change by {100 * change[0]:.3g} % (stiffness) "
                            f"and {100 * change[1]:.3g} % (damping) when the perturbation is "
                            f"halved, more than {100 * limit:.3g} %: refine the grid or change "

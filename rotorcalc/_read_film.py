@@ -1,0 +1,98 @@
+"""A bearing given by its geometry: the ``[bearing.film]`` and ``[bearing.oil]`` tables of a
+rotor file (docs/input.md, "Bearings from their geometry")."""
+
+from __future__ import annotations
+
+from . import units as u
+from ._toml import _array_of_tables, _number, _quantity, _string, check_keys
+from .bearings.film import FilmOptions
+from .bearings.journal import BORES, MODEL_GRID, FilmJournal
+from .bearings.lubricant import Lubricant
+from .errors import InputError
+
+FILM_KEYS = {"bore", "diameter", "length", "clearance", "preload", "groove_width", "grooves",
+             "feed_pressure", "grid", "cavitation"}
+GROOVE_KEYS = {"at", "width"}
+OIL_KEYS = {"grade", "points", "inlet_temperature", "film_temperature", "rise_share",
+            "density", "specific_heat", "name"}
+
+
+def read_film(table, where):
+    """The :class:`FilmJournal` of a ``[[bearing]]`` table with a ``film`` sub-table."""
+    fw, ow = f"{where}.film", f"{where}.oil"
+    film = table["film"]
+    if not isinstance(film, dict):
+        raise InputError(fw, "must be a table", value=film, expected="a [bearing.film] table "
+                         "with bore, diameter, length and clearance", kind="type")
+    check_keys(film, FILM_KEYS, fw)
+    if "oil" not in table:
+        raise InputError(ow, "is missing", expected="a [bearing.oil] table with the oil's "
+                         "grade (or two viscosity points) and its inlet_temperature",
+                         kind="missing")
+    oil = table["oil"]
+    if not isinstance(oil, dict):
+        raise InputError(ow, "must be a table", value=oil, kind="type")
+    check_keys(oil, OIL_KEYS, ow)
+    bore = _string(film, "bore", fw, default="plain")
+    if bore not in BORES:
+        raise InputError(f"{fw}.bore", "is not a known bore", value=bore,
+                         expected=" or ".join(BORES), kind="choice")
+    values = {"bore": bore, "key": fw}
+    for name in ("diameter", "length", "clearance"):
+        values[name] = _quantity(film, name, u.LENGTH, fw, required=True)
+    if "preload" in film:
+        values["preload"] = _number(film, "preload", fw, 0.0)
+    if "groove_width" in film:
+        values["groove_width"] = _quantity(film, "groove_width", u.ANGLE, fw)
+    grooves = []
+    for i, g in enumerate(_array_of_tables(film, "grooves", fw)):
+        gw = f"{fw}.grooves[{i}]"
+        check_keys(g, GROOVE_KEYS, gw)
+        grooves.append((_quantity(g, "at", u.ANGLE, gw, required=True),
+                        _quantity(g, "width", u.ANGLE, gw, required=True)))
+    values["grooves"] = tuple(grooves)
+    values["feed_pressure"] = _quantity(film, "feed_pressure", u.GAUGE_PRESSURE, fw, default=0.0)
+    values["options"] = _options(film, fw)
+    values["lubricant"] = _lubricant(oil, ow)
+    values["inlet_temperature"] = _quantity(oil, "inlet_temperature", u.TEMPERATURE, ow,
+                                            required=True)
+    values["film_temperature"] = _quantity(oil, "film_temperature", u.TEMPERATURE, ow)
+    if "rise_share" in oil:
+        values["rise_share"] = _number(oil, "rise_share", ow, 0.8)
+    return FilmJournal(**values)
+
+
+def _options(film, where):
+    grid = film.get("grid", [MODEL_GRID.n_theta, MODEL_GRID.n_z])
+    if not (isinstance(grid, list) and len(grid) == 2):
+        raise InputError(f"{where}.grid", "must be two whole numbers", value=grid,
+                         expected="[steps around each land, steps over half the length], "
+                                  f"e.g. [{MODEL_GRID.n_theta}, {MODEL_GRID.n_z}]",
+                         kind="type")
+    cavitation = _string(film, "cavitation", where, default=MODEL_GRID.cavitation)
+    return FilmOptions(n_theta=grid[0], n_z=grid[1], cavitation=cavitation,
+                       key=f"{where}.grid")
+
+
+def _lubricant(oil, where):
+    extra = {"key": where, "name": _string(oil, "name", where, default="")}
+    if "density" in oil:
+        extra["reference_density"] = _quantity(oil, "density", u.DENSITY, where)
+    if "specific_heat" in oil:
+        extra["specific_heat"] = _number(oil, "specific_heat", where, 2000.0)
+    if "points" in oil:
+        points = oil["points"]
+        if not (isinstance(points, list) and len(points) == 2
+                and all(isinstance(p, list) and len(p) == 2 for p in points)):
+            raise InputError(f"{where}.points", "must be two [temperature, viscosity] pairs",
+                             value=points, expected='[["40 degC", "46 mm^2/s"], '
+                             '["100 degC", "6.8 mm^2/s"]]', kind="type")
+        extra["points"] = tuple(
+            (u.parse(t, u.TEMPERATURE, f"{where}.points[{i}][0]"),
+             u.parse(nu, u.KINEMATIC_VISCOSITY, f"{where}.points[{i}][1]"))
+            for i, (t, nu) in enumerate(points))
+        if "grade" in oil:
+            raise InputError(f"{where}.points", "is given together with a grade",
+                             expected="either grade or points", kind="conflict")
+        return Lubricant(**extra)
+    return Lubricant(grade=oil.get("grade"), **extra)

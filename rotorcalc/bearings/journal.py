@@ -1,0 +1,208 @@
+"""A fixed-geometry fluid-film journal bearing as the rotor file describes it.
+
+:class:`FilmJournal` holds the bore's recipe (plain, two-lobe or offset halves, with
+its diameter, length, clearance, preload and grooves), the oil and the thermal
+rule, and answers one question through :meth:`FilmJournal.coefficients`: the eight
+coefficients at a speed and a static load.  Every bearing model offers that one
+method (``coefficients(speed, load, ...)``); a tilting-pad bearing will be one more.
+
+Effective film temperature (docs/bearings.md, "Lubricant"): a given
+``film_temperature`` is used as it is; otherwise the isoviscous film sits at::
+
+    T = T_inlet + share x P / (rho c_p Q)
+
+with ``P`` the power loss and ``Q`` the side leakage at the equilibrium found with
+the viscosity at ``T`` itself (all the heat carried off by the oil: an upper
+estimate of the rise).  ``T`` is found by regula falsi between the inlet
+temperature and the rise computed at it (hotter oil carries less power, so the
+rise falls with ``T`` and the root is unique).
+
+Screening only: confirm bearing data against the maker's analysis, the applicable
+standard, the purchase specification, local codes and a licensed engineer's review.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import math
+from dataclasses import dataclass, field
+
+from ..errors import InputError
+from ..notices import Notice
+from .equilibrium import find_equilibrium
+from .film import FilmOptions
+from .fixed_film import coefficients as film_coefficients
+from .geometry import elliptical_bore, offset_halves_bore, plain_bore
+from .lubricant import Lubricant
+
+#: Bore shapes a file may name.
+BORES = ("plain", "two-lobe", "offset-halves")
+#: Film grid of a bearing in a rotor model: within about 1 % of the 120 x 20 grid
+#: on the bundled cases' bearings (tests/verification/test_film_journal.py) at a
+#: quarter of its cost.
+MODEL_GRID = FilmOptions(n_theta=72, n_z=12)
+#: Film temperature accepted by the heat balance, K (regula falsi stops within it).
+TEMPERATURE_TOLERANCE = 0.25
+#: Hottest effective film (K) before a note says the isoviscous model is stretched.
+HOT_FILM = 273.15 + 120.0
+
+
+@dataclass(frozen=True)
+class FilmJournal:
+    """A plain or lobed journal bearing from its geometry and oil.
+
+    Parameters
+    ----------
+    bore : str
+        One of :data:`BORES`.
+    diameter, length : float
+        Journal diameter and land length (m).
+    clearance : float
+        Radial clearance (m); for a lobed bore the machined clearance ``C_p`` of each
+        lobe (the assembled one is ``(1 - preload) C_p``).
+    lubricant : Lubricant
+    inlet_temperature : float
+        Oil supply temperature (K).
+    preload : float
+        Lobed bores only, ``0 <= m < 1``.
+    groove_width : float
+        Lobed bores: width of the two split-line grooves (rad).
+    grooves : tuple
+        Plain bores: ``(position, width)`` pairs (rad) of axial feed grooves; none
+        gives a full 360-degree film.
+    feed_pressure : float
+        Gauge pressure in the grooves (Pa).
+    film_temperature : float, optional
+        A given effective film temperature (K) instead of the heat balance.
+    rise_share : float
+        Share of the oil's temperature rise added to the inlet (0 to 1, 0.8 default).
+    options : FilmOptions
+        Film grid and cavitation model.
+    """
+
+    bore: str
+    diameter: float
+    length: float
+    clearance: float
+    lubricant: Lubricant
+    inlet_temperature: float
+    preload: float = 0.0
+    groove_width: float = math.radians(20.0)
+    grooves: tuple = ()
+    feed_pressure: float = 0.0
+    film_temperature: float | None = None
+    rise_share: float = 0.8
+    options: FilmOptions = MODEL_GRID
+    key: str = "film"
+    geometry: object = field(init=False, repr=False, compare=False)
+
+    def __post_init__(self):
+        k = self.key
+        if self.bore not in BORES:
+            raise InputError(f"{k}.bore", "is not a known bore", value=self.bore,
+                             expected=" or ".join(BORES), kind="choice")
+        object.__setattr__(self, "grooves", tuple(tuple(g) for g in self.grooves))
+        if self.bore == "plain":
+            if self.preload:
+                raise InputError(f"{k}.preload", "is given for a plain bore", value=self.preload,
+                                 expected="no preload (a plain bore has none), or bore = "
+                                          "'two-lobe' or 'offset-halves'", kind="choice")
+            geometry = plain_bore(self.diameter, self.length, self.clearance, self.grooves,
+                                  self.feed_pressure)
+        else:
+            if self.grooves:
+                raise InputError(f"{k}.grooves", "are given for a lobed bore",
+                                 expected="groove_width (the two split-line grooves)",
+                                 kind="choice")
+            build = elliptical_bore if self.bore == "two-lobe" else offset_halves_bore
+            geometry = build(self.diameter, self.length, self.clearance, self.preload,
+                             self.groove_width, self.feed_pressure)
+        object.__setattr__(self, "geometry", geometry)
+        for name in ("inlet_temperature", "film_temperature"):
+            value = getattr(self, name)
+            if value is not None and not (math.isfinite(value) and value > 0.0):
+                raise InputError(f"{k}.{name}", "must be a temperature above absolute zero",
+                                 value=value, expected='a temperature such as "50 degC"',
+                                 kind="range")
+        if not 0.0 <= self.rise_share <= 1.0:
+            raise InputError(f"{k}.rise_share", "is out of range", value=self.rise_share,
+                             expected="a number from 0 to 1", kind="range")
+
+    def changed(self, **values) -> "FilmJournal":
+        """A copy with some inputs changed (validated again)."""
+        return dataclasses.replace(self, **values)
+
+    def viscosity(self, temperature):
+        """Dynamic viscosity (Pa s) at ``temperature`` (K)."""
+        return float(self.lubricant.dynamic_viscosity(temperature))
+
+    def coefficients(self, speed, load, *, start=None, check_step=True, temperature=None):
+        """The eight coefficients at ``speed`` (rad/s) under ``load`` (N, on the journal).
+
+        Returns
+        -------
+        FilmCoefficients
+            With the effective film ``temperature`` (K) and, among its warnings, a
+            note when that temperature is high for an isoviscous model.
+
+        Other parameters
+        ----------------
+        start : pair of float
+            A journal position (m) to start the equilibrium search from.
+        check_step : bool
+            Check the perturbation step by halving it (see :func:`coefficients`).
+        temperature : float
+            A first guess of the film temperature (K), say the neighbouring speed's.
+        """
+        temperature, eq = self._film_state(speed, load, start, temperature)
+        result = film_coefficients(self.geometry, speed, load, self.viscosity(temperature),
+                                   options=self.options, check_step=check_step,
+                                   equilibrium=eq)
+        notes = result.warnings
+        if temperature > HOT_FILM:
+            notes += (Notice(f"effective film temperature {temperature - 273.15:.0f} degC "
+                             f"at {speed * 30 / math.pi:.0f} rpm: above "
+                             f"{HOT_FILM - 273.15:.0f} degC an isoviscous film is a rough "
+                             "model (check the oil flow and the maker's thermal analysis)",
+                             code="note"),)
+        return dataclasses.replace(result, temperature=temperature, warnings=notes)
+
+    def _equilibrium(self, speed, load, temperature, start):
+        return find_equilibrium(self.geometry, speed, load, self.viscosity(temperature),
+                                options=self.options, start=start)
+
+    def _film_state(self, speed, load, start, guess=None):
+        """(effective temperature, equilibrium there): the root of the decreasing
+        ``g(T) = T_inlet + share x rise(T) - T`` by secant steps kept inside the bracket
+        (``g(T_inlet) >= 0`` always)."""
+        if self.film_temperature is not None:
+            t = self.film_temperature
+            return t, self._equilibrium(speed, load, t, start)
+        inlet, share = self.inlet_temperature, self.rise_share
+        found = {}
+
+        def excess(t):
+            near = start if not found else found[min(found, key=lambda s: abs(s - t))].position
+            eq = found[t] = self._equilibrium(speed, load, t, near)
+            rise = self.lubricant.temperature_rise(eq.power_loss, max(eq.side_leakage, 1e-12),
+                                                   inlet)
+            return inlet + share * rise - t
+
+        low, high = inlet, math.inf
+        t = inlet if guess is None or not guess > inlet else float(guess)
+        previous = None
+        for _ in range(40):
+            g = excess(t)
+            if abs(g) <= TEMPERATURE_TOLERANCE:
+                return t, found[t]
+            low, high = (max(low, t), high) if g > 0.0 else (low, min(high, t))
+            step = t + g
+            if previous is not None and g != previous[1]:
+                step = t - g * (t - previous[0]) / (g - previous[1])
+            if not low < step < high:
+                step = 0.5 * (low + high) if math.isfinite(high) else t + g
+            previous, t = (t, g), step
+            if high - low <= TEMPERATURE_TOLERANCE:
+                break
+        best = min(found, key=lambda s: abs(s - t))
+        return best, found[best]
