@@ -409,3 +409,42 @@ STATIC_REACTION_COLUMNS = [
     Column("Load N", lambda r: r[4], "{:.5g}", "magnitude_n"),
     Column("Share", lambda r: r[5], "{:.1%}", "share_of_applied"),
 ]
+
+
+#: Rows: BearingCurves.coefficient_rows (speed rad/s, kxx ... cyy in N/m and N s/m).
+BEARING_COEFFICIENT_COLUMNS = [Column("Speed rpm", lambda r: to_rpm(r[0]), "{:.0f}", "speed_rpm")] + [
+    Column(f"{name} {'N/m' if name[0] == 'k' else 'N*s/m'}", lambda r, j=j: r[j + 1], "{:.4g}",
+           f"{name}_{'n_per_m' if name[0] == 'k' else 'n_s_per_m'}")
+    for j, name in enumerate(("kxx", "kxy", "kyx", "kyy", "cxx", "cxy", "cyx", "cyy"))]
+
+#: Rows: BearingCurves.film_rows (speed rad/s, load N, eccentricity, attitude rad, min
+#: film m, film temperature K, Sommerfeld number, power loss W, side leakage m^3/s).
+FILM_STATE_COLUMNS = [
+    Column("Speed rpm", lambda r: to_rpm(r[0]), "{:.0f}", "speed_rpm"),
+    Column("Load N", lambda r: r[1], "{:.4g}", "load_n"),
+    Column("Eccentricity", lambda r: r[2], "{:.3f}", "eccentricity_ratio"),
+    Column("Attitude deg", lambda r: math.degrees(r[3]), "{:.1f}", "attitude_deg"),
+    Column("Min film um", lambda r: r[4] * 1e6, "{:.1f}", "min_film_um"),
+    Column("Film degC", lambda r: r[5] - 273.15, "{:.1f}", "film_temperature_c"),
+    Column("Sommerfeld", lambda r: r[6], "{:.3g}", "sommerfeld"),
+    Column("Power kW", lambda r: r[7] * 1e-3, "{:.3g}", "power_loss_kw"),
+    Column("Flow L/min", lambda r: r[8] * 6e4, "{:.3g}", "side_leakage_l_per_min"),
+]
+
+
+def _shifted(column, offset, speed_at=1):
+    """``column`` reading a BearingCurves.rows row: the speed at ``speed_at``, the rest
+    from ``offset`` on; a blank where the row has no value there."""
+    def get(row):
+        rest = row[offset:]
+        if rest and rest[0] is None:
+            return None
+        return column.get((row[speed_at], *rest))
+    return Column(column.heading, get, column.fmt, column.csv_name)
+
+
+#: Rows: BearingCurves.rows (several bearings in one file, film state blank for tables).
+BEARING_ROW_COLUMNS = ([Column("Bearing", lambda r: r[0], "{}", "bearing")]
+                       + [Column(c.heading, lambda r, c=c: c.get(r[1:]), c.fmt, c.csv_name)
+                          for c in BEARING_COEFFICIENT_COLUMNS]
+                       + [_shifted(c, 10) for c in FILM_STATE_COLUMNS[1:]])

@@ -42,7 +42,7 @@ BORES = ("plain", "two-lobe", "offset-halves")
 #: quarter of its cost.
 MODEL_GRID = FilmOptions(n_theta=72, n_z=12)
 #: Film temperature accepted by the heat balance, K (regula falsi stops within it).
-TEMPERATURE_TOLERANCE = 0.25
+TEMPERATURE_TOLERANCE = 0.02
 #: Hottest effective film (K) before a note says the isoviscous model is stretched.
 HOT_FILM = 273.15 + 120.0
 

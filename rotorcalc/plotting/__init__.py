@@ -10,12 +10,14 @@ One module per picture: ``speedmap`` (whirl-speed map), ``shapes`` (mode
 shape), ``layout`` (rotor layout), ``bodeplot``, ``polarplot``, ``orbitplot``
 (unbalance response), ``stiffmap`` (critical-speed map), ``overlay`` (variants'
 maps), ``mapshapes`` (mode shapes at map points), ``couplingplot`` (the
-cross-coupling screen), ``staticplot`` (the rotor at rest).  Shared helpers start with an underscore: ``_style`` and
+cross-coupling screen), ``staticplot`` (the rotor at rest), ``bearingplot`` (a bearing's
+coefficients against speed).  Shared helpers start with an underscore: ``_style`` and
 ``_labels`` (the look, label placing), ``_units``, ``_orbit``, ``_phase``,
 ``_probes``, ``_panels``, ``_artists``.
 """
 
 from ..vocabulary import renamed
+from .bearingplot import BearingCoefficientArtists, plot_bearing_coefficients
 from .bodeplot import BodeArtists, plot_bode
 from .couplingplot import CouplingScreenArtists, plot_coupling_screen
 from .layout import LayoutArtists, plot_rotor_layout
@@ -32,14 +34,15 @@ from .stiffmap import CriticalMapArtists, plot_critical_speed_map
 #: Every picture function, by its name (``plot_`` and what it draws).
 PICTURES = ("plot_whirl_speed_map", "plot_mode_shape", "plot_rotor_layout", "plot_bode",
             "plot_polar", "plot_orbits", "plot_critical_speed_map", "plot_variant_maps",
-            "plot_map_shapes", "plot_coupling_screen", "plot_static_deflection")
+            "plot_map_shapes", "plot_coupling_screen", "plot_static_deflection",
+            "plot_bearing_coefficients")
 #: The pictures that had 0.1 names without ``plot_`` (read with a note until 0.3).
 _RENAMED = PICTURES[:9]
 
 __all__ = [*PICTURES, "save", "map_point_label", "SpeedMapArtists", "ModeShapeArtists",
            "LayoutArtists", "BodeArtists", "PolarArtists", "OrbitArtists", "CriticalMapArtists",
            "VariantMapArtists", "MapShapeArtists", "CouplingScreenArtists",
-           "StaticDeflectionArtists"]
+           "StaticDeflectionArtists", "BearingCoefficientArtists"]
 
 
 def _old_mode_shape(modes, index, **kwargs):

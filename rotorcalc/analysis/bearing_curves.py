@@ -1,0 +1,155 @@
+"""A bearing's coefficients against speed, and for a bearing computed from its geometry its
+film state too (load, eccentricity, attitude, minimum film, temperature, Sommerfeld number,
+power loss, flow): what ``rotorcalc bearing`` prints and draws.
+
+Nothing is computed here that the model does not hold already: a table bearing's values
+are its table, a film bearing's are the grid :func:`rotorcalc.bearings.tabulate_films`
+computed under the rotor's static loads (``Bearing.film_record``).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..errors import InputError
+from ..model import Rotor
+from ..vocabulary import BearingRole
+
+#: Coefficient names in the order of the rows' columns.
+NAMES = ("kxx", "kxy", "kyx", "kyy", "cxx", "cxy", "cyx", "cyy")
+
+
+@dataclass(frozen=True)
+class BearingCurves:
+    """One bearing's coefficients over speed.
+
+    Attributes
+    ----------
+    name, role : str
+    station : int
+    source : str
+        ``"geometry"`` (a film computed from its geometry) or ``"table"``.
+    description : str
+        The bore and oil of a film bearing, or what the table holds.
+    speeds : ndarray
+        rad/s: the table's speeds (a constant bearing: the operating range's ends).
+    stiffness, damping : ndarray (n, 2, 2)
+        N/m and N s/m at each speed.
+    record : FilmRecord or None
+        The film state at each speed (geometry bearings only).
+    operating : tuple
+        (min, max) operating speed, rad/s, for the pictures' band.
+    """
+
+    name: str
+    role: str
+    station: int
+    source: str
+    description: str
+    speeds: np.ndarray
+    stiffness: np.ndarray
+    damping: np.ndarray
+    record: object = None
+    operating: tuple = (0.0, 0.0)
+
+    @property
+    def coefficient_rows(self):
+        """(speed rad/s, kxx ... cyy) per speed."""
+        values = np.concatenate([self.stiffness.reshape(-1, 4), self.damping.reshape(-1, 4)],
+                                axis=1)
+        return [(float(s), *map(float, v)) for s, v in zip(self.speeds, values)]
+
+    @property
+    def film_rows(self):
+        """(speed rad/s, load N, eccentricity, attitude rad, min film m, film K,
+        Sommerfeld, power W, flow m^3/s) per speed; empty for a table bearing."""
+        r = self.record
+        if r is None:
+            return []
+        return [tuple(float(v) for v in row) for row in zip(
+            r.speeds, np.hypot(r.loads[:, 0], r.loads[:, 1]), r.eccentricity, r.attitude,
+            r.min_thickness, r.temperature, r.sommerfeld, r.power_loss, r.flow)]
+
+    @property
+    def rows(self):
+        """(name, speed, kxx ... cyy, load, eccentricity, attitude, min film, film
+        temperature, Sommerfeld, power, flow) per speed, the film's part None for a table
+        bearing: one row kind for several bearings in one file."""
+        film = self.film_rows or [(None,) * 9] * len(self.speeds)
+        return [(self.name, *c, *f[1:]) for c, f in zip(self.coefficient_rows, film)]
+
+    def to_dict(self):
+        out = {"name": self.name, "role": self.role, "station": self.station,
+               "source": self.source, "description": self.description,
+               "coefficients": [dict(zip(("speed_rad_per_s",) + NAMES, row))
+                                for row in self.coefficient_rows]}
+        if self.record is not None:
+            out["film"] = self.record.to_dict()
+        return out
+
+    def plot(self, *, axes=None):
+        """The four panels of :func:`rotorcalc.plotting.plot_bearing_coefficients`."""
+        from ..plotting import plot_bearing_coefficients
+        return plot_bearing_coefficients(self, axes=axes)
+
+
+def bearing_curves(rotor: Rotor, which=None):
+    """The :class:`BearingCurves` of the rotor's bearings and seals (sources left out).
+
+    Parameters
+    ----------
+    which : str, optional
+        A bearing's name: only that one.
+
+    Raises
+    ------
+    InputError
+        When no bearing has the name asked for.
+    """
+    chosen = [b for b in rotor.bearings if b.role != BearingRole.SOURCE
+              and (which is None or b.name == which)]
+    if not chosen:
+        names = ", ".join(b.name for b in rotor.bearings) or "none"
+        raise InputError("--name", "names no bearing of the rotor", value=which,
+                         expected=f"one of: {names}", kind="unknown-key")
+    op = (rotor.operating.min_speed, rotor.operating.max_speed)
+    return tuple(_curves(b, op) for b in chosen)
+
+
+def _curves(bearing, operating):
+    speeds = np.array(bearing.speeds if len(bearing.speeds) >= 2 else
+                      sorted({operating[0], operating[1]}), dtype=float)
+    mats = [bearing.matrices(s) for s in speeds]
+    stiffness = np.array([k for k, _ in mats])
+    damping = np.array([c for _, c in mats])
+    for array in (speeds, stiffness, damping):
+        array.flags.writeable = False
+    if bearing.film is not None:
+        source, text = "geometry", describe_film(bearing.film)
+    else:
+        source = "table"
+        text = ("coefficients over speed" if len(bearing.speeds) >= 2 else
+                "constant coefficients") + (" and whirl frequency" if bearing.whirl else "")
+    return BearingCurves(bearing.name, str(bearing.role), bearing.station, source, text,
+                         speeds, stiffness, damping, bearing.film_record, operating)
+
+
+def describe_film(film):
+    """One line: bore, size, clearance, preload, oil and its temperatures."""
+    bore = {"plain": "plain bore", "two-lobe": "two-lobe bore",
+            "offset-halves": "offset-halves bore"}[film.bore]
+    text = (f"{bore}, D {film.diameter * 1e3:.4g} mm, L {film.length * 1e3:.4g} mm "
+            f"(L/D {film.length / film.diameter:.3g}), radial clearance "
+            f"{film.clearance * 1e6:.4g} um")
+    if film.bore != "plain":
+        text += f", preload {film.preload:.3g}"
+    oil = film.lubricant
+    grade = f"ISO VG {oil.grade}" if oil.grade is not None else (oil.name or "oil by points")
+    text += f"; {grade}, inlet {film.inlet_temperature - 273.15:.4g} degC"
+    if film.film_temperature is not None:
+        text += f", film at {film.film_temperature - 273.15:.4g} degC (given)"
+    else:
+        text += f", film at inlet + {film.rise_share:.2g} x rise (heat balance)"
+    return text
