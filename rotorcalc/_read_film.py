@@ -37,7 +37,7 @@ def read_film(table, where):
     if bore not in BORES:
         raise InputError(f"{fw}.bore", "is not a known bore", value=bore,
                          expected=" or ".join(BORES), kind="choice")
-    values = {"bore": bore, "key": fw}
+    values = {"bore": bore, "key": fw, "oil_key": ow}
     for name in ("diameter", "length", "clearance"):
         values[name] = _quantity(film, name, u.LENGTH, fw, required=True)
     if "preload" in film:

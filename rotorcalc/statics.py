@@ -100,6 +100,19 @@ class StaticSolution:
                 for (_, name, station), r in zip(self.journals, self.reactions)]
 
     @property
+    def film_rows(self):
+        """(name, speed rad/s, load N, eccentricity, attitude rad, min film m, film K,
+        Sommerfeld, power W, flow m^3/s) of each journal computed from its geometry."""
+        names = {i: name for i, name, _ in self.journals}
+        out = []
+        for index, state in self.films:
+            eq = state.equilibrium
+            out.append((names[index], self.speed, float(np.hypot(*eq.load)),
+                        eq.eccentricity_ratio, eq.attitude_angle, eq.min_thickness,
+                        state.temperature, eq.sommerfeld, eq.power_loss, eq.side_leakage))
+        return out
+
+    @property
     def largest_deflection(self):
         """(deflection m, axial position m) of the node that moves most."""
         size = np.hypot(self.displacement[:, 0], self.displacement[:, 1])
@@ -127,6 +140,8 @@ class StaticSolution:
                           for name, station, fx, fy, size, share in self.rows],
             "balance_error": self.balance_error,
             "largest_deflection_m": deflection, "largest_deflection_at_m": at,
+            "film_journals": [{"bearing": row[0], **state.to_dict()}
+                              for row, (_, state) in zip(self.film_rows, self.films)],
             "nodes": [{"z_m": float(z), "x_m": float(u[0]), "y_m": float(u[1]),
                        "slope_x_rad": float(s[0]), "slope_y_rad": float(s[1])}
                       for z, u, s in zip(self.node_z, self.displacement, self.slope)],

@@ -448,3 +448,8 @@ BEARING_ROW_COLUMNS = ([Column("Bearing", lambda r: r[0], "{}", "bearing")]
                        + [Column(c.heading, lambda r, c=c: c.get(r[1:]), c.fmt, c.csv_name)
                           for c in BEARING_COEFFICIENT_COLUMNS]
                        + [_shifted(c, 10) for c in FILM_STATE_COLUMNS[1:]])
+
+#: Rows: StaticSolution.film_rows (the journal's name, then a film-state row).
+STATIC_FILM_COLUMNS = ([Column("Bearing", lambda r: r[0], "{}", "bearing")]
+                       + [Column(c.heading, lambda r, c=c: c.get(r[1:]), c.fmt, c.csv_name)
+                          for c in FILM_STATE_COLUMNS[1:]])

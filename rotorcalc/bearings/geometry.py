@@ -357,35 +357,38 @@ def lobe(start, end, clearance, preload, closest_at=None, key="lobe"):
     return Land(start, end, clearance, (-d * math.cos(a), -d * math.sin(a)), key=key)
 
 
-def plain_bore(diameter, length, radial_clearance, grooves=(), feed_pressure=0.0):
+def plain_bore(diameter, length, radial_clearance, grooves=(), feed_pressure=0.0,
+               key="film_bearing"):
     """A :class:`PlainBore`; ``grooves`` as ``(position, width)`` pairs (rad)."""
-    return PlainBore(diameter, length, radial_clearance, tuple(grooves), feed_pressure)
+    return PlainBore(diameter, length, radial_clearance, tuple(grooves), feed_pressure,
+                     key=key)
 
 
-def _two_halves(diameter, length, clearance, preload, groove_width, feed_pressure, closest):
-    g = _positive("film_bearing.groove_width", groove_width)
+def _two_halves(diameter, length, clearance, preload, groove_width, feed_pressure, closest,
+                key="film_bearing"):
+    g = _positive(f"{key}.groove_width", groove_width)
     if g >= math.pi:
-        raise InputError("film_bearing.groove_width", "leaves no lobe", value=g,
+        raise InputError(f"{key}.groove_width", "leaves no lobe", value=g,
                          expected="less than pi", kind="range")
     arcs = ((g / 2.0, math.pi - g / 2.0), (math.pi + g / 2.0, TWO_PI - g / 2.0))
-    lobes = tuple(lobe(a, b, clearance, preload, closest_at=t, key=f"film_bearing.lobes[{i}]")
+    lobes = tuple(lobe(a, b, clearance, preload, closest_at=t, key=f"{key}.lobes[{i}]")
                   for i, ((a, b), t) in enumerate(zip(arcs, closest)))
-    return LobedBore(diameter, length, lobes, feed_pressure)
+    return LobedBore(diameter, length, lobes, feed_pressure, key=key)
 
 
 def elliptical_bore(diameter, length, clearance, preload, groove_width=math.radians(20.0),
-                    feed_pressure=0.0):
+                    feed_pressure=0.0, key="film_bearing"):
     """Two-lobe ("elliptical") bore: lobes above and below grooves at 0 and 180 degrees.
 
     Each lobe's centre is moved towards the other lobe by ``preload x clearance``:
     the vertical clearance is ``C_b = (1 - m) C_p``, the horizontal one ``C_p``.
     """
     return _two_halves(diameter, length, clearance, preload, groove_width, feed_pressure,
-                       (math.pi / 2.0, 1.5 * math.pi))
+                       (math.pi / 2.0, 1.5 * math.pi), key)
 
 
 def offset_halves_bore(diameter, length, clearance, preload, groove_width=math.radians(20.0),
-                       feed_pressure=0.0):
+                       feed_pressure=0.0, key="film_bearing"):
     """Offset-halves bore: upper and lower halves shifted horizontally apart.
 
     The halves are split at 0 and 180 degrees; each half's centre is shifted by
@@ -394,4 +397,4 @@ def offset_halves_bore(diameter, length, clearance, preload, groove_width=math.r
     Run it at negative speed to model the machine turning backwards.
     """
     return _two_halves(diameter, length, clearance, preload, groove_width, feed_pressure,
-                       (math.pi, TWO_PI))
+                       (math.pi, TWO_PI), key)

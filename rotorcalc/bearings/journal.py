@@ -32,7 +32,7 @@ from ..notices import Notice
 from .equilibrium import find_equilibrium
 from .film import FilmOptions
 from .fixed_film import coefficients as film_coefficients
-from .geometry import elliptical_bore, offset_halves_bore, plain_bore
+from .geometry import MAX_CLEARANCE_RATIO, elliptical_bore, offset_halves_bore, plain_bore
 from .lubricant import Lubricant
 
 #: Bore shapes a file may name.
@@ -42,7 +42,7 @@ BORES = ("plain", "two-lobe", "offset-halves")
 #: quarter of its cost.
 MODEL_GRID = FilmOptions(n_theta=72, n_z=12)
 #: Film temperature accepted by the heat balance, K (regula falsi stops within it).
-TEMPERATURE_TOLERANCE = 0.02
+TEMPERATURE_TOLERANCE = 0.1
 #: Hottest effective film (K) before a note says the isoviscous model is stretched.
 HOT_FILM = 273.15 + 120.0
 
@@ -94,6 +94,7 @@ class FilmJournal:
     rise_share: float = 0.8
     options: FilmOptions = MODEL_GRID
     key: str = "film"
+    oil_key: str = "oil"
     geometry: object = field(init=False, repr=False, compare=False)
 
     def __post_init__(self):
@@ -102,13 +103,14 @@ class FilmJournal:
             raise InputError(f"{k}.bore", "is not a known bore", value=self.bore,
                              expected=" or ".join(BORES), kind="choice")
         object.__setattr__(self, "grooves", tuple(tuple(g) for g in self.grooves))
+        self._check_sizes()
         if self.bore == "plain":
             if self.preload:
                 raise InputError(f"{k}.preload", "is given for a plain bore", value=self.preload,
                                  expected="no preload (a plain bore has none), or bore = "
                                           "'two-lobe' or 'offset-halves'", kind="choice")
             geometry = plain_bore(self.diameter, self.length, self.clearance, self.grooves,
-                                  self.feed_pressure)
+                                  self.feed_pressure, key=k)
         else:
             if self.grooves:
                 raise InputError(f"{k}.grooves", "are given for a lobed bore",
@@ -116,17 +118,38 @@ class FilmJournal:
                                  kind="choice")
             build = elliptical_bore if self.bore == "two-lobe" else offset_halves_bore
             geometry = build(self.diameter, self.length, self.clearance, self.preload,
-                             self.groove_width, self.feed_pressure)
+                             self.groove_width, self.feed_pressure, key=k)
         object.__setattr__(self, "geometry", geometry)
         for name in ("inlet_temperature", "film_temperature"):
             value = getattr(self, name)
             if value is not None and not (math.isfinite(value) and value > 0.0):
-                raise InputError(f"{k}.{name}", "must be a temperature above absolute zero",
-                                 value=value, expected='a temperature such as "50 degC"',
-                                 kind="range")
+                raise InputError(f"{self.oil_key}.{name}", "must be a temperature above "
+                                 "absolute zero", value=value,
+                                 expected='a temperature such as "50 degC"', kind="range")
         if not 0.0 <= self.rise_share <= 1.0:
-            raise InputError(f"{k}.rise_share", "is out of range", value=self.rise_share,
-                             expected="a number from 0 to 1", kind="range")
+            raise InputError(f"{self.oil_key}.rise_share", "is out of range",
+                             value=self.rise_share, expected="a number from 0 to 1",
+                             kind="range")
+
+    def _check_sizes(self):
+        """The inputs the file names, checked under the file's own keys (the geometry
+        checks them again under its own)."""
+        k = self.key
+        for name in ("diameter", "length", "clearance"):
+            value = getattr(self, name)
+            if isinstance(value, bool) or not isinstance(value, (int, float)) or \
+                    not math.isfinite(value) or value <= 0.0:
+                raise InputError(f"{k}.{name}", "must be a positive length", value=value,
+                                 expected='a length with its unit, such as "75 mm"',
+                                 kind="range")
+        if self.clearance > MAX_CLEARANCE_RATIO * self.diameter / 2.0:
+            raise InputError(f"{k}.clearance", "is too large for a thin film",
+                             value=self.clearance, expected=f"at most {MAX_CLEARANCE_RATIO:g} of the journal radius "
+                                      "(typically 0.001 to 0.003 of it)", kind="range")
+        if not (isinstance(self.preload, (int, float)) and 0.0 <= self.preload < 1.0):
+            raise InputError(f"{k}.preload", "is out of range", value=self.preload,
+                             expected="a preload m from 0 to below 1 (0.3 to 0.6 is usual "
+                                      "for lobed bores, common practice)", kind="range")
 
     def changed(self, **values) -> "FilmJournal":
         """A copy with some inputs changed (validated again)."""

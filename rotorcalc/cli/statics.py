@@ -9,7 +9,7 @@ import typer
 from rich.markup import escape
 
 from ..statics import CAUTION
-from ..tables import STATIC_REACTION_COLUMNS
+from ..tables import STATIC_FILM_COLUMNS, STATIC_REACTION_COLUMNS
 from ..units import to_rpm
 from .common import (console, input_errors, load, print_table, save_figure, speed_option,
                      write_outputs)
@@ -45,6 +45,11 @@ def command(
                         f"{solution.weight:.5g} N; applied in all (x, y) "
                         f"{solution.applied[0]:.5g}, {solution.applied[1]:.5g} N; the "
                         f"reactions balance it to {solution.balance_error:.1e}.")
+    if solution.films:
+        print_table("Journals computed from their geometry: film state under the load",
+                    STATIC_FILM_COLUMNS, solution.film_rows,
+                    caption="Each film carries its journal's load at the equilibrium found "
+                            "by Newton's method on the journal loads (docs/bearings.md).")
     console.print(escape(solution.summary()), highlight=False)
     console.print(f"[dim]{CAUTION}[/]", highlight=False)
     write_outputs("statics", case, solution.to_dict(), (), json_path, csv_path,
