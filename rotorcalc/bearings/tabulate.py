@@ -47,7 +47,9 @@ TABLE_POINTS = 41
 TOLERANCE = 0.03
 MAX_POINTS = 33
 #: Lowest grid speed as a share of the top one (or half the minimum speed when lower).
-LOW_SHARE = 0.1
+LOW_SHARE = 0.05
+#: The grid's top over the highest analysed speed.
+HIGH_SHARE = 1.2
 
 NAMES = ("kxx", "kxy", "kyx", "kyy", "cxx", "cxy", "cyx", "cyy")
 
@@ -110,16 +112,17 @@ class FilmRecord:
 
 
 def film_speed_range(rotor):
-    """(lowest, highest) grid speed, rad/s: up to the top of the sweep (1.5 x the
-    highest operating speed unless the file's ``speed_to`` says otherwise), trip or the
-    response sweep's top, whichever is highest; from :data:`LOW_SHARE` of that top or
+    """(lowest, highest) grid speed, rad/s: up to :data:`HIGH_SHARE` times the top of the
+    sweep (1.5 x the highest operating speed unless the file's ``speed_to`` says
+    otherwise), trip or the response sweep's top, whichever is highest (the response's
+    half-power points of a peak near the top lie above it); from :data:`LOW_SHARE` of that top or
     half the minimum speed, whichever is lower (or the sweep's start when that is lower
     still and above zero).  Below the lowest speed the table's end values hold (a film
     near rest runs close to the bore: see docs/bearings.md)."""
     op, s = rotor.operating, rotor.settings
     top = max(op.max_speed, op.trip_speed or 0.0)
-    high = max(top, 1.5 * top if s.speed_to is None else s.speed_to,
-               rotor.response.speed_to or 0.0)
+    high = HIGH_SHARE * max(top, 1.5 * top if s.speed_to is None else s.speed_to,
+                            rotor.response.speed_to or 0.0)
     low = LOW_SHARE * high
     if op.min_speed > 0.0:
         low = min(low, 0.5 * op.min_speed)
