@@ -5,7 +5,8 @@ from __future__ import annotations
 
 from . import units as u
 from ._toml import _array_of_tables, _number, _quantity, _string, check_keys
-from .bearings.film import FilmOptions
+from ._read_response import _angle
+from .bearings.film import CAVITATION_MODELS, FilmOptions
 from .bearings.journal import BORES, MODEL_GRID, FilmJournal
 from .bearings.lubricant import Lubricant
 from .errors import InputError
@@ -43,13 +44,20 @@ def read_film(table, where):
     if "preload" in film:
         values["preload"] = _number(film, "preload", fw, 0.0)
     if "groove_width" in film:
-        values["groove_width"] = _quantity(film, "groove_width", u.ANGLE, fw)
+        if bore == "plain":
+            raise InputError(f"{fw}.groove_width", "is given for a plain bore",
+                             expected="grooves = [{at = ..., width = ...}] for a plain bore's "
+                                      "feed grooves", kind="choice")
+        values["groove_width"] = _angle(film, "groove_width", fw)
     grooves = []
     for i, g in enumerate(_array_of_tables(film, "grooves", fw)):
         gw = f"{fw}.grooves[{i}]"
         check_keys(g, GROOVE_KEYS, gw)
-        grooves.append((_quantity(g, "at", u.ANGLE, gw, required=True),
-                        _quantity(g, "width", u.ANGLE, gw, required=True)))
+        for key in ("at", "width"):
+            if key not in g:
+                raise InputError(f"{gw}.{key}", "is missing", expected='an angle such as '
+                                 '"30 deg"', kind="missing")
+        grooves.append((_angle(g, "at", gw), _angle(g, "width", gw)))
     values["grooves"] = tuple(grooves)
     values["feed_pressure"] = _quantity(film, "feed_pressure", u.GAUGE_PRESSURE, fw, default=0.0)
     values["options"] = _options(film, fw)
@@ -70,6 +78,10 @@ def _options(film, where):
                                   f"e.g. [{MODEL_GRID.n_theta}, {MODEL_GRID.n_z}]",
                          kind="type")
     cavitation = _string(film, "cavitation", where, default=MODEL_GRID.cavitation)
+    if cavitation not in CAVITATION_MODELS:
+        raise InputError(f"{where}.cavitation", "is not a known cavitation model",
+                         value=cavitation, expected=" or ".join(CAVITATION_MODELS),
+                         kind="choice")
     return FilmOptions(n_theta=grid[0], n_z=grid[1], cavitation=cavitation,
                        key=f"{where}.grid")
 

@@ -243,6 +243,14 @@ def _linearised(rotor, springs):
 def _film_newton(rotor, films, omega, force, u, system, starts, check_step, scale):
     """Newton on the film journals' loads (module docstring): (u, system, states)."""
     loads = {k: -_reaction_of_stiff(u, system.links[k]) for k in films}
+    for k in films:
+        if float(np.hypot(*loads[k])) <= 1e-9 * max(scale, 1.0):
+            b = rotor.bearings[k]
+            raise InputError(f"{b.key}.film", f"carries no static load (bearing {b.name!r}: "
+                             "the statics give it none), and a film computed from its "
+                             "geometry needs one to find where the journal runs", value=None,
+                             expected="a load on it ([statics] gravity, [[static_load]]), or "
+                                      "the bearing's coefficient tables", kind="physics")
     states = {}
     for _ in range(FILM_STEPS):
         for k in films:

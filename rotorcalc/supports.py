@@ -124,15 +124,17 @@ class Bearing:
                 if not math.isfinite(v):
                     raise InputError(f"{self.key}.{name}{at}", "is not a finite number",
                                      value=v, kind="not-finite")
-            if name in ("kxx", "kyy", "cxx", "cyy") and self.role != BearingRole.SOURCE:
+            # a film computed from its geometry is what its physics makes it (a lightly
+            # loaded lobed film may have a negative direct stiffness)
+            if name in ("kxx", "kyy", "cxx", "cyy") and self.role != BearingRole.SOURCE \
+                    and self.film is None:
                 for at, v in flat:
                     if v < 0.0:
                         what = "stiffness" if name[0] == "k" else "damping"
                         raise InputError(f"{self.key}.{name}{at}",
                                          f"direct {what} must not be negative", value=v,
                                          kind="range")
-        # a source may feed energy: that is its point; a film computed from its geometry
-        # is what its physics makes it (a lightly loaded plain film may have kxx < 0)
+        # a source may feed energy: that is its point; a film: as above
         if self.role != BearingRole.SOURCE and self.film is None:
             self._check_principal(speeds)
 

@@ -18,8 +18,11 @@ Targets:
   length, clearance, preload, groove_width, feed_pressure; ``bearing.SEL.oil.FIELD``:
   grade (set only), inlet_temperature, film_temperature (set only, with a unit).  The
   bearing's coefficients are computed again, under the changed rotor's own loads, once
-  every change of the variant is in.  Its coefficients themselves cannot be changed
-  (no bearing has a film whose stiffness alone halves): change its geometry or oil.
+  every change of the variant is in (and so are every film bearing's when a change
+  touches the shaft, the disks or the speeds).  A change to a film bearing's
+  coefficients themselves (``bearing.DE.k *= 0.8``, as the stiffness studies make)
+  freezes its computed table and changes that: no film halves its stiffness alone, so
+  for a physical what-if change its geometry or oil instead.
 * ``section[i].FIELD`` (or ``section.*``): length, outer_diameter,
   inner_diameter, added_mass.
 * ``disk[i].FIELD`` or ``disk.NAME.FIELD`` (or ``disk.*``): mass,
@@ -257,12 +260,6 @@ def _change_bearings(rotor, change, parts, head_index):
                          expected="set the k and c coefficients in separate changes",
                          kind="conflict")
     for i in chosen:
-        if new[i].film is not None:
-            raise InputError(key, f"changes the coefficients of bearing {new[i].name!r}, which "
-                             "are computed from its geometry", value=text,
-                             expected="a change of its geometry or oil (bearing.NAME.film."
-                                      "clearance, .length, .preload; bearing.NAME.oil.grade, "
-                                      ".inlet_temperature)", kind="conflict")
         coefficients = dict(new[i].coefficients)
         for name in names:
             dim = u.STIFFNESS if name[0] == "k" else u.DAMPING
@@ -270,7 +267,9 @@ def _change_bearings(rotor, change, parts, head_index):
                 coefficients[name] = scale_table(new[i].table(name), change.value)
             else:
                 coefficients[name] = (_new_value(change, None, dim),)
-        new[i] = dataclasses.replace(new[i], coefficients=coefficients)
+        # a film bearing's computed table is frozen: changed as given, never recomputed
+        new[i] = dataclasses.replace(new[i], coefficients=coefficients, film=None,
+                                     film_record=None)
     return dataclasses.replace(rotor, bearings=tuple(new))
 
 
@@ -347,7 +346,9 @@ def apply_variant(rotor: Rotor, variant: Variant) -> Rotor:
     rotor = dataclasses.replace(rotor, disks=tuple(
         dataclasses.replace(d, inertia_as_given=flag) for d, flag in zip(rotor.disks, flags)))
     # film bearings carry the changed rotor's loads, over its (maybe changed) speeds
-    return tabulate_films(rotor) if variant.changes else rotor
+    moved = any(change.path[0][0] != "bearing" for change in variant.changes)
+    unset = any(b.film is not None and not b.coefficients for b in rotor.bearings)
+    return tabulate_films(rotor) if moved or unset else rotor
 
 
 VARIANTS_TOP = {"base", "variant"}

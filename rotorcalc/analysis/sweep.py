@@ -55,9 +55,11 @@ def table_speeds(rotor):
 
     Coefficients are linear between table speeds, so a sharp feature of a table
     (a spike of cross-coupling, say) has its extreme on one of them: the sweep
-    solves there, and stability is not judged between samples that straddle it.
+    solves there, and stability is not judged between samples that straddle it.  A
+    bearing computed from its geometry is left out: its table is a smooth fit, dense
+    enough to read anywhere (:mod:`rotorcalc.bearings.tabulate`).
     """
-    return sorted({float(v) for b in rotor.bearings for v in b.speeds})
+    return sorted({float(v) for b in rotor.bearings if b.film is None for v in b.speeds})
 
 
 def with_operating_speeds(grid, operating, more=()):

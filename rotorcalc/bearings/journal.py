@@ -38,7 +38,7 @@ from .lubricant import Lubricant
 #: Bore shapes a file may name.
 BORES = ("plain", "two-lobe", "offset-halves")
 #: Film grid of a bearing in a rotor model: within about 1 % of the 120 x 20 grid
-#: on the bundled cases' bearings (tests/verification/test_film_journal.py) at a
+#: on the bundled cases' bearings (tests/verification/test_film_in_model.py) at a
 #: quarter of its cost.
 MODEL_GRID = FilmOptions(n_theta=72, n_z=12)
 #: Film temperature accepted by the heat balance, K (regula falsi stops within it).
@@ -177,11 +177,16 @@ class FilmJournal:
         temperature : float
             A first guess of the film temperature (K), say the neighbouring speed's.
         """
-        temperature, eq = self._film_state(speed, load, start, temperature)
+        temperature, eq, settled = self._film_state(speed, load, start, temperature)
         result = film_coefficients(self.geometry, speed, load, self.viscosity(temperature),
                                    options=self.options, check_step=check_step,
                                    equilibrium=eq)
         notes = result.warnings
+        if not settled:
+            notes += (Notice(f"the film temperature's heat balance did not settle within "
+                             f"{TEMPERATURE_TOLERANCE} K at {speed * 30 / math.pi:.0f} rpm: "
+                             f"{temperature - 273.15:.1f} degC is its best estimate",
+                             code="note"),)
         if temperature > HOT_FILM:
             notes += (Notice(f"effective film temperature {temperature - 273.15:.0f} degC "
                              f"at {speed * 30 / math.pi:.0f} rpm: above "
@@ -195,12 +200,12 @@ class FilmJournal:
                                 options=self.options, start=start)
 
     def _film_state(self, speed, load, start, guess=None):
-        """(effective temperature, equilibrium there): the root of the decreasing
+        """(effective temperature, equilibrium there, settled?): the root of the decreasing
         ``g(T) = T_inlet + share x rise(T) - T`` by secant steps kept inside the bracket
         (``g(T_inlet) >= 0`` always)."""
         if self.film_temperature is not None:
             t = self.film_temperature
-            return t, self._equilibrium(speed, load, t, start)
+            return t, self._equilibrium(speed, load, t, start), True
         inlet, share = self.inlet_temperature, self.rise_share
         found = {}
 
@@ -217,7 +222,7 @@ class FilmJournal:
         for _ in range(40):
             g = excess(t)
             if abs(g) <= TEMPERATURE_TOLERANCE:
-                return t, found[t]
+                return t, found[t], True
             low, high = (max(low, t), high) if g > 0.0 else (low, min(high, t))
             step = t + g
             if previous is not None and g != previous[1]:
@@ -226,6 +231,7 @@ class FilmJournal:
                 step = 0.5 * (low + high) if math.isfinite(high) else t + g
             previous, t = (t, g), step
             if high - low <= TEMPERATURE_TOLERANCE:
-                break
+                best = min(found, key=lambda s: abs(s - t))
+                return best, found[best], True     # bracketed within the tolerance
         best = min(found, key=lambda s: abs(s - t))
-        return best, found[best]
+        return best, found[best], False

@@ -29,6 +29,7 @@ standard, the purchase specification, local codes and a licensed engineer's revi
 from __future__ import annotations
 
 import dataclasses
+import functools
 import math
 from dataclasses import dataclass
 
@@ -134,7 +135,8 @@ def film_speed_range(rotor):
 def tabulate_films(rotor, *, tolerance=TOLERANCE, max_points=MAX_POINTS):
     """The rotor with every film bearing's coefficients computed (module docstring).
 
-    Returns ``rotor`` itself when it has no film bearing.
+    Returns ``rotor`` itself when it has no film bearing.  Memoised: a what-if command
+    checks its variants before it runs them, and the same rotor is not solved twice.
 
     Raises
     ------
@@ -143,9 +145,14 @@ def tabulate_films(rotor, *, tolerance=TOLERANCE, max_points=MAX_POINTS):
     SolverError
         A film that carries its load at no speed of the range.
     """
-    films = [i for i, b in enumerate(rotor.bearings) if b.film is not None]
-    if not films:
+    if not any(b.film is not None for b in rotor.bearings):
         return rotor
+    return _tabulated(rotor, float(tolerance), int(max_points))
+
+
+@functools.lru_cache(maxsize=32)
+def _tabulated(rotor, tolerance, max_points):
+    films = [i for i, b in enumerate(rotor.bearings) if b.film is not None]
     low, high = film_speed_range(rotor)
     solved, notes = {}, []
 

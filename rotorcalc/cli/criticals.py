@@ -80,6 +80,9 @@ def apply_overrides(rotor, speed_count=None, speed_to=None, orders=None, margin_
                 min_log_dec=r.min_log_dec if min_log_dec is None else min_log_dec)
         if changes:
             rotor = dataclasses.replace(rotor, settings=dataclasses.replace(s, **changes))
+        if "speed_to" in changes:      # film bearings' tables must reach the new top
+            from ..bearings import tabulate_films
+            rotor = tabulate_films(rotor)
     return rotor
 
 

@@ -191,3 +191,26 @@ def test_what_if_changes_raise_the_eccentricity(two, change):
     assert s1 < s0 and e1 > e0, (change, s0, s1, e0, e1)
     assert changed.bearings[0].film != two.bearings[0].film
     assert dataclasses.replace(changed.bearings[1], film_record=None) is not None
+
+
+GRID = "Grid refinement study: P. J. Roache, Verification and Validation in " \
+       "Computational Science and Engineering, 1998, ch. 5 (from memory)"
+
+
+@pytest.mark.parametrize("case", ["feed_pump_sleeve", "blower_two_lobe"])
+def test_model_grid_is_close_to_the_fine_grid_on_the_bundled_bearings(case):
+    from rotorcalc.bearings import FilmOptions
+    from rotorcalc.reader import read_rotor
+    from tests.conftest import ROOT
+    rotor = read_rotor(ROOT / "cases" / f"{case}.toml")
+    bearing = rotor.bearings[0]
+    record = bearing.film_record
+    speed = rotor.operating.max_speed
+    load = tuple(record.loads[0])
+    coarse = bearing.film.coefficients(speed, load)
+    fine = bearing.film.changed(options=FilmOptions(n_theta=120, n_z=20)).coefficients(
+        speed, load)
+    for what, a, b in (("stiffness", coarse.stiffness, fine.stiffness),
+                       ("damping", coarse.damping, fine.damping)):
+        check(f"{case} {bearing.name}: {what}, 72 x 12 grid against 120 x 20", GRID, 0.0,
+              float(np.linalg.norm(a - b) / np.linalg.norm(b)), 0.02, kind="abs")
