@@ -34,9 +34,11 @@ class BearingCurves:
     description : str
         The bore and oil of a film bearing, or what the table holds.
     speeds : ndarray
-        rad/s: the table's speeds (a constant bearing: the operating range's ends).
+        rad/s: the table's speeds (a constant bearing: the operating range's ends; a
+        bearing from its geometry: the speeds its film was solved at).
     stiffness, damping : ndarray (n, 2, 2)
-        N/m and N s/m at each speed.
+        N/m and N s/m at each speed, as the analyses read them (for a bearing from its
+        geometry its smoothed table; the raw solves are in ``record.coefficients``).
     record : FilmRecord or None
         The film state at each speed (geometry bearings only).
     operating : tuple
@@ -119,8 +121,11 @@ def bearing_curves(rotor: Rotor, which=None):
 
 
 def _curves(bearing, operating):
-    speeds = np.array(bearing.speeds if len(bearing.speeds) >= 2 else
-                      sorted({operating[0], operating[1]}), dtype=float)
+    if bearing.film_record is not None:
+        speeds = np.array(bearing.film_record.speeds, dtype=float)
+    else:
+        speeds = np.array(bearing.speeds if len(bearing.speeds) >= 2 else
+                          sorted({operating[0], operating[1]}), dtype=float)
     mats = [bearing.matrices(s) for s in speeds]
     stiffness = np.array([k for k, _ in mats])
     damping = np.array([c for _, c in mats])

@@ -6,10 +6,10 @@ analysis reads (linear in speed, end values held): at each solved speed the stat
 (:func:`rotorcalc.statics.static_solution`, Newton on the film journals' loads) give
 every film journal its load, equilibrium and coefficients.
 
-The coefficients carry a little noise from the film grid (the cavitation boundary
-moves across grid cells from one speed to the next: about 0.5 % of the largest
-coefficient on the default grid), so they are not interpolated point to point but
-smoothed: each coefficient is a smoothing spline in log speed, its smoothing chosen
+The coefficients scatter a little from one speed to the next (the cavitation boundary
+moves across the film grid's cells: up to 3 % of the damping matrix at high eccentricity
+on the default 72 x 12 grid, about 0.6 % on 240 x 12), so they are not interpolated point
+to point but smoothed: each coefficient is a smoothing spline in log speed, its smoothing chosen
 by generalised cross-validation (``scipy.interpolate.make_smoothing_spline``), fitted
 through :data:`START_POINTS` speeds spaced evenly on a log scale over
 :func:`film_speed_range`.  The fit is then checked where it was not fitted: at the
@@ -43,9 +43,10 @@ from ..statics import static_solution
 #: Speeds of the first fit; the fit is tabulated at TABLE_POINTS speeds.
 START_POINTS = 9
 TABLE_POINTS = 41
-#: Largest out-of-sample difference accepted (3 %: above the scatter of the film solves
-#: themselves, 1-2 % of the damping matrix on the default grid) and solved speeds allowed.
-TOLERANCE = 0.03
+#: Largest out-of-sample difference accepted (5 %: above the scatter of the film solves
+#: themselves, up to 3 % of the damping matrix at eccentricity ratios near 0.7 on the default
+#: 72 x 12 grid, measured; docs/bearings.md) and solved speeds allowed.
+TOLERANCE = 0.05
 MAX_POINTS = 33
 #: Lowest grid speed as a share of the top one (or half the minimum speed when lower).
 LOW_SHARE = 0.05

@@ -80,11 +80,19 @@ def plot_bearing_coefficients(curves, *, axes=None):
         ax = panels[kind]
         st.style_axes(ax)
         _band(ax, curves, "operating range" if kind == "stiffness" else None)
-        for pair, i, j in PAIRS:
+        raw = None if curves.record is None else np.asarray(curves.record.coefficients)
+        for n, (pair, i, j) in enumerate(PAIRS):
             colour, style = STYLES[pair]
             name = f"{'k' if kind == 'stiffness' else 'c'}{pair}"
             lines[name], = ax.plot(rpm, values[:, i, j] * scale, color=colour, linestyle=style,
-                                   marker="o", markersize=2.5, linewidth=1.5, label=name)
+                                   marker="o" if raw is None else None, markersize=2.5,
+                                   linewidth=1.5, label=name)
+            if raw is not None:     # the solves the smoothed table was fitted through
+                column = n if kind == "stiffness" else n + 4
+                ax.plot(rpm, raw[:, column] * scale, color=colour, linestyle="none",
+                        marker="o", markersize=3.2, markerfacecolor="none",
+                        markeredgewidth=0.8, alpha=0.8,
+                        label="solved (table: lines)" if n == 0 else None)
         ax.axhline(0.0, color=st.MUTED, linewidth=0.7, zorder=1)
         st.label_axes(ax, "Speed (rpm)", f"{kind.capitalize()} ({unit})")
         # above the panel: no curve is ever hidden behind the key

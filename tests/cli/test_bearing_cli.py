@@ -7,6 +7,7 @@ import json
 import pytest
 from typer.testing import CliRunner
 
+from rotorcalc.bearings.tabulate import TOLERANCE
 from rotorcalc.cli import app
 from tests.conftest import ROOT
 
@@ -36,7 +37,7 @@ def test_every_bearing_of_the_sleeve_pump_is_shown_and_written(sleeve_run):
     assert by_name["DE"]["source"] == "geometry" and "film" in by_name["DE"]
     assert by_name["centre bush"]["source"] == "table" and "film" not in by_name["centre bush"]
     film = by_name["DE"]["film"]
-    assert film["interpolation_error"] <= 0.03
+    assert film["interpolation_error"] <= TOLERANCE
     assert all(0.0 < e < 1.0 for e in film["eccentricity_ratio"])
     rows = list(csv.DictReader(files["csv"].read_text().splitlines()))
     de = [r for r in rows if r["bearing"] == "DE"]

@@ -16,7 +16,7 @@ and the speed grid, each against something outside the code that computes it.
 4. A given film temperature reproduces the film solver at that viscosity exactly.
 5. The speed table: the coefficients read from the (smoothed) table at speeds where no
    fit point lies differ from a direct solve there by no more than the table's tolerance,
-   3 %, which the out-of-sample check reports it met (a held-out validation, as in
+   5 %, which the out-of-sample check reports it met (a held-out validation, as in
    T. Hastie, R. Tibshirani, J. Friedman, The Elements of Statistical Learning, 2nd ed.
    2009, section 7.10, from memory).
 6. Physical trends of the what-if changes: a larger clearance, a thinner oil or hotter oil
