@@ -12,6 +12,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ._checks import _freeze, _one_of, _positive
+from .bearings.table import CoefficientTable, read_table
 from .errors import InputError
 from .vocabulary import BearingRole, old_keywords
 
@@ -218,22 +219,16 @@ class Bearing:
         outside the table.  ``whirl`` (rad/s) is the whirl frequency a two-way table is
         read at; ``None`` reads it at ``omega``: the synchronous coefficients.
         """
-        frequency = omega if whirl is None else whirl
-        values = {}
-        for name in COEFFICIENT_NAMES:
-            table = self.table(name)
-            if isinstance(table[0], tuple):
-                rows = np.asarray(table, dtype=float)
-                row = rows[0] if len(rows) == 1 else np.array(
-                    [np.interp(omega, self.speeds, rows[:, j]) for j in range(rows.shape[1])])
-                values[name] = float(np.interp(frequency, self.whirl, row))
-            elif len(table) == 1:
-                values[name] = table[0]
-            else:
-                values[name] = float(np.interp(omega, self.speeds, table))
-        k = np.array([[values["kxx"], values["kxy"]], [values["kyx"], values["kyy"]]])
-        c = np.array([[values["cxx"], values["cxy"]], [values["cyx"], values["cyy"]]])
-        return k, c
+        return read_table(self.speeds, self.whirl, self.coefficients, omega, whirl)
+
+    @property
+    def model(self):
+        """The bearing model behind the coefficients, with ``coefficients(speed, load, *,
+        whirl=None)``: the :class:`~rotorcalc.bearings.FilmJournal` of a bearing from its
+        geometry, else its :class:`~rotorcalc.bearings.table.CoefficientTable`."""
+        if self.film is not None:
+            return self.film
+        return CoefficientTable(self.speeds, self.whirl, self.coefficients)
 
 
 def _rows_or_values(v):

@@ -7,7 +7,8 @@ Run from the project root (scratch files go to /tmp/fuzz unless --scratch says o
     .venv/bin/python tools/fuzz_cli.py --seed 1 --only 117     # replay one try and show its output
 
 Each try starts from a tiny invented rotor (2-4 sections of 1-2 elements, 2 bearings, one
-unbalance case, a probe and a clearance, 7 sweep speeds, 3 modes; now and then a bundled case
+unbalance case, a probe and a clearance, 7 sweep speeds, 3 modes; now and then a far-end
+bearing given by its geometry, now and then a bundled case
 with its speed counts lowered), breaks it in one named way (KINDS below), runs one of the ten
 commands in-process with typer's CliRunner under a per-try time limit, and classifies the
 result. Tries are generated from Random(f"{seed}:{index}"), so a seed always gives the same
@@ -215,6 +216,13 @@ def tiny_rotor(rng):
             brg.update(speeds=["1000 rpm", "5000 rpm"], kxx=[f"{k:.3g} N/m", f"{1.3 * k:.3g} N/m"])
         if rng.random() < 0.25:
             brg["support"] = {"kx": "2e8 N/m", "ky": "3e8 N/m", "mass": "20 kg"}
+        if j == 1 and rng.random() < 0.2:     # a sleeve from its geometry (film solves)
+            brg = {"name": "far end", "at": s,
+                   "film": {"bore": rng.choice(["plain", "two-lobe", "offset-halves"]),
+                            "diameter": "50 mm", "length": "25 mm", "clearance": "50 um"},
+                   "oil": {"grade": rng.choice([22, 32, 46]), "inlet_temperature": "45 degC"}}
+            if brg["film"]["bore"] != "plain":
+                brg["film"]["preload"] = 0.4
         doc["bearing"].append(brg)
     if rng.random() < 0.25:    # a seal tabulated over speed and whirl frequency, and a screen
         doc["bearing"].append({"name": "wheel seal", "at": d, "role": "seal",
@@ -313,6 +321,8 @@ def value_targets(t):
         (("section", 0, "length"), "length"), (("section", 0, "outer_diameter"), "length"),
         (("clearance", 0, "radial"), "length"), (("response", "vibration_limit"), "length"),
         (("bearing", 0, "kxx"), "stiffness"), (("bearing", 1, "kyy"), "stiffness"),
+        (("bearing", 1, "film", "clearance"), "length"),
+        (("bearing", 1, "film", "length"), "length"),
         (("bearing", 0, "cxx"), "damping"), (("disk", 0, "mass"), "mass"),
         (("materials", mat, "youngs_modulus"), "modulus"), (("materials", mat, "density"), "density"),
         (("unbalance",), "unbalance")]

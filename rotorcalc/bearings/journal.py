@@ -4,7 +4,9 @@
 its diameter, length, clearance, preload and grooves), the oil and the thermal
 rule, and answers one question through :meth:`FilmJournal.coefficients`: the eight
 coefficients at a speed and a static load.  Every bearing model offers that one
-method (``coefficients(speed, load, ...)``); a tilting-pad bearing will be one more.
+method (``coefficients(speed, load, *, whirl=None)``; the tables of
+:mod:`rotorcalc.bearings.table` are the first model); a tilting-pad bearing will be one
+more.
 
 Effective film temperature (docs/bearings.md, "Lubricant"): a given
 ``film_temperature`` is used as it is; otherwise the isoviscous film sits at::
@@ -159,8 +161,12 @@ class FilmJournal:
         """Dynamic viscosity (Pa s) at ``temperature`` (K)."""
         return float(self.lubricant.dynamic_viscosity(temperature))
 
-    def coefficients(self, speed, load, *, start=None, check_step=True, temperature=None):
+    def coefficients(self, speed, load, *, whirl=None, start=None, check_step=True,
+                     temperature=None):
         """The eight coefficients at ``speed`` (rad/s) under ``load`` (N, on the journal).
+
+        ``whirl`` is accepted for the common interface and not used: a fixed-geometry film
+        without fluid inertia gives the same coefficients at every whirl frequency.
 
         Returns
         -------

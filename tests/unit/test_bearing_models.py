@@ -1,0 +1,46 @@
+"""Every bearing model answers ``coefficients(speed, load, *, whirl=None)`` with ``stiffness``
+and ``damping``; ``Bearing.model`` gives it, and the analyses' ``Bearing.matrices`` reads the
+same numbers (tables) or the table computed from it (geometry)."""
+
+import math
+
+import numpy as np
+import pytest
+
+from rotorcalc.bearings import CoefficientTable, FilmJournal
+from rotorcalc.reader import read_rotor
+from rotorcalc.supports import Bearing
+from tests.conftest import ROOT
+
+
+def test_a_table_bearing_is_its_table_model():
+    b = Bearing(0, {"kxx": (1e8, 2e8), "kyy": (3e8,), "kxy": ((1e6, 2e6), (3e6, 4e6))},
+                speeds=(100.0, 300.0), whirl=(50.0, 150.0))
+    model = b.model
+    assert isinstance(model, CoefficientTable)
+    for speed, whirl in ((100.0, None), (200.0, 100.0), (400.0, 10.0)):
+        got = model.coefficients(speed, (0.0, -1000.0), whirl=whirl)
+        k, c = b.matrices(speed, whirl)
+        assert np.array_equal(got.stiffness, k) and np.array_equal(got.damping, c)
+    # linear in speed then in frequency: kxy at 200 rad/s, whirl 100 rad/s
+    assert model.coefficients(200.0, whirl=100.0).stiffness[0, 1] == pytest.approx(2.5e6)
+
+
+def test_a_geometry_bearing_is_its_film_model():
+    rotor = read_rotor(ROOT / "cases" / "feed_pump_sleeve.toml")
+    b = rotor.bearings[0]
+    assert isinstance(b.model, FilmJournal)
+    record = b.film_record
+    speed, load = float(record.speeds[8]), tuple(record.loads[8])
+    got = b.model.coefficients(speed, load, whirl=0.5 * speed)   # whirl: not used
+    same = b.model.coefficients(speed, load)
+    assert np.allclose(got.stiffness, same.stiffness, rtol=1e-9)
+    # the solve at a fit speed is the record's; the table there is its smoothed fit
+    solved = np.concatenate([same.stiffness.ravel(), same.damping.ravel()])
+    # the record's solve started from its neighbour's state: the heat balance stops within
+    # 0.1 K of its root, so a fresh start lands a little elsewhere (0.3 % of viscosity)
+    assert np.allclose(solved, record.coefficients[8], rtol=1e-2)
+    k, c = b.matrices(speed)
+    table = np.concatenate([k.ravel(), c.ravel()])
+    assert np.linalg.norm(table - solved) / np.linalg.norm(solved) < 0.05
+    assert math.isclose(b.speeds[0], record.speeds[0])
