@@ -126,9 +126,10 @@ class Bearing:
                     raise InputError(f"{self.key}.{name}{at}", "is not a finite number",
                                      value=v, kind="not-finite")
             # a film computed from its geometry is what its physics makes it (a lightly
-            # loaded lobed film may have a negative direct stiffness)
+            # loaded lobed film may have a negative direct stiffness), and so is its table
+            # once frozen by a what-if (film gone, its record kept)
             if name in ("kxx", "kyy", "cxx", "cyy") and self.role != BearingRole.SOURCE \
-                    and self.film is None:
+                    and self.film is None and self.film_record is None:
                 for at, v in flat:
                     if v < 0.0:
                         what = "stiffness" if name[0] == "k" else "damping"
@@ -136,7 +137,7 @@ class Bearing:
                                          f"direct {what} must not be negative", value=v,
                                          kind="range")
         # a source may feed energy: that is its point; a film: as above
-        if self.role != BearingRole.SOURCE and self.film is None:
+        if self.role != BearingRole.SOURCE and self.film is None and self.film_record is None:
             self._check_principal(speeds)
 
     def _check_axis(self, axis, values):

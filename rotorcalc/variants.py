@@ -268,8 +268,8 @@ def _change_bearings(rotor, change, parts, head_index):
             else:
                 coefficients[name] = (_new_value(change, None, dim),)
         # a film bearing's computed table is frozen: changed as given, never recomputed
-        new[i] = dataclasses.replace(new[i], coefficients=coefficients, film=None,
-                                     film_record=None)
+        # (its record stays: the table came from a film, whose physics it keeps)
+        new[i] = dataclasses.replace(new[i], coefficients=coefficients, film=None)
     return dataclasses.replace(rotor, bearings=tuple(new))
 
 

@@ -9,7 +9,7 @@ Run from the project root (scratch files go to /tmp/fuzz unless --scratch says o
 Each try starts from a tiny invented rotor (2-4 sections of 1-2 elements, 2 bearings, one
 unbalance case, a probe and a clearance, 7 sweep speeds, 3 modes; now and then a far-end
 bearing given by its geometry, now and then a bundled case
-with its speed counts lowered), breaks it in one named way (KINDS below), runs one of the ten
+with its speed counts lowered), breaks it in one named way (KINDS below), runs one of the thirteen
 commands in-process with typer's CliRunner under a per-try time limit, and classifies the
 result. Tries are generated from Random(f"{seed}:{index}"), so a seed always gives the same
 inputs; only timing-dependent outcomes (hang) can differ between machines.
@@ -88,7 +88,7 @@ os.environ["MPLBACKEND"] = "Agg"
 
 ROOT = Path(__file__).resolve().parents[1]
 COMMANDS = ["modes", "sweep", "criticals", "check", "response", "layout", "stiffness-map",
-            "compare", "window", "levers", "cross-coupling", "statics"]
+            "compare", "window", "levers", "cross-coupling", "statics", "bearing"]
 KINDS = ["markup", "math-text", "dimensionless-unit", "odd-speed-unit", "extreme-magnitude",
          "impossible-physics", "size-bomb", "encoding", "option-error", "output-fault",
          "structural-mutation"]
@@ -110,7 +110,7 @@ OUT_OPTS = {"modes": ["--json", "--csv", "--plot"], "sweep": ["--plot", "--json"
             "layout": ["--plot"], "stiffness-map": ["--plot", "--json", "--csv", "--plot-shapes"],
             "compare": ["--plot", "--json", "--csv"], "window": ["--json", "--csv"],
             "levers": ["--json", "--csv"], "cross-coupling": ["--plot", "--json", "--csv"],
-            "statics": ["--plot", "--json", "--csv"]}
+            "statics": ["--plot", "--json", "--csv"], "bearing": ["--plot", "--json", "--csv"]}
 PICTURE_OPTS = {"--plot", "--plot-bode", "--plot-polar", "--plot-orbits", "--plot-shapes"}
 
 
@@ -581,6 +581,7 @@ OPTION_ERRORS = {
                        ["--min-ratio", "-1"], ["--min-log-dec", "nan"],
                        ["--coefficients-at", "own"], ["--coefficients-at", ""]],
     "statics": [["--speed", "3000"], ["--speed", "-5 rpm"], ["--speed", "3 kg"]],
+    "bearing": [["--name", "nope"], ["--name", ""], ["--name", "drive end", "--name", "x"]],
 }
 OPTION_ERRORS["check"] = OPTION_ERRORS["criticals"]
 COMMON_OPTION_ERRORS = [["--bogus"], ["--json"], ["NOCASE"]]

@@ -61,6 +61,9 @@ MODULE_SECTIONS = (
     ("test_lubricant.py", TITLE_13),
     ("test_statics.py",
      "14. Statics: journal reactions and deflection against beam formulas, the lever rule"),
+    ("test_film_in_model.py",
+     "15. Film bearings in the rotor model: film journals in equilibrium, the heat balance, "
+     "the speed table against solves it was not fitted through, what-if trends, model grid"),
 )
 
 INTRO = """\

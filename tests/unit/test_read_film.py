@@ -144,3 +144,19 @@ def test_a_film_change_recomputes_only_the_film_bearing(rotor):
     assert changed.bearings[0].film_record is not None
     assert changed.bearings[0].coefficients != rotor.bearings[0].coefficients
     assert changed.bearings[1] == rotor.bearings[1]
+
+
+def test_a_frozen_film_table_keeps_the_films_physics(rotor):
+    """A lightly loaded lobed film can have a slightly negative direct stiffness; its table,
+    frozen and scaled by a stiffness study, may keep it (the fuzz harness found `window`
+    refusing such a rotor); a table given as such may not."""
+    import dataclasses
+    a = rotor.bearings[0]
+    kxx = list(a.table("kxx"))
+    kxx[3] = -1.0e4
+    coefficients = dict(a.coefficients, kxx=tuple(kxx))
+    frozen = dataclasses.replace(a, coefficients=coefficients, film=None)
+    assert frozen.table("kxx")[3] == -1.0e4
+    with pytest.raises(InputError) as info:
+        dataclasses.replace(frozen, film_record=None)
+    assert info.value.key == f"{a.key}.kxx[3]"
