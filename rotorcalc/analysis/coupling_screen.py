@@ -190,6 +190,10 @@ def _station_shares(rotor, placement, speed, mode_count):
     return ((int(np.argmax(amplitude)), 1.0),)
 
 
+#: Modes the screen solves at least.
+SCREEN_MODES = 8
+
+
 def _no_forward_mode():
     return InputError("coupling_screen", "finds no forward mode at the maximum continuous "
                       "speed", expected="more modes (analysis.mode_count)", kind="range")
@@ -269,7 +273,9 @@ def cross_coupling_screen(rotor, expected=None, placement=None, top_ratio=None,
         raise InputError("coupling_screen.placement", "is not a known placement",
                          value=placement, expected=" or ".join(PLACEMENTS), kind="choice")
     speed = rotor.operating.max_speed
-    mode_count = rotor.settings.mode_count
+    # the screen judges the first forward mode: ask for enough modes that one is among
+    # them even when the file asks for few (a fuzz try with mode_count 3 found none)
+    mode_count = max(rotor.settings.mode_count, SCREEN_MODES)
     if expected is None:
         expected = sum(source_q(s, speed) for s in rotor.sources)
     if not (math.isfinite(expected) and expected > 0):

@@ -55,7 +55,8 @@ def command(
                   BEARING_ROW_COLUMNS, [row for c in curves for row in c.rows])
     if plot is not None:
         for c in curves:
-            target = plot if len(curves) == 1 else plot.with_name(
+            # (not with_name: an empty --plot is Path("."), which has no name to replace)
+            target = plot if len(curves) == 1 else plot.parent / (
                 f"{plot.stem}_{_file_part(c.name)}{plot.suffix}")
             save_figure(c.plot().figure, target)
 

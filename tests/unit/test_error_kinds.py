@@ -24,6 +24,17 @@ def mutated(old, new):
     return lambda: parse_rotor(PUMP.replace(old, new, 1), source="pump.toml")
 
 
+SLEEVE = (ROOT / "cases" / "feed_pump_sleeve.toml").read_text()
+
+
+def sleeve(old, new, before=""):
+    """The feed pump on bearings from their geometry, its first film bearing changed (the
+    error is raised before any film is solved)."""
+    assert old in SLEEVE, old
+    text = SLEEVE.replace("[bearing.film]", before + "[bearing.film]", 1) if before else SLEEVE
+    return lambda: parse_rotor(text.replace(old, new, 1), source="pump_sleeve.toml")
+
+
 def change(text):
     rotor = read_rotor(ROOT / "cases" / "feed_pump.toml")
     return lambda: apply_change(rotor, parse_change(text))
@@ -92,6 +103,16 @@ CASES = [
         PUMP + '\n[coupling_screen]\nplacement = "everywhere"\n')),
     ("range", "a cross-coupling sweep shorter than ten times the expected amount",
      lambda: parse_rotor(PUMP + '\n[coupling_screen]\ntop_ratio = 3\n')),
+    # bearings from their geometry (cases/feed_pump_sleeve.toml)
+    ("conflict", "coefficients beside a film", sleeve('bore = "plain"', 'bore = "plain"',
+                                                      before='kxx = "1e8 N/m"\n')),
+    ("unit", "a temperature without a unit", sleeve('inlet_temperature = "45 degC"',
+                                                    "inlet_temperature = 45")),
+    ("range", "a clearance too large for a thin film", sleeve('clearance = "70 um"',
+                                                              'clearance = "5 mm"')),
+    ("choice", "an oil grade that is no ISO viscosity grade", sleeve("grade = 46", "grade = 47")),
+    ("missing", "a film without its oil", sleeve('[bearing.oil]\ngrade = 46\n'
+                                                 'inlet_temperature = "45 degC"\n', "")),
 ]
 
 #: Kinds raised only by the command line (tested in tests/cli): refusing to
