@@ -3,6 +3,8 @@ rotor file (docs/input.md, "Bearings from their geometry")."""
 
 from __future__ import annotations
 
+import math
+
 from . import units as u
 from ._toml import _array_of_tables, _number, _quantity, _string, check_keys
 from ._read_response import _angle
@@ -12,10 +14,10 @@ from .bearings.lubricant import Lubricant
 from .errors import InputError
 
 FILM_KEYS = {"bore", "diameter", "length", "clearance", "preload", "groove_width", "grooves",
-             "feed_pressure", "grid", "cavitation"}
+             "feed_pressure", "grid", "cavitation", "clearance_range", "preload_range"}
 GROOVE_KEYS = {"at", "width"}
 OIL_KEYS = {"grade", "points", "inlet_temperature", "film_temperature", "rise_share",
-            "density", "specific_heat", "name"}
+            "density", "specific_heat", "name", "inlet_temperature_range"}
 
 
 def read_film(table, where):
@@ -67,7 +69,36 @@ def read_film(table, where):
     values["film_temperature"] = _quantity(oil, "film_temperature", u.TEMPERATURE, ow)
     if "rise_share" in oil:
         values["rise_share"] = _number(oil, "rise_share", ow, 0.8)
+    values["clearance_range"] = _pair(film, "clearance_range", fw, u.LENGTH)
+    values["preload_range"] = _pair(film, "preload_range", fw, None)
+    values["inlet_range"] = _pair(oil, "inlet_temperature_range", ow, u.TEMPERATURE)
+    for field, nominal, key in (("clearance_range", "clearance", f"{fw}.clearance_range"),
+                                ("preload_range", "preload", f"{fw}.preload_range"),
+                                ("inlet_range", "inlet_temperature",
+                                 f"{ow}.inlet_temperature_range")):
+        value = values.get(nominal, 0.0)
+        if len(values[field]) == 2 and not min(values[field]) <= value <= max(values[field]):
+            raise InputError(key, "does not hold the nominal value", value=values[field],
+                             expected=f"a range around the nominal {nominal} ({value:.6g} "
+                                      "SI)", kind="range")
     return FilmJournal(**values)
+
+
+def _pair(table, key, where, dim):
+    """A tolerance range ``[low, high]`` (quantities of ``dim``, or plain numbers), or ()."""
+    if key not in table:
+        return ()
+    raw = table[key]
+    if not (isinstance(raw, list) and len(raw) == 2):
+        raise InputError(f"{where}.{key}", "must be two values, low and high", value=raw,
+                         expected='[low, high], e.g. ["100 um", "125 um"]', kind="type")
+    if dim is None:
+        for i, v in enumerate(raw):
+            if isinstance(v, bool) or not isinstance(v, (int, float)) or not math.isfinite(v):
+                raise InputError(f"{where}.{key}[{i}]", "must be a number", value=v,
+                                 expected="a plain number such as 0.4", kind="type")
+        return tuple(float(v) for v in raw)
+    return tuple(u.parse(v, dim, f"{where}.{key}[{i}]") for i, v in enumerate(raw))
 
 
 def _options(film, where):

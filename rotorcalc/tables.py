@@ -453,3 +453,23 @@ BEARING_ROW_COLUMNS = ([Column("Bearing", lambda r: r[0], "{}", "bearing")]
 STATIC_FILM_COLUMNS = ([Column("Bearing", lambda r: r[0], "{}", "bearing")]
                        + [Column(c.heading, lambda r, c=c: c.get(r[1:]), c.fmt, c.csv_name)
                           for c in FILM_STATE_COLUMNS[1:]])
+
+
+def _worst_text(measure, value):
+    if value is None:
+        return None
+    if measure.startswith("margin"):
+        return "unstable" if value == -math.inf else (
+            "no margin required" if value == math.inf else f"{value:+.1f}")
+    return f"{value:.3f}"
+
+
+#: Rows: Envelope.worst (WorstCase records).
+WORST_CASE_COLUMNS = [
+    Column("Item", lambda w: w.item, "{}", "item"),
+    Column("Compared", lambda w: w.measure, "{}", "measure"),
+    Column("Worst at", lambda w: w.variant, "{}", "worst_variant"),
+    Column("Worst", lambda w: _worst_text(w.measure, w.value), "{}", "worst_value"),
+    Column("Nominal", lambda w: _worst_text(w.measure, w.nominal), "{}", "nominal_value"),
+    Column("Verdict there", lambda w: "pass" if w.passed else "FAIL", "{}", "passed"),
+]

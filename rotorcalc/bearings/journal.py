@@ -80,6 +80,9 @@ class FilmJournal:
         Share of the oil's temperature rise added to the inlet (0 to 1, 0.8 default).
     options : FilmOptions
         Film grid and cavitation model.
+    clearance_range, preload_range, inlet_range : tuple
+        The tolerances, ``(low, high)`` (m, -, K) around the nominal values, or empty:
+        the corners a tolerance envelope screens (:mod:`rotorcalc.analysis.envelope`).
     """
 
     bore: str
@@ -95,6 +98,9 @@ class FilmJournal:
     film_temperature: float | None = None
     rise_share: float = 0.8
     options: FilmOptions = MODEL_GRID
+    clearance_range: tuple = ()
+    preload_range: tuple = ()
+    inlet_range: tuple = ()
     key: str = "film"
     oil_key: str = "oil"
     geometry: object = field(init=False, repr=False, compare=False)
@@ -132,6 +138,26 @@ class FilmJournal:
             raise InputError(f"{self.oil_key}.rise_share", "is out of range",
                              value=self.rise_share, expected="a number from 0 to 1",
                              kind="range")
+        for name, where in (("clearance", k), ("preload", k), ("inlet", self.oil_key)):
+            self._check_range(name, where)
+
+    def _check_range(self, name, where):
+        """A tolerance range: two values, low below high (the reader checks that the file's
+        nominal value lies between them; a what-if may move it out)."""
+        field_name = f"{name}_range"
+        key = f"{where}.{'inlet_temperature' if name == 'inlet' else name}_range"
+        values = tuple(getattr(self, field_name))
+        object.__setattr__(self, field_name, values)
+        if not values:
+            return
+        if len(values) != 2 or not all(isinstance(v, (int, float)) and math.isfinite(v)
+                                       for v in values):
+            raise InputError(key, "must be two values, low and high", value=values,
+                             expected="[low, high] with their units", kind="type")
+        low, high = values
+        if not low < high:
+            raise InputError(key, "has its low end not below its high end", value=values,
+                             expected="[low, high], low < high", kind="order")
 
     def _check_sizes(self):
         """The inputs the file names, checked under the file's own keys (the geometry

@@ -19,8 +19,8 @@ import typer  # noqa: E402
 from typer.core import TyperGroup  # noqa: E402
 
 from ..vocabulary import rename_options  # noqa: E402
-from . import (bearing, check, compare, coupling, criticals, layout, levers, modes,  # noqa: E402
-               response, statics, stiffness_map, sweep, window)
+from . import (bearing, check, compare, coupling, criticals, envelope, layout, levers,  # noqa: E402
+               modes, response, statics, stiffness_map, sweep, window)
 from .common import guarded  # noqa: E402
 
 class _Commands(TyperGroup):
@@ -49,7 +49,7 @@ app = typer.Typer(
          "local codes and a licensed engineer's review.")
 
 for module in (modes, sweep, criticals, check, response, layout, stiffness_map, compare, window,
-               coupling, levers, statics, bearing):
+               coupling, levers, statics, bearing, envelope):
     module.register(app)
 for _command in app.registered_commands:   # no traceback from any command, ever
     _command.callback = guarded(_command.callback)

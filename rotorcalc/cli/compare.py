@@ -129,7 +129,25 @@ def command(
             input_errors():
         comparison = compare(rotor, variants, progress=bar, with_sources=with_sources)
     elapsed = time.perf_counter() - started
-    summary = [("base", "the rotor as described", comparison.screenings[0])] + [
+    warnings = print_comparison(rotor, comparison, variants)
+    console.print(f"[dim]{len(comparison.names)} screenings in {elapsed:.1f} s. {CAUTION}[/]",
+                  highlight=False)
+    document = comparison.to_dict()
+    document["base_file"] = {"path": str(base_path), "sha256": file_hash(base_path)}
+    write_outputs("compare", case, document, warnings, json_path, csv_path,
+                  comparison_columns(comparison), comparison.rows)
+    if plot is not None:
+        draw = plotting_function("plot_variant_maps")
+        if draw is not None:
+            drawing = draw(comparison, operating=rotor.operating)
+            save_figure(drawing.figure, plot)
+
+
+def print_comparison(rotor, comparison, variants, base_label="base",
+                     base_text="the rotor as described"):
+    """The summary and critical-speed tables of a comparison, its notes and warnings
+    (returned, for the JSON)."""
+    summary = [(base_label, base_text, comparison.screenings[0])] + [
         (v.name, "; ".join(c.text for c in v.changes), s)
         for v, s in zip(variants, comparison.screenings[1:])]
     from ..tables import Column
@@ -158,17 +176,7 @@ def command(
         console.print(f"[yellow]note[/] {escape(note)}", highlight=False)
     warnings = merged_warnings(comparison)
     print_warnings(warnings)
-    console.print(f"[dim]{len(comparison.names)} screenings in {elapsed:.1f} s. {CAUTION}[/]",
-                  highlight=False)
-    document = comparison.to_dict()
-    document["base_file"] = {"path": str(base_path), "sha256": file_hash(base_path)}
-    write_outputs("compare", case, document, warnings, json_path, csv_path,
-                  comparison_columns(comparison), comparison.rows)
-    if plot is not None:
-        draw = plotting_function("plot_variant_maps")
-        if draw is not None:
-            drawing = draw(comparison, operating=op)
-            save_figure(drawing.figure, plot)
+    return warnings
 
 
 def register(app: typer.Typer):

@@ -20,7 +20,10 @@ from ._units import to_rpm
 from .speedmap import branch_runs, frequency_top
 
 #: One colour per variant, the base in ink.
-VARIANT_COLOURS = (st.INK,) + st.ITEM_COLOURS
+#: The base in ink, then the item colours, then the series colours they lack: a tolerance
+#: envelope's eight corners and its nominal rotor each get a colour of their own.
+VARIANT_COLOURS = (st.INK,) + st.ITEM_COLOURS + tuple(
+    c for c in st.SERIES_COLOURS if c not in st.ITEM_COLOURS)
 #: Longest list of critical speeds per variant in the key; the rest are counted.
 MAX_LISTED = 9
 
@@ -60,7 +63,8 @@ class VariantMapArtists(WhirlMapArtists):
 
 
 @st.literal_text
-def plot_variant_maps(comparison, operating=None, orders=(1.0,), *, ax=None, freq_max=None):
+def plot_variant_maps(comparison, operating=None, orders=(1.0,), *, ax=None, freq_max=None,
+                      title="Whirl-speed maps of the variants"):
     """Overlay the whirl-speed maps of a base rotor and its variants.
 
     Each variant keeps one colour (the base in ink) for its branches and its
@@ -80,6 +84,8 @@ def plot_variant_maps(comparison, operating=None, orders=(1.0,), *, ax=None, fre
     freq_max : float, optional
         Top of the frequency axis, cpm; by default as on the single map, taken
         over all variants (branches wholly above are counted in the key).
+    title : str
+        Above the frame.
 
     Returns
     -------
@@ -109,7 +115,7 @@ def plot_variant_maps(comparison, operating=None, orders=(1.0,), *, ax=None, fre
         order_labels.append(text)
     branches, kinds, markers, hidden = _draw_variants(ax, data, screenings, colours, top)
     st.label_axes(ax, "Spin speed (rpm)", "Damped natural frequency (cpm)")
-    ax.set_title("Whirl-speed maps of the variants", fontsize=st.FONT_TITLE, color=st.INK,
+    ax.set_title(title, fontsize=st.FONT_TITLE, color=st.INK,
                  loc="left", pad=6 + 10 * rows)
     legend = _variant_legend(ax, names, colours, screenings, orders, operating, hidden, top)
     return VariantMapArtists(
