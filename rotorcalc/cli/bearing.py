@@ -56,7 +56,7 @@ def command(
     if plot is not None:
         for c in curves:
             # (not with_name: an empty --plot is Path("."), which has no name to replace)
-            target = plot if len(curves) == 1 else plot.parent / (
+            target = plot if len(curves) == 1 else plot.parent.joinpath(
                 f"{plot.stem}_{_file_part(c.name)}{plot.suffix}")
             save_figure(c.plot().figure, target)
 
