@@ -30,13 +30,16 @@ Generalised forces (virtual work: a coordinate ``q`` that changes ``h`` receives
 force on the journal); pad ``k`` the moment about its pivot ``M_k = lever F_k . t_k`` and the
 radial force ``-F_k . e_k``, less ``k_p xi_k`` where the pivot has stiffness ``k_p``.
 
-Equilibrium: ``F + W = 0``, ``M_k = 0`` and, with yielding pivots,
-``-F_k . e_k = k_p xi_k``.  Newton's method on ``[x, y, delta_k (, xi_k)]`` in units of ``C_b``
-(tilts as ``lever delta_k / C_b``), a forward-difference Jacobian (a pad's film depends on the
-journal and on that pad only: three or four film solves a pad), each step limited to half
-the clearance and halved until the residual falls.  Starts: the journal 30, 60 and 85 % of
-``C_b`` along the load with the pads first settled there (journal held); last, the load in
-ten steps.
+Equilibrium: ``F + W = 0``, ``M_k = 0`` and, with yielding pivots, ``-F_k . e_k = k_p xi_k``.
+At every journal position (and lifts) each pad is first settled in tilt, a root of its own
+moment (``_Pads.settle``); Newton's method then moves the journal and the lifts, with a
+forward-difference Jacobian condensed over the tilts (a pad's film depends on the journal
+and on that pad only, so a Jacobian costs three or four film solves a pad), the tilts
+following to first order, each step limited to half ``C_b`` and halved until the residual
+``|F + W|`` (and the pivots' imbalance) falls.  Starts: the journal 30, 60 and 85 % of
+``C_b`` along the load, each pad tilted to follow the journal across its pivot line; last,
+the load in ten steps.  A pad whose film only ever turns it back towards no film (an
+unloaded pad) carries nothing: it is left out of the coefficients, with a note.
 
 Coefficients: ``K = -dQ/dq`` and ``C = -dQ/dq'`` of the generalised forces ``Q`` over all
 coordinates, by central differences with the ruptured region held (as fixed_film.py; steps
@@ -66,17 +69,15 @@ import math
 from dataclasses import dataclass, field
 
 import numpy as np
-from scipy.optimize import brentq
 
 from ..errors import InputError, SolverError
 from ..notices import Notice
 from ..threads import one_blas_thread
 from .equilibrium import WALL, check_operating
-from .film import FilmOptions, FilmSolution, number, pair, solve_film, whole
+from .film import FilmOptions, number, pair, solve_film, whole
 from .fixed_film import CAUTION, NAMES
 from .geometry import MAX_CLEARANCE_RATIO, TWO_PI, Land, _positive
 from .journal import HOT_FILM, MODEL_GRID, TEMPERATURE_TOLERANCE, FilmJournal
-from .lubricant import Lubricant
 
 _solve = solve_film.__wrapped__
 
@@ -110,9 +111,9 @@ class PadFilm:
     closed: bool = False
 
 
-def first_pivot(count, load_angle=-math.pi / 2.0, between=False):
-    """Angle (rad) of the first pivot that puts the load (direction ``load_angle``) on a
-    pad's pivot, or midway between two pivots (``between=True``)."""
+def first_pivot_angle(count, load_angle=-math.pi / 2.0, between=False):
+    """Angle (rad) of pad 0's pivot that puts a load of direction ``load_angle`` on a pivot
+    (load on pad), or midway between two (``between=True``, load between pads)."""
     return load_angle + (math.pi / count if between else 0.0)
 
 
@@ -131,18 +132,17 @@ class PadRing:
     clearance : float
         Pad machined clearance ``C_p`` (m).
     preload, bearing_clearance : float, optional
-        ``m = 1 - C_b / C_p`` (0 to below 1) or ``C_b`` (m); one at most (none: ``m = 0``).
-        Both are set after validation.
+        ``m = 1 - C_b / C_p`` (0 to below 1) or ``C_b`` (m), not both (neither: ``m = 0``);
+        both are set after validation.
     pivot_offset : float
-        Share of the arc from the leading edge to the pivot (0 to 1; 0.5 centre pivot).
+        Share of the arc from the leading edge to the pivot (between 0 and 1; 0.5 central).
     first_pivot : float
-        Angle of pad 0's pivot (rad); :func:`first_pivot` gives load-on-pad and
-        load-between-pads layouts.
+        Angle of pad 0's pivot (rad); see :func:`first_pivot_angle`.
     pivot_stiffness : float, optional
-        Radial pivot stiffness (N/m); None (or infinity): rigid pivots.
+        Radial pivot stiffness (N/m); None or infinity: rigid pivots.
     pad_mass, pad_inertia : float
-        Pad mass (kg; acts with yielding pivots only) and its inertia about the pivot in
-        the tilt (kg m^2); zero by default.
+        Pad mass (kg; acts with yielding pivots only) and its inertia about the pivot in the
+        tilt (kg m^2); zero by default.
     pad_thickness : float
         Pad thickness from its surface to its pivot (m): the tilt's lever is ``R + t``.
     """
@@ -164,45 +164,39 @@ class PadRing:
 
     def __post_init__(self):
         k, put = self.key, lambda name, value: object.__setattr__(self, name, value)
-        for name in ("diameter", "length", "clearance"):
+
+        def refuse(name, problem, value, expected, kind):
+            raise InputError(f"{k}.{name}", problem, value=value, expected=expected, kind=kind)
+        for name in ("diameter", "length", "clearance", "arc"):
             put(name, _positive(f"{k}.{name}", getattr(self, name)))
         put("count", whole(f"{k}.count", self.count, 2, 16))
-        arc = _positive(f"{k}.arc", self.arc)
-        if self.count * arc >= TWO_PI:
-            raise InputError(f"{k}.arc", "leaves no gap between the pads", value=arc,
-                             expected=f"below 2 pi / count = {TWO_PI / self.count:.6g} rad",
-                             kind="physics")
-        put("arc", arc)
+        if self.count * self.arc >= TWO_PI:
+            refuse("arc", "leaves no gap between the pads", self.arc,
+                   f"below 2 pi / count = {TWO_PI / self.count:.6g} rad", "physics")
         if self.clearance > MAX_CLEARANCE_RATIO * self.diameter / 2.0:
-            raise InputError(f"{k}.clearance", "is too large against the radius for a thin "
-                             "film", value=self.clearance,
-                             expected=f"at most {MAX_CLEARANCE_RATIO} x the radius", kind="physics")
+            refuse("clearance", "is too large against the radius for a thin film",
+                   self.clearance, f"at most {MAX_CLEARANCE_RATIO} x the radius", "physics")
         if self.preload is not None and self.bearing_clearance is not None:
-            raise InputError(f"{k}.bearing_clearance", "is given with the preload",
-                             value=self.bearing_clearance, expected="one of the two",
-                             kind="conflict")
+            refuse("bearing_clearance", "is given with the preload", self.bearing_clearance,
+                   "the preload or the bearing clearance, not both", "conflict")
         if self.bearing_clearance is not None:
             cb = _positive(f"{k}.bearing_clearance", self.bearing_clearance)
             if cb > self.clearance:
-                raise InputError(f"{k}.bearing_clearance", "exceeds the pad clearance",
-                                 value=cb, expected=f"at most {self.clearance:.6g} m",
-                                 kind="physics")
+                refuse("bearing_clearance", "exceeds the pad clearance", cb,
+                       f"at most the pad clearance, {self.clearance:.6g} m", "physics")
             put("preload", 1.0 - cb / self.clearance)
-        m = _positive(f"{k}.preload", self.preload or 0.0, allow_zero=True)
-        if m >= 1.0:
-            raise InputError(f"{k}.preload", "must be below 1", value=m,
-                             expected="0 <= preload < 1", kind="range")
-        put("preload", m)
-        put("bearing_clearance", (1.0 - m) * self.clearance)
-        a = number(f"{k}.pivot_offset", self.pivot_offset)
-        if not 0.0 < a < 1.0:
-            raise InputError(f"{k}.pivot_offset", "must lie within the pad", value=a,
-                             expected="between 0 and 1 (0.5: centre pivot)", kind="range")
-        put("pivot_offset", a)
+        put("preload", _positive(f"{k}.preload", 0.0 if self.preload is None else
+                                 self.preload, allow_zero=True))
+        if self.preload >= 1.0:
+            refuse("preload", "must be below 1", self.preload, "0 <= preload < 1", "range")
+        put("bearing_clearance", (1.0 - self.preload) * self.clearance)
+        put("pivot_offset", number(f"{k}.pivot_offset", self.pivot_offset))
+        if not 0.0 < self.pivot_offset < 1.0:
+            refuse("pivot_offset", "must lie within the pad", self.pivot_offset,
+                   "between 0 and 1 (0.5: centre pivot)", "range")
         put("first_pivot", number(f"{k}.first_pivot", self.first_pivot))
-        kp = self.pivot_stiffness
-        if kp is not None and not (isinstance(kp, (int, float)) and kp == math.inf):
-            put("pivot_stiffness", _positive(f"{k}.pivot_stiffness", kp))
+        if self.pivot_stiffness is not None and self.pivot_stiffness != math.inf:
+            put("pivot_stiffness", _positive(f"{k}.pivot_stiffness", self.pivot_stiffness))
         for name in ("pad_mass", "pad_inertia", "pad_thickness"):
             put(name, _positive(f"{k}.{name}", getattr(self, name), allow_zero=True))
 
@@ -224,12 +218,12 @@ class PadRing:
     @property
     def coordinates(self):
         """Names of the full set's coordinates: journal, tilts, then lifts."""
-        n = range(self.count)
-        return ("x", "y") + tuple(f"tilt[{k}]" for k in n) + \
-            (tuple(f"lift[{k}]" for k in n) if self.flexible else ())
+        pads = range(self.count)
+        return ("x", "y") + tuple(f"tilt[{k}]" for k in pads) + \
+            (tuple(f"lift[{k}]" for k in pads) if self.flexible else ())
 
     def pad(self, k, tilt=0.0, lift=0.0, tilt_rate=0.0, lift_rate=0.0):
-        """Pad ``k`` turned by ``tilt`` (rad) and lifted by ``lift`` (m), as a :class:`PadFilm`."""
+        """Pad ``k`` turned by ``tilt`` (rad), lifted by ``lift`` (m): a :class:`PadFilm`."""
         th = float(self.pivots[k])
         e, t = np.array([math.cos(th), math.sin(th)]), np.array([-math.sin(th), math.cos(th)])
         centre = (lift - self.preload * self.clearance) * e - self.lever * tilt * t
@@ -240,7 +234,7 @@ class PadRing:
 
 
 def _idle(films):
-    """Pads whose film carries nothing (fully ruptured: their tilt is indeterminate)."""
+    """Pads whose film carries nothing (wholly ruptured)."""
     return tuple(k for k, f in enumerate(films) if not np.any(f.force))
 
 
@@ -263,38 +257,89 @@ class _Pads:
         self.solves = self.iterations = 0
 
     def aligned(self, position):
-        """Coordinates with the journal at ``position`` and each pad tilted to follow its
-        motion across the pivot line (the pad then sees only its radial part)."""
+        """The journal at ``position``, each pad tilted to follow it across its pivot line."""
         q = np.zeros(self.size)
         q[:2], q[2:2 + self.n] = position, -(self.t @ position) / self.ring.lever
         return q
 
-    def settle(self, q, scale, tol, slopes=None):
-        """``(q, films)`` with every pad settled about the journal held at ``q[:2]``, or None.
+    def _pad(self, k, q, rate):
+        lift = (q[2 + self.n + k], rate[2 + self.n + k]) if self.flex else (0.0, 0.0)
+        return self.ring.pad(k, q[2 + k], lift[0], rate[2 + k], lift[1])
 
-        With ``u = tilt`` at positive speed (``-tilt`` at negative speed, the mirror image),
-        a pad has no film below some ``u``; above, ``g = F_k . t_k`` (sign likewise) may
-        first dip below zero (the film starts behind an offset pivot), and then turns
-        positive before it falls through its stable root (``g`` from + to -) for good.
-        The search steps (1.1 Newton steps where ``slopes``, ``d(F_k . t_k)/d tilt_k``, are
-        known, else 1 % of the clearance; doubling) to a bracket of that root and closes it
-        by the Illinois method.  A pad that finds no positive ``g`` before its film reaches
-        the wall carries nothing: it stays where it has no film.  Pivot lifts then follow
-        (Newton's method).
+    def film(self, k, q, rate=None, start=None, hold=False):
+        self.solves += 1
+        rate = np.zeros(self.size) if rate is None else rate
+        return _solve(self._pad(k, q, rate), self.omega, self.mu, (q[0], q[1]),
+                      (rate[0], rate[1]), options=self.options, start=start,
+                      hold_rupture=hold)
+
+    def films(self, q, rate=None, start=None, hold=False):
+        return [self.film(k, q, rate, None if start is None else start[k], hold)
+                for k in range(self.n)]
+
+    def thinnest(self, q):
+        zero = np.zeros(self.size)
+        return min(self._pad(k, q, zero).lands[0].closest(q[0], q[1])[0] for k in range(self.n))
+
+    def pad_loads(self, q, films):
+        """Per pad: force on the journal, moment on the pad, radial force net of the pivot."""
+        f = np.array([s.force for s in films])
+        out = np.zeros((self.n, 4))
+        out[:, :2], out[:, 2] = f, self.ring.lever * np.sum(f * self.t, axis=1)
+        if self.flex:
+            out[:, 3] = -np.sum(f * self.e, axis=1) - self.ring.pivot_stiffness * q[2 + self.n:]
+        return out
+
+    def forces(self, q, films):
+        """The generalised forces ``Q`` over all coordinates."""
+        g = self.pad_loads(q, films)
+        return np.concatenate([g[:, :2].sum(axis=0), g[:, 2]] + ([g[:, 3]] if self.flex else []))
+
+    def derivative(self, q, films, steps, *, rate=False, hold=False, central=True):
+        """``dQ/dq`` (``dQ/dq'`` with ``rate``) by differences of ``steps``; a pad coordinate
+        is moved on all pads at once (each pad's film sees only its own)."""
+        n, out = self.n, np.zeros((self.size, self.size))
+        base = None if central else self.pad_loads(q, films)
+        for cols in [[0], [1], list(range(2, 2 + n))] + \
+                ([list(range(2 + n, 2 + 2 * n))] if self.flex else []):
+            shift = np.zeros(self.size)
+            shift[cols] = steps[cols]
+
+            def loads(sign):
+                at = q if rate else q + sign * shift
+                return self.pad_loads(at, self.films(at, sign * shift if rate else None,
+                                                     films, hold))
+            diff = 0.5 * (loads(1.0) - loads(-1.0)) if central else loads(1.0) - base
+            if len(cols) == 1:
+                out[:, cols[0]] = np.concatenate([diff[:, :2].sum(axis=0), diff[:, 2]] + (
+                    [diff[:, 3]] if self.flex else [])) / steps[cols[0]]
+                continue
+            for k, j in enumerate(cols):
+                rows = [0, 1, 2 + k] + ([2 + n + k] if self.flex else [])
+                out[rows, j] = diff[k, :len(rows)] / steps[j]
+        return out
+
+    def settle(self, q, scale, slopes=None):
+        """``(q, films)`` with every pad's tilt settled (journal and lifts held), or None.
+
+        With ``u = tilt`` and ``g = F_k . t_k`` at positive speed (both negated at negative
+        speed, the mirror image), a pad has no film below some ``u``; above, ``g`` may first
+        dip below zero (the film starts behind an offset pivot), then turns positive and
+        falls through its stable root (from + to -) for good.  Steps (1.1 Newton steps where
+        ``slopes`` ``dg/du`` are known, else 1 % of the clearance; doubling) find a bracket
+        of that root; the Illinois method closes it.  A pad that meets no positive ``g``
+        before the wall carries nothing: it stays where it has no film.
         """
-        q, zero, films, up = q.copy(), np.zeros(self.size), [None] * self.n, \
-            math.copysign(1.0, self.omega)
+        q, films, up = q.copy(), [None] * self.n, math.copysign(1.0, self.omega)
         pos, neg = (lambda v: v is not None and v > 0.0), (lambda v: v is not None and v < 0.0)
         for k in range(self.n):
             unit = self.unit[2 + k]
 
-            def g(u):                          # None where the pad has no film
+            def g(u):                                   # None where the pad has no film
                 q[2 + k] = up * u
-                self.solves += 1
-                films[k] = _solve(self._pad(k, q, zero), self.omega, self.mu, (q[0], q[1]),
-                                  options=self.options)
-                return up * float(self.t[k] @ films[k].force) if np.any(films[k].force) \
-                    else None
+                films[k] = self.film(k, q)
+                force = films[k].force
+                return up * float(self.t[k] @ force) if np.any(force) else None
 
             def march(u, g_u, size, done):
                 """From ``u`` by doubling steps until ``done(g)``: (last u, g, new u, g)."""
@@ -320,148 +365,58 @@ class _Pads:
                 bracket = down and pos(down[3]) and (down[2], down[3], down[0], down[1])
             if not bracket:
                 rise = march(u0, g0, 0.01 * unit, pos)
-                if rise is None and bare is not None:      # no film that holds the pad
+                if rise is None and bare is not None:      # nothing holds the pad: no film
                     g(bare)
                     continue
                 bracket = rise and march(*rise[2:], 0.01 * unit, neg)
             if not bracket:
                 return None
             a, g_a, b, g_b = bracket
-            side = 0
-            for _ in range(100):
+            for side in range(100):
                 c = (a * g_b - b * g_a) / (g_b - g_a)
                 g_c = g(c)
                 if abs(g_c) <= 1e-12 * scale or abs(b - a) <= 1e-13 * unit:
                     break
-                if g_c < 0.0:
-                    b, g_b, g_a, side = c, g_c, 0.5 * g_a if side == -1 else g_a, -1
+                if g_c < 0.0:                                      # Illinois: halve the end
+                    b, g_b, g_a, side = c, g_c, g_a / (2.0 if side < 0 else 1.0), -1
                 else:
-                    a, g_a, g_b, side = c, g_c, 0.5 * g_b if side == 1 else g_b, 1
+                    a, g_a, g_b, side = c, g_c, g_b / (2.0 if side > 0 else 1.0), 1
             else:
                 return None
-        if self.flex:
-            return self.newton(q, np.arange(2, self.size), scale, tol)
         return q, films
 
-    def carry(self, q, w, tol, max_iterations):
-        """``(q, films)`` where the settled pads carry ``w``, or None: Newton's method on the
-        journal, the pads settled at every step and their first-order motion predicted by
-        the Jacobian condensed to the journal."""
-        scale, c, j = float(np.hypot(*w)), self.ring.bearing_clearance, slice(0, 2)
-        found = self.settle(q, scale, tol)
+    def carry(self, q, target, free, scale, tol, max_iterations=50):
+        """``(q, films)`` with ``Q + target = 0`` on the ``free`` coordinates (journal and
+        lifts; within ``tol x scale``) and every pad settled, or None."""
+        found = self.settle(q, scale)
         if found is None:
             return None
         q, films = found
-        r = np.sum([f.force for f in films], axis=0) + w
+        r = (self.forces(q, films) + target)[free]
+        c = self.ring.bearing_clearance
         for _ in range(max_iterations):
-            if np.hypot(*r) <= tol * scale:
+            if np.linalg.norm(r) <= tol * scale:
                 return q, films
             self.iterations += 1
             jac = self.derivative(q, films, 1e-6 * self.unit, central=False)
             slopes = np.diag(jac)[2:2 + self.n] / self.ring.lever
-            p = _keep(self.ring.coordinates, _idle(films))[2:]   # pads with no film stay
+            p = np.intersect1d(_keep(self.ring.coordinates, _idle(films)), np.arange(2, 2 + self.n))
             try:
-                follow = np.linalg.solve(jac[np.ix_(p, p)], jac[p, j])
-                dj = -np.linalg.solve(jac[j, j] - jac[j, p] @ follow, r)
+                follow = np.linalg.solve(jac[np.ix_(p, p)], jac[np.ix_(p, free)])
+                step = -np.linalg.solve(jac[np.ix_(free, free)] - jac[np.ix_(free, p)] @ follow, r)
             except np.linalg.LinAlgError:
                 return None
             dq = np.zeros(self.size)
-            dq[j], dq[p] = dj, -follow @ dj
-            dq *= min(1.0, 0.5 * c / float(np.max(np.abs(dj))))
+            dq[free], dq[p] = step, -follow @ step
+            dq *= min(1.0, 0.5 * c / float(np.max(np.abs(step))))
             for lam in 0.5 ** np.arange(30):
                 trial = q + lam * dq
-                new = self.settle(trial, scale, tol, slopes) \
-                    if self.thinnest(trial) > WALL * c else None
-                r_new = None if new is None else np.sum([f.force for f in new[1]], axis=0) + w
-                if new is not None and np.hypot(*r_new) < (1.0 - 1e-4 * lam) * np.hypot(*r):
+                new = self.settle(trial, scale, slopes) if self.thinnest(trial) > WALL * c \
+                    else None
+                r_new = None if new is None else (self.forces(new[0], new[1]) + target)[free]
+                if new is not None and np.linalg.norm(r_new) < (1 - 1e-4 * lam) * np.linalg.norm(r):
                     (q, films), r = new, r_new
                     break
-            else:
-                return None
-        return None
-
-    def _pad(self, k, q, rate):
-        n = self.n
-        lift, lift_rate = (q[2 + n + k], rate[2 + n + k]) if self.flex else (0.0, 0.0)
-        return self.ring.pad(k, q[2 + k], lift, rate[2 + k], lift_rate)
-
-    def films(self, q, rate=None, start=None, hold=False):
-        rate = np.zeros(self.size) if rate is None else rate
-        self.solves += self.n
-        return [_solve(self._pad(k, q, rate), self.omega, self.mu, (q[0], q[1]),
-                       (rate[0], rate[1]), options=self.options,
-                       start=None if start is None else start[k], hold_rupture=hold)
-                for k in range(self.n)]
-
-    def thinnest(self, q):
-        zero = np.zeros(self.size)
-        return min(self._pad(k, q, zero).lands[0].closest(q[0], q[1])[0] for k in range(self.n))
-
-    def pad_loads(self, q, films):
-        """Per pad: force on the journal, moment on the pad, radial force net of the pivot."""
-        f = np.array([s.force for s in films])
-        out = np.zeros((self.n, 4))
-        out[:, :2], out[:, 2] = f, self.ring.lever * np.sum(f * self.t, axis=1)
-        if self.flex:
-            out[:, 3] = -np.sum(f * self.e, axis=1) - self.ring.pivot_stiffness * q[2 + self.n:]
-        return out
-
-    def assemble(self, g):
-        """The generalised forces ``Q`` over all coordinates from the pads' loads."""
-        return np.concatenate([g[:, :2].sum(axis=0), g[:, 2]] + ([g[:, 3]] if self.flex else []))
-
-    def derivative(self, q, films, steps, *, rate=False, hold=False, central=True, only=None):
-        """``dQ/dq`` (``dQ/dq'`` with ``rate``) by differences of ``steps``; a pad coordinate
-        is moved on all pads at once (each pad's film sees only its own)."""
-        n, out = self.n, np.zeros((self.size, self.size))
-        groups = [[0], [1], list(range(2, 2 + n))] + \
-            ([list(range(2 + n, 2 + 2 * n))] if self.flex else [])
-        base = None if central else self.pad_loads(q, films)
-        for cols in groups:
-            if only is not None and not set(cols) & set(only):
-                continue
-            shift = np.zeros(self.size)
-            shift[cols] = steps[cols]
-
-            def loads(sign):
-                at = q if rate else q + sign * shift
-                return self.pad_loads(at, self.films(at, sign * shift if rate else None,
-                                                     films, hold))
-            diff = 0.5 * (loads(1.0) - loads(-1.0)) if central else loads(1.0) - base
-            if len(cols) == 1:
-                out[:, cols[0]] = self.assemble(diff) / steps[cols[0]]
-                continue
-            for k, j in enumerate(cols):
-                out[:2, j], out[2 + k, j] = diff[k, :2] / steps[j], diff[k, 2] / steps[j]
-                if self.flex:
-                    out[2 + n + k, j] = diff[k, 3] / steps[j]
-        return out
-
-    def newton(self, q, free, scale, tol, max_iterations=50):
-        """``(q, films)`` with ``Q = 0`` on the ``free`` coordinates (pads only), or None."""
-        rows = np.r_[scale, scale, np.full(self.n, scale * self.ring.lever),
-                     np.full(self.size - 2 - self.n, scale)][free]
-        films = self.films(q)
-        r = self.assemble(self.pad_loads(q, films))[free] / rows
-        for _ in range(max_iterations):
-            if np.linalg.norm(r) <= tol:
-                return q, films
-            jac = self.derivative(q, films, 1e-6 * self.unit, central=False, only=free)
-            jac = jac[np.ix_(free, free)] * self.unit[free] / rows[:, None]
-            try:
-                step = -np.linalg.solve(jac, r)
-            except np.linalg.LinAlgError:
-                return None
-            step *= min(1.0, 0.5 / max(float(np.max(np.abs(step))), 1e-300)) * self.unit[free]
-            for lam in 0.5 ** np.arange(30):
-                trial = q.copy()
-                trial[free] += lam * step
-                if self.thinnest(trial) > WALL * self.ring.bearing_clearance:
-                    new = self.films(trial, start=films)
-                    r_new = self.assemble(self.pad_loads(trial, new))[free] / rows
-                    if np.linalg.norm(r_new) < (1.0 - 1e-4 * lam) * np.linalg.norm(r):
-                        q, films, r = trial, new, r_new
-                        break
             else:
                 return None
         return None
@@ -553,7 +508,9 @@ def pad_equilibrium(ring, speed, load, viscosity, *, options=FilmOptions(), tole
                          expected="between 0 and 0.01", kind="range")
     iters = whole("max_iterations", max_iterations, 1, 1000)
     pads = _Pads(ring, omega, mu, options)
-    starts = [share * ring.bearing_clearance * w / np.hypot(*w) for share in (0.3, 0.6, 0.85)]
+    target, scale = np.r_[w, np.zeros(pads.size - 2)], float(np.hypot(*w))
+    free = np.r_[0, 1, np.arange(2 + ring.count, pads.size)]
+    starts = [share * ring.bearing_clearance * w / scale for share in (0.3, 0.6, 0.85)]
     if isinstance(start, PadEquilibrium) and len(start.coordinates) == pads.size:
         starts.insert(0, start.coordinates)
     elif start is not None and not isinstance(start, PadEquilibrium):
@@ -561,12 +518,12 @@ def pad_equilibrium(ring, speed, load, viscosity, *, options=FilmOptions(), tole
     for q in starts:
         q = q if len(q) == pads.size else pads.aligned(q)
         found = pads.thinnest(q) > 0.05 * ring.bearing_clearance and \
-            pads.carry(q, w, tol, iters)
+            pads.carry(q, target, free, scale, tol, iters)
         if found:
             return _equilibrium_of(pads, *found, w, mu)
     found = (pads.aligned(np.zeros(2)),)
     for share in np.linspace(0.1, 1.0, 10):
-        found = pads.carry(found[0], share * w, tol, iters)
+        found = pads.carry(found[0], share * target, free, share * scale, tol, iters)
         if found is None:
             raise SolverError(f"no tilting-pad equilibrium found for the load ({w[0]:.6g}, "
                               f"{w[1]:.6g}) N at {omega:.6g} rad/s: the pads may not carry it")
@@ -575,17 +532,18 @@ def pad_equilibrium(ring, speed, load, viscosity, *, options=FilmOptions(), tole
 
 @one_blas_thread
 def settle_pads(ring, speed, viscosity, position, *, options=FilmOptions(), tolerance=1e-9):
-    """The pads settled (zero moment, pivots balanced) about a journal held at ``position``
+    """The pads settled (zero moments, pivots balanced) about a journal held at ``position``
     (m): a :class:`PadEquilibrium` whose ``load`` is the one this position carries."""
     _check_ring(ring, options)
     omega, mu = number("speed", speed), number("viscosity", viscosity)
     pads = _Pads(ring, omega, mu, options)
-    q = pads.aligned(np.array(pair("position", position)))
     unit_load = mu * abs(omega) / TWO_PI * ring.length * ring.diameter * (
         0.5 * ring.diameter / ring.bearing_clearance) ** 2
-    found = pads.settle(q, unit_load, number("tolerance", tolerance))
+    found = pads.carry(pads.aligned(np.array(pair("position", position))),
+                       np.zeros(pads.size), np.arange(2 + ring.count, pads.size), unit_load,
+                       number("tolerance", tolerance))
     if found is None:
-        raise SolverError(f"the pads found no tilt balance about the journal at {position} m")
+        raise SolverError(f"the pads found no balance about the journal at {position} m")
     return _equilibrium_of(pads, *found, -np.sum([f.force for f in found[1]], axis=0), mu)
 
 
