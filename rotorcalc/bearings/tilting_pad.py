@@ -164,36 +164,39 @@ class PadRing:
 
     def __post_init__(self):
         k, put = self.key, lambda name, value: object.__setattr__(self, name, value)
-
-        def refuse(name, problem, value, expected, kind):
-            raise InputError(f"{k}.{name}", problem, value=value, expected=expected, kind=kind)
         for name in ("diameter", "length", "clearance", "arc"):
             put(name, _positive(f"{k}.{name}", getattr(self, name)))
         put("count", whole(f"{k}.count", self.count, 2, 16))
         if self.count * self.arc >= TWO_PI:
-            refuse("arc", "leaves no gap between the pads", self.arc,
-                   f"below 2 pi / count = {TWO_PI / self.count:.6g} rad", "physics")
+            raise InputError(f"{k}.arc", "leaves no gap between the pads", value=self.arc,
+                             expected=f"below 2 pi / count = {TWO_PI / self.count:.6g} rad",
+                             kind="physics")
         if self.clearance > MAX_CLEARANCE_RATIO * self.diameter / 2.0:
-            refuse("clearance", "is too large against the radius for a thin film",
-                   self.clearance, f"at most {MAX_CLEARANCE_RATIO} x the radius", "physics")
-        if self.preload is not None and self.bearing_clearance is not None:
-            refuse("bearing_clearance", "is given with the preload", self.bearing_clearance,
-                   "the preload or the bearing clearance, not both", "conflict")
+            raise InputError(f"{k}.clearance", "is too large against the radius for a thin "
+                             "film", value=self.clearance, kind="physics",
+                             expected=f"at most {MAX_CLEARANCE_RATIO} x the radius")
         if self.bearing_clearance is not None:
+            if self.preload is not None:
+                raise InputError(f"{k}.bearing_clearance", "is given with the preload",
+                                 value=self.bearing_clearance, kind="conflict",
+                                 expected="the preload or the bearing clearance, not both")
             cb = _positive(f"{k}.bearing_clearance", self.bearing_clearance)
             if cb > self.clearance:
-                refuse("bearing_clearance", "exceeds the pad clearance", cb,
-                       f"at most the pad clearance, {self.clearance:.6g} m", "physics")
+                raise InputError(f"{k}.bearing_clearance", "exceeds the pad clearance",
+                                 value=cb, expected=f"at most {self.clearance:.6g} m",
+                                 kind="physics")
             put("preload", 1.0 - cb / self.clearance)
-        put("preload", _positive(f"{k}.preload", 0.0 if self.preload is None else
-                                 self.preload, allow_zero=True))
-        if self.preload >= 1.0:
-            refuse("preload", "must be below 1", self.preload, "0 <= preload < 1", "range")
-        put("bearing_clearance", (1.0 - self.preload) * self.clearance)
+        m = _positive(f"{k}.preload", self.preload or 0.0, allow_zero=True)
+        if m >= 1.0:
+            raise InputError(f"{k}.preload", "must be below 1", value=m,
+                             expected="0 <= preload < 1", kind="range")
+        put("preload", m)
+        put("bearing_clearance", (1.0 - m) * self.clearance)
         put("pivot_offset", number(f"{k}.pivot_offset", self.pivot_offset))
         if not 0.0 < self.pivot_offset < 1.0:
-            refuse("pivot_offset", "must lie within the pad", self.pivot_offset,
-                   "between 0 and 1 (0.5: centre pivot)", "range")
+            raise InputError(f"{k}.pivot_offset", "must lie within the pad",
+                             value=self.pivot_offset, kind="range",
+                             expected="between 0 and 1 (0.5: centre pivot)")
         put("first_pivot", number(f"{k}.first_pivot", self.first_pivot))
         if self.pivot_stiffness is not None and self.pivot_stiffness != math.inf:
             put("pivot_stiffness", _positive(f"{k}.pivot_stiffness", self.pivot_stiffness))
@@ -342,16 +345,18 @@ class _Pads:
                 return up * float(self.t[k] @ force) if np.any(force) else None
 
             def march(u, g_u, size, done):
-                """From ``u`` by doubling steps until ``done(g)``: (last u, g, new u, g)."""
-                while abs(size) > 1e-9 * unit:
+                """From ``u`` by doubling steps until ``done(g)``: (last u, g, new u, g); None
+                when the pad comes within four halvings of the wall first."""
+                walls = 0
+                while walls < 4:
                     v = u + size
                     if self.thinnest(np.r_[q[:2 + k], up * v, q[3 + k:]]) <= WALL * self.unit[0]:
-                        size *= 0.5
+                        walls, size = walls + 1, 0.5 * size
                         continue
                     g_v = g(v)
                     if done(g_v):
                         return u, g_u, v, g_v
-                    u, g_u, size = v, g_v, 2.0 * size
+                    u, g_u, size = v, g_v, size * (0.5 if walls else 2.0)
                 return None
             u0 = up * q[2 + k]
             g0, size, bracket, bare = g(u0), 0.01 * unit, None, u0
@@ -375,7 +380,7 @@ class _Pads:
             for side in range(100):
                 c = (a * g_b - b * g_a) / (g_b - g_a)
                 g_c = g(c)
-                if abs(g_c) <= 1e-12 * scale or abs(b - a) <= 1e-13 * unit:
+                if abs(g_c) <= 1e-11 * scale or abs(b - a) <= 1e-12 * unit:
                     break
                 if g_c < 0.0:                                      # Illinois: halve the end
                     b, g_b, g_a, side = c, g_c, g_a / (2.0 if side < 0 else 1.0), -1
@@ -408,7 +413,7 @@ class _Pads:
                 return None
             dq = np.zeros(self.size)
             dq[free], dq[p] = step, -follow @ step
-            dq *= min(1.0, 0.5 * c / float(np.max(np.abs(step))))
+            dq *= min(1.0, 0.5 * c / max(float(np.max(np.abs(step))), 1e-300))
             for lam in 0.5 ** np.arange(30):
                 trial = q + lam * dq
                 new = self.settle(trial, scale, slopes) if self.thinnest(trial) > WALL * c \
