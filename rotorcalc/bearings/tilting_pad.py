@@ -23,7 +23,9 @@ dropped against ``R``, as in the thin film itself), and the pivot moves outwards
     dh_k/dt = -(x' cos(theta) + y' sin(theta)) + xi_k' cos(theta - theta_k)
               - lever delta_k' sin(theta - theta_k)
 
-A positive tilt leaves the film over the pivot as it is and closes the pad's trailing part.
+A positive tilt leaves the film over the pivot as it is and, at positive speed, closes the
+pad's trailing part.  The arc's ends keep their angles (the rigid turn moves them by about
+``lever delta_k``, a share of the clearance, against the radius).
 
 Generalised forces (virtual work: a coordinate ``q`` that changes ``h`` receives
 ``int p dh/dq dA``): the journal receives the film force ``F = sum F_k`` (``F_k`` pad ``k``'s
@@ -52,7 +54,8 @@ on the rates), checked by halving; ``M = diag(0, 0, I_p.., m_p..)``.  At whirl `
 K_pp^-1 K_pj`` and ``C_red = C_jj - C_jp G - H C_pj + H C_pp G`` with ``G = K_pp^-1 K_pj``,
 ``H = K_jp K_pp^-1``.  A journal moving along ``t_k`` changes ``h_k`` as ``lever delta_k``
 does, so without pad inertia a pad passes force only along its pivot line and ``K_red``,
-``C_red`` are symmetric (diagonal when the load lies on an axis of the pad layout).
+``C_red`` are symmetric (diagonal when layout and load are symmetric about the load line).
+The pads' damping still makes them frequency dependent; pad inertia adds a skew part.
 
 Limits: those of the film (docs/bearings.md section 9), rigid pads (no pad or pivot
 deformation but the pivot's radial spring), no pivot friction, one effective temperature for
@@ -78,6 +81,7 @@ from .film import FilmOptions, number, pair, solve_film, whole
 from .fixed_film import CAUTION, NAMES
 from .geometry import MAX_CLEARANCE_RATIO, TWO_PI, Land, _positive
 from .journal import HOT_FILM, MODEL_GRID, TEMPERATURE_TOLERANCE, FilmJournal
+from .lubricant import Lubricant
 
 _solve = solve_film.__wrapped__
 
@@ -429,12 +433,35 @@ class _Pads:
 
 @dataclass(frozen=True)
 class PadEquilibrium:
-    """The journal and its pads in static equilibrium (SI; angles in rad).
+    """The journal and its pads in static equilibrium.
 
-    ``coordinates`` holds ``[x, y, tilts.., lifts..]``; ``tilts``, ``lifts``,
-    ``pad_forces`` (each pad's force on the journal, N) and ``pad_min_thickness`` go pad by
-    pad; eccentricity ratio and Sommerfeld number use the bearing clearance ``C_b``;
-    ``residual`` is ``|F + W| / |W|``.  ``films`` are the pads' film solutions.
+    Attributes
+    ----------
+    position : ndarray
+        Journal centre ``(x, y)`` (m).
+    eccentricity_ratio, attitude_angle : float
+        ``|position| / C_b``; angle (rad) from the load to the displacement, positive in
+        the sense of rotation.
+    tilts, lifts : ndarray
+        Each pad's tilt (rad) and pivot lift (m; zero with rigid pivots).
+    pad_forces : ndarray
+        Each pad's film force on the journal, ``(count, 2)`` (N).
+    pad_min_thickness, min_thickness : ndarray, float
+        Thinnest film of each pad and of all (m).
+    power_loss, side_leakage : float
+        All pads (W, m^3/s).
+    sommerfeld : float
+        ``mu N L D / W (R / C_b)^2``, ``N`` in rev/s.
+    load, speed, viscosity, clearance : ndarray, float
+        ``(Wx, Wy)`` (N), rad/s, Pa s, ``C_b`` (m).
+    residual : float
+        ``|F + W| / |W|``.
+    iterations, film_solves : int
+        Newton steps and film solves made.
+    coordinates : ndarray
+        ``[x, y, tilts.., lifts..]`` (SI).
+    films : tuple of FilmSolution
+        The pads' films.
     """
 
     position: np.ndarray
@@ -459,6 +486,7 @@ class PadEquilibrium:
     films: tuple = field(repr=False)
 
     def to_dict(self):
+        """The equilibrium's numbers (SI; angles in rad)."""
         out = {name: getattr(self, name) for name in (
             "eccentricity_ratio", "attitude_angle", "min_thickness", "power_loss",
             "side_leakage", "sommerfeld", "speed", "viscosity", "clearance", "residual",
@@ -501,10 +529,37 @@ def _check_ring(ring, options):
 @one_blas_thread
 def pad_equilibrium(ring, speed, load, viscosity, *, options=FilmOptions(), tolerance=1e-9,
                     max_iterations=50, start=None):
-    """Journal position and pad tilts (and lifts) where the pads carry ``load`` (N, on the
-    journal) at ``speed`` (rad/s); ``start`` a :class:`PadEquilibrium` or a position (m).
+    """The journal position, pad tilts (and pivot lifts) where the pads carry ``load``.
 
-    Raises :class:`SolverError` when no equilibrium is found."""
+    Parameters
+    ----------
+    ring : PadRing
+    speed : float
+        Journal spin (rad/s), positive from +x towards +y.
+    load : pair of float
+        ``(Wx, Wy)`` (N) on the journal.
+    viscosity : float
+        Pa s.
+    options : FilmOptions
+        Grid (each pad) and cavitation model.
+    tolerance : float
+        Largest ``|F + W| / |W|`` accepted (and pivot imbalance over ``|W|``).
+    max_iterations : int
+        Newton steps allowed (per load step when the load is ramped).
+    start : PadEquilibrium or pair of float, optional
+        A neighbouring equilibrium, or a journal position (m), to try first.
+
+    Returns
+    -------
+    PadEquilibrium
+
+    Raises
+    ------
+    InputError
+        Bad input.
+    SolverError
+        No equilibrium found.
+    """
     _check_ring(ring, options)
     omega, w, mu = check_operating(speed, load, viscosity)
     tol = number("tolerance", tolerance)
@@ -537,8 +592,24 @@ def pad_equilibrium(ring, speed, load, viscosity, *, options=FilmOptions(), tole
 
 @one_blas_thread
 def settle_pads(ring, speed, viscosity, position, *, options=FilmOptions(), tolerance=1e-9):
-    """The pads settled (zero moments, pivots balanced) about a journal held at ``position``
-    (m): a :class:`PadEquilibrium` whose ``load`` is the one this position carries."""
+    """The pads settled (zero moments, pivots balanced) about a journal held at ``position``.
+
+    Parameters
+    ----------
+    ring : PadRing
+    speed, viscosity : float
+        rad/s, Pa s.
+    position : pair of float
+        Journal centre (m).
+    options : FilmOptions
+    tolerance : float
+        Pivot imbalance accepted, as a share of ``mu N L D (R / C_b)^2``.
+
+    Returns
+    -------
+    PadEquilibrium
+        Its ``load`` is the load this position carries (minus the film force).
+    """
     _check_ring(ring, options)
     omega, mu = number("speed", speed), number("viscosity", viscosity)
     pads = _Pads(ring, omega, mu, options)
@@ -553,8 +624,22 @@ def settle_pads(ring, speed, viscosity, position, *, options=FilmOptions(), tole
 
 
 def condense(stiffness, damping, inertia, whirl, keep=2):
-    """``(K_red, C_red)`` of the first ``keep`` coordinates at whirl frequency ``whirl``
-    (rad/s), the others eliminated (the module's notes; ``whirl = 0``: the limit)."""
+    """Stiffness and damping of the first ``keep`` coordinates with the others eliminated.
+
+    Parameters
+    ----------
+    stiffness, damping, inertia : (N, N) array_like
+        Full ``K``, ``C`` and ``M``.
+    whirl : float
+        Whirl frequency ``w`` (rad/s); 0 gives the limit ``w -> 0`` (module's notes).
+    keep : int
+        Number of leading coordinates kept.
+
+    Returns
+    -------
+    K_red, C_red : ndarray
+        ``Re(Z_red)`` and ``Im(Z_red) / w``.
+    """
     k, c, m = (np.asarray(a, dtype=float) for a in (stiffness, damping, inertia))
     j, p, w = slice(0, keep), slice(keep, None), number("whirl", whirl)
     if w == 0.0:
@@ -570,10 +655,24 @@ def condense(stiffness, damping, inertia, whirl, keep=2):
 class PadCoefficients:
     """Reduced journal coefficients of a tilting-pad bearing and the full linear set.
 
-    ``stiffness``, ``damping``: the 2 x 2 reduced at ``whirl`` (rad/s); ``full_stiffness``,
-    ``full_damping``, ``full_inertia`` over ``coordinates`` (x, y, tilts, lifts; N, m, rad);
-    ``reduce(whirl)`` gives other whirl frequencies.  ``step``: the journal perturbation (m);
-    ``step_change``: relative change of the full K and C on halving it.
+    Attributes
+    ----------
+    stiffness, damping : ndarray
+        ``[[kxx, kxy], [kyx, kyy]]`` (N/m) and likewise C (N s/m), reduced at ``whirl``
+        (force on the shaft ``-K q - C q'``).
+    whirl : float
+        Whirl frequency of the reduction (rad/s); :meth:`reduce` gives any other.
+    full_stiffness, full_damping, full_inertia : ndarray
+        ``K``, ``C``, ``M`` over ``coordinates`` (x, y in m; tilts in rad; lifts in m).
+    coordinates : tuple of str
+    equilibrium : PadEquilibrium
+    step : float
+        Journal perturbation of the matrices (m).
+    step_change : tuple of float
+        Relative change of the full K and C when the step was halved (NaN: not checked).
+    warnings : tuple of Notice
+    temperature : float or None
+        Effective film temperature (K) where a bearing model chose the viscosity.
     """
 
     stiffness: np.ndarray
@@ -602,6 +701,7 @@ class PadCoefficients:
         return dict(zip(NAMES, (float(v) for v in values)))
 
     def to_dict(self):
+        """Coefficients, full matrices, equilibrium, step check, warnings and caution (SI)."""
         return {"coefficients": self.as_table(), "whirl_rad_per_s": self.whirl,
                 "equilibrium": self.equilibrium.to_dict(), "step_m": self.step,
                 "step_change": [None if math.isnan(v) else v for v in self.step_change],
@@ -617,13 +717,37 @@ def pad_coefficients(ring, speed, load, viscosity, *, whirl=None, options=FilmOp
                      check_step=True, equilibrium=None):
     """Equilibrium, full linear set and reduced coefficients of a tilting-pad bearing.
 
-    ``whirl`` (rad/s): the reduction's frequency, ``|speed|`` when None.  The other
-    arguments as :func:`rotorcalc.bearings.coefficients` (held rupture always).
+    Parameters
+    ----------
+    ring : PadRing
+    speed, load, viscosity
+        As :func:`pad_equilibrium`.
+    whirl : float, optional
+        Whirl frequency of the reduction (rad/s); ``|speed|`` (synchronous) when None.
+    options : FilmOptions
+    step : float
+        Journal perturbation as a share of the minimum film (1e-6 to 0.05); the tilts are
+        moved by ``step h_min / lever``.
+    step_tolerance : float
+        Largest relative change of the full K or C on halving the step before a note.
+    tolerance, start
+        Of the equilibrium search (:func:`pad_equilibrium`).
+    check_step : bool
+        Compute the matrices again with twice the step and compare (twice the cost).
+    equilibrium : PadEquilibrium, optional
+        The equilibrium for these inputs, found already.
+
+    Returns
+    -------
+    PadCoefficients
     """
+    _check_ring(ring, options)
     share, limit = number("step", step), number("step_tolerance", step_tolerance)
     if not 1e-6 <= share <= 0.05:
         raise InputError("step", "is out of range", value=share,
                          expected="between 1e-6 and 0.05 of the minimum film", kind="range")
+    if not limit > 0.0:
+        raise InputError("step_tolerance", "must be positive", value=limit, kind="range")
     w = abs(number("speed", speed)) if whirl is None else number("whirl", whirl)
     eq = equilibrium or pad_equilibrium.__wrapped__(ring, speed, load, viscosity,
                                                     options=options, tolerance=tolerance,
@@ -655,7 +779,7 @@ def pad_coefficients(ring, speed, load, viscosity, *, whirl=None, options=FilmOp
     idle = _idle(films)
     if idle:
         warnings += (Notice(f"pad(s) {', '.join(str(k) for k in idle)} carry no film at "
-                            f"{speed * 30 / math.pi:.0f} rpm (unloaded: their tilt is free and "
+                            f"{eq.speed * 30 / math.pi:.0f} rpm (unloaded: their tilt is free and "
                             "they may flutter); left out of the coefficients", code="note"),)
     result = PadCoefficients(None, None, w, k2, c2, m, ring.coordinates, eq, 0.5 * d, change,
                              warnings)
@@ -724,10 +848,29 @@ class PadJournal:
 
     def coefficients(self, speed, load, *, whirl=None, start=None, check_step=True,
                      temperature=None):
-        """Reduced coefficients at ``speed`` (rad/s) under ``load`` (N, on the journal),
-        at whirl frequency ``whirl`` (rad/s; None: synchronous): a :class:`PadCoefficients`
-        with its effective film ``temperature`` (K).  ``start`` (a position or an
-        equilibrium) and ``temperature`` (K) start the searches."""
+        """Reduced coefficients at ``speed`` under ``load``, at the effective film temperature.
+
+        Parameters
+        ----------
+        speed : float
+            rad/s.
+        load : pair of float
+            ``(Wx, Wy)`` (N) on the journal.
+        whirl : float, optional
+            Whirl frequency of the reduction (rad/s); synchronous when None.
+        start : PadEquilibrium or pair of float, optional
+            Where the equilibrium search starts.
+        check_step : bool
+            Check the perturbation step by halving it.
+        temperature : float, optional
+            A first guess of the film temperature (K).
+
+        Returns
+        -------
+        PadCoefficients
+            With its ``temperature`` (K) and, among its warnings, notes on the heat
+            balance and on a hot film.
+        """
         temperature, eq, settled = self._film_state(speed, load, start, temperature)
         result = pad_coefficients(self.pads, speed, load, self.viscosity(temperature),
                                   whirl=whirl, options=self.options, check_step=check_step,
