@@ -38,7 +38,8 @@ moment (``_Pads.settle``); Newton's method then moves the journal and the lifts,
 forward-difference Jacobian condensed over the tilts (a pad's film depends on the journal
 and on that pad only, so a Jacobian costs three or four film solves a pad), the tilts
 following to first order, each step limited to half ``C_b`` and halved until the residual
-``|F + W|`` (and the pivots' imbalance) falls.  Starts: the journal 30, 60 and 85 % of
+``|F + W|`` (and the pivots' imbalance) falls, else replaced by a step along the residual
+(``_Pads.carry``).  Starts: the journal 30, 60 and 85 % of
 ``C_b`` along the load, each pad tilted to follow the journal across its pivot line; last,
 the load in ten steps.  A pad whose film only ever turns it back towards no film (an
 unloaded pad) carries nothing: it is left out of the coefficients, with a note.
@@ -130,7 +131,7 @@ class PadRing:
     diameter, length : float
         Journal diameter and pad length (m).
     count : int
-        Number of pads (2 to 16).
+        Number of pads (3 to 16: two pads with rigid pivots pass force along one line only).
     arc : float
         Angle of one pad (rad); the pads must leave gaps, ``count arc < 2 pi``.
     clearance : float
@@ -170,7 +171,7 @@ class PadRing:
         k, put = self.key, lambda name, value: object.__setattr__(self, name, value)
         for name in ("diameter", "length", "clearance", "arc"):
             put(name, _positive(f"{k}.{name}", getattr(self, name)))
-        put("count", whole(f"{k}.count", self.count, 2, 16))
+        put("count", whole(f"{k}.count", self.count, 3, 16))
         if self.count * self.arc >= TWO_PI:
             raise InputError(f"{k}.arc", "leaves no gap between the pads", value=self.arc,
                              expected=f"below 2 pi / count = {TWO_PI / self.count:.6g} rad",
@@ -396,7 +397,13 @@ class _Pads:
 
     def carry(self, q, target, free, scale, tol, max_iterations=50):
         """``(q, films)`` with ``Q + target = 0`` on the ``free`` coordinates (journal and
-        lifts; within ``tol x scale``) and every pad settled, or None."""
+        lifts; within ``tol x scale``) and every pad settled, or None.
+
+        Each step tries Newton's step (halved up to five times), then steps along the
+        residual itself, the way the net force pushes the journal and pivots (from 0.2
+        ``C_b``, halved up to seven times): a pad without film adds nothing to the Jacobian,
+        so where too few pads carry, Newton's step misses the pads that would.
+        """
         found = self.settle(q, scale)
         if found is None:
             return None
@@ -410,20 +417,23 @@ class _Pads:
             jac = self.derivative(q, films, 1e-6 * self.unit, central=False)
             slopes = np.diag(jac)[2:2 + self.n] / self.ring.lever
             p = np.intersect1d(_keep(self.ring.coordinates, _idle(films)), np.arange(2, 2 + self.n))
+            moves = np.zeros((2, self.size))
+            moves[1, free] = c * r / np.linalg.norm(r)
             try:
                 follow = np.linalg.solve(jac[np.ix_(p, p)], jac[np.ix_(p, free)])
-                step = -np.linalg.solve(jac[np.ix_(free, free)] - jac[np.ix_(free, p)] @ follow, r)
+                moves[0, free] = -np.linalg.solve(
+                    jac[np.ix_(free, free)] - jac[np.ix_(free, p)] @ follow, r)
+                moves[:, p] = -moves[:, free] @ follow.T
             except np.linalg.LinAlgError:
-                return None
-            dq = np.zeros(self.size)
-            dq[free], dq[p] = step, -follow @ step
-            dq *= min(1.0, 0.5 * c / max(float(np.max(np.abs(step))), 1e-300))
-            for lam in 0.5 ** np.arange(30):
-                trial = q + lam * dq
+                pass
+            moves[0] *= min(1.0, 0.5 * c / max(float(np.max(np.abs(moves[0, free]))), 1e-300))
+            for dq in [lam * moves[0] for lam in 0.5 ** np.arange(6)] + \
+                    [lam * moves[1] for lam in 0.2 * 0.5 ** np.arange(8)]:
+                trial = q + dq
                 new = self.settle(trial, scale, slopes) if self.thinnest(trial) > WALL * c \
-                    else None
+                    and np.all(np.isfinite(dq)) else None
                 r_new = None if new is None else (self.forces(new[0], new[1]) + target)[free]
-                if new is not None and np.linalg.norm(r_new) < (1 - 1e-4 * lam) * np.linalg.norm(r):
+                if new is not None and np.linalg.norm(r_new) < (1 - 1e-6) * np.linalg.norm(r):
                     (q, films), r = new, r_new
                     break
             else:
@@ -586,7 +596,9 @@ def pad_equilibrium(ring, speed, load, viscosity, *, options=FilmOptions(), tole
         found = pads.carry(found[0], share * target, free, share * scale, tol, iters)
         if found is None:
             raise SolverError(f"no tilting-pad equilibrium found for the load ({w[0]:.6g}, "
-                              f"{w[1]:.6g}) N at {omega:.6g} rad/s: the pads may not carry it")
+                              f"{w[1]:.6g}) N at {omega:.6g} rad/s: the pads may not carry it "
+                              "(a very light load on pads with little preload, where most "
+                              "pads carry nothing, is the usual case)")
     return _equilibrium_of(pads, *found, w, mu)
 
 
