@@ -327,8 +327,9 @@ class _Pads:
                 out[rows, j] = diff[k, :len(rows)] / steps[j]
         return out
 
-    def settle(self, q, scale, slopes=None):
-        """``(q, films)`` with every pad's tilt settled (journal and lifts held), or None.
+    def settle(self, q, scale, slopes=None, start=None):
+        """``(q, films)`` with every pad's tilt settled (journal and lifts held), or None;
+        ``start``: films whose ruptured regions start the cavitation iterations.
 
         With ``u = tilt`` and ``g = F_k . t_k`` at positive speed (both negated at negative
         speed, the mirror image), a pad has no film below some ``u``; above, ``g`` may first
@@ -338,14 +339,15 @@ class _Pads:
         of that root; the Illinois method closes it.  A pad that meets no positive ``g``
         before the wall carries nothing: it stays where it has no film.
         """
-        q, films, up = q.copy(), [None] * self.n, math.copysign(1.0, self.omega)
+        q, up = q.copy(), math.copysign(1.0, self.omega)
+        films = [None] * self.n if start is None else list(start)
         pos, neg = (lambda v: v is not None and v > 0.0), (lambda v: v is not None and v < 0.0)
         for k in range(self.n):
             unit = self.unit[2 + k]
 
             def g(u):                                   # None where the pad has no film
                 q[2 + k] = up * u
-                films[k] = self.film(k, q)
+                films[k] = self.film(k, q, start=films[k])
                 force = films[k].force
                 return up * float(self.t[k] @ force) if np.any(force) else None
 
@@ -430,7 +432,7 @@ class _Pads:
             for dq in [lam * moves[0] for lam in 0.5 ** np.arange(6)] + \
                     [lam * moves[1] for lam in 0.2 * 0.5 ** np.arange(8)]:
                 trial = q + dq
-                new = self.settle(trial, scale, slopes) if self.thinnest(trial) > WALL * c \
+                new = self.settle(trial, scale, slopes, films) if self.thinnest(trial) > WALL * c \
                     and np.all(np.isfinite(dq)) else None
                 r_new = None if new is None else (self.forces(new[0], new[1]) + target)[free]
                 if new is not None and np.linalg.norm(r_new) < (1 - 1e-6) * np.linalg.norm(r):
