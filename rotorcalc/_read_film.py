@@ -10,11 +10,17 @@ from ._toml import _array_of_tables, _number, _quantity, _string, check_keys
 from ._read_response import _angle
 from .bearings.film import CAVITATION_MODELS, FilmOptions
 from .bearings.journal import BORES, MODEL_GRID, FilmJournal
+from .bearings.tilting_pad import PAD_GRID, PadJournal, PadRing, first_pivot_angle
 from .bearings.lubricant import Lubricant
 from .errors import InputError
 
 FILM_KEYS = {"bore", "diameter", "length", "clearance", "preload", "groove_width", "grooves",
              "feed_pressure", "grid", "cavitation", "clearance_range", "preload_range"}
+#: Keys of a tilting-pad bearing's [bearing.film] besides the size, clearance and preload.
+PAD_KEYS = {"pads", "pad_arc", "pivot_offset", "load", "pivot_stiffness", "pad_mass",
+            "pad_inertia", "pad_thickness"}
+#: Where the static load points against the pads (the load along -y, gravity's default).
+PAD_LOADS = ("between-pads", "on-pad")
 GROOVE_KEYS = {"at", "width"}
 OIL_KEYS = {"grade", "points", "inlet_temperature", "film_temperature", "rise_share",
             "density", "specific_heat", "name", "inlet_temperature_range"}
@@ -27,7 +33,7 @@ def read_film(table, where):
     if not isinstance(film, dict):
         raise InputError(fw, "must be a table", value=film, expected="a [bearing.film] table "
                          "with bore, diameter, length and clearance", kind="type")
-    check_keys(film, FILM_KEYS, fw)
+    check_keys(film, FILM_KEYS | PAD_KEYS, fw)
     if "oil" not in table:
         raise InputError(ow, "is missing", expected="a [bearing.oil] table with the oil's "
                          "grade (or two viscosity points) and its inlet_temperature",
@@ -37,9 +43,13 @@ def read_film(table, where):
         raise InputError(ow, "must be a table", value=oil, kind="type")
     check_keys(oil, OIL_KEYS, ow)
     bore = _string(film, "bore", fw, default="plain")
-    if bore not in BORES:
+    if bore not in BORES + ("tilting-pad",):
         raise InputError(f"{fw}.bore", "is not a known bore", value=bore,
-                         expected=" or ".join(BORES), kind="choice")
+                         expected=" or ".join(BORES + ("tilting-pad",)), kind="choice")
+    pad_keys = sorted(PAD_KEYS & set(film))
+    if bore != "tilting-pad" and pad_keys:
+        raise InputError(f"{fw}.{pad_keys[0]}", f"is given for a {bore} bore",
+                         expected="bore = 'tilting-pad' for pads", kind="choice")
     values = {"bore": bore, "key": fw, "oil_key": ow}
     for name in ("diameter", "length", "clearance"):
         values[name] = _quantity(film, name, u.LENGTH, fw, required=True)
@@ -62,7 +72,7 @@ def read_film(table, where):
         grooves.append((_angle(g, "at", gw), _angle(g, "width", gw)))
     values["grooves"] = tuple(grooves)
     values["feed_pressure"] = _quantity(film, "feed_pressure", u.GAUGE_PRESSURE, fw, default=0.0)
-    values["options"] = _options(film, fw)
+    values["options"] = _options(film, fw, PAD_GRID if bore == "tilting-pad" else MODEL_GRID)
     values["lubricant"] = _lubricant(oil, ow)
     values["inlet_temperature"] = _quantity(oil, "inlet_temperature", u.TEMPERATURE, ow,
                                             required=True)
@@ -81,7 +91,44 @@ def read_film(table, where):
             raise InputError(key, "does not hold the nominal value", value=values[field],
                              expected=f"a range around the nominal {nominal} ({value:.6g} "
                                       "SI)", kind="range")
+    if bore == "tilting-pad":
+        return _pads(film, fw, values)
     return FilmJournal(**values)
+
+
+def _pads(film, fw, values):
+    """A :class:`PadJournal` from the common values and the pad keys."""
+    for name in ("grooves", "groove_width", "feed_pressure"):
+        if name in film:
+            raise InputError(f"{fw}.{name}", "is given for a tilting-pad bearing",
+                             expected="pads, pad_arc, pivot_offset, load (the oil reaches "
+                                      "the pads between them)", kind="choice")
+    for name in ("pads", "pad_arc"):
+        if name not in film:
+            raise InputError(f"{fw}.{name}", "is missing", expected="the number of pads and "
+                             'the arc of each (pads = 5, pad_arc = "60 deg")', kind="missing")
+    count = film["pads"]
+    if isinstance(count, bool) or not isinstance(count, int):
+        raise InputError(f"{fw}.pads", "must be a whole number", value=count,
+                         expected="the number of pads, 3 to 16", kind="type")
+    load = _string(film, "load", fw, default="between-pads")
+    if load not in PAD_LOADS:
+        raise InputError(f"{fw}.load", "is not a known load placement", value=load,
+                         expected=" or ".join(PAD_LOADS) + " (the load along -y)",
+                         kind="choice")
+    ring = {"count": count, "arc": _angle(film, "pad_arc", fw),
+            "first_pivot": first_pivot_angle(count, between=load == "between-pads")
+            if 3 <= count <= 16 else -math.pi / 2.0,
+            "pivot_offset": _number(film, "pivot_offset", fw, 0.5),
+            "pivot_stiffness": _quantity(film, "pivot_stiffness", u.STIFFNESS, fw),
+            "pad_mass": _quantity(film, "pad_mass", u.MASS, fw, default=0.0),
+            "pad_inertia": _quantity(film, "pad_inertia", u.INERTIA, fw, default=0.0),
+            "pad_thickness": _quantity(film, "pad_thickness", u.LENGTH, fw, default=0.0)}
+    pads = PadRing(values["diameter"], values["length"], clearance=values["clearance"],
+                   preload=values.get("preload", 0.0), key=fw, **ring)
+    keep = ("lubricant", "inlet_temperature", "film_temperature", "rise_share", "options",
+            "oil_key", "clearance_range", "preload_range", "inlet_range", "key")
+    return PadJournal(pads, **{k: values[k] for k in keep if k in values})
 
 
 def _pair(table, key, where, dim):
@@ -101,8 +148,8 @@ def _pair(table, key, where, dim):
     return tuple(u.parse(v, dim, f"{where}.{key}[{i}]") for i, v in enumerate(raw))
 
 
-def _options(film, where):
-    grid = film.get("grid", [MODEL_GRID.n_theta, MODEL_GRID.n_z])
+def _options(film, where, default=MODEL_GRID):
+    grid = film.get("grid", [default.n_theta, default.n_z])
     if not (isinstance(grid, list) and len(grid) == 2):
         raise InputError(f"{where}.grid", "must be two whole numbers", value=grid,
                          expected="[steps around each land, steps over half the length], "

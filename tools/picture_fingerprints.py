@@ -240,7 +240,7 @@ def case_pictures(path):
 #: drawn by tests/unit/test_plotting.py; the cases on bearings from their geometry draw
 #: what the feed pump draws, from tables the film computed).
 SKIPPED = {"hp_compressor", "hp_compressor_damper_seal", "feed_pump_sleeve",
-           "blower_two_lobe"}
+           "blower_two_lobe", "compressor_tilting_pad"}
 
 
 def versions():

@@ -9,6 +9,7 @@ computed under the rotor's static loads (``Bearing.film_record``).
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 import numpy as np
@@ -144,9 +145,14 @@ def _curves(bearing, operating):
 def describe_film(film):
     """One line: bore, size, clearance, preload, oil and its temperatures."""
     bore = {"plain": "plain bore", "two-lobe": "two-lobe bore",
-            "offset-halves": "offset-halves bore"}[film.bore]
+            "offset-halves": "offset-halves bore", "tilting-pad": "tilting pads"}[film.bore]
+    if film.bore == "tilting-pad":
+        pads = film.pads
+        bore = (f"{pads.count} {bore} of {math.degrees(pads.arc):.0f} deg, pivot at "
+                f"{pads.pivot_offset:.2g} of the arc")
     text = (f"{bore}, D {film.diameter * 1e3:.4g} mm, L {film.length * 1e3:.4g} mm "
-            f"(L/D {film.length / film.diameter:.3g}), radial clearance "
+            f"(L/D {film.length / film.diameter:.3g}), "
+            f"{'pad' if film.bore == 'tilting-pad' else 'radial'} clearance "
             f"{film.clearance * 1e6:.4g} um")
     if film.bore != "plain":
         text += f", preload {film.preload:.3g}"

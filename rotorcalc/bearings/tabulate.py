@@ -264,7 +264,7 @@ def _tabled(bearing, speeds, table, states, error, notes):
                                 for s in states]),
         coefficients=_values(states),
         interpolation_error=float(error), step_change=float(max(steps, default=math.nan)),
-        notes=tuple(notes) + tuple({w.message: w for w in own}.values()))
+        notes=tuple(notes) + tuple({str(w): w for w in own}.values()))
     for name in ("speeds", "loads", "eccentricity", "attitude", "min_thickness",
                  "temperature", "sommerfeld", "power_loss", "flow", "dimensionless",
                  "coefficients"):
