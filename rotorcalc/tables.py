@@ -473,3 +473,16 @@ WORST_CASE_COLUMNS = [
     Column("Nominal", lambda w: _worst_text(w.measure, w.nominal), "{}", "nominal_value"),
     Column("Verdict there", lambda w: "pass" if w.passed else "FAIL", "{}", "passed"),
 ]
+
+#: Rows: BearingCurves.pad_rows (pad, pivot rad, tilt rad, minimum film m, load N).
+PAD_COLUMNS = [
+    Column("Pad", lambda r: r[0], "{:d}", "pad"),
+    Column("Pivot deg", lambda r: math.degrees(r[1]) % 360.0, "{:.0f}", "pivot_deg"),
+    Column("Tilt mrad", lambda r: r[2] * 1e3, "{:.3f}", "tilt_mrad"),
+    Column("Min film um", lambda r: r[3] * 1e6, "{:.1f}", "min_film_um"),
+    Column("Load N", lambda r: r[4], "{:.4g}", "load_n"),
+]
+
+#: Rows: BearingCurves.whirl_rows (whirl rad/s, kxx ... cyy).
+WHIRL_COLUMNS = [Column("Whirl rpm", lambda r: to_rpm(r[0]), "{:.0f}", "whirl_rpm")] + \
+    BEARING_COEFFICIENT_COLUMNS[1:]

@@ -56,6 +56,31 @@ class BearingCurves:
     damping: np.ndarray
     record: object = None
     operating: tuple = (0.0, 0.0)
+    pads: object = None
+
+    @property
+    def pad_rows(self):
+        """(pad, pivot angle rad, tilt rad, minimum film m, load N) per pad of a tilting-pad
+        bearing at :attr:`pads`' speed; empty otherwise."""
+        p = self.pads
+        if p is None:
+            return []
+        eq = p.state.equilibrium
+        return [(k + 1, float(a), float(t), float(h), float(np.hypot(*f))) for k, (a, t, h, f)
+                in enumerate(zip(p.pivots, eq.tilts, eq.pad_min_thickness, eq.pad_forces))]
+
+    @property
+    def whirl_rows(self):
+        """(whirl frequency rad/s, kxx ... cyy) of a tilting-pad bearing reduced at each of
+        :data:`WHIRL_RATIOS` times :attr:`pads`' speed; empty otherwise."""
+        p = self.pads
+        if p is None:
+            return []
+        out = []
+        for ratio in WHIRL_RATIOS:
+            k, c = p.state.reduce(ratio * p.speed)
+            out.append((ratio * p.speed, *k.ravel().tolist(), *c.ravel().tolist()))
+        return out
 
     @property
     def coefficient_rows(self):
@@ -85,6 +110,12 @@ class BearingCurves:
 
     def to_dict(self):
         out = {"name": self.name, "role": self.role, "station": self.station,
+               "pads": None if self.pads is None else {
+                   "speed_rad_per_s": self.pads.speed,
+                   "pads": [dict(zip(("pad", "pivot_rad", "tilt_rad", "min_film_m", "load_n"),
+                                     row)) for row in self.pad_rows],
+                   "reduced_against_whirl": [dict(zip(("whirl_rad_per_s",) + NAMES, row))
+                                             for row in self.whirl_rows]},
                "source": self.source, "description": self.description,
                "coefficients": [dict(zip(("speed_rad_per_s",) + NAMES, row))
                                 for row in self.coefficient_rows]}
@@ -139,7 +170,33 @@ def _curves(bearing, operating):
         text = ("coefficients over speed" if len(bearing.speeds) >= 2 else
                 "constant coefficients") + (" and whirl frequency" if bearing.whirl else "")
     return BearingCurves(bearing.name, str(bearing.role), bearing.station, source, text,
-                         speeds, stiffness, damping, bearing.film_record, operating)
+                         speeds, stiffness, damping, bearing.film_record, operating,
+                         _pad_detail(bearing, operating[1]))
+
+
+@dataclass(frozen=True)
+class PadDetail:
+    """A tilting-pad bearing solved at one speed: its pads and its full linear set."""
+
+    speed: float
+    pivots: tuple
+    state: object        # PadCoefficients
+
+
+#: Whirl frequencies, as shares of the speed, at which ``rotorcalc bearing`` shows a
+#: tilting-pad bearing's reduced coefficients.
+WHIRL_RATIOS = (0.0, 0.25, 0.5, 0.75, 1.0, 1.5, 2.0)
+
+
+def _pad_detail(bearing, speed):
+    """The pads at ``speed`` (the maximum continuous) under the tabulated load there."""
+    film, record = bearing.film, bearing.film_record
+    if film is None or getattr(film, "bore", "") != "tilting-pad" or record is None:
+        return None
+    load = tuple(np.interp(speed, record.speeds, record.loads[:, j]) for j in range(2))
+    temperature = float(np.interp(speed, record.speeds, record.temperature))
+    state = film.coefficients(speed, load, check_step=False, temperature=temperature)
+    return PadDetail(speed, tuple(float(a) for a in film.pads.pivots), state)
 
 
 def describe_film(film):

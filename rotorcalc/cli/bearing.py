@@ -11,7 +11,9 @@ from rich.markup import escape
 
 from ..bearings.fixed_film import CAUTION as FILM_CAUTION
 from ..vocabulary import CAUTION
-from ..tables import BEARING_COEFFICIENT_COLUMNS, BEARING_ROW_COLUMNS, FILM_STATE_COLUMNS
+from ..tables import (BEARING_COEFFICIENT_COLUMNS, BEARING_ROW_COLUMNS, FILM_STATE_COLUMNS,
+                      PAD_COLUMNS, WHIRL_COLUMNS)
+from ..units import to_rpm
 from .common import console, input_errors, load, print_table, save_figure, write_outputs
 from .whatif_common import check_outputs
 
@@ -48,6 +50,17 @@ def command(
                         c.film_rows, caption=_record_caption(c.record))
             for note in c.record.notes:
                 console.print(f"[yellow]note[/] {escape(str(note))}", highlight=False)
+        if c.pads is not None:
+            print_table(f"{c.name}: the pads at {to_rpm(c.pads.speed):.0f} rpm (maximum "
+                        "continuous speed)", PAD_COLUMNS, c.pad_rows,
+                        caption="Pivot angle from +x towards +y; tilt positive in the same "
+                                "sense; load: the pad's film force on the journal.")
+            print_table(f"{c.name}: coefficients reduced at each whirl frequency, "
+                        f"{to_rpm(c.pads.speed):.0f} rpm", WHIRL_COLUMNS, c.whirl_rows,
+                        caption="The pads' tilts eliminated at each whirl frequency (pad "
+                                "inertia included); the analyses read the synchronous row "
+                                "(whirl = speed). The trend with whirl frequency is not yet "
+                                "checked against published data (docs/bearings.md).")
     caution = FILM_CAUTION if any(c.record is not None for c in curves) else CAUTION
     console.print(f"[dim]{caution}[/]", highlight=False)
     write_outputs("bearing", case, {"bearings": [c.to_dict() for c in curves],

@@ -64,3 +64,22 @@ def test_statics_shows_the_film_journals(tmp_path):
     doc = json.loads(js.read_text())["result"]
     assert [f["bearing"] for f in doc["film_journals"]] == ["DE", "NDE"]
     assert doc["balance_error"] < 1e-9
+
+
+@pytest.mark.slow
+def test_a_tilting_pad_bearing_shows_its_pads_and_the_whirl_reduction(tmp_path):
+    js = tmp_path / "tp.json"
+    result = runner.invoke(app, ["bearing", str(ROOT / "cases" / "compressor_tilting_pad.toml"),
+                                 "--name", "DE", "--json", str(js)])
+    assert result.exit_code == 0, result.output
+    assert "the pads at 11500 rpm" in result.output and "reduced at each whirl" in result.output
+    doc = json.loads(js.read_text())["result"]["bearings"][0]
+    pads = doc["pads"]["pads"]
+    assert len(pads) == 5
+    # load between pads along -y: the two pads either side of the bottom carry alike
+    loads = sorted(p["load_n"] for p in pads)
+    assert loads[-1] == pytest.approx(loads[-2], rel=1e-6)
+    whirl = doc["pads"]["reduced_against_whirl"]
+    synchronous = next(r for r in whirl if abs(r["whirl_rad_per_s"] - doc["pads"]["speed_rad_per_s"]) < 1e-9)
+    # no cross-coupled stiffness with centre pivots (symmetry)
+    assert abs(synchronous["kxy"]) < 1e-5 * synchronous["kxx"]

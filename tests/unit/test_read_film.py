@@ -2,6 +2,8 @@
 of the what-if changes to it fires, naming the key of the file (docs/input.md, "Bearings
 from their geometry"; docs/whatif.md)."""
 
+import math
+
 import pytest
 
 from rotorcalc.errors import InputError
@@ -94,6 +96,21 @@ BAD = [
      "bearing[0].oil.points", "physics"),
     (OIL_LINE, OIL_LINE + "\nrise_share = 1.5", "bearing[0].oil.rise_share", "range"),
     (OIL_LINE, OIL_LINE + '\nviscosity = "32 cSt"', "bearing[0].oil.viscosity", "unknown-key"),
+    # tilting pads
+    (FILM_LINE, FILM_LINE + "\npads = 5", "bearing[0].film.pads", "choice"),   # a plain bore
+    ('bore = "plain"', 'bore = "tilting-pad"', "bearing[0].film.pads", "missing"),
+    ('bore = "plain"', 'bore = "tilting-pad"\npads = 5.5\npad_arc = "60 deg"',
+     "bearing[0].film.pads", "type"),
+    ('bore = "plain"', 'bore = "tilting-pad"\npads = 5\npad_arc = "80 deg"',
+     "bearing[0].film.arc", "physics"),                 # five pads of 80 deg leave no gap
+    ('bore = "plain"', 'bore = "tilting-pad"\npads = 5\npad_arc = "60 deg"\nload = "top"',
+     "bearing[0].film.load", "choice"),
+    ('bore = "plain"', 'bore = "tilting-pad"\npads = 5\npad_arc = 1.0',
+     "bearing[0].film.pad_arc", "unit"),
+    ('bore = "plain"', 'bore = "tilting-pad"\npads = 5\npad_arc = "60 deg"\n'
+     'pivot_offset = 1.2', "bearing[0].film.pivot_offset", "range"),
+    ('bore = "plain"', 'bore = "tilting-pad"\npads = 5\npad_arc = "60 deg"\n'
+     'feed_pressure = "0.1 MPa"', "bearing[0].film.feed_pressure", "choice"),
 ]
 
 
@@ -121,6 +138,25 @@ BAD_CHANGES = [
     ("bearing.A.oil", "syntax"),
     ("bearing.A.film.preload = 0.5", "choice"),    # a plain bore has no preload
 ]
+
+
+def test_a_tilting_pad_bearing_is_read_and_changed():
+    """Read without solving a film (the pads' model only), then a what-if on it."""
+    from rotorcalc.reader import _bearing
+    table = {"at": 0, "name": "A", "film": {
+        "bore": "tilting-pad", "diameter": "60 mm", "length": "30 mm", "clearance": "60 um",
+        "preload": 0.3, "pads": 4, "pad_arc": "70 deg", "load": "on-pad",
+        "clearance_range": ["55 um", "65 um"]},
+        "oil": {"grade": 32, "inlet_temperature": "45 degC"}}
+    film = _bearing(table, 0, {}, 2).film
+    assert film.bore == "tilting-pad" and film.pads.count == 4 and film.preload == 0.3
+    assert film.pads.pivots[0] == pytest.approx(-math.pi / 2)        # a pad under the load
+    assert film.options.n_theta == 36 and film.clearance_range == pytest.approx((55e-6, 65e-6))
+    wider = film.changed(clearance=65e-6)
+    assert wider.pads.bearing_clearance == pytest.approx(0.7 * 65e-6)
+    with pytest.raises(InputError) as info:
+        film.changed(groove_width=0.3)
+    assert info.value.kind == "unknown-key"
 
 
 @pytest.mark.parametrize("text,kind", BAD_CHANGES, ids=[b[0] for b in BAD_CHANGES])
