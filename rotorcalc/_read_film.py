@@ -152,8 +152,8 @@ def _options(film, where, default=MODEL_GRID):
     grid = film.get("grid", [default.n_theta, default.n_z])
     if not (isinstance(grid, list) and len(grid) == 2):
         raise InputError(f"{where}.grid", "must be two whole numbers", value=grid,
-                         expected="[steps around each land, steps over half the length], "
-                                  f"e.g. [{MODEL_GRID.n_theta}, {MODEL_GRID.n_z}]",
+                         expected="[steps along each land or pad, steps over half the "
+                                  f"length], e.g. [{default.n_theta}, {default.n_z}]",
                          kind="type")
     cavitation = _string(film, "cavitation", where, default=MODEL_GRID.cavitation)
     if cavitation not in CAVITATION_MODELS:

@@ -225,7 +225,8 @@ class Bearing:
     @property
     def model(self):
         """The bearing model behind the coefficients, with ``coefficients(speed, load, *,
-        whirl=None)``: the :class:`~rotorcalc.bearings.FilmJournal` of a bearing from its
+        whirl=None)``: the :class:`~rotorcalc.bearings.FilmJournal` (or tilting-pad
+        :class:`~rotorcalc.bearings.tilting_pad.PadJournal`) of a bearing from its
         geometry, else its :class:`~rotorcalc.bearings.table.CoefficientTable`."""
         if self.film is not None:
             return self.film

@@ -290,6 +290,10 @@ def _change_films(bearings, chosen, rest, change):
                              "is given by coefficient tables", value=text,
                              expected="a bearing with a [bearing.film] table", kind="missing")
         if part == "film":
+            if not hasattr(film, name):
+                raise InputError(key, f"changes {name}, which a {film.bore} bearing does not "
+                                 "have", value=text, expected="clearance, preload, length or "
+                                 "diameter", kind="unknown-key")
             film = film.changed(**{name: _plain_or_quantity(change, getattr(film, name), dim)})
         else:
             film = _change_oil(film, name, change, dim)

@@ -64,6 +64,10 @@ MODULE_SECTIONS = (
     ("test_film_in_model.py",
      "15. Film bearings in the rotor model: film journals in equilibrium, the heat balance, "
      "the speed table against solves it was not fitted through, what-if trends, model grid"),
+    ("test_tilting_pad.py",
+     "16. Tilting-pad bearings: locked pads against fixed arcs and the short-bearing limit, "
+     "no cross-coupling with centre pivots, the reduction's limits, symmetry of load on and "
+     "between pads, static stiffness by re-settling the pads"),
 )
 
 INTRO = """\

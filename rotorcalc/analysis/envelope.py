@@ -68,7 +68,7 @@ def corner_variants(rotor):
             shown = _end_text(label, next(iter(values))) if len(values) == 1 else \
                 ("low" if end == 0 else "high")
             names.append(f"{label} {shown}")
-            changes += [parse_change(f"bearing[{i}].{path} = {v[end]!r}{unit}")
+            changes += [parse_change(f"bearing[{i}].{path} = {v[end]:.9g}{unit}")
                         for i, v in having]
         out.append(Variant(", ".join(names), tuple(changes)))
     return tuple(out)

@@ -5,8 +5,8 @@ its diameter, length, clearance, preload and grooves), the oil and the thermal
 rule, and answers one question through :meth:`FilmJournal.coefficients`: the eight
 coefficients at a speed and a static load.  Every bearing model offers that one
 method (``coefficients(speed, load, *, whirl=None)``; the tables of
-:mod:`rotorcalc.bearings.table` are the first model); a tilting-pad bearing will be one
-more.
+:mod:`rotorcalc.bearings.table` are the first model; the tilting-pad bearing of
+:mod:`rotorcalc.bearings.tilting_pad` is one more).
 
 Effective film temperature (docs/bearings.md, "Lubricant"): a given
 ``film_temperature`` is used as it is; otherwise the isoviscous film sits at::

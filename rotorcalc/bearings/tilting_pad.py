@@ -799,7 +799,7 @@ def pad_coefficients(ring, speed, load, viscosity, *, whirl=None, options=FilmOp
                       np.full(pads.size - 2 - n, ring.pad_mass)])
     idle = _idle(films)
     if idle:
-        warnings += (Notice(f"pad(s) {', '.join(str(k) for k in idle)} carry no film at "
+        warnings += (Notice(f"pad(s) {', '.join(str(k + 1) for k in idle)} carry no film at "
                             f"{eq.speed * 30 / math.pi:.0f} rpm (unloaded: their tilt is free and "
                             "they may flutter); left out of the coefficients", code="note"),)
     result = PadCoefficients(None, None, w, k2, c2, m, ring.coordinates, eq, 0.5 * d, change,

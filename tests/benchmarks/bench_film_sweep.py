@@ -5,10 +5,13 @@ Run from the repository root::
 
     python tests/benchmarks/bench_film_sweep.py               # 3 rounds, the feed pump
     python tests/benchmarks/bench_film_sweep.py --rounds 5 --elements 4
+    python tests/benchmarks/bench_film_sweep.py --case compressor --rounds 2
 
 The same rotor twice: ``cases/feed_pump.toml`` (sleeve bearings given by the bearing
 report's tables) and ``cases/feed_pump_sleeve.toml`` (the same sleeves given by their
-geometry, the coefficients computed under the rotor's own loads).  ``--elements N``
+geometry, the coefficients computed under the rotor's own loads); with ``--case
+compressor``, ``cases/compressor.toml`` and ``cases/compressor_tilting_pad.toml``
+(tilting-pad bearings as tables and from their geometry).  ``--elements N``
 splits every shaft section into N elements (a bigger model, the same bearings).  Each
 round times, alternately:
 
@@ -42,7 +45,8 @@ from rotorcalc.bearings import tabulate  # noqa: E402
 from rotorcalc.reader import read_rotor  # noqa: E402
 
 ROOT = Path(__file__).resolve().parents[2]
-TABLES, GEOMETRY = ROOT / "cases" / "feed_pump.toml", ROOT / "cases" / "feed_pump_sleeve.toml"
+PAIRS = {"pump": ("feed_pump.toml", "feed_pump_sleeve.toml"),
+         "compressor": ("compressor.toml", "compressor_tilting_pad.toml")}
 
 
 def refined(rotor, elements):
@@ -63,16 +67,18 @@ def main():
     parser.add_argument("--rounds", type=int, default=3)
     parser.add_argument("--elements", type=int, default=None,
                         help="elements per shaft section (default: the files')")
+    parser.add_argument("--case", choices=sorted(PAIRS), default="pump")
     args = parser.parse_args()
-    sweep(read_rotor(TABLES))                       # warm the imports
+    tables_file, geometry_file = (ROOT / "cases" / name for name in PAIRS[args.case])
+    sweep(read_rotor(tables_file))                       # warm the imports
     rows = {"tables: read + sweep": [], "geometry: read (film tables) + sweep": [],
             "geometry: sweep, film tables computed": []}
     geometry = None
     for _ in range(args.rounds):
         rows["tables: read + sweep"].append(
-            timed(lambda: sweep(refined(read_rotor(TABLES), args.elements)))[0])
+            timed(lambda: sweep(refined(read_rotor(tables_file), args.elements)))[0])
         tabulate._tabulated.cache_clear()
-        t, geometry = timed(lambda: refined(read_rotor(GEOMETRY), args.elements))
+        t, geometry = timed(lambda: refined(read_rotor(geometry_file), args.elements))
         t_sweep, _ = timed(lambda: sweep(geometry))
         rows["geometry: read (film tables) + sweep"].append(t + t_sweep)
         rows["geometry: sweep, film tables computed"].append(timed(lambda: sweep(geometry))[0])
@@ -85,7 +91,7 @@ def main():
     naive = t_sample * len(speeds) / len(sample)
     base = statistics.median(rows["tables: read + sweep"])
     n_dof = 4 * (sum(s.elements for s in geometry.sections) + 1)
-    print(f"feed pump, {n_dof} shaft DOF, {len(speeds) + 1} sweep speeds, "
+    print(f"{geometry.name}, {n_dof} shaft DOF, {len(speeds) + 1} sweep speeds, "
           f"{len(films)} film bearings, {len(films[0].film_record.speeds)} film speeds "
           f"solved each; median of {args.rounds} rounds")
     print(f"{'':44} {'median s':>9} {'/ tables':>9}")

@@ -196,3 +196,22 @@ def test_a_frozen_film_table_keeps_the_films_physics(rotor):
     with pytest.raises(InputError) as info:
         dataclasses.replace(frozen, film_record=None)
     assert info.value.key == f"{a.key}.kxx[3]"
+
+
+def test_a_what_if_of_a_fixed_bore_input_on_pads_is_an_input_error():
+    """A groove or feed-pressure change on a tilting-pad bearing once ended in an internal
+    error (found by review): it is refused with its key."""
+    from rotorcalc.model import OperatingRange, Rotor, Section
+    from rotorcalc.reader import _bearing
+    from rotorcalc.variants import apply_change
+    from tests.conftest import STEEL
+    table = {"at": 0, "name": "A", "film": {
+        "bore": "tilting-pad", "diameter": "60 mm", "length": "30 mm", "clearance": "60 um",
+        "preload": 0.3, "pads": 4, "pad_arc": "70 deg"},
+        "oil": {"grade": 32, "inlet_temperature": "45 degC"}}
+    rotor = Rotor((Section(0.5, 0.06, STEEL),), OperatingRange(100.0, 200.0),
+                  bearings=(_bearing(table, 0, {}, 1),))
+    for text in ("bearing.A.film.groove_width = 20 deg", "bearing.A.film.feed_pressure = 1 bar"):
+        with pytest.raises(InputError) as info:
+            apply_change(rotor, parse_change(text))
+        assert info.value.kind == "unknown-key" and "tilting-pad" in info.value.problem
