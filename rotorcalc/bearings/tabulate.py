@@ -38,7 +38,9 @@ from scipy.interpolate import make_smoothing_spline
 
 from ..errors import SolverError
 from ..notices import Notice
+from ..model import Settings
 from ..statics import static_solution
+from ..unbalance import ResponseSettings
 
 #: Speeds of the first fit; the fit is tabulated at TABLE_POINTS speeds.
 START_POINTS = 9
@@ -148,7 +150,19 @@ def tabulate_films(rotor, *, tolerance=TOLERANCE, max_points=MAX_POINTS):
     """
     if not any(b.film is not None for b in rotor.bearings):
         return rotor
-    return _tabulated(rotor, float(tolerance), int(max_points))
+    # the tables depend on the shaft, disks, bearings, loads and speeds only: the rest of
+    # the rotor (unbalance, probes, sweep counts, rules ...) is left out of the memo's key,
+    # so a command's option that changes none of these reuses them
+    bare = tuple(dataclasses.replace(b, speeds=(), coefficients={}, film_record=None)
+                 if b.film is not None else b for b in rotor.bearings)
+    key = dataclasses.replace(
+        rotor, bearings=bare, name="", unbalance=(), probes=(), clearances=(), sources=(),
+        coupling_rule=None,
+        settings=Settings(speed_from=rotor.settings.speed_from,
+                          speed_to=rotor.settings.speed_to),
+        response=ResponseSettings(speed_to=rotor.response.speed_to))
+    tabled = _tabulated(key, float(tolerance), int(max_points))
+    return dataclasses.replace(rotor, bearings=tabled.bearings)
 
 
 @functools.lru_cache(maxsize=32)
