@@ -77,10 +77,7 @@ class FilmCoefficients:
 
     def dimensionless(self):
         """``(K C / W, C C omega / W)`` with ``C`` the reference clearance."""
-        eq = self.equilibrium
-        load = float(np.hypot(*eq.load))
-        return (self.stiffness * eq.clearance / load,
-                self.damping * eq.clearance * abs(eq.speed) / load)
+        return dimensionless(self.stiffness, self.damping, self.equilibrium)
 
     def as_table(self):
         """``{"kxx": ..., ..., "cyy": ...}`` (N/m, N s/m)."""
@@ -99,6 +96,12 @@ class FilmCoefficients:
                                 "damping": _number_or_none(self.step_change[1])},
                 "film_temperature_K": self.temperature,
                 "warnings": [w.to_dict() for w in self.warnings], "caution": CAUTION}
+
+
+def dimensionless(stiffness, damping, eq):
+    """``(K C / W, C C omega / W)`` at an equilibrium ``eq`` (its clearance, load, speed)."""
+    load = float(np.hypot(*eq.load))
+    return stiffness * eq.clearance / load, damping * eq.clearance * abs(eq.speed) / load
 
 
 def _number_or_none(value):

@@ -49,6 +49,24 @@ TEMPERATURE_TOLERANCE = 0.1
 HOT_FILM = 273.15 + 120.0
 
 
+def thermal_notes(temperature, speed, settled):
+    """Notes on a film temperature (K) at ``speed`` (rad/s): a heat balance that did not
+    settle, and a film too hot for an isoviscous model."""
+    notes = ()
+    if not settled:
+        notes += (Notice(f"the film temperature's heat balance did not settle within "
+                         f"{TEMPERATURE_TOLERANCE} K at {speed * 30 / math.pi:.0f} rpm: "
+                         f"{temperature - 273.15:.1f} degC is its best estimate",
+                         code="note"),)
+    if temperature > HOT_FILM:
+        notes += (Notice(f"effective film temperature {temperature - 273.15:.0f} degC "
+                         f"at {speed * 30 / math.pi:.0f} rpm: above "
+                         f"{HOT_FILM - 273.15:.0f} degC an isoviscous film is a rough "
+                         "model (check the oil flow and the maker's thermal analysis)",
+                         code="note"),)
+    return notes
+
+
 @dataclass(frozen=True)
 class FilmJournal:
     """A plain or lobed journal bearing from its geometry and oil.
@@ -213,18 +231,7 @@ class FilmJournal:
         result = film_coefficients(self.geometry, speed, load, self.viscosity(temperature),
                                    options=self.options, check_step=check_step,
                                    equilibrium=eq)
-        notes = result.warnings
-        if not settled:
-            notes += (Notice(f"the film temperature's heat balance did not settle within "
-                             f"{TEMPERATURE_TOLERANCE} K at {speed * 30 / math.pi:.0f} rpm: "
-                             f"{temperature - 273.15:.1f} degC is its best estimate",
-                             code="note"),)
-        if temperature > HOT_FILM:
-            notes += (Notice(f"effective film temperature {temperature - 273.15:.0f} degC "
-                             f"at {speed * 30 / math.pi:.0f} rpm: above "
-                             f"{HOT_FILM - 273.15:.0f} degC an isoviscous film is a rough "
-                             "model (check the oil flow and the maker's thermal analysis)",
-                             code="note"),)
+        notes = result.warnings + thermal_notes(temperature, speed, settled)
         return dataclasses.replace(result, temperature=temperature, warnings=notes)
 
     def _equilibrium(self, speed, load, temperature, start):

@@ -79,9 +79,9 @@ from ..notices import Notice
 from ..threads import one_blas_thread
 from .equilibrium import WALL, check_operating
 from .film import FilmOptions, number, pair, solve_film, whole
-from .fixed_film import CAUTION, NAMES
+from .fixed_film import CAUTION, NAMES, dimensionless
 from .geometry import MAX_CLEARANCE_RATIO, TWO_PI, Land, _positive
-from .journal import HOT_FILM, MODEL_GRID, TEMPERATURE_TOLERANCE, FilmJournal
+from .journal import FilmJournal, thermal_notes
 from .lubricant import Lubricant
 
 _solve = solve_film.__wrapped__
@@ -704,10 +704,7 @@ class PadCoefficients:
 
     def dimensionless(self):
         """``(K C_b / W, C C_b omega / W)`` with ``C_b`` the bearing clearance."""
-        eq = self.equilibrium
-        load = float(np.hypot(*eq.load))
-        return (self.stiffness * eq.clearance / load,
-                self.damping * eq.clearance * abs(eq.speed) / load)
+        return dimensionless(self.stiffness, self.damping, self.equilibrium)
 
     def reduce(self, whirl):
         """``(K_red, C_red)`` at another whirl frequency (rad/s); pads that carry no film
@@ -947,14 +944,5 @@ class PadJournal:
         result = pad_coefficients(self.pads, speed, load, self.viscosity(temperature),
                                   whirl=whirl, options=self.options, check_step=check_step,
                                   equilibrium=eq)
-        notes, rpm = result.warnings, speed * 30 / math.pi
-        if not settled:
-            notes += (Notice(f"the film temperature's heat balance did not settle within "
-                             f"{TEMPERATURE_TOLERANCE} K at {rpm:.0f} rpm: "
-                             f"{temperature - 273.15:.1f} degC is its best estimate",
-                             code="note"),)
-        if temperature > HOT_FILM:
-            notes += (Notice(f"effective film temperature {temperature - 273.15:.0f} degC at "
-                             f"{rpm:.0f} rpm: above {HOT_FILM - 273.15:.0f} degC an "
-                             "isoviscous film is a rough model", code="note"),)
+        notes = result.warnings + thermal_notes(temperature, speed, settled)
         return dataclasses.replace(result, temperature=temperature, warnings=notes)
