@@ -234,6 +234,12 @@ class FilmJournal:
         notes = result.warnings + thermal_notes(temperature, speed, settled)
         return dataclasses.replace(result, temperature=temperature, warnings=notes)
 
+    @staticmethod
+    def _start_of(equilibrium):
+        """What the next equilibrium search starts from: the journal position (a model
+        whose search takes more, such as the pads' tilts, gives it more)."""
+        return equilibrium.position
+
     def _equilibrium(self, speed, load, temperature, start):
         return find_equilibrium(self.geometry, speed, load, self.viscosity(temperature),
                                 options=self.options, start=start)
@@ -249,7 +255,8 @@ class FilmJournal:
         found = {}
 
         def excess(t):
-            near = start if not found else found[min(found, key=lambda s: abs(s - t))].position
+            near = start if not found else self._start_of(
+                found[min(found, key=lambda s: abs(s - t))])
             eq = found[t] = self._equilibrium(speed, load, t, near)
             rise = self.lubricant.temperature_rise(eq.power_loss, max(eq.side_leakage, 1e-12),
                                                    inlet)

@@ -915,6 +915,11 @@ class PadJournal:
     #: The effective temperature, as FilmJournal finds it (the heat balance of all pads).
     _film_state = FilmJournal._film_state
 
+    @staticmethod
+    def _start_of(equilibrium):
+        """The whole equilibrium (journal, tilts, lifts) starts the next search."""
+        return equilibrium
+
     def coefficients(self, speed, load, *, whirl=None, start=None, check_step=True,
                      temperature=None):
         """Reduced coefficients at ``speed`` under ``load``, at the effective film temperature.
