@@ -10,7 +10,8 @@ from ._toml import _array_of_tables, _number, _quantity, _string, check_keys
 from ._read_response import _angle
 from .bearings.film import CAVITATION_MODELS, FilmOptions
 from .bearings.journal import BORES, MODEL_GRID, FilmJournal
-from .bearings.tilting_pad import PAD_GRID, PadJournal, PadRing, first_pivot_angle
+from .bearings.pad_journal import PAD_GRID, PadJournal
+from .bearings.pad_ring import PadRing, first_pivot_angle
 from .bearings.lubricant import Lubricant
 from .errors import InputError
 

@@ -226,7 +226,7 @@ class Bearing:
     def model(self):
         """The bearing model behind the coefficients, with ``coefficients(speed, load, *,
         whirl=None)``: the :class:`~rotorcalc.bearings.FilmJournal` (or tilting-pad
-        :class:`~rotorcalc.bearings.tilting_pad.PadJournal`) of a bearing from its
+        :class:`~rotorcalc.bearings.pad_journal.PadJournal`) of a bearing from its
         geometry, else its :class:`~rotorcalc.bearings.table.CoefficientTable`."""
         if self.film is not None:
             return self.film

@@ -26,7 +26,8 @@ import time  # noqa: E402
 import numpy as np  # noqa: E402
 
 from rotorcalc.bearings import FilmOptions, Lubricant  # noqa: E402
-from rotorcalc.bearings.tilting_pad import (PadJournal, PadRing, first_pivot_angle,  # noqa: E402
+from rotorcalc.bearings.pad_journal import PadJournal  # noqa: E402
+from rotorcalc.bearings.tilting_pad import (PadRing, first_pivot_angle,  # noqa: E402
                                             pad_coefficients)
 
 #: An invented test-rig bearing: 100 mm, L/D = 0.5, five 60-degree pads, C_p/R = 0.002,

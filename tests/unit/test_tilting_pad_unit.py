@@ -15,7 +15,8 @@ import numpy as np
 import pytest
 
 from rotorcalc.bearings import FilmOptions, Lubricant
-from rotorcalc.bearings.tilting_pad import (PadJournal, PadRing, condense, first_pivot_angle,
+from rotorcalc.bearings.pad_journal import PadJournal
+from rotorcalc.bearings.tilting_pad import (PadRing, condense, first_pivot_angle,
                                             pad_coefficients, pad_equilibrium, settle_pads)
 from rotorcalc.errors import InputError, SolverError
 

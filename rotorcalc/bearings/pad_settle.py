@@ -1,0 +1,420 @@
+"""The pads of a tilting-pad bearing settled: each pad's film solved as it tilts (and its
+pivot yields), every pad in moment balance, and the journal where the pads carry the load.
+
+The equations are in :mod:`rotorcalc.bearings.tilting_pad` (its module notes), which also
+linearises the settled bearing; docs/bearings.md, section 12.  Screening only: confirm
+tilting-pad results against the bearing maker's analysis, the applicable standard, the
+purchase specification, local codes and a licensed engineer's review.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from ..errors import InputError, SolverError
+from ..threads import one_blas_thread
+from .equilibrium import WALL, check_operating
+from .film import FilmOptions, number, pair, solve_film, whole
+from .geometry import TWO_PI
+from .pad_ring import PadRing
+
+_solve = solve_film.__wrapped__
+
+
+def _idle(films):
+    """Pads whose film carries nothing (wholly ruptured)."""
+    return tuple(k for k, f in enumerate(films) if not np.any(f.force))
+
+
+def _keep(coordinates, idle):
+    """Indices of the coordinates that do not belong to an ``idle`` pad."""
+    gone = {f"{kind}[{k}]" for k in idle for kind in ("tilt", "lift")}
+    return np.array([i for i, name in enumerate(coordinates) if name not in gone])
+
+
+class _Pads:
+    """The pads' films at coordinates ``q`` (SI: x, y, tilts, lifts) and their rates."""
+
+    def __init__(self, ring, omega, mu, options):
+        self.ring, self.omega, self.mu, self.options = ring, omega, mu, options
+        n, c = ring.count, ring.bearing_clearance
+        self.n, self.flex, self.size = n, ring.flexible, len(ring.coordinates)
+        self.unit = np.r_[c, c, np.full(n, c / ring.lever), np.full(self.size - 2 - n, c)]
+        th = ring.pivots
+        self.e, self.t = np.c_[np.cos(th), np.sin(th)], np.c_[-np.sin(th), np.cos(th)]
+        self.solves = self.iterations = 0
+
+    def aligned(self, position):
+        """The journal at ``position``, each pad tilted to follow it across its pivot line."""
+        q = np.zeros(self.size)
+        q[:2], q[2:2 + self.n] = position, -(self.t @ position) / self.ring.lever
+        return q
+
+    def _pad(self, k, q, rate):
+        lift = (q[2 + self.n + k], rate[2 + self.n + k]) if self.flex else (0.0, 0.0)
+        return self.ring.pad(k, q[2 + k], lift[0], rate[2 + k], lift[1])
+
+    def film(self, k, q, rate=None, start=None, hold=False):
+        self.solves += 1
+        rate = np.zeros(self.size) if rate is None else rate
+        return _solve(self._pad(k, q, rate), self.omega, self.mu, (q[0], q[1]),
+                      (rate[0], rate[1]), options=self.options, start=start,
+                      hold_rupture=hold)
+
+    def films(self, q, rate=None, start=None, hold=False):
+        return [self.film(k, q, rate, None if start is None else start[k], hold)
+                for k in range(self.n)]
+
+    def thinnest(self, q):
+        zero = np.zeros(self.size)
+        return min(self._pad(k, q, zero).lands[0].closest(q[0], q[1])[0] for k in range(self.n))
+
+    def pad_loads(self, q, films):
+        """Per pad: force on the journal, moment on the pad, radial force net of the pivot."""
+        f = np.array([s.force for s in films])
+        out = np.zeros((self.n, 4))
+        out[:, :2], out[:, 2] = f, self.ring.lever * np.sum(f * self.t, axis=1)
+        if self.flex:
+            out[:, 3] = -np.sum(f * self.e, axis=1) - self.ring.pivot_stiffness * q[2 + self.n:]
+        return out
+
+    def forces(self, q, films):
+        """The generalised forces ``Q`` over all coordinates."""
+        g = self.pad_loads(q, films)
+        return np.concatenate([g[:, :2].sum(axis=0), g[:, 2]] + ([g[:, 3]] if self.flex else []))
+
+    def derivative(self, q, films, steps, *, rate=False, hold=False, central=True):
+        """``dQ/dq`` (``dQ/dq'`` with ``rate``) by differences of ``steps``; a pad coordinate
+        is moved on all pads at once (each pad's film sees only its own)."""
+        n, out = self.n, np.zeros((self.size, self.size))
+        base = None if central else self.pad_loads(q, films)
+        for cols in [[0], [1], list(range(2, 2 + n))] + \
+                ([list(range(2 + n, 2 + 2 * n))] if self.flex else []):
+            shift = np.zeros(self.size)
+            shift[cols] = steps[cols]
+
+            def loads(sign):
+                at = q if rate else q + sign * shift
+                return self.pad_loads(at, self.films(at, sign * shift if rate else None,
+                                                     films, hold))
+            diff = 0.5 * (loads(1.0) - loads(-1.0)) if central else loads(1.0) - base
+            if len(cols) == 1:
+                out[:, cols[0]] = np.concatenate([diff[:, :2].sum(axis=0), diff[:, 2]] + (
+                    [diff[:, 3]] if self.flex else [])) / steps[cols[0]]
+                continue
+            for k, j in enumerate(cols):
+                rows = [0, 1, 2 + k] + ([2 + n + k] if self.flex else [])
+                out[rows, j] = diff[k, :len(rows)] / steps[j]
+        return out
+
+    def settle(self, q, scale, slopes=None, start=None):
+        """``(q, films)`` with every pad's tilt settled (journal and lifts held), or None;
+        ``start``: films whose ruptured regions start the cavitation iterations.
+
+        With ``u = tilt`` and ``g = F_k . t_k`` at positive speed (both negated at negative
+        speed, the mirror image), a pad has no film below some ``u``; above, ``g`` may first
+        dip below zero (the film starts behind an offset pivot), then turns positive and
+        falls through its stable root (from + to -) for good.  Steps (1.1 Newton steps where
+        ``slopes`` ``dg/du`` are known, else 1 % of the clearance; doubling) find a bracket
+        of that root; the Illinois method closes it.  A pad that meets no positive ``g``
+        before the wall carries nothing: it stays where it has no film.
+        """
+        q, up = q.copy(), math.copysign(1.0, self.omega)
+        films = [None] * self.n if start is None else list(start)
+        pos, neg = (lambda v: v is not None and v > 0.0), (lambda v: v is not None and v < 0.0)
+        for k in range(self.n):
+            unit = self.unit[2 + k]
+
+            def g(u):                                   # None where the pad has no film
+                q[2 + k] = up * u
+                films[k] = self.film(k, q, start=films[k])
+                force = films[k].force
+                return up * float(self.t[k] @ force) if np.any(force) else None
+
+            def march(u, g_u, size, done):
+                """From ``u`` by doubling steps until ``done(g)``: (last u, g, new u, g); None
+                when the pad comes within four halvings of the wall first."""
+                walls = 0
+                while walls < 4:
+                    v = u + size
+                    if self.thinnest(np.r_[q[:2 + k], up * v, q[3 + k:]]) <= WALL * self.unit[0]:
+                        walls, size = walls + 1, 0.5 * size
+                        continue
+                    g_v = g(v)
+                    if done(g_v):
+                        return u, g_u, v, g_v
+                    u, g_u, size = v, g_v, size * (0.5 if walls else 2.0)
+                return None
+            u0 = up * q[2 + k]
+            g0, size, bracket, bare = g(u0), 0.01 * unit, None, u0
+            if slopes is not None and slopes[k] < 0.0 and g0 is not None:
+                size = max(abs(1.1 * g0 / slopes[k]), 1e-6 * unit)
+            if pos(g0):
+                bracket = march(u0, g0, size, neg)
+            elif neg(g0):
+                down = march(u0, g0, -size, lambda v: not neg(v))
+                bare = None if down is None else down[2]
+                bracket = down and pos(down[3]) and (down[2], down[3], down[0], down[1])
+            if not bracket:
+                rise = march(u0, g0, 0.01 * unit, pos)
+                if rise is None and bare is not None:      # nothing holds the pad: no film
+                    g(bare)
+                    continue
+                bracket = rise and march(*rise[2:], 0.01 * unit, neg)
+            if not bracket:
+                return None
+            a, g_a, b, g_b = bracket
+            for side in range(100):
+                c = (a * g_b - b * g_a) / (g_b - g_a)
+                g_c = g(c)
+                if abs(g_c) <= 1e-11 * scale or abs(b - a) <= 1e-12 * unit:
+                    break
+                if g_c < 0.0:                                      # Illinois: halve the end
+                    b, g_b, g_a, side = c, g_c, g_a / (2.0 if side < 0 else 1.0), -1
+                else:
+                    a, g_a, g_b, side = c, g_c, g_b / (2.0 if side > 0 else 1.0), 1
+            else:
+                return None
+        return q, films
+
+    def carry(self, q, target, free, scale, tol, max_iterations=50):
+        """``(q, films)`` with ``Q + target = 0`` on the ``free`` coordinates (journal and
+        lifts; within ``tol x scale``) and every pad settled, or None.
+
+        Each step tries Newton's step (halved up to five times), then steps along the
+        residual itself, the way the net force pushes the journal and pivots (from 0.2
+        ``C_b``, halved up to seven times): a pad without film adds nothing to the Jacobian,
+        so where too few pads carry, Newton's step misses the pads that would.
+        """
+        found = self.settle(q, scale)
+        if found is None:
+            return None
+        q, films = found
+        r = (self.forces(q, films) + target)[free]
+        c = self.ring.bearing_clearance
+        for _ in range(max_iterations):
+            if np.linalg.norm(r) <= tol * scale:
+                return q, films
+            self.iterations += 1
+            jac = self.derivative(q, films, 1e-6 * self.unit, central=False)
+            slopes = np.diag(jac)[2:2 + self.n] / self.ring.lever
+            p = np.intersect1d(_keep(self.ring.coordinates, _idle(films)), np.arange(2, 2 + self.n))
+            moves = np.zeros((2, self.size))
+            moves[1, free] = c * r / np.linalg.norm(r)
+            try:
+                follow = np.linalg.solve(jac[np.ix_(p, p)], jac[np.ix_(p, free)])
+                moves[0, free] = -np.linalg.solve(
+                    jac[np.ix_(free, free)] - jac[np.ix_(free, p)] @ follow, r)
+                moves[:, p] = -moves[:, free] @ follow.T
+            except np.linalg.LinAlgError:
+                pass
+            moves[0] *= min(1.0, 0.5 * c / max(float(np.max(np.abs(moves[0, free]))), 1e-300))
+            for dq in [lam * moves[0] for lam in 0.5 ** np.arange(6)] + \
+                    [lam * moves[1] for lam in 0.2 * 0.5 ** np.arange(8)]:
+                trial = q + dq
+                new = self.settle(trial, scale, slopes, films) if self.thinnest(trial) > WALL * c \
+                    and np.all(np.isfinite(dq)) else None
+                r_new = None if new is None else (self.forces(new[0], new[1]) + target)[free]
+                if new is not None and np.linalg.norm(r_new) < (1 - 1e-6) * np.linalg.norm(r):
+                    (q, films), r = new, r_new
+                    break
+            else:
+                return None
+        return None
+
+
+@dataclass(frozen=True)
+class PadEquilibrium:
+    """The journal and its pads in static equilibrium.
+
+    Attributes
+    ----------
+    position : ndarray
+        Journal centre ``(x, y)`` (m).
+    eccentricity_ratio, attitude_angle : float
+        ``|position| / C_b``; angle (rad) from the load to the displacement, positive in
+        the sense of rotation.
+    tilts, lifts : ndarray
+        Each pad's tilt (rad) and pivot lift (m; zero with rigid pivots).
+    pad_forces : ndarray
+        Each pad's film force on the journal, ``(count, 2)`` (N).
+    pad_min_thickness, min_thickness : ndarray, float
+        Thinnest film of each pad and of all (m).
+    power_loss, side_leakage : float
+        All pads (W, m^3/s).
+    sommerfeld : float
+        ``mu N L D / W (R / C_b)^2``, ``N`` in rev/s.
+    load, speed, viscosity, clearance : ndarray, float
+        ``(Wx, Wy)`` (N), rad/s, Pa s, ``C_b`` (m).
+    residual : float
+        ``|F + W| / |W|``.
+    iterations, film_solves : int
+        Newton steps and film solves made.
+    coordinates : ndarray
+        ``[x, y, tilts.., lifts..]`` (SI).
+    films : tuple of FilmSolution
+        The pads' films.
+    """
+
+    position: np.ndarray
+    eccentricity_ratio: float
+    attitude_angle: float
+    tilts: np.ndarray
+    lifts: np.ndarray
+    pad_forces: np.ndarray
+    pad_min_thickness: np.ndarray
+    min_thickness: float
+    power_loss: float
+    side_leakage: float
+    sommerfeld: float
+    load: np.ndarray
+    speed: float
+    viscosity: float
+    clearance: float
+    residual: float
+    iterations: int
+    film_solves: int
+    coordinates: np.ndarray = field(repr=False)
+    films: tuple = field(repr=False)
+
+    def to_dict(self):
+        """The equilibrium's numbers (SI; angles in rad)."""
+        out = {name: getattr(self, name) for name in (
+            "eccentricity_ratio", "attitude_angle", "min_thickness", "power_loss",
+            "side_leakage", "sommerfeld", "speed", "viscosity", "clearance", "residual",
+            "iterations", "film_solves")}
+        out.update({name: np.asarray(getattr(self, name)).tolist() for name in (
+            "position", "tilts", "lifts", "pad_forces", "pad_min_thickness", "load")})
+        return out
+
+
+def _equilibrium_of(pads, q, films, w, mu):
+    ring, c = pads.ring, pads.ring.bearing_clearance
+    n, position, force = ring.count, q[:2].copy(), np.sum([f.force for f in films], axis=0)
+    load = float(np.hypot(*w))
+    phi = math.atan2(w[0] * position[1] - w[1] * position[0], float(w @ position))
+    sommerfeld = (mu * abs(pads.omega) / TWO_PI * ring.length * ring.diameter / load
+                  * (0.5 * ring.diameter / c) ** 2)
+    return PadEquilibrium(
+        position=position, eccentricity_ratio=float(np.hypot(*position)) / c,
+        attitude_angle=phi * math.copysign(1.0, pads.omega), tilts=q[2:2 + n].copy(),
+        lifts=q[2 + n:].copy() if pads.flex else np.zeros(n),
+        pad_forces=np.array([f.force for f in films]),
+        pad_min_thickness=np.array([f.min_thickness for f in films]),
+        min_thickness=min(f.min_thickness for f in films),
+        power_loss=sum(f.power_loss for f in films),
+        side_leakage=sum(f.side_leakage for f in films), sommerfeld=sommerfeld,
+        load=np.array(w, dtype=float), speed=pads.omega, viscosity=mu, clearance=c,
+        residual=float(np.hypot(*(force + w))) / load, iterations=pads.iterations,
+        film_solves=pads.solves, coordinates=q.copy(), films=tuple(films))
+
+
+def _check_ring(ring, options):
+    if not isinstance(ring, PadRing):
+        raise InputError("pads", "must be a pad ring", value=type(ring).__name__,
+                         expected="a PadRing", kind="type")
+    if not isinstance(options, FilmOptions):
+        raise InputError("options", "must be film options", value=type(options).__name__,
+                         expected="a FilmOptions", kind="type")
+
+
+@one_blas_thread
+def pad_equilibrium(ring, speed, load, viscosity, *, options=FilmOptions(), tolerance=1e-9,
+                    max_iterations=50, start=None):
+    """The journal position, pad tilts (and pivot lifts) where the pads carry ``load``.
+
+    Parameters
+    ----------
+    ring : PadRing
+    speed : float
+        Journal spin (rad/s), positive from +x towards +y.
+    load : pair of float
+        ``(Wx, Wy)`` (N) on the journal.
+    viscosity : float
+        Pa s.
+    options : FilmOptions
+        Grid (each pad) and cavitation model.
+    tolerance : float
+        Largest ``|F + W| / |W|`` accepted (and pivot imbalance over ``|W|``).
+    max_iterations : int
+        Newton steps allowed (per load step when the load is ramped).
+    start : PadEquilibrium or pair of float, optional
+        A neighbouring equilibrium, or a journal position (m), to try first.
+
+    Returns
+    -------
+    PadEquilibrium
+
+    Raises
+    ------
+    InputError
+        Bad input.
+    SolverError
+        No equilibrium found.
+    """
+    _check_ring(ring, options)
+    omega, w, mu = check_operating(speed, load, viscosity)
+    tol = number("tolerance", tolerance)
+    if not 0.0 < tol < 1e-2:
+        raise InputError("tolerance", "is out of range", value=tol,
+                         expected="between 0 and 0.01", kind="range")
+    iters = whole("max_iterations", max_iterations, 1, 1000)
+    pads = _Pads(ring, omega, mu, options)
+    target, scale = np.r_[w, np.zeros(pads.size - 2)], float(np.hypot(*w))
+    free = np.r_[0, 1, np.arange(2 + ring.count, pads.size)]
+    starts = [share * ring.bearing_clearance * w / scale for share in (0.3, 0.6, 0.85)]
+    if isinstance(start, PadEquilibrium) and len(start.coordinates) == pads.size:
+        starts.insert(0, start.coordinates)
+    elif start is not None and not isinstance(start, PadEquilibrium):
+        starts.insert(0, np.array(pair("start", start)))
+    for q in starts:
+        q = q if len(q) == pads.size else pads.aligned(q)
+        found = pads.thinnest(q) > 0.05 * ring.bearing_clearance and \
+            pads.carry(q, target, free, scale, tol, iters)
+        if found:
+            return _equilibrium_of(pads, *found, w, mu)
+    found = (pads.aligned(np.zeros(2)),)
+    for share in np.linspace(0.1, 1.0, 10):
+        found = pads.carry(found[0], share * target, free, share * scale, tol, iters)
+        if found is None:
+            raise SolverError(f"no tilting-pad equilibrium found for the load ({w[0]:.6g}, "
+                              f"{w[1]:.6g}) N at {omega:.6g} rad/s: the pads may not carry it "
+                              "(a very light load on pads with little preload, where most "
+                              "pads carry nothing, is the usual case)")
+    return _equilibrium_of(pads, *found, w, mu)
+
+
+@one_blas_thread
+def settle_pads(ring, speed, viscosity, position, *, options=FilmOptions(), tolerance=1e-9):
+    """The pads settled (zero moments, pivots balanced) about a journal held at ``position``.
+
+    Parameters
+    ----------
+    ring : PadRing
+    speed, viscosity : float
+        rad/s, Pa s.
+    position : pair of float
+        Journal centre (m).
+    options : FilmOptions
+    tolerance : float
+        Pivot imbalance accepted, as a share of ``mu N L D (R / C_b)^2``.
+
+    Returns
+    -------
+    PadEquilibrium
+        Its ``load`` is the load this position carries (minus the film force).
+    """
+    _check_ring(ring, options)
+    omega, mu = number("speed", speed), number("viscosity", viscosity)
+    pads = _Pads(ring, omega, mu, options)
+    unit_load = mu * abs(omega) / TWO_PI * ring.length * ring.diameter * (
+        0.5 * ring.diameter / ring.bearing_clearance) ** 2
+    found = pads.carry(pads.aligned(np.array(pair("position", position))),
+                       np.zeros(pads.size), np.arange(2 + ring.count, pads.size), unit_load,
+                       number("tolerance", tolerance))
+    if found is None:
+        raise SolverError(f"the pads found no balance about the journal at {position} m")
+    return _equilibrium_of(pads, *found, -np.sum([f.force for f in found[1]], axis=0), mu)
