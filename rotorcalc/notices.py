@@ -18,6 +18,7 @@ CODES = {
     "unstable-response": "no steady state where a mode is unstable",
     "response-coverage": "the response sweep misses part of the operating range",
     "whirl-iteration": "a mode's whirl-frequency-dependent coefficients reached no fixed point",
+    "idle-pad": "a tilting pad carries no film (unloaded; left out of the coefficients)",
     "note": "a remark",
 }
 

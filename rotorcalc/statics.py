@@ -254,11 +254,10 @@ def _film_newton(rotor, films, omega, force, u, system, starts, check_step, scal
     states = {}
     for _ in range(FILM_STEPS):
         for k in films:
-            near = states.get(k) or starts.get(k)
-            states[k] = rotor.bearings[k].film.coefficients(
-                omega, tuple(loads[k]), check_step=check_step,
-                start=None if near is None else near.equilibrium.position,
-                temperature=None if near is None else near.temperature)
+            film = rotor.bearings[k].film
+            start, guess = _warm(film, states.get(k) or starts.get(k))
+            states[k] = film.coefficients(omega, tuple(loads[k]), check_step=check_step,
+                                          start=start, temperature=guess)
         system = assemble(_linearised(rotor, {k: (states[k].stiffness, None, None)
                                               for k in films}))
         pre = np.zeros(system.n_dof)
@@ -279,6 +278,16 @@ def _film_newton(rotor, films, omega, force, u, system, starts, check_step, scal
                      f"(the loads still changed by {change:.3g} N after {FILM_STEPS} Newton "
                      "steps)", value=None, expected="film bearings that can carry the "
                      "rotor's weight and static loads at this speed", kind="physics")
+
+
+def _warm(film, state):
+    """(start, temperature guess) of a film search from a neighbouring film state: what
+    the model takes from an equilibrium (a position; the pads' tilts too) and the film
+    temperature (each pad's where the pads have their own)."""
+    if state is None:
+        return None, None
+    pads = getattr(state, "pad_temperatures", None)
+    return film._start_of(state.equilibrium), state.temperature if pads is None else pads
 
 
 def _reaction_of_stiff(u, link):

@@ -157,6 +157,11 @@ class FilmSolution:
     grid : tuple of int
         ``(n_theta, n_z)`` per land (half length).
     cavitation : str
+    inflow : float
+        Oil drawn into the film (m^3/s): for lands open at their ends (pads, lobes) the
+        flow across each land's leading edge, ``int (U h / 2 - h^3 / (12 mu R) dp/dtheta)
+        dz`` over the whole length; for a closed bore, where oil enters through the
+        grooves and leaves only at the ends, the side leakage.
     """
 
     force: np.ndarray
@@ -170,6 +175,7 @@ class FilmSolution:
     iterations: int
     grid: tuple
     cavitation: str
+    inflow: float = math.nan
     _active: tuple = field(default=(), repr=False, compare=False)   # to warm-start
 
     def to_dict(self):
@@ -259,6 +265,7 @@ def solve_film(geometry, speed, viscosity, position=(0.0, 0.0), velocity=(0.0, 0
         power_loss=float(sum(p["power"] for p in parts)),
         iterations=int(sum(p["iterations"] for p in parts)),
         grid=(options.n_theta, options.n_z), cavitation=options.cavitation,
+        inflow=_total_inflow(parts),
         _active=tuple(p["active"] for p in parts))
 
 
@@ -302,7 +309,8 @@ def _land(land, geometry, surface_speed, mu, state, options, warm, hold):
     return {"theta": grid.theta, "pressure": p, "cavitated": cav, "force": force,
             "iterations": iterations, "active": active,
             "leakage": _leakage(full if clipped else p, h_node, grid, radius, mu, clipped),
-            "power": _power(p, h_node, grid, area, surface_speed, mu, radius)}
+            "power": _power(p, h_node, grid, area, surface_speed, mu, radius),
+            "inflow": _inflow(p, h_node, grid, radius, mu, surface_speed)}
 
 
 def _pressure(system, fixed, value, options, warm, hold):
@@ -328,6 +336,26 @@ def _leakage(p, h, grid, radius, mu, clipped):
     else:
         weight = grid.theta_weights()
     return 2.0 * float(np.sum(density * weight))
+
+
+def _total_inflow(parts):
+    flows = [p["inflow"] for p in parts]
+    if any(math.isnan(f) for f in flows):          # a closed bore: in at grooves, out at ends
+        return float(sum(p["leakage"] for p in parts))
+    return float(sum(flows))
+
+
+def _inflow(p, h, grid, radius, mu, surface_speed):
+    """Flow into the land across its leading edge (whole length; module docstring of
+    ``FilmSolution.inflow``); nan for a closed land, which has no edge."""
+    if grid.closed:
+        return math.nan
+    lead = slice(0, 3) if surface_speed >= 0.0 else slice(-1, -4, -1)
+    rows, h0 = p[lead], h[lead][0]
+    dpdt = (-3.0 * rows[0] + 4.0 * rows[1] - rows[2]) / (2.0 * grid.dtheta)
+    # rows taken along the direction of travel: dpdt is the gradient that way
+    flux = abs(surface_speed) * h0 / 2.0 - h0 ** 3 / (12.0 * mu * radius) * dpdt
+    return 2.0 * float(np.sum(flux * grid.z_weights()))
 
 
 def _power(p, h, grid, area, surface_speed, mu, radius):

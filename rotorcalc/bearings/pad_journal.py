@@ -1,8 +1,20 @@
 """A tilting-pad journal bearing as the rotor file describes it: the pads and the oil, behind
 the bearing models' one interface, ``coefficients(speed, load, *, whirl=None)``.
 
-The pads are solved by :mod:`rotorcalc.bearings.tilting_pad`; the film temperature comes from
-the heat balance of :class:`rotorcalc.bearings.FilmJournal` (one temperature for all pads).
+The pads are solved by :mod:`rotorcalc.bearings.tilting_pad`.  Each pad runs at its own
+effective film temperature (isoviscous along the pad), from its own heat balance::
+
+    T_k = T_inlet + share P_k / (rho c_p Q_k)
+
+``P_k`` the pad's power loss, ``Q_k`` the oil it draws in across its leading edge (the
+share of the heat the oil carries away, ``rise_share``, lumps what the pad, the journal and
+the housing conduct; every pad takes in oil at the supply temperature: no hot-oil carry-over).
+A loaded pad shears a thinner film and runs hotter than an unloaded one, so its oil is
+thinner: the viscosities move the load among the pads.  The temperatures are a fixed point
+of all pads together: each step solves the bearing once at the pads' temperatures and moves
+each pad's by a secant step on its own ``g_k(T) = T_inlet + share P_k / (rho c_p Q_k) - T_k``
+kept inside that pad's bracket (``g_k(T_inlet) >= 0``); it stops when every ``|g_k|`` is within
+:data:`TEMPERATURE_TOLERANCE` (0.1 K).  A given ``film_temperature`` holds every pad there.
 Screening only: confirm tilting-pad coefficients against the bearing maker's analysis, the
 applicable standard, the purchase specification, local codes and a licensed engineer's review.
 """
@@ -13,9 +25,11 @@ import dataclasses
 import math
 from dataclasses import dataclass
 
+import numpy as np
+
 from ..errors import InputError
 from .film import FilmOptions
-from .journal import FilmJournal, thermal_notes
+from .journal import TEMPERATURE_TOLERANCE, FilmJournal, thermal_notes
 from .lubricant import Lubricant
 from .pad_ring import PadRing
 from .pad_settle import _check_ring, pad_equilibrium
@@ -42,8 +56,8 @@ class PadJournal:
     film_temperature : float, optional
         A given effective film temperature (K) instead of the heat balance.
     rise_share : float
-        Share of the oil's temperature rise added to the inlet (0 to 1); one effective
-        temperature for all pads, from the heat balance of :class:`FilmJournal`.
+        Share of each pad's oil temperature rise added to the inlet (0 to 1): each pad's
+        effective temperature (module docstring).
     options : FilmOptions
         Film grid of each pad (:data:`PAD_GRID` by default: a pad is a sixth of a turn,
         so 36 steps along it are finer than a fixed bore's 72 around).
@@ -118,15 +132,51 @@ class PadJournal:
         return dataclasses.replace(self, **values)
 
     def viscosity(self, temperature):
-        """Dynamic viscosity (Pa s) at ``temperature`` (K)."""
-        return float(self.lubricant.dynamic_viscosity(temperature))
+        """Dynamic viscosity (Pa s) at ``temperature`` (K; one, or one per pad)."""
+        mu = np.asarray(self.lubricant.dynamic_viscosity(temperature), dtype=float)
+        return float(mu) if mu.ndim == 0 else mu
 
     def _equilibrium(self, speed, load, temperature, start):
         return pad_equilibrium(self.pads, speed, load, self.viscosity(temperature),
                                options=self.options, start=start)
 
-    #: The effective temperature, as FilmJournal finds it (the heat balance of all pads).
-    _film_state = FilmJournal._film_state
+    def _rises(self, equilibrium):
+        """Each pad's oil temperature rise ``P_k / (rho c_p Q_k)`` (K); none where a pad
+        carries no film."""
+        inlet = self.inlet_temperature
+        return np.array([self.lubricant.temperature_rise(f.power_loss, f.inflow, inlet)
+                         if f.power_loss > 0.0 and f.inflow > 0.0 else 0.0
+                         for f in equilibrium.films])
+
+    def _film_state(self, speed, load, start, guess=None):
+        """(pad temperatures K, equilibrium there, settled?): module docstring."""
+        n = self.pads.count
+        if self.film_temperature is not None:
+            t = np.full(n, float(self.film_temperature))
+            return t, self._equilibrium(speed, load, t, start), True
+        inlet, share = self.inlet_temperature, self.rise_share
+        t = np.full(n, inlet) if guess is None else np.maximum(
+            np.broadcast_to(np.asarray(guess, dtype=float), (n,)), inlet)
+        low, high, previous, best = np.full(n, inlet), np.full(n, np.inf), None, None
+        for _ in range(40):
+            eq = start = self._equilibrium(speed, load, t, start)
+            g = inlet + share * self._rises(eq) - t
+            if best is None or np.max(np.abs(g)) < best[0]:
+                best = (float(np.max(np.abs(g))), t, eq)
+            low, high = np.where(g > 0.0, np.maximum(low, t), low), \
+                np.where(g < 0.0, np.minimum(high, t), high)
+            if np.all((np.abs(g) <= TEMPERATURE_TOLERANCE) | (high - low <= TEMPERATURE_TOLERANCE)):
+                return t, eq, True
+            step = t + g
+            if previous is not None:
+                dg = g - previous[1]
+                secant = dg != 0.0
+                step = np.where(secant, t - g * (t - previous[0]) / np.where(secant, dg, 1.0),
+                                step)
+            inside = (low < step) & (step < high)
+            step = np.where(inside, step, np.where(np.isfinite(high), 0.5 * (low + high), t + g))
+            previous, t = (t, g), step
+        return best[1], best[2], False
 
     @staticmethod
     def _start_of(equilibrium):
@@ -149,18 +199,20 @@ class PadJournal:
             Where the equilibrium search starts.
         check_step : bool
             Check the perturbation step by halving it.
-        temperature : float, optional
-            A first guess of the film temperature (K).
+        temperature : float or sequence of float, optional
+            A first guess of the film temperature (K; one for all pads or one per pad).
 
         Returns
         -------
         PadCoefficients
-            With its ``temperature`` (K) and, among its warnings, notes on the heat
-            balance and on a hot film.
+            With its ``pad_temperatures`` and ``temperature`` (the hottest pad's, K) and,
+            among its warnings, notes on the heat balance and on a hot film.
         """
-        temperature, eq, settled = self._film_state(speed, load, start, temperature)
-        result = pad_coefficients(self.pads, speed, load, self.viscosity(temperature),
+        temperatures, eq, settled = self._film_state(speed, load, start, temperature)
+        result = pad_coefficients(self.pads, speed, load, self.viscosity(temperatures),
                                   whirl=whirl, options=self.options, check_step=check_step,
                                   equilibrium=eq)
-        notes = result.warnings + thermal_notes(temperature, speed, settled)
-        return dataclasses.replace(result, temperature=temperature, warnings=notes)
+        hottest = float(np.max(temperatures))
+        notes = result.warnings + thermal_notes(hottest, speed, settled)
+        return dataclasses.replace(result, temperature=hottest, warnings=notes,
+                                   pad_temperatures=temperatures)

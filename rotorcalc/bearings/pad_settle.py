@@ -39,7 +39,9 @@ class _Pads:
     """The pads' films at coordinates ``q`` (SI: x, y, tilts, lifts) and their rates."""
 
     def __init__(self, ring, omega, mu, options):
-        self.ring, self.omega, self.mu, self.options = ring, omega, mu, options
+        """``mu``: one viscosity (Pa s) for every pad, or one per pad."""
+        self.ring, self.omega, self.options = ring, omega, options
+        self.mu = np.broadcast_to(np.asarray(mu, dtype=float), (ring.count,))
         n, c = ring.count, ring.bearing_clearance
         self.n, self.flex, self.size = n, ring.flexible, len(ring.coordinates)
         self.unit = np.r_[c, c, np.full(n, c / ring.lever), np.full(self.size - 2 - n, c)]
@@ -60,7 +62,7 @@ class _Pads:
     def film(self, k, q, rate=None, start=None, hold=False):
         self.solves += 1
         rate = np.zeros(self.size) if rate is None else rate
-        return _solve(self._pad(k, q, rate), self.omega, self.mu, (q[0], q[1]),
+        return _solve(self._pad(k, q, rate), self.omega, float(self.mu[k]), (q[0], q[1]),
                       (rate[0], rate[1]), options=self.options, start=start,
                       hold_rupture=hold)
 
@@ -248,7 +250,10 @@ class PadEquilibrium:
     sommerfeld : float
         ``mu N L D / W (R / C_b)^2``, ``N`` in rev/s.
     load, speed, viscosity, clearance : ndarray, float
-        ``(Wx, Wy)`` (N), rad/s, Pa s, ``C_b`` (m).
+        ``(Wx, Wy)`` (N), rad/s, Pa s (the mean of the pads'), ``C_b`` (m).
+    pad_viscosity : ndarray
+        Each pad's film viscosity (Pa s): all equal unless the pads run at their own
+        temperatures.
     residual : float
         ``|F + W| / |W|``.
     iterations, film_solves : int
@@ -279,6 +284,7 @@ class PadEquilibrium:
     film_solves: int
     coordinates: np.ndarray = field(repr=False)
     films: tuple = field(repr=False)
+    pad_viscosity: np.ndarray = field(default=None, repr=False)
 
     def to_dict(self):
         """The equilibrium's numbers (SI; angles in rad)."""
@@ -287,12 +293,13 @@ class PadEquilibrium:
             "side_leakage", "sommerfeld", "speed", "viscosity", "clearance", "residual",
             "iterations", "film_solves")}
         out.update({name: np.asarray(getattr(self, name)).tolist() for name in (
-            "position", "tilts", "lifts", "pad_forces", "pad_min_thickness", "load")})
+            "position", "tilts", "lifts", "pad_forces", "pad_min_thickness", "load",
+            "pad_viscosity")})
         return out
 
 
-def _equilibrium_of(pads, q, films, w, mu):
-    ring, c = pads.ring, pads.ring.bearing_clearance
+def _equilibrium_of(pads, q, films, w):
+    ring, c, mu = pads.ring, pads.ring.bearing_clearance, float(np.mean(pads.mu))
     n, position, force = ring.count, q[:2].copy(), np.sum([f.force for f in films], axis=0)
     load = float(np.hypot(*w))
     phi = math.atan2(w[0] * position[1] - w[1] * position[0], float(w @ position))
@@ -309,7 +316,23 @@ def _equilibrium_of(pads, q, films, w, mu):
         side_leakage=sum(f.side_leakage for f in films), sommerfeld=sommerfeld,
         load=np.array(w, dtype=float), speed=pads.omega, viscosity=mu, clearance=c,
         residual=float(np.hypot(*(force + w))) / load, iterations=pads.iterations,
-        film_solves=pads.solves, coordinates=q.copy(), films=tuple(films))
+        film_solves=pads.solves, coordinates=q.copy(), films=tuple(films),
+        pad_viscosity=pads.mu.copy())
+
+
+def pad_viscosities(ring, viscosity):
+    """One positive viscosity (Pa s) per pad, from one for all or one per pad."""
+    if np.ndim(viscosity) == 0:
+        values = [number("viscosity", viscosity)] * ring.count
+    else:
+        values = [number(f"viscosity[{k}]", v) for k, v in enumerate(viscosity)]
+        if len(values) != ring.count:
+            raise InputError("viscosity", f"has {len(values)} values for {ring.count} pads",
+                             value=len(values), expected="one value, or one per pad",
+                             kind="length")
+    if min(values) <= 0.0:
+        raise InputError("viscosity", "must be positive", value=min(values), kind="range")
+    return np.array(values)
 
 
 def _check_ring(ring, options):
@@ -333,8 +356,8 @@ def pad_equilibrium(ring, speed, load, viscosity, *, options=FilmOptions(), tole
         Journal spin (rad/s), positive from +x towards +y.
     load : pair of float
         ``(Wx, Wy)`` (N) on the journal.
-    viscosity : float
-        Pa s.
+    viscosity : float or sequence of float
+        Pa s: one for every pad, or one per pad (pads at their own temperatures).
     options : FilmOptions
         Grid (each pad) and cavitation model.
     tolerance : float
@@ -356,7 +379,8 @@ def pad_equilibrium(ring, speed, load, viscosity, *, options=FilmOptions(), tole
         No equilibrium found.
     """
     _check_ring(ring, options)
-    omega, w, mu = check_operating(speed, load, viscosity)
+    mu = pad_viscosities(ring, viscosity)
+    omega, w, _ = check_operating(speed, load, float(np.mean(mu)))
     tol = number("tolerance", tolerance)
     if not 0.0 < tol < 1e-2:
         raise InputError("tolerance", "is out of range", value=tol,
@@ -375,7 +399,7 @@ def pad_equilibrium(ring, speed, load, viscosity, *, options=FilmOptions(), tole
         found = pads.thinnest(q) > 0.05 * ring.bearing_clearance and \
             pads.carry(q, target, free, scale, tol, iters)
         if found:
-            return _equilibrium_of(pads, *found, w, mu)
+            return _equilibrium_of(pads, *found, w)
     found = (pads.aligned(np.zeros(2)),)
     for share in np.linspace(0.1, 1.0, 10):
         found = pads.carry(found[0], share * target, free, share * scale, tol, iters)
@@ -384,7 +408,7 @@ def pad_equilibrium(ring, speed, load, viscosity, *, options=FilmOptions(), tole
                               f"{w[1]:.6g}) N at {omega:.6g} rad/s: the pads may not carry it "
                               "(a very light load on pads with little preload, where most "
                               "pads carry nothing, is the usual case)")
-    return _equilibrium_of(pads, *found, w, mu)
+    return _equilibrium_of(pads, *found, w)
 
 
 @one_blas_thread
@@ -394,8 +418,10 @@ def settle_pads(ring, speed, viscosity, position, *, options=FilmOptions(), tole
     Parameters
     ----------
     ring : PadRing
-    speed, viscosity : float
-        rad/s, Pa s.
+    speed : float
+        rad/s.
+    viscosity : float or sequence of float
+        Pa s, for every pad or one per pad.
     position : pair of float
         Journal centre (m).
     options : FilmOptions
@@ -408,13 +434,13 @@ def settle_pads(ring, speed, viscosity, position, *, options=FilmOptions(), tole
         Its ``load`` is the load this position carries (minus the film force).
     """
     _check_ring(ring, options)
-    omega, mu = number("speed", speed), number("viscosity", viscosity)
+    omega, mu = number("speed", speed), pad_viscosities(ring, viscosity)
     pads = _Pads(ring, omega, mu, options)
-    unit_load = mu * abs(omega) / TWO_PI * ring.length * ring.diameter * (
+    unit_load = float(np.mean(mu)) * abs(omega) / TWO_PI * ring.length * ring.diameter * (
         0.5 * ring.diameter / ring.bearing_clearance) ** 2
     found = pads.carry(pads.aligned(np.array(pair("position", position))),
                        np.zeros(pads.size), np.arange(2 + ring.count, pads.size), unit_load,
                        number("tolerance", tolerance))
     if found is None:
         raise SolverError(f"the pads found no balance about the journal at {position} m")
-    return _equilibrium_of(pads, *found, -np.sum([f.force for f in found[1]], axis=0), mu)
+    return _equilibrium_of(pads, *found, -np.sum([f.force for f in found[1]], axis=0))

@@ -226,9 +226,11 @@ def _starts(solved, speed):
         a, b = near
         share = math.log(speed / a) / math.log(b / a)
         for i, state in starts.items():
-            ta, tb = state.temperature, solved[b][i].temperature
-            if ta is not None and tb is not None:
-                starts[i] = dataclasses.replace(state, temperature=ta + share * (tb - ta))
+            for name in ("temperature", "pad_temperatures"):
+                ta, tb = getattr(state, name, None), getattr(solved[b][i], name, None)
+                if ta is not None and tb is not None:
+                    state = dataclasses.replace(state, **{name: ta + share * (tb - ta)})
+            starts[i] = state
     return starts
 
 
@@ -238,11 +240,33 @@ def _values(states):
                      for s in states])
 
 
-def _smooth(speeds, values, at):
-    """Each column of ``values`` (over ``speeds``) as a smoothing spline in log speed,
-    read at ``at``."""
+def _regime(state):
+    """The pads that carry no film in a solved state (none for a fixed bore)."""
+    return tuple(getattr(state, "idle_pads", ()))
+
+
+def _smooth(speeds, values, at, regimes=None):
+    """Each column of ``values`` (over increasing ``speeds``) as a smoothing spline in log
+    speed, read at ``at``; piecewise where the ``regimes`` (one per speed) change: one fit
+    per run of neighbouring speeds in the same regime (a pad that picks up its film changes
+    the coefficients by a step, which one smooth curve cannot follow), each read from
+    halfway (in log speed) to the run before to halfway to the run after.  A run of fewer
+    than five speeds is interpolated linearly."""
     u, v = np.log(speeds), np.log(at)
-    return np.column_stack([make_smoothing_spline(u, column)(v) for column in values.T])
+    regimes = [()] * len(u) if regimes is None else list(regimes)
+    starts = [0] + [i for i in range(1, len(u)) if regimes[i] != regimes[i - 1]]
+    ends = starts[1:] + [len(u)]
+    out = np.empty((len(v), values.shape[1]))
+    for a, b in zip(starts, ends):
+        low = -np.inf if a == 0 else 0.5 * (u[a - 1] + u[a])
+        high = np.inf if b == len(u) else 0.5 * (u[b - 1] + u[b])
+        here = (v >= low) & (v < high)
+        for j, column in enumerate(values[a:b].T):
+            if b - a >= 5:
+                out[here, j] = make_smoothing_spline(u[a:b], column)(v[here])
+            else:
+                out[here, j] = np.interp(v[here], u[a:b], column)
+    return out
 
 
 def _fit_error(solved, films, fitted, checks):
@@ -250,7 +274,8 @@ def _fit_error(solved, films, fitted, checks):
     ``fitted`` and the solves at ``checks``."""
     worst = 0.0
     for i in films:
-        fit = _smooth(np.array(fitted), _values([solved[s][i] for s in fitted]), checks)
+        fit = _smooth(np.array(fitted), _values([solved[s][i] for s in fitted]), checks,
+                      [_regime(solved[s][i]) for s in fitted])
         direct = _values([solved[s][i] for s in checks])
         for part in (slice(0, 4), slice(4, 8)):
             gap = np.linalg.norm(fit[:, part] - direct[:, part], axis=1)
@@ -261,10 +286,19 @@ def _fit_error(solved, films, fitted, checks):
 def _tabled(bearing, speeds, table, states, error, notes):
     """The bearing with its smoothed table at ``table`` speeds and the record of the
     film states solved at ``speeds``."""
-    values = _smooth(speeds, _values(states), table)
+    values = _smooth(speeds, _values(states), table, [_regime(s) for s in states])
     eq = [s.equilibrium for s in states]
     steps = [max(s.step_change) for s in states if not math.isnan(s.step_change[0])]
-    own = [w for s in states for w in s.warnings]
+    own = [w for s in states for w in s.warnings if getattr(w, "code", "") != "idle-pad"]
+    idle = {}
+    for speed, state in zip(speeds, states):
+        for k in _regime(state):
+            idle.setdefault(k, []).append(float(speed))
+    own += [Notice(f"pad {k + 1} carries no film at {len(at)} of the {len(speeds)} solved "
+                   f"speeds, {min(at) * 30 / math.pi:.0f} to {max(at) * 30 / math.pi:.0f} rpm "
+                   "(unloaded: its tilt is free and it may flutter); left out of the "
+                   "coefficients there", code="idle-pad", speeds=at)
+            for k, at in sorted(idle.items())]
     record = FilmRecord(
         speeds=speeds.copy(), loads=np.array([e.load for e in eq]),
         eccentricity=np.array([e.eccentricity_ratio for e in eq]),

@@ -59,8 +59,9 @@ does, so without pad inertia a pad passes force only along its pivot line and ``
 The pads' damping still makes them frequency dependent; pad inertia adds a skew part.
 
 Limits: those of the film (docs/bearings.md section 9), rigid pads (no pad or pivot
-deformation but the pivot's radial spring), no pivot friction, one effective temperature for
-every pad (no hot-oil carry-over from pad to pad), pads flooded.
+deformation but the pivot's radial spring), no pivot friction, one effective temperature per
+pad (isoviscous along it; pad_journal.py's heat balance), no hot-oil carry-over from pad to
+pad (every pad takes in oil at the supply temperature), pads flooded.
 
 Screening only: confirm tilting-pad coefficients against the bearing maker's analysis, the
 applicable standard, the purchase specification, local codes and a licensed engineer's review.
@@ -134,7 +135,10 @@ class PadCoefficients:
         Relative change of the full K and C when the step was halved (NaN: not checked).
     warnings : tuple of Notice
     temperature : float or None
-        Effective film temperature (K) where a bearing model chose the viscosity.
+        Effective film temperature (K) where a bearing model chose the viscosity: the
+        hottest pad's when the pads run at their own temperatures.
+    pad_temperatures : ndarray or None
+        Each pad's effective film temperature (K), where a bearing model chose them.
     """
 
     stiffness: np.ndarray
@@ -149,10 +153,16 @@ class PadCoefficients:
     step_change: tuple
     warnings: tuple = ()
     temperature: float | None = None
+    pad_temperatures: np.ndarray | None = None
 
     def dimensionless(self):
         """``(K C_b / W, C C_b omega / W)`` with ``C_b`` the bearing clearance."""
         return dimensionless(self.stiffness, self.damping, self.equilibrium)
+
+    @property
+    def idle_pads(self):
+        """Pads (from 0) whose film carries nothing, left out of the coefficients."""
+        return _idle(self.equilibrium.films)
 
     def reduce(self, whirl):
         """``(K_red, C_red)`` at another whirl frequency (rad/s); pads that carry no film
@@ -174,6 +184,8 @@ class PadCoefficients:
                 "coordinates": list(self.coordinates),
                 "full_stiffness": self.full_stiffness.tolist(),
                 "full_damping": self.full_damping.tolist(), "film_temperature_K": self.temperature,
+                "pad_temperatures_K": None if self.pad_temperatures is None
+                else np.asarray(self.pad_temperatures).tolist(),
                 "warnings": [w.to_dict() for w in self.warnings], "caution": CAUTION}
 
 
@@ -218,7 +230,7 @@ def pad_coefficients(ring, speed, load, viscosity, *, whirl=None, options=FilmOp
     eq = equilibrium or pad_equilibrium.__wrapped__(ring, speed, load, viscosity,
                                                     options=options, tolerance=tolerance,
                                                     start=start)
-    pads = _Pads(ring, eq.speed, eq.viscosity, options)
+    pads = _Pads(ring, eq.speed, eq.pad_viscosity, options)
     q, films = eq.coordinates, list(eq.films)
 
     def matrices(d):
@@ -246,7 +258,8 @@ def pad_coefficients(ring, speed, load, viscosity, *, whirl=None, options=FilmOp
     if idle:
         warnings += (Notice(f"pad(s) {', '.join(str(k + 1) for k in idle)} carry no film at "
                             f"{eq.speed * 30 / math.pi:.0f} rpm (unloaded: their tilt is free and "
-                            "they may flutter); left out of the coefficients", code="note"),)
+                            "they may flutter); left out of the coefficients", code="idle-pad",
+                            speeds=(eq.speed,)),)
     result = PadCoefficients(None, None, w, k2, c2, m, ring.coordinates, eq, 0.5 * d, change,
                              warnings)
     try:

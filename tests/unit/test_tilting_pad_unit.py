@@ -222,16 +222,52 @@ def test_a_load_the_pads_cannot_carry_is_reported():
         pad_equilibrium(ring(), SPEED, (0.0, -1e9), MU, options=FAST, max_iterations=5)
 
 
-def test_the_model_finds_its_film_temperature():
+def test_each_pad_finds_its_own_film_temperature():
+    """Per-pad heat balance (pad_journal.py): every pad's temperature is its own fixed point
+    ``T_k = T_in + share P_k / (rho c Q_k)`` within 0.1 K, recomputed here from the pads'
+    films; the loaded bottom pad (pad 1, load on pad) runs hottest and the layout's mirror
+    pads alike; the same viscosities given directly give the same coefficients."""
     model = PadJournal(ring(), OIL, 273.15 + 45.0, options=FAST)
     hot = model.coefficients(SPEED, (0.0, -2000.0))
-    assert hot.temperature > model.inlet_temperature
-    given = model.changed(film_temperature=hot.temperature).coefficients(SPEED, (0.0, -2000.0))
-    assert given.temperature == hot.temperature
-    assert close(given.stiffness, hot.stiffness, 1e-6)
-    direct = pad_coefficients(model.pads, SPEED, (0.0, -2000.0),
-                              model.viscosity(hot.temperature), options=FAST)
+    t = hot.pad_temperatures
+    films = hot.equilibrium.films
+    balance = [model.inlet_temperature + model.rise_share * OIL.temperature_rise(
+        f.power_loss, f.inflow, model.inlet_temperature) for f in films]
+    assert np.allclose(t, balance, atol=0.1 + 1e-9)
+    assert np.all(t > model.inlet_temperature) and hot.temperature == t.max() == t[0]
+    assert t[0] - t[2] > 1.0                         # loaded against unloaded, well apart
+    assert abs(t[1] - t[4]) < 0.2 and abs(t[2] - t[3]) < 0.2      # mirror images
+    assert np.allclose(hot.equilibrium.pad_viscosity, model.viscosity(t))
+    direct = pad_coefficients(model.pads, SPEED, (0.0, -2000.0), model.viscosity(t),
+                              options=FAST)
     assert close(direct.stiffness, hot.stiffness, 1e-6)
-    slow = model.coefficients(SPEED, (0.0, -2000.0), whirl=0.0,
-                              temperature=hot.temperature, start=hot.equilibrium)
-    assert close(slow.stiffness, hot.reduce(0.0)[0], 1e-6)
+    slow = model.coefficients(SPEED, (0.0, -2000.0), whirl=0.0, temperature=t,
+                              start=hot.equilibrium)
+    assert close(slow.stiffness, hot.reduce(0.0)[0], 1e-4)
+
+
+def test_a_given_film_temperature_holds_every_pad():
+    model = PadJournal(ring(), OIL, 273.15 + 45.0, 273.15 + 60.0, options=FAST)
+    given = model.coefficients(SPEED, (0.0, -2000.0))
+    assert np.all(given.pad_temperatures == 273.15 + 60.0)
+    direct = pad_coefficients(model.pads, SPEED, (0.0, -2000.0),
+                              model.viscosity(273.15 + 60.0), options=FAST)
+    assert close(given.stiffness, direct.stiffness, 1e-6)
+
+
+def test_hotter_supply_oil_softens_the_bearing():
+    """Thinner oil, a smaller Sommerfeld number, a journal further out: at this light load
+    the direct damping falls (common practice: the hot-oil corner is the soft one)."""
+    cool = PadJournal(ring(), OIL, 273.15 + 40.0, options=FAST)
+    warm = cool.changed(inlet_temperature=273.15 + 55.0)
+    a, b = (m.coefficients(SPEED, (0.0, -2000.0)) for m in (cool, warm))
+    assert b.pad_temperatures.min() > a.pad_temperatures.max() - 5.0
+    assert b.equilibrium.eccentricity_ratio > a.equilibrium.eccentricity_ratio
+    assert b.damping[1, 1] < a.damping[1, 1]
+
+
+def test_one_viscosity_per_pad_is_checked():
+    with pytest.raises(InputError, match="viscosity"):
+        pad_equilibrium(ring(), SPEED, (0.0, -2000.0), [MU] * 4, options=FAST)
+    with pytest.raises(InputError, match="viscosity"):
+        pad_equilibrium(ring(), SPEED, (0.0, -2000.0), [MU] * 4 + [-MU], options=FAST)
