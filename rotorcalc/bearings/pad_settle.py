@@ -48,6 +48,7 @@ class _Pads:
         th = ring.pivots
         self.e, self.t = np.c_[np.cos(th), np.sin(th)], np.c_[-np.sin(th), np.cos(th)]
         self.solves = self.iterations = 0
+        self.jacobian = None                    # the last dQ/dq computed (a warm start's)
 
     def aligned(self, position):
         """The journal at ``position``, each pad tilted to follow it across its pivot line."""
@@ -112,9 +113,10 @@ class _Pads:
                 out[rows, j] = diff[k, :len(rows)] / steps[j]
         return out
 
-    def settle(self, q, scale, slopes=None, start=None):
+    def settle(self, q, scale, slopes=None, start=None, only=None):
         """``(q, films)`` with every pad's tilt settled (journal and lifts held), or None;
-        ``start``: films whose ruptured regions start the cavitation iterations.
+        ``start``: films whose ruptured regions start the cavitation iterations; ``only``:
+        settle these pads only (the others as ``start`` has them).
 
         With ``u = tilt`` and ``g = F_k . t_k`` at positive speed (both negated at negative
         speed, the mirror image), a pad has no film below some ``u``; above, ``g`` may first
@@ -127,7 +129,7 @@ class _Pads:
         q, up = q.copy(), math.copysign(1.0, self.omega)
         films = [None] * self.n if start is None else list(start)
         pos, neg = (lambda v: v is not None and v > 0.0), (lambda v: v is not None and v < 0.0)
-        for k in range(self.n):
+        for k in range(self.n) if only is None else only:
             unit = self.unit[2 + k]
 
             def g(u):                                   # None where the pad has no film
@@ -182,6 +184,62 @@ class _Pads:
                 return None
         return q, films
 
+    def polish(self, q, films, target, free, scale, tol, jacobian=None, max_iterations=8):
+        """``(q, films)`` by Newton's method on every coordinate at once (the journal, the
+        lifts and the tilts of the pads that carry), from a neighbouring equilibrium's
+        coordinates and films, or None: when it has not converged within
+        ``max_iterations``, when a step would move the journal more than a tenth of ``C_b``,
+        or when a pad gains or loses its film on the way (or could gain it: an idle pad is
+        searched for a tilt where it carries, as :meth:`settle` does).  The warm start of a
+        nearby speed, temperature or load; :meth:`carry` remains the search.
+
+        ``jacobian``: ``dQ/dq`` of the neighbour, scaled by ``mu omega`` (the film forces'
+        own scale); a step whose residual (weighted by :attr:`unit`) does not fall to a
+        quarter computes the Jacobian anew (about 15 film solves; a step costs 5).
+        Converged: ``|Q + target| <= tol x scale`` on the journal and lifts, and every
+        carrying pad's moment within ``tol x scale x lever``.
+        """
+        idle = _idle(films)
+        keep = _keep(self.ring.coordinates, idle)
+        tilts = np.intersect1d(keep, np.arange(2, 2 + self.n))
+        c = self.ring.bearing_clearance
+        if self.thinnest(q) <= WALL * c:
+            return None
+        films = self.films(q, start=films)
+        jac, last = jacobian, None
+        for step in range(max_iterations + 1):
+            if _idle(films) != idle:
+                return None
+            r = self.forces(q, films) + target
+            if np.linalg.norm(r[free]) <= tol * scale and \
+                    np.all(np.abs(r[tilts]) <= tol * scale * self.ring.lever):
+                # a pad without film may have a tilt where it carries: settle() prefers it
+                again = self.settle(q, scale, start=films, only=idle) if idle else (q, films)
+                return again if again and _idle(again[1]) == idle else None
+            size = float(np.linalg.norm((r * self.unit)[keep]))
+            if step == max_iterations:
+                return None
+            if jac is None or (last is not None and size > 0.25 * last):
+                jac = self.jacobian = self.derivative(q, films, 1e-6 * self.unit, central=False)
+            last = size
+            dq = np.zeros(self.size)
+            try:
+                dq[keep] = -np.linalg.solve(jac[np.ix_(keep, keep)], r[keep])
+            except np.linalg.LinAlgError:
+                return None
+            if not np.all(np.isfinite(dq)) or np.max(np.abs(dq[:2])) > 0.1 * c:
+                return None
+            q = q + dq
+            if self.thinnest(q) <= WALL * c:
+                return None
+            films = self.films(q, start=films)
+        return None
+
+    @property
+    def film_scale(self):
+        """``mean(mu) |omega|``: film forces at a given position scale with it."""
+        return float(np.mean(self.mu)) * abs(self.omega)
+
     def carry(self, q, target, free, scale, tol, max_iterations=50):
         """``(q, films)`` with ``Q + target = 0`` on the ``free`` coordinates (journal and
         lifts; within ``tol x scale``) and every pad settled, or None.
@@ -201,7 +259,7 @@ class _Pads:
             if np.linalg.norm(r) <= tol * scale:
                 return q, films
             self.iterations += 1
-            jac = self.derivative(q, films, 1e-6 * self.unit, central=False)
+            jac = self.jacobian = self.derivative(q, films, 1e-6 * self.unit, central=False)
             slopes = np.diag(jac)[2:2 + self.n] / self.ring.lever
             p = np.intersect1d(_keep(self.ring.coordinates, _idle(films)), np.arange(2, 2 + self.n))
             moves = np.zeros((2, self.size))
@@ -285,6 +343,8 @@ class PadEquilibrium:
     coordinates: np.ndarray = field(repr=False)
     films: tuple = field(repr=False)
     pad_viscosity: np.ndarray = field(default=None, repr=False)
+    #: The last ``dQ/dq`` of the search and the ``mu omega`` it was computed at, or None.
+    jacobian: tuple = field(default=None, repr=False, compare=False)
 
     def to_dict(self):
         """The equilibrium's numbers (SI; angles in rad)."""
@@ -317,7 +377,8 @@ def _equilibrium_of(pads, q, films, w):
         load=np.array(w, dtype=float), speed=pads.omega, viscosity=mu, clearance=c,
         residual=float(np.hypot(*(force + w))) / load, iterations=pads.iterations,
         film_solves=pads.solves, coordinates=q.copy(), films=tuple(films),
-        pad_viscosity=pads.mu.copy())
+        pad_viscosity=pads.mu.copy(),
+        jacobian=None if pads.jacobian is None else (pads.jacobian, pads.film_scale))
 
 
 def pad_viscosities(ring, viscosity):
@@ -394,6 +455,13 @@ def pad_equilibrium(ring, speed, load, viscosity, *, options=FilmOptions(), tole
         starts.insert(0, start.coordinates)
     elif start is not None and not isinstance(start, PadEquilibrium):
         starts.insert(0, np.array(pair("start", start)))
+    if isinstance(start, PadEquilibrium) and len(start.coordinates) == pads.size and \
+            start.films and start.films[0].grid == (options.n_theta, options.n_z):
+        jac = None if start.jacobian is None else \
+            start.jacobian[0] * (pads.film_scale / start.jacobian[1])
+        found = pads.polish(start.coordinates, start.films, target, free, scale, tol, jac)
+        if found:
+            return _equilibrium_of(pads, *found, w)
     for q in starts:
         q = q if len(q) == pads.size else pads.aligned(q)
         found = pads.thinnest(q) > 0.05 * ring.bearing_clearance and \
