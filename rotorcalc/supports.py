@@ -12,7 +12,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ._checks import _freeze, _one_of, _positive
-from .bearings.table import CoefficientTable, read_table
+from .bearings.table import CoefficientTable, as_arrays, read_table
 from .errors import InputError
 from .vocabulary import BearingRole, old_keywords
 
@@ -220,7 +220,11 @@ class Bearing:
         outside the table.  ``whirl`` (rad/s) is the whirl frequency a two-way table is
         read at; ``None`` reads it at ``omega``: the synchronous coefficients.
         """
-        return read_table(self.speeds, self.whirl, self.coefficients, omega, whirl)
+        if "_arrays" not in self.__dict__:         # the tables as arrays, made once
+            object.__setattr__(self, "_arrays", (np.asarray(self.speeds, dtype=float),
+                                                 np.asarray(self.whirl, dtype=float),
+                                                 as_arrays(self.coefficients)))
+        return read_table(*self._arrays, omega, whirl)
 
     @property
     def model(self):

@@ -165,6 +165,37 @@ def _first_forward(modes):
     return None
 
 
+#: A mode mixed with the followed one lies this close in frequency (a share of it): the
+#: supports' small anisotropy splits the pair.
+PAIR_SPREAD = 0.25
+#: ... and deflects alike: the assurance criterion of the two modes' deflections (each
+#: station's orbit size, whatever its whirl) at least this.
+PAIR_ALIKE = 0.9
+
+
+def _nearest_forward(modes, reference):
+    """Index of the mode to judge: the mode most like ``reference`` (modal assurance
+    criterion) or, where it belongs to a mixed pair, the pair's more forward mode.
+
+    Near-isotropic supports mix the first backward and forward modes into two elliptical
+    whirls of one deflected shape (on straight lines, forward share 0.5 each, where the
+    supports' anisotropy outweighs the cross-coupling) whose forward shares change with the
+    applied amount: the mode that was forward at zero may turn backward as the amount grows
+    while its partner turns forward and loses its damping.  Following the shape alone
+    follows the first; the screen judges the forward one.  The pair: modes within
+    :data:`PAIR_SPREAD` in frequency whose deflections (orbit size at each node) agree to
+    :data:`PAIR_ALIKE` (assurance criterion)."""
+    best = int(np.argmax(mac_matrix(reference[None], modes.shapes)[0]))
+    size = np.sqrt(np.sum(np.abs(modes.shapes) ** 2, axis=-1))          # (modes, nodes)
+    alike = mac_matrix(size[best][None], size)[0] >= PAIR_ALIKE
+    near = np.abs(modes.frequency - modes.frequency[best]) <= PAIR_SPREAD * modes.frequency[best]
+    pair = np.flatnonzero(alike & near)
+    share = modes.forward_fraction[pair]
+    if share.max() - modes.forward_fraction[best] <= 1e-9:
+        return best
+    return int(pair[np.argmax(share)])
+
+
 def _station_shares(rotor, placement, speed, mode_count):
     if placement == "sources":
         qs = [(s.station, source_q(s, rotor.operating.max_speed)) for s in rotor.sources]
@@ -218,7 +249,7 @@ class _Judge:
             if j is None:
                 raise _no_forward_mode()
         else:
-            j = int(np.argmax(mac_matrix(reference[None], modes.shapes)[0]))
+            j = _nearest_forward(modes, reference)
         if not (self.own and system.whirl_dependent):
             return float(modes.log_dec[j]), float(modes.frequency[j]), modes.shapes[j]
         r = at_own_frequency(system, self.speed, modes.shapes[j], modes.frequency[j],

@@ -10,7 +10,7 @@ The coefficients scatter a little from one speed to the next (the cavitation bou
 moves across the film grid's cells: up to 3 % of the damping matrix at high eccentricity
 on the default 72 x 12 grid, about 0.6 % on 240 x 12), so they are not interpolated point
 to point but smoothed: each coefficient is a smoothing spline in log speed, its smoothing chosen
-by generalised cross-validation (``scipy.interpolate.make_smoothing_spline``), fitted
+by generalised cross-validation (``scipy.interpolate.make_smoothing_spline``; ``_smooth``), fitted
 through :data:`START_POINTS` speeds spaced evenly on a log scale over
 :func:`film_speed_range`.  The fit is then checked where it was not fitted: at the
 geometric midpoints the coefficients are solved anew and compared with it (relative
@@ -56,6 +56,14 @@ LOW_SHARE = 0.05
 HIGH_SHARE = 1.2
 
 NAMES = ("kxx", "kxy", "kyx", "kyy", "cxx", "cxy", "cyx", "cyy")
+#: A bearing whose coefficients depend on the whirl frequency (tilting pads: their own
+#: freedom makes them so) is tabulated over whirl as well: at zero and WHIRL_POINTS
+#: frequencies spaced evenly on a log scale from WHIRL_LOW times the grid's lowest speed to
+#: WHIRL_TOP times its top one (the coefficients change over a frequency of the order of
+#: the speed, at every speed; a mode above the top holds the end value).
+WHIRL_POINTS = 48
+WHIRL_LOW = 0.1
+WHIRL_TOP = 2.0
 
 
 @dataclass(frozen=True)
@@ -82,6 +90,10 @@ class FilmRecord:
         Largest relative change of the matrices when the step was halved (checked at
         three speeds).
     notes : tuple of Notice
+    whirl_error : float
+        For a table over whirl frequency too (tilting pads): the largest relative
+        difference between the linear interpolation of the whirl grid and the reduction
+        at the grid's midpoints (NaN for a bearing that does not depend on the whirl).
     """
 
     speeds: np.ndarray
@@ -98,6 +110,7 @@ class FilmRecord:
     interpolation_error: float
     step_change: float
     notes: tuple = ()
+    whirl_error: float = math.nan
 
     def to_dict(self):
         return {"speeds_rad_per_s": self.speeds.tolist(), "loads_n": self.loads.tolist(),
@@ -112,6 +125,7 @@ class FilmRecord:
                                         for row in self.coefficients.tolist()],
                 "interpolation_error": self.interpolation_error,
                 "step_change": self.step_change,
+                "whirl_error": None if math.isnan(self.whirl_error) else self.whirl_error,
                 "notes": [n.to_dict() for n in self.notes]}
 
 
@@ -245,28 +259,57 @@ def _regime(state):
     return tuple(getattr(state, "idle_pads", ()))
 
 
+#: Smoothing weights tried by the cross-validation (in units of log speed); the limits are
+#: the interpolating spline and the straight line.
+LAMBDAS = np.logspace(-10.0, 4.0, 57)
+
+
 def _smooth(speeds, values, at, regimes=None):
-    """Each column of ``values`` (over increasing ``speeds``) as a smoothing spline in log
-    speed, read at ``at``; piecewise where the ``regimes`` (one per speed) change: one fit
-    per run of neighbouring speeds in the same regime (a pad that picks up its film changes
-    the coefficients by a step, which one smooth curve cannot follow), each read from
-    halfway (in log speed) to the run before to halfway to the run after.  A run of fewer
-    than five speeds is interpolated linearly."""
+    """Each column of ``values`` (over increasing ``speeds``, shape ``(n, ...)``) as a
+    smoothing spline in log speed, read at ``at``; piecewise where the ``regimes`` (one per
+    speed) change: one fit per run of neighbouring speeds in the same regime (a pad that
+    picks up its film changes the coefficients by a step, which one smooth curve cannot
+    follow), each read from halfway (in log speed) to the run before to halfway to the run
+    after.  A run of fewer than five speeds is interpolated linearly.
+
+    Each column's smoothing weight is chosen by generalised cross-validation among
+    :data:`LAMBDAS`: a smoothing spline with a given weight is linear in the data, so the
+    fits of every column (every coefficient at every whirl frequency) are products with
+    the smoother's matrices, made once per run (``scipy.interpolate.make_smoothing_spline``
+    on the unit vectors)."""
     u, v = np.log(speeds), np.log(at)
+    values = np.asarray(values, dtype=float)
+    flat = values.reshape(len(u), -1)
     regimes = [()] * len(u) if regimes is None else list(regimes)
     starts = [0] + [i for i in range(1, len(u)) if regimes[i] != regimes[i - 1]]
     ends = starts[1:] + [len(u)]
-    out = np.empty((len(v), values.shape[1]))
+    out = np.empty((len(v), flat.shape[1]))
     for a, b in zip(starts, ends):
         low = -np.inf if a == 0 else 0.5 * (u[a - 1] + u[a])
         high = np.inf if b == len(u) else 0.5 * (u[b - 1] + u[b])
         here = (v >= low) & (v < high)
-        for j, column in enumerate(values[a:b].T):
-            if b - a >= 5:
-                out[here, j] = make_smoothing_spline(u[a:b], column)(v[here])
-            else:
+        if b - a >= 5:
+            out[here] = _cross_validated(u[a:b], flat[a:b], v[here])
+        else:
+            for j, column in enumerate(flat[a:b].T):
                 out[here, j] = np.interp(v[here], u[a:b], column)
-    return out
+    return out.reshape((len(v),) + values.shape[1:])
+
+
+def _cross_validated(u, y, v):
+    """Columns of ``y`` (over ``u``) smoothed, each with the weight of :data:`LAMBDAS` of
+    least generalised cross-validation score ``n |y - S y|^2 / (n - tr S)^2``, read at
+    ``v``."""
+    n, eye = len(u), np.eye(len(u))
+    scores, reads = [], []
+    for lam in LAMBDAS:
+        spline = make_smoothing_spline(u, eye, lam=lam)
+        fit = spline(u)                                          # S (n x n)
+        scores.append(n * np.sum((y - fit @ y) ** 2, axis=0) / (n - np.trace(fit)) ** 2)
+        reads.append(spline(v))                                  # (len(v) x n)
+    best = np.argmin(np.array(scores), axis=0)
+    return np.column_stack([reads[k] @ y[:, j] for j, k in enumerate(best)]) \
+        if len(v) else np.empty((0, y.shape[1]))
 
 
 def _fit_error(solved, films, fitted, checks):
@@ -286,7 +329,16 @@ def _fit_error(solved, films, fitted, checks):
 def _tabled(bearing, speeds, table, states, error, notes):
     """The bearing with its smoothed table at ``table`` speeds and the record of the
     film states solved at ``speeds``."""
-    values = _smooth(speeds, _values(states), table, [_regime(s) for s in states])
+    regimes = [_regime(s) for s in states]
+    whirl, whirl_error = (), math.nan
+    if all(hasattr(s, "reduce") for s in states):
+        whirl = np.r_[0.0, np.geomspace(WHIRL_LOW * table[0], WHIRL_TOP * table[-1],
+                                        WHIRL_POINTS)]
+        solved = np.stack([_reduced(s, whirl) for s in states])        # (speed, whirl, 8)
+        values = _smooth(speeds, solved, table, regimes)
+        whirl_error = _whirl_error(states, whirl, solved)
+    else:
+        values = _smooth(speeds, _values(states), table, regimes)
     eq = [s.equilibrium for s in states]
     steps = [max(s.step_change) for s in states if not math.isnan(s.step_change[0])]
     own = [w for s in states for w in s.warnings if getattr(w, "code", "") != "idle-pad"]
@@ -312,13 +364,40 @@ def _tabled(bearing, speeds, table, states, error, notes):
                                 for s in states]),
         coefficients=_values(states),
         interpolation_error=float(error), step_change=float(max(steps, default=math.nan)),
+        whirl_error=whirl_error,
         notes=tuple(notes) + tuple({str(w): w for w in own}.values()))
     for name in ("speeds", "loads", "eccentricity", "attitude", "min_thickness",
                  "temperature", "sommerfeld", "power_loss", "flow", "dimensionless",
                  "coefficients"):
         getattr(record, name).flags.writeable = False
-    return dataclasses.replace(
-        bearing, speeds=tuple(float(s) for s in table),
-        coefficients={name: tuple(float(v) for v in values[:, j])
-                      for j, name in enumerate(NAMES)},
-        film_record=record)
+    if len(whirl):
+        coefficients = {name: tuple(tuple(float(v) for v in row) for row in values[:, :, j])
+                        for j, name in enumerate(NAMES)}
+    else:
+        coefficients = {name: tuple(float(v) for v in values[:, j])
+                        for j, name in enumerate(NAMES)}
+    return dataclasses.replace(bearing, speeds=tuple(float(s) for s in table),
+                               whirl=tuple(float(w) for w in whirl),
+                               coefficients=coefficients, film_record=record)
+
+
+def _reduced(state, whirl):
+    """(len(whirl), 8): kxx ... cyy of a state's full linear set reduced at each whirl."""
+    return np.array([np.concatenate([m.ravel() for m in state.reduce(w)]) for w in whirl])
+
+
+def _whirl_error(states, whirl, solved):
+    """Largest difference (Frobenius, K or C) between the reduction at whirl midpoints and
+    the linear interpolation of the whirl grid, over the solved speeds, as a share of the
+    largest matrix of that speed's row (a direct term that crosses zero with the whirl
+    would make a pointwise share meaningless there)."""
+    middle = 0.5 * (whirl[:-1] + whirl[1:])
+    worst = 0.0
+    for state, row in zip(states, solved):
+        direct = _reduced(state, middle)
+        between = 0.5 * (row[:-1] + row[1:])
+        for part in (slice(0, 4), slice(4, 8)):
+            gap = np.linalg.norm(between[:, part] - direct[:, part], axis=1)
+            worst = max(worst, float(np.max(gap) / np.max(np.linalg.norm(row[:, part],
+                                                                          axis=1))))
+    return worst

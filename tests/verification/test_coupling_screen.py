@@ -11,6 +11,13 @@ calculation.
    memory).  The shaft's own mass (7.7e-7 of the disk's) and the pins' compliance are the
    model's only departures from the closed form; ``k`` is the shaft's mid-span stiffness
    48 E I / L^3 (Roark) in series with the two pins.
+   With supports a little stiffer in y than in x (``k_y - k_x = 2 delta``) the same equations
+   give ``(p + k_x)(p + k_y) + q^2 = 0``, ``p = m s^2 + c s``: for ``q > delta``,
+   ``p = -k_mean -+ i r`` with ``r = sqrt(q^2 - delta^2)``, so the forward root is that of
+   ``m s^2 + c s + k_mean - i r = 0`` and the threshold is ``q0 = sqrt((c w)^2 + delta^2)``,
+   ``w = sqrt(k_mean / m)`` (derived here from the equations above).  Without cross-coupling
+   the two modes whirl on straight lines (forward share 0.5 each): the screen must follow
+   the one that turns forward.
 2. The stage estimate q = B_c T (rho_d / rho_s) / (D H) (common practice, from memory) against
    the formula worked by hand in US units (C = 33 000 x 12 / (2 pi) turns hp / rpm into
    lbf in) and in SI (60 000 / (2 pi) turns kW / rpm into N m).
@@ -116,6 +123,33 @@ def test_the_followed_mode_is_forward_and_keeps_its_frequency(screen):
     assert screen.log_dec[-1] < 0 < screen.log_dec[0]
 
 
+ANISO = "Anisotropic cross-coupled Jeffcott rotor (derived from the same equations)"
+
+
+def test_the_screen_follows_the_mode_that_turns_forward_on_anisotropic_supports():
+    delta = 0.2 * Q0                                # half the difference k_y - k_x, N/m
+    damper = Bearing(1, {"kxx": (0.0,), "kyy": (2.0 * delta,), "cxx": (C_DISK,),
+                         "cyy": (C_DISK,)}, name="disk damper")
+    rotor = disk_at_mid_span(MJ, (isotropic(0, KPIN, name="pin A"),
+                                  isotropic(2, KPIN, name="pin B"), damper),
+                             span=LJ, diameter=DJ, material=LIGHT,
+                             operating=OperatingRange(240.0, 300.0), mode_count=2)
+    k_mean = K_EFF + delta
+    w = math.sqrt(k_mean / MJ)
+    q0 = math.sqrt((C_DISK * w) ** 2 + delta ** 2)
+    result = cross_coupling_screen(rotor, expected=q0 / 2.5, placement="mid-span",
+                                   xtol_share=1e-10)
+    check("Anisotropic Jeffcott: threshold sqrt((c w)^2 + delta^2)", ANISO, q0,
+          result.threshold, TOL)
+    r = math.sqrt((q0 / 2.5) ** 2 - delta ** 2)
+    roots = np.roots([MJ, C_DISK, k_mean - 1j * r])
+    s = roots[np.argmax(roots.imag)]
+    check("Anisotropic Jeffcott: log dec at the expected amount (forward root)", ANISO,
+          -2.0 * math.pi * s.real / s.imag, result.log_dec_expected, TOL)
+    beyond = result.applied > 1.01 * delta
+    assert np.all(np.diff(result.log_dec[beyond]) < 0.0)
+
+
 def test_stage_estimate_by_hand_in_us_units():
     hp, rpm, d_in, h_in, ratio = 1500.0, 10000.0, 15.0, 0.6, 1.8
     torque_lbf_in = 33000.0 * 12.0 / (2.0 * math.pi) * hp / rpm       # 9453.8 lbf in
@@ -200,3 +234,28 @@ def test_rigid_rotor_thresholds_of_both_modes():
     rock = brentq(lambda q: _rocking_log_dec(rotor, q), 0.5 * q0_rock, 1.5 * q0_rock,
                   xtol=1e-9 * q0_rock)
     check("Rigid rotor: rocking threshold 2 c w_rock", RIGID, q0_rock, rock, 3e-5)
+
+
+def test_the_screen_judges_the_forward_one_of_a_mixed_pair_on_tilting_pads():
+    """The compressor on tilting pads: near-isotropic bearings mix its first pair (forward
+    shares 0.63 and 0.38 without cross-coupling, 0.36 and 0.67 at the expected amount).
+    Followed by shape alone, the screen judged the pair's backward-turning mode (log decrement
+    rising with the amount); it must judge the forward one, whose log decrement falls: the
+    eigenproblem solved directly at the expected amount says which."""
+    import dataclasses
+    from rotorcalc.analysis.coupling_screen import applied_sources
+    from rotorcalc.analysis.modes import modes_at
+    from rotorcalc.reader import read_rotor
+    from tests.conftest import ROOT
+    rotor = read_rotor(ROOT / "cases" / "compressor_tilting_pad.toml")
+    rule = dataclasses.replace(rotor.coupling_rule, coefficients_at="synchronous")
+    result = cross_coupling_screen(rotor, criteria=rule)
+    at = dataclasses.replace(rotor, sources=applied_sources(result.shares, result.expected))
+    modes = modes_at(at, result.speed, 8)
+    pair = np.argsort(modes.frequency)[:2]
+    forward = pair[np.argmax(modes.forward_fraction[pair])]
+    assert modes.forward_fraction[forward] > 0.6
+    check("Tilting-pad compressor: the screen's log dec at the expected amount is the "
+          "forward mode's of the mixed pair", "The rotor's eigenproblem solved directly",
+          float(modes.log_dec[forward]), result.log_dec_expected, 1e-6)
+    assert result.log_dec[-1] < result.log_dec[1]
