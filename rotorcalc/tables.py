@@ -423,12 +423,12 @@ FILM_STATE_COLUMNS = [
     Column("Speed rpm", lambda r: to_rpm(r[0]), "{:.0f}", "speed_rpm"),
     Column("Load N", lambda r: r[1], "{:.4g}", "load_n"),
     Column("Eccentricity", lambda r: r[2], "{:.3f}", "eccentricity_ratio"),
-    Column("Attitude deg", lambda r: math.degrees(r[3]), "{:.1f}", "attitude_deg"),
+    Column("Attitude deg", lambda r: math.degrees(r[3]) + 0.0, "{:.1f}", "attitude_deg"),
     Column("Min film um", lambda r: r[4] * 1e6, "{:.1f}", "min_film_um"),
     Column("Film degC", lambda r: r[5] - 273.15, "{:.1f}", "film_temperature_c"),
     Column("Sommerfeld", lambda r: r[6], "{:.3g}", "sommerfeld"),
     Column("Power kW", lambda r: r[7] * 1e-3, "{:.3g}", "power_loss_kw"),
-    Column("Flow L/min", lambda r: r[8] * 6e4, "{:.3g}", "side_leakage_l_per_min"),
+    Column("Oil in L/min", lambda r: r[8] * 6e4, "{:.3g}", "oil_flow_l_per_min"),
 ]
 
 
@@ -481,6 +481,9 @@ PAD_COLUMNS = [
     Column("Tilt mrad", lambda r: r[2] * 1e3, "{:.3f}", "tilt_mrad"),
     Column("Min film um", lambda r: r[3] * 1e6, "{:.1f}", "min_film_um"),
     Column("Load N", lambda r: r[4], "{:.4g}", "load_n"),
+    Column("Film degC", lambda r: r[5] - 273.15, "{:.1f}", "film_temperature_c"),
+    Column("Power kW", lambda r: r[6] * 1e-3, "{:.3g}", "power_kw"),
+    Column("Oil in L/min", lambda r: r[7] * 6e4, "{:.3g}", "inflow_l_per_min"),
 ]
 
 #: Rows: BearingCurves.whirl_rows (whirl rad/s, kxx ... cyy).

@@ -4,6 +4,9 @@ import os
 
 for _var in ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS", "MKL_NUM_THREADS"):
     os.environ.setdefault(_var, "1")  # see rotorcalc/cli/__init__.py
+# film tables are computed afresh in the tests (and none is written under the home folder);
+# tests/unit/test_film_cache.py turns the disk cache on in a temporary folder
+os.environ["ROTORCALC_CACHE"] = "off"
 
 from pathlib import Path  # noqa: E402
 

@@ -60,14 +60,20 @@ class BearingCurves:
 
     @property
     def pad_rows(self):
-        """(pad, pivot angle rad, tilt rad, minimum film m, load N) per pad of a tilting-pad
-        bearing at :attr:`pads`' speed; empty otherwise."""
+        """(pad, pivot angle rad, tilt rad, minimum film m, load N, film temperature K, power
+        loss W, oil drawn in m^3/s) per pad of a tilting-pad bearing at :attr:`pads`' speed;
+        empty otherwise."""
         p = self.pads
         if p is None:
             return []
-        eq = p.state.equilibrium
-        return [(k + 1, float(a), float(t), float(h), float(np.hypot(*f))) for k, (a, t, h, f)
-                in enumerate(zip(p.pivots, eq.tilts, eq.pad_min_thickness, eq.pad_forces))]
+        eq, state = p.state.equilibrium, p.state
+        temperatures = state.pad_temperatures if state.pad_temperatures is not None else \
+            [state.temperature] * len(eq.films)
+        return [(k + 1, float(a), float(t), float(h), float(np.hypot(*f)), float(temp),
+                 film.power_loss, film.inflow)
+                for k, (a, t, h, f, temp, film) in enumerate(zip(
+                    p.pivots, eq.tilts, eq.pad_min_thickness, eq.pad_forces, temperatures,
+                    eq.films))]
 
     @property
     def whirl_rows(self):
@@ -218,6 +224,8 @@ def describe_film(film):
     text += f"; {grade}, inlet {film.inlet_temperature - 273.15:.4g} degC"
     if film.film_temperature is not None:
         text += f", film at {film.film_temperature - 273.15:.4g} degC (given)"
+    elif film.bore == "tilting-pad":
+        text += f", each pad's film at inlet + {film.rise_share:.2g} x its rise (heat balance)"
     else:
         text += f", film at inlet + {film.rise_share:.2g} x rise (heat balance)"
     return text

@@ -346,6 +346,11 @@ class PadEquilibrium:
     #: The last ``dQ/dq`` of the search and the ``mu omega`` it was computed at, or None.
     jacobian: tuple = field(default=None, repr=False, compare=False)
 
+    @property
+    def inflow(self):
+        """Oil the pads draw in across their leading edges, all pads (m^3/s)."""
+        return float(sum(f.inflow for f in self.films))
+
     def to_dict(self):
         """The equilibrium's numbers (SI; angles in rad)."""
         out = {name: getattr(self, name) for name in (

@@ -41,6 +41,7 @@ from ..notices import Notice
 from ..model import Settings
 from ..statics import static_solution
 from ..unbalance import ResponseSettings
+from . import film_cache
 
 #: Speeds of the first fit; the fit is tabulated at TABLE_POINTS speeds.
 START_POINTS = 9
@@ -78,7 +79,9 @@ class FilmRecord:
         Static load on the journal, N.
     eccentricity, attitude, min_thickness, temperature, sommerfeld, power_loss, flow :
         ndarray
-        Film state at each speed (-, rad, m, K, -, W, m^3/s).
+        Film state at each speed (-, rad, m, K, -, W, m^3/s): ``flow`` the oil the film
+        draws in (a closed bore's side leakage; the pads' inflow at their leading edges),
+        ``temperature`` the effective film temperature (the hottest pad's).
     dimensionless : ndarray (n, 8)
         ``K c / W`` and ``C c omega / W`` (c the reference clearance).
     coefficients : ndarray (n, 8)
@@ -119,7 +122,7 @@ class FilmRecord:
                 "min_film_m": self.min_thickness.tolist(),
                 "film_temperature_K": self.temperature.tolist(),
                 "sommerfeld": self.sommerfeld.tolist(), "power_loss_W": self.power_loss.tolist(),
-                "side_leakage_m3_per_s": self.flow.tolist(),
+                "oil_flow_m3_per_s": self.flow.tolist(),
                 "dimensionless": [dict(zip(NAMES, row)) for row in self.dimensionless.tolist()],
                 "solved_coefficients": [dict(zip(NAMES, row))
                                         for row in self.coefficients.tolist()],
@@ -153,7 +156,9 @@ def tabulate_films(rotor, *, tolerance=TOLERANCE, max_points=MAX_POINTS):
     """The rotor with every film bearing's coefficients computed (module docstring).
 
     Returns ``rotor`` itself when it has no film bearing.  Memoised: a what-if command
-    checks its variants before it runs them, and the same rotor is not solved twice.
+    checks its variants before it runs them, and the same rotor is not solved twice; and
+    kept on disk, so the next command on the same rotor reads its tables
+    (:mod:`rotorcalc.bearings.film_cache`; ``ROTORCALC_CACHE=off`` turns that off).
 
     Raises
     ------
@@ -175,11 +180,17 @@ def tabulate_films(rotor, *, tolerance=TOLERANCE, max_points=MAX_POINTS):
         settings=Settings(speed_from=rotor.settings.speed_from,
                           speed_to=rotor.settings.speed_to),
         response=ResponseSettings(speed_to=rotor.response.speed_to))
-    tabled = _tabulated(key, float(tolerance), int(max_points))
-    return dataclasses.replace(rotor, bearings=tabled.bearings)
+    return dataclasses.replace(rotor, bearings=_stored(key, float(tolerance), int(max_points)))
 
 
 @functools.lru_cache(maxsize=32)
+def _stored(rotor, tolerance, max_points):
+    """The tabulated bearings: memoised in this run, and kept on disk for the next
+    (:mod:`rotorcalc.bearings.film_cache`)."""
+    return film_cache.fetch(("film-tables", rotor, tolerance, max_points),
+                            lambda: _tabulated(rotor, tolerance, max_points).bearings)
+
+
 def _tabulated(rotor, tolerance, max_points):
     films = [i for i, b in enumerate(rotor.bearings) if b.film is not None]
     low, high = film_speed_range(rotor)
@@ -359,7 +370,7 @@ def _tabled(bearing, speeds, table, states, error, notes):
         temperature=np.array([s.temperature for s in states]),
         sommerfeld=np.array([e.sommerfeld for e in eq]),
         power_loss=np.array([e.power_loss for e in eq]),
-        flow=np.array([e.side_leakage for e in eq]),
+        flow=np.array([getattr(e, "inflow", e.side_leakage) for e in eq]),
         dimensionless=np.array([np.concatenate([m.ravel() for m in s.dimensionless()])
                                 for s in states]),
         coefficients=_values(states),

@@ -54,13 +54,17 @@ def command(
             print_table(f"{c.name}: the pads at {to_rpm(c.pads.speed):.0f} rpm (maximum "
                         "continuous speed)", PAD_COLUMNS, c.pad_rows,
                         caption="Pivot angle from +x towards +y; tilt positive in the same "
-                                "sense; load: the pad's film force on the journal.")
+                                "sense; load: the pad's film force on the journal; each "
+                                "pad's film at its own temperature from its power loss and "
+                                "the oil it draws in at its leading edge.")
             print_table(f"{c.name}: coefficients reduced at each whirl frequency, "
                         f"{to_rpm(c.pads.speed):.0f} rpm", WHIRL_COLUMNS, c.whirl_rows,
                         caption="The pads' tilts eliminated at each whirl frequency (pad "
                                 "inertia included); the analyses read the synchronous row "
-                                "(whirl = speed). The trend with whirl frequency is not yet "
-                                "checked against published data (docs/bearings.md).")
+                                "(whirl = speed), the stability screen each mode's own with "
+                                "coefficients_at = \"mode-frequency\". The trend with whirl "
+                                "frequency is not yet checked against published data "
+                                "(docs/bearings.md).")
     caution = FILM_CAUTION if any(c.record is not None for c in curves) else CAUTION
     console.print(f"[dim]{caution}[/]", highlight=False)
     write_outputs("bearing", case, {"bearings": [c.to_dict() for c in curves],
