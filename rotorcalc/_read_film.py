@@ -19,7 +19,7 @@ FILM_KEYS = {"bore", "diameter", "length", "clearance", "preload", "groove_width
              "feed_pressure", "grid", "cavitation", "clearance_range", "preload_range"}
 #: Keys of a tilting-pad bearing's [bearing.film] besides the size, clearance and preload.
 PAD_KEYS = {"pads", "pad_arc", "pivot_offset", "load", "pivot_stiffness", "pad_mass",
-            "pad_inertia", "pad_thickness"}
+            "pad_inertia", "pad_thickness", "carry_over"}
 #: Where the static load points against the pads (the load along -y, gravity's default).
 PAD_LOADS = ("between-pads", "on-pad")
 GROOVE_KEYS = {"at", "width"}
@@ -127,8 +127,9 @@ def _pads(film, fw, values):
             "pad_thickness": _quantity(film, "pad_thickness", u.LENGTH, fw, default=0.0)}
     pads = PadRing(values["diameter"], values["length"], clearance=values["clearance"],
                    preload=values.get("preload", 0.0), key=fw, **ring)
+    values["carry_over"] = _number(film, "carry_over", fw, 0.0)
     keep = ("lubricant", "inlet_temperature", "film_temperature", "rise_share", "options",
-            "oil_key", "clearance_range", "preload_range", "inlet_range", "key")
+            "oil_key", "clearance_range", "preload_range", "inlet_range", "key", "carry_over")
     return PadJournal(pads, **{k: values[k] for k in keep if k in values})
 
 

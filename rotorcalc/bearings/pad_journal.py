@@ -8,12 +8,19 @@ effective film temperature (isoviscous along the pad), from its own heat balance
 
 ``P_k`` the pad's power loss, ``Q_k`` the oil it draws in across its leading edge (the
 share of the heat the oil carries away, ``rise_share``, lumps what the pad, the journal and
-the housing conduct; every pad takes in oil at the supply temperature: no hot-oil carry-over).
+the housing conduct).  ``T_inlet`` is each pad's own inlet temperature: the supply
+temperature ``T_s``, raised by hot oil carried over from the pad upstream (``carry_over``
+``lambda``, 0 by default: every pad takes in oil at the supply temperature)::
+
+    T_inlet,k - T_s = lambda (T_out,k-1 - T_s),   T_out,k-1 = T_inlet,k-1 + P_k-1 / (rho c_p Q_k-1)
+
+around the ring (pad ``k - 1`` upstream at positive speed, ``k + 1`` at negative speed): a
+cyclic linear system in the inlet temperatures, solved directly at each step.
 A loaded pad shears a thinner film and runs hotter than an unloaded one, so its oil is
 thinner: the viscosities move the load among the pads.  The temperatures are a fixed point
 of all pads together: each step solves the bearing once at the pads' temperatures and moves
-each pad's by a secant step on its own ``g_k(T) = T_inlet + share P_k / (rho c_p Q_k) - T_k``
-kept inside that pad's bracket (``g_k(T_inlet) >= 0``); it stops when every ``|g_k|`` is within
+each pad's by a secant step on its own ``g_k(T) = T_inlet,k + share P_k / (rho c_p Q_k) - T_k``
+kept inside that pad's bracket (``g_k(T_s) >= 0``); it stops when every ``|g_k|`` is within
 :data:`TEMPERATURE_TOLERANCE` (0.1 K).  A given ``film_temperature`` holds every pad there.
 Screening only: confirm tilting-pad coefficients against the bearing maker's analysis, the
 applicable standard, the purchase specification, local codes and a licensed engineer's review.
@@ -61,6 +68,9 @@ class PadJournal:
     options : FilmOptions
         Film grid of each pad (:data:`PAD_GRID` by default: a pad is a sixth of a turn,
         so 36 steps along it are finer than a fixed bore's 72 around).
+    carry_over : float
+        Hot-oil carry-over ``lambda`` (0 to 1): the share of the pad upstream's outlet
+        temperature rise that a pad's inlet oil keeps (module docstring); 0 by default.
     clearance_range, preload_range, inlet_range : tuple
         Tolerances ``(low, high)`` of the pad clearance, the preload and the oil inlet
         temperature, or empty (the tolerance envelope's corners).
@@ -77,6 +87,7 @@ class PadJournal:
     preload_range: tuple = ()
     inlet_range: tuple = ()
     key: str = "film"
+    carry_over: float = 0.0
 
     #: The bore's name, as FilmJournal's ``bore`` (what a rotor file writes).
     bore = "tilting-pad"
@@ -114,6 +125,11 @@ class PadJournal:
         if not (isinstance(self.rise_share, (int, float)) and 0.0 <= self.rise_share <= 1.0):
             raise InputError(f"{self.oil_key}.rise_share", "is out of range",
                              value=self.rise_share, expected="a number from 0 to 1", kind="range")
+        if not (isinstance(self.carry_over, (int, float)) and not isinstance(
+                self.carry_over, bool) and 0.0 <= self.carry_over < 1.0):
+            raise InputError(f"{self.key}.carry_over", "is out of range",
+                             value=self.carry_over, expected="a share from 0 (fresh oil at "
+                             "every pad) up to, not including, 1", kind="range")
 
     def changed(self, **values) -> "PadJournal":
         """A copy with some inputs changed (validated again): the pads' ``diameter``,
@@ -148,6 +164,15 @@ class PadJournal:
                          if f.power_loss > 0.0 and f.inflow > 0.0 else 0.0
                          for f in equilibrium.films])
 
+    def _inlets(self, rises, speed):
+        """Each pad's inlet temperature above the supply (K) with hot-oil carry-over: the
+        cyclic system ``u_k = lambda (u_up + r_up)`` (module docstring), solved."""
+        n, lam = len(rises), self.carry_over
+        if lam == 0.0:
+            return np.zeros(n)
+        upstream = np.roll(np.eye(n), 1 if speed >= 0.0 else -1, axis=0)   # row k: pad k-+1
+        return np.linalg.solve(np.eye(n) - lam * upstream, lam * upstream @ rises)
+
     def _film_state(self, speed, load, start, guess=None):
         """(pad temperatures K, equilibrium there, settled?): module docstring."""
         n = self.pads.count
@@ -160,7 +185,8 @@ class PadJournal:
         low, high, previous, best = np.full(n, inlet), np.full(n, np.inf), None, None
         for _ in range(40):
             eq = start = self._equilibrium(speed, load, t, start)
-            g = inlet + share * self._rises(eq) - t
+            rises = self._rises(eq)
+            g = inlet + self._inlets(rises, speed) + share * rises - t
             if best is None or np.max(np.abs(g)) < best[0]:
                 best = (float(np.max(np.abs(g))), t, eq)
             low, high = np.where(g > 0.0, np.maximum(low, t), low), \

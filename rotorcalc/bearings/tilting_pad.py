@@ -60,8 +60,8 @@ The pads' damping still makes them frequency dependent; pad inertia adds a skew 
 
 Limits: those of the film (docs/bearings.md section 9), rigid pads (no pad or pivot
 deformation but the pivot's radial spring), no pivot friction, one effective temperature per
-pad (isoviscous along it; pad_journal.py's heat balance), no hot-oil carry-over from pad to
-pad (every pad takes in oil at the supply temperature), pads flooded.
+pad (isoviscous along it; pad_journal.py's heat balance, hot-oil carry-over lumped in one
+share), pads flooded.
 
 Screening only: confirm tilting-pad coefficients against the bearing maker's analysis, the
 applicable standard, the purchase specification, local codes and a licensed engineer's review.

@@ -111,6 +111,11 @@ BAD = [
      'pivot_offset = 1.2', "bearing[0].film.pivot_offset", "range"),
     ('bore = "plain"', 'bore = "tilting-pad"\npads = 5\npad_arc = "60 deg"\n'
      'feed_pressure = "0.1 MPa"', "bearing[0].film.feed_pressure", "choice"),
+    ('bore = "plain"', 'bore = "tilting-pad"\npads = 5\npad_arc = "60 deg"\n'
+     'carry_over = 1.0', "bearing[0].film.carry_over", "range"),
+    ('bore = "plain"', 'bore = "tilting-pad"\npads = 5\npad_arc = "60 deg"\n'
+     'carry_over = "half"', "bearing[0].film.carry_over", "type"),
+    (FILM_LINE, FILM_LINE + "\ncarry_over = 0.5", "bearing[0].film.carry_over", "choice"),
 ]
 
 

@@ -84,6 +84,8 @@ BAD = [
     ("range", "oil.inlet_temperature", lambda: PadJournal(ring(), OIL, -5.0)),
     ("range", "oil.film_temperature", lambda: PadJournal(ring(), OIL, 320.0, NAN)),
     ("range", "oil.rise_share", lambda: PadJournal(ring(), OIL, 320.0, rise_share=1.5)),
+    ("range", "film.carry_over", lambda: PadJournal(ring(), OIL, 320.0, carry_over=1.0)),
+    ("range", "film.carry_over", lambda: PadJournal(ring(), OIL, 320.0, carry_over=-0.1)),
 ]
 
 
@@ -244,6 +246,28 @@ def test_each_pad_finds_its_own_film_temperature():
     slow = model.coefficients(SPEED, (0.0, -2000.0), whirl=0.0, temperature=t,
                               start=hot.equilibrium)
     assert close(slow.stiffness, hot.reduce(0.0)[0], 1e-4)
+
+
+@pytest.mark.parametrize("speed", [SPEED, -SPEED])
+def test_hot_oil_carried_over_warms_the_pads_downstream(speed):
+    """With carry-over ``lambda`` each pad's inlet is the supply temperature raised by
+    ``lambda`` times the upstream pad's outlet rise, around the ring; recomputed here by
+    marching the recurrence round the ring until it repeats (not the code's linear solve),
+    with the rises of the pads' own films.  Every pad runs hotter than without."""
+    fresh = PadJournal(ring(), OIL, 273.15 + 45.0, options=FAST)
+    mixed = fresh.changed(carry_over=0.6)
+    a, b = (m.coefficients(speed, (0.0, -2000.0)) for m in (fresh, mixed))
+    films, t_s = b.equilibrium.films, mixed.inlet_temperature
+    rises = [OIL.temperature_rise(f.power_loss, f.inflow, t_s) for f in films]
+    step = 1 if speed > 0 else -1
+    inlet = [0.0] * 5
+    for _ in range(200):
+        for k in range(5) if step > 0 else range(4, -1, -1):
+            up = (k - step) % 5
+            inlet[k] = 0.6 * (inlet[up] + rises[up])
+    expected = [t_s + u + mixed.rise_share * r for u, r in zip(inlet, rises)]
+    assert np.allclose(b.pad_temperatures, expected, atol=0.1 + 1e-9)
+    assert np.all(b.pad_temperatures > a.pad_temperatures + 0.5)
 
 
 def test_a_given_film_temperature_holds_every_pad():
