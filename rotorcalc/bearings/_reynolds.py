@@ -16,6 +16,7 @@ Cholesky factorisation (LAPACK through ``scipy.linalg.solveh_banded``).
 
 from __future__ import annotations
 
+import functools
 from dataclasses import dataclass
 
 import numpy as np
@@ -67,13 +68,21 @@ def land_grid(start, end, n_theta, n_z, length, closed):
 
 def _faces(grid):
     """Node pairs ``(a, b)`` of the circumferential and the axial faces (flat indices)."""
-    ni, nj = grid.shape
+    return _faces_of(*grid.shape, grid.closed)
+
+
+@functools.lru_cache(maxsize=64)
+def _faces_of(ni, nj, closed):
     index = np.arange(ni * nj).reshape(ni, nj)
-    if grid.closed:
+    if closed:
         circ = (index, np.roll(index, -1, axis=0))
     else:
         circ = (index[:-1], index[1:])
-    return circ, (index[:, :-1], index[:, 1:])
+    out = circ, (index[:, :-1], index[:, 1:])
+    for pair in out:
+        for a in pair:
+            a.flags.writeable = False
+    return out
 
 
 def _band_order(grid):
@@ -82,8 +91,12 @@ def _band_order(grid):
     A closed land is numbered 0, n-1, 1, n-2, ... around the circle so that the
     wrap-around neighbours stay within two rings of each other.
     """
-    ni, nj = grid.shape
-    if grid.closed:
+    return _band_order_of(*grid.shape, grid.closed)
+
+
+@functools.lru_cache(maxsize=64)
+def _band_order_of(ni, nj, closed):
+    if closed:
         ring = np.empty(ni, dtype=int)
         ring[np.r_[0:ni:2]] = np.arange((ni + 1) // 2)
         ring[np.r_[1:ni:2]] = ni - 1 - np.arange(ni // 2)
@@ -93,6 +106,7 @@ def _band_order(grid):
     else:
         place, width = np.arange(ni), nj
     pos = (place[:, None] * nj + np.arange(nj)[None, :]).ravel()
+    pos.flags.writeable = False
     return pos, width
 
 
@@ -139,7 +153,7 @@ class LandSystem:
         band[-1, self.pos] = np.where(held, 1.0, self.diagonal)
         lo = np.minimum(self.pos[self.a], self.pos[self.b])[both]
         hi = np.maximum(self.pos[self.a], self.pos[self.b])[both]
-        np.add.at(band, (self.width + lo - hi, hi), -self.g[both])
+        band[self.width + lo - hi, hi] = -self.g[both]      # each pair of nodes once
         ordered = np.empty(n)
         ordered[self.pos] = rhs
         return solveh_banded(band, ordered, check_finite=False)[self.pos]
@@ -183,14 +197,20 @@ def assemble(grid, h_node, h_face, h_dot, *, radius, viscosity, surface_speed):
 
 def fixed_values(grid, edge_pressure):
     """Mask of the nodes whose pressure is given, and those pressures (Pa)."""
-    ni, nj = grid.shape
+    return _fixed_values_of(*grid.shape, grid.closed, float(edge_pressure))
+
+
+@functools.lru_cache(maxsize=64)
+def _fixed_values_of(ni, nj, closed, edge_pressure):
     fixed = np.zeros((ni, nj), dtype=bool)
     value = np.zeros((ni, nj))
     fixed[:, -1] = True                     # p = 0 at the axial end
-    if not grid.closed:
+    if not closed:
         fixed[0, :] = fixed[-1, :] = True
         value[0, :-1] = value[-1, :-1] = edge_pressure
-    return fixed.ravel(), value.ravel()
+    fixed, value = fixed.ravel(), value.ravel()
+    fixed.flags.writeable = value.flags.writeable = False
+    return fixed, value
 
 
 def positive_part_weights(p, grid):

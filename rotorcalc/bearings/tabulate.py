@@ -311,16 +311,27 @@ def _cross_validated(u, y, v):
     """Columns of ``y`` (over ``u``) smoothed, each with the weight of :data:`LAMBDAS` of
     least generalised cross-validation score ``n |y - S y|^2 / (n - tr S)^2``, read at
     ``v``."""
-    n, eye = len(u), np.eye(len(u))
-    scores, reads = [], []
-    for lam in LAMBDAS:
-        spline = make_smoothing_spline(u, eye, lam=lam)
-        fit = spline(u)                                          # S (n x n)
-        scores.append(n * np.sum((y - fit @ y) ** 2, axis=0) / (n - np.trace(fit)) ** 2)
-        reads.append(spline(v))                                  # (len(v) x n)
+    n = len(u)
+    fits, reads = _smoothers(tuple(u), tuple(v))
+    scores = [n * np.sum((y - fit @ y) ** 2, axis=0) / (n - np.trace(fit)) ** 2
+              for fit in fits]
     best = np.argmin(np.array(scores), axis=0)
     return np.column_stack([reads[k] @ y[:, j] for j, k in enumerate(best)]) \
         if len(v) else np.empty((0, y.shape[1]))
+
+
+@functools.lru_cache(maxsize=64)
+def _smoothers(u, v):
+    """For each weight of :data:`LAMBDAS`, the smoothing spline through ``u`` as matrices:
+    its values at ``u`` (``S``) and at ``v`` from the data at ``u``.  They depend on the
+    speeds only, which every variant of a rotor shares."""
+    u, eye = np.array(u), np.eye(len(u))
+    fits, reads = [], []
+    for lam in LAMBDAS:
+        spline = make_smoothing_spline(u, eye, lam=lam)
+        fits.append(spline(u))
+        reads.append(spline(np.array(v)) if len(v) else np.empty((0, len(u))))
+    return fits, reads
 
 
 def _fit_error(solved, films, fitted, checks):

@@ -45,7 +45,8 @@ the load in ten steps.  A pad whose film only ever turns it back towards no film
 unloaded pad) carries nothing: it is left out of the coefficients, with a note.
 
 Coefficients: ``K = -dQ/dq`` and ``C = -dQ/dq'`` of the generalised forces ``Q`` over all
-coordinates, by central differences with the ruptured region held (as fixed_film.py; steps
+coordinates, by differences with the ruptured region held (as fixed_film.py: central for
+``K``; one-sided for ``C``, exact since the held film is linear in the rates; steps
 ``d = step h_min`` on the journal and the lifts, ``d / lever`` on the tilts, times ``|speed|``
 on the rates), checked by halving; ``M = diag(0, 0, I_p.., m_p..)``.  At whirl ``w``::
 
@@ -236,7 +237,9 @@ def pad_coefficients(ring, speed, load, viscosity, *, whirl=None, options=FilmOp
     def matrices(d):
         steps = d * pads.unit / ring.bearing_clearance
         k = -pads.derivative(q, films, steps, hold=True)
-        c = -pads.derivative(q, films, steps * abs(eq.speed), rate=True, hold=True)
+        # held rupture: the film is linear in the rates, so one side is exact
+        c = -pads.derivative(q, films, steps * abs(eq.speed), rate=True, hold=True,
+                             central=False)
         return k, c
 
     d = share * eq.min_thickness
