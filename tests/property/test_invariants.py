@@ -94,7 +94,11 @@ def test_results_independent_of_mesh_refinement(rotor):
     (one element per two diameters of section length), the change of the two lowest
     damped frequencies from doubling the elements again is at most half the change from
     the first doubling (the elements converge as h^2 to h^4, docs/verification.md), and
-    below 1 %."""
+    below 1 %.  The halving holds once the mesh is in its asymptotic range; below a change
+    of 1e-6 of the frequency the mesh no longer matters and a one-element start may lie
+    before that range (a stubby shaft whose lowest modes are the rigid rotor on its
+    bearings: 1, 2, 4, 8, 16 elements give 234.359431, ...404, ...358, ...345, ...342 rad/s,
+    a second change larger than the first, then a factor of 3.5 to 4 per doubling)."""
     import dataclasses
     import math as _math
 
@@ -104,5 +108,5 @@ def test_results_independent_of_mesh_refinement(rotor):
             for s in r.sections))
 
     f1, f2, f4 = (modes_at(meshed(rotor, n), 0.0, 4).frequency[:2] for n in (1, 2, 4))
-    assert np.all(np.abs(f4 - f2) <= 0.5 * np.abs(f2 - f1) + 1e-9 * f4)
+    assert np.all(np.abs(f4 - f2) <= 0.5 * np.abs(f2 - f1) + 1e-6 * f4)
     assert np.allclose(f4, f2, rtol=1e-2)
