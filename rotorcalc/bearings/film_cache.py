@@ -73,9 +73,7 @@ def fetch(key, compute):
     try:
         with open(path, "rb") as fh:
             return pickle.load(fh)
-    except FileNotFoundError:
-        pass
-    except Exception:               # a truncated or foreign file: computed and written anew
+    except Exception:       # none yet, or a truncated or foreign file: computed and written
         pass
     value = compute()
     try:

@@ -316,8 +316,7 @@ def _cross_validated(u, y, v):
     scores = [n * np.sum((y - fit @ y) ** 2, axis=0) / (n - np.trace(fit)) ** 2
               for fit in fits]
     best = np.argmin(np.array(scores), axis=0)
-    return np.column_stack([reads[k] @ y[:, j] for j, k in enumerate(best)]) \
-        if len(v) else np.empty((0, y.shape[1]))
+    return np.column_stack([reads[k] @ y[:, j] for j, k in enumerate(best)])
 
 
 @functools.lru_cache(maxsize=64)
