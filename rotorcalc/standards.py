@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import math
 
-from .statics import journal_static_loads
+from .bearings.tabulate import journal_static_loads
 from .units import to_rpm
 from .errors import InputError
 

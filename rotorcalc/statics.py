@@ -309,7 +309,7 @@ def _solve(stiffness, force):
     return u
 
 
-def journal_static_loads(rotor, speed=None):
+def journal_static_loads(rotor, speed=None, *, starts=None):
     """Static load of each journal bearing under the rotor's weight, as a mass (kg).
 
     Returns
@@ -319,21 +319,17 @@ def journal_static_loads(rotor, speed=None):
         the journal is lifted); empty with fewer than two journals at distinct stations,
         or when the journals leave the rotor free.  Gravity along -y whatever the file
         says, and the file's steady loads left out: the residual-unbalance rule asks for
-        the weight a journal carries.
+        the weight a journal carries.  ``starts``: as :func:`static_solution`'s (film
+        journals at a nearby state).  The rules read it through
+        :func:`rotorcalc.bearings.tabulate.journal_static_loads`, which memoises it and
+        starts film journals from their tables' states.
     """
-    return dict(_journal_static_loads(rotor, speed))
-
-
-@functools.lru_cache(maxsize=16)
-def _journal_static_loads(rotor, speed):
-    """Memoised: the residual-unbalance rule asks once per weight, and a film journal's
-    load costs film solves."""
     journals = [i for i, b in enumerate(rotor.bearings) if b.role == BearingRole.BEARING]
     if len({rotor.bearings[i].station for i in journals}) < 2:
         return {}
     try:
         solution = static_solution(dataclasses.replace(rotor, gravity="-y", static_loads=()),
-                                   speed)
+                                   speed, starts=starts)
     except InputError:
         return {}
     return {index: float(r[1] / GRAVITY)

@@ -40,8 +40,10 @@ pressure again, the half-Sommerfeld film wherever the full film is positive.
 
 from __future__ import annotations
 
+import functools
 import math
 from dataclasses import dataclass, field
+from typing import NamedTuple
 
 import numpy as np
 
@@ -162,6 +164,10 @@ class FilmSolution:
         flow across each land's leading edge, ``int (U h / 2 - h^3 / (12 mu R) dp/dtheta)
         dz`` over the whole length; for a closed bore, where oil enters through the
         grooves and leaves only at the ends, the side leakage.
+
+    ``side_leakage``, ``power_loss`` and ``inflow`` are worked out from the pressures when
+    first asked for: the perturbed films of a linearisation or of a Newton step never
+    need them (a fifth of a solve's cost).
     """
 
     force: np.ndarray
@@ -170,13 +176,26 @@ class FilmSolution:
     pressure: tuple
     cavitated: tuple
     min_thickness: float
-    side_leakage: float
-    power_loss: float
     iterations: int
     grid: tuple
     cavitation: str
-    inflow: float = math.nan
     _active: tuple = field(default=(), repr=False, compare=False)   # to warm-start
+    _lands: tuple = field(default=(), repr=False, compare=False)    # for the flows and loss
+
+    @functools.cached_property
+    def side_leakage(self):
+        return float(sum(_leakage(*land.leakage) for land in self._lands))
+
+    @functools.cached_property
+    def power_loss(self):
+        return float(sum(_power(*land.power) for land in self._lands))
+
+    @functools.cached_property
+    def inflow(self):
+        flows = [_inflow(*land.inflow) for land in self._lands]
+        if any(math.isnan(f) for f in flows):       # a closed bore: in at grooves, out at ends
+            return self.side_leakage
+        return float(sum(flows))
 
     def to_dict(self):
         """The scalars and the fields as plain lists (SI units)."""
@@ -261,12 +280,9 @@ def solve_film(geometry, speed, viscosity, position=(0.0, 0.0), velocity=(0.0, 0
         force=force, theta=tuple(p["theta"] for p in parts), z=z,
         pressure=tuple(p["pressure"] for p in parts),
         cavitated=tuple(p["cavitated"] for p in parts),
-        min_thickness=float(h_min), side_leakage=float(sum(p["leakage"] for p in parts)),
-        power_loss=float(sum(p["power"] for p in parts)),
-        iterations=int(sum(p["iterations"] for p in parts)),
+        min_thickness=float(h_min), iterations=int(sum(p["iterations"] for p in parts)),
         grid=(options.n_theta, options.n_z), cavitation=options.cavitation,
-        inflow=_total_inflow(parts),
-        _active=tuple(p["active"] for p in parts))
+        _active=tuple(p["active"] for p in parts), _lands=tuple(p["land"] for p in parts))
 
 
 def _warm_start(start, hold, options, count):
@@ -305,12 +321,20 @@ def _land(land, geometry, surface_speed, mu, state, options, warm, hold):
     loaded = radius * weight * grid.z_weights()[None, :]
     force = -2.0 * np.array([np.sum(p * loaded * np.cos(grid.theta)[:, None]),
                              np.sum(p * loaded * np.sin(grid.theta)[:, None])])
-    area = radius * grid.theta_weights()[:, None] * grid.z_weights()[None, :]
     return {"theta": grid.theta, "pressure": p, "cavitated": cav, "force": force,
             "iterations": iterations, "active": active,
-            "leakage": _leakage(full if clipped else p, h_node, grid, radius, mu, clipped),
-            "power": _power(p, h_node, grid, area, surface_speed, mu, radius),
-            "inflow": _inflow(p, h_node, grid, radius, mu, surface_speed)}
+            "land": _LandFlows((full if clipped else p, h_node, grid, radius, mu, clipped),
+                               (p, h_node, grid, surface_speed, mu, radius),
+                               (p, h_node, grid, radius, mu, surface_speed))}
+
+
+class _LandFlows(NamedTuple):
+    """What a land's leakage, loss and inflow are worked out from (their functions'
+    arguments), kept until they are asked for."""
+
+    leakage: tuple
+    power: tuple
+    inflow: tuple
 
 
 def _pressure(system, fixed, value, options, warm, hold):
@@ -338,13 +362,6 @@ def _leakage(p, h, grid, radius, mu, clipped):
     return 2.0 * float(np.sum(density * weight))
 
 
-def _total_inflow(parts):
-    flows = [p["inflow"] for p in parts]
-    if any(math.isnan(f) for f in flows):          # a closed bore: in at grooves, out at ends
-        return float(sum(p["leakage"] for p in parts))
-    return float(sum(flows))
-
-
 def _inflow(p, h, grid, radius, mu, surface_speed):
     """Flow into the land across its leading edge (whole length; module docstring of
     ``FilmSolution.inflow``); nan for a closed land, which has no edge."""
@@ -358,8 +375,9 @@ def _inflow(p, h, grid, radius, mu, surface_speed):
     return 2.0 * float(np.sum(flux * grid.z_weights()))
 
 
-def _power(p, h, grid, area, surface_speed, mu, radius):
+def _power(p, h, grid, surface_speed, mu, radius):
     """Journal-surface shear ``mu U / h + (h / 2R) dp/dtheta`` times ``U``, whole length."""
+    area = radius * grid.theta_weights()[:, None] * grid.z_weights()[None, :]
     if grid.closed:
         dpdt = (np.roll(p, -1, axis=0) - np.roll(p, 1, axis=0)) / (2.0 * grid.dtheta)
     else:

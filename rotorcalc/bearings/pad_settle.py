@@ -173,43 +173,67 @@ class _Pads:
                 return None
         return q, films
 
-    def polish(self, q, films, target, free, scale, tol, jacobian=None, max_iterations=8):
+    def polish(self, q, films, target, free, scale, tol, jacobian=None, max_iterations=12):
         """``(q, films)`` by Newton's method on every coordinate at once (the journal, the
         lifts and the tilts of the pads that carry), from a neighbouring equilibrium's
         coordinates and films, or None: when it has not converged within
         ``max_iterations``, when a step would move the journal more than a tenth of ``C_b``,
-        or when a pad gains or loses its film on the way (or could gain it: an idle pad is
-        searched for a tilt where it carries, as :meth:`settle` does).  The warm start of a
-        nearby speed, temperature or load; :meth:`carry` remains the search.
+        or when the set of carrying pads keeps changing.  The warm start of a nearby speed,
+        temperature or load; :meth:`carry` remains the search.
 
         ``jacobian``: ``dQ/dq`` of the neighbour, scaled by ``mu omega`` (the film forces'
-        own scale); a step whose residual (weighted by :attr:`unit`) does not fall to a
-        quarter computes the Jacobian anew (about 15 film solves; a step costs 5).
-        Converged: ``|Q + target| <= tol x scale`` on the journal and lifts, and every
-        carrying pad's moment within ``tol x scale x lever``.
+        own scale); after each step Broyden's update (rank one, in coordinates weighted by
+        :attr:`unit`) corrects it from the change of the residual, at no film solve; a
+        step whose residual (weighted by :attr:`unit`) does not fall to a quarter computes
+        it anew (about 15 film solves; a step costs 5).  Converged: ``|Q + target| <= tol
+        x scale`` on the journal and lifts, and every carrying pad's moment within ``tol x
+        scale x lever``.  A pad that loses its film on the way, or an idle pad that
+        finds a tilt where it carries once converged (as :meth:`settle` searches), starts
+        the iterations again with the new set of carrying pads (twice at most).
         """
-        idle = _idle(films)
-        keep = _keep(self.ring.coordinates, idle)
-        tilts = np.intersect1d(keep, np.arange(2, 2 + self.n))
         c = self.ring.bearing_clearance
         if self.thinnest(q) <= WALL * c:
             return None
         films = self.films(q, start=films)
-        jac, last = jacobian, None
+        jac = None if jacobian is None else np.array(jacobian)
+        for _ in range(3):          # again when a pad finds or loses its film
+            found = self._newton(q, films, target, free, scale, tol, jac, max_iterations)
+            if found is None or found[0] == "done":
+                return None if found is None else found[1:]
+            q, films, jac = *found[1:3], None      # the pad's column is new: computed anew
+        return None
+
+    def _newton(self, q, films, target, free, scale, tol, jac, max_iterations):
+        """:meth:`polish`'s iterations with the carrying pads of ``films``: ("done", q,
+        films), ("again", q, films) when a pad finds or loses its film on the way, or
+        None."""
+        idle = _idle(films)
+        keep = _keep(self.ring.coordinates, idle)
+        tilts = np.intersect1d(keep, np.arange(2, 2 + self.n))
+        c, unit = self.ring.bearing_clearance, self.unit
+        last = previous = None
         for step in range(max_iterations + 1):
-            if _idle(films) != idle:
-                return None
+            if _idle(films) != idle:                 # a pad lost (or found) its film
+                return "again", q, films
             r = self.forces(q, films) + target
             if np.linalg.norm(r[free]) <= tol * scale and \
                     np.all(np.abs(r[tilts]) <= tol * scale * self.ring.lever):
                 # a pad without film may have a tilt where it carries: settle() prefers it
                 again = self.settle(q, scale, start=films, only=idle) if idle else (q, films)
-                return again if again and _idle(again[1]) == idle else None
-            size = float(np.linalg.norm((r * self.unit)[keep]))
+                if again is None:
+                    return None
+                return ("done", *again) if _idle(again[1]) == idle else ("again", *again)
+            size = float(np.linalg.norm((r * unit)[keep]))
             if step == max_iterations:
                 return None
             if jac is None or (last is not None and size > 0.25 * last):
-                jac = self.jacobian = self.derivative(q, films, 1e-6 * self.unit, central=False)
+                jac = self.jacobian = self.derivative(q, films, 1e-6 * unit, central=False)
+            elif previous is not None:             # Broyden: J s = the residual's change
+                s, y = previous[0], r - previous[1]
+                jac[np.ix_(keep, keep)] += np.outer(y[keep] - jac[np.ix_(keep, keep)] @ s[keep],
+                                                    s[keep] / unit[keep] ** 2) / \
+                    float(np.sum((s[keep] / unit[keep]) ** 2))
+                self.jacobian = jac
             last = size
             dq = np.zeros(self.size)
             try:
@@ -218,6 +242,7 @@ class _Pads:
                 return None
             if not np.all(np.isfinite(dq)) or np.max(np.abs(dq[:2])) > 0.1 * c:
                 return None
+            previous = (dq, r)
             q = q + dq
             if self.thinnest(q) <= WALL * c:
                 return None

@@ -39,6 +39,7 @@ from scipy.interpolate import make_smoothing_spline
 from ..errors import SolverError
 from ..notices import Notice
 from ..model import Settings
+from ..statics import journal_static_loads as journal_loads_at
 from ..statics import static_solution
 from ..unbalance import ResponseSettings
 from . import film_cache
@@ -169,18 +170,23 @@ def tabulate_films(rotor, *, tolerance=TOLERANCE, max_points=MAX_POINTS):
     """
     if not any(b.film is not None for b in rotor.bearings):
         return rotor
-    # the tables depend on the shaft, disks, bearings, loads and speeds only: the rest of
-    # the rotor (unbalance, probes, sweep counts, rules ...) is left out of the memo's key,
-    # so a command's option that changes none of these reuses them
-    bare = tuple(dataclasses.replace(b, speeds=(), coefficients={}, film_record=None)
+    key = _key(rotor)
+    return dataclasses.replace(rotor, bearings=_stored(key, float(tolerance), int(max_points)))
+
+
+def _key(rotor):
+    """What the film tables depend on: the shaft, disks, bearings, loads and speeds only.
+    The rest of the rotor (unbalance, probes, sweep counts, rules ...) is left out, so a
+    command's option that changes none of these reuses them."""
+    bare = tuple(dataclasses.replace(b, speeds=(), coefficients={}, film_record=None,
+                                     whirl=())
                  if b.film is not None else b for b in rotor.bearings)
-    key = dataclasses.replace(
+    return dataclasses.replace(
         rotor, bearings=bare, name="", unbalance=(), probes=(), clearances=(), sources=(),
         coupling_rule=None,
         settings=Settings(speed_from=rotor.settings.speed_from,
                           speed_to=rotor.settings.speed_to),
         response=ResponseSettings(speed_to=rotor.response.speed_to))
-    return dataclasses.replace(rotor, bearings=_stored(key, float(tolerance), int(max_points)))
 
 
 @functools.lru_cache(maxsize=32)
@@ -191,10 +197,41 @@ def _stored(rotor, tolerance, max_points):
                             lambda: _tabulated(rotor, tolerance, max_points).bearings)
 
 
+#: The film states solved for the last few tables, by key rotor: they start the
+#: journals' static solutions of the same rotor (:func:`journal_static_loads`).
+_SOLVED: dict = {}
+
+
+def journal_static_loads(rotor, speed=None):
+    """:func:`rotorcalc.statics.journal_static_loads`, memoised in this run and, for a
+    rotor with film journals, kept on disk beside its tables, their searches started
+    from the nearest state its tables solved (a cold start costs about ten times the
+    film solves)."""
+    speed = float(rotor.operating.max_speed if speed is None else speed)
+    if not any(b.film is not None for b in rotor.bearings):
+        return dict(_journal_loads(rotor, speed))
+    return dict(_journal_loads(_key(rotor), speed))
+
+
+@functools.lru_cache(maxsize=16)
+def _journal_loads(rotor, speed):
+    def solve():
+        solved = _SOLVED.get(rotor)
+        starts = None if not solved else solved[min(solved, key=lambda s: abs(math.log(
+            s / speed)))]
+        return tuple(journal_loads_at(rotor, speed, starts=starts).items())
+    if not any(b.film is not None for b in rotor.bearings):
+        return tuple(journal_loads_at(rotor, speed).items())
+    return film_cache.fetch(("journal-loads", rotor, speed), solve)
+
+
 def _tabulated(rotor, tolerance, max_points):
     films = [i for i, b in enumerate(rotor.bearings) if b.film is not None]
     low, high = film_speed_range(rotor)
     solved, notes = {}, []
+    while len(_SOLVED) >= 4:
+        _SOLVED.pop(next(iter(_SOLVED)))
+    _SOLVED[rotor] = solved
 
     def solve(speed, check_step=False):
         sol = static_solution(rotor, speed, starts=_starts(solved, speed),
@@ -242,7 +279,10 @@ def _tabulated(rotor, tolerance, max_points):
 def _starts(solved, speed):
     """Start states for the film searches at ``speed``: the nearest solved speed's, with
     the film temperature carried on a straight line in log speed through the two
-    nearest (the heat balance then needs one or two equilibria, not four)."""
+    nearest (the heat balance then needs one or two equilibria, not four), and the
+    journal's equilibrium (its position; the pads' tilts too) on that line between them
+    when the same pads carry at both (beyond them, or across a pad gaining its film, a
+    straight line overshoots: the nearest holds)."""
     if not solved:
         return None
     near = sorted(solved, key=lambda s: abs(math.log(s / speed)))[:2]
@@ -251,12 +291,23 @@ def _starts(solved, speed):
         a, b = near
         share = math.log(speed / a) / math.log(b / a)
         for i, state in starts.items():
-            for name in ("temperature", "pad_temperatures"):
-                ta, tb = getattr(state, name, None), getattr(solved[b][i], name, None)
-                if ta is not None and tb is not None:
-                    state = dataclasses.replace(state, **{name: ta + share * (tb - ta)})
+            state = _along(state, solved[b][i], share, ("temperature", "pad_temperatures"))
+            if 0.0 <= share <= 1.0 and _regime(state) == _regime(solved[b][i]):
+                state = dataclasses.replace(state, equilibrium=_along(
+                    state.equilibrium, solved[b][i].equilibrium, share,
+                    ("position", "coordinates")))
             starts[i] = state
     return starts
+
+
+def _along(state, other, share, names):
+    """``state`` with each of ``names`` it shares with ``other`` (same shape) moved to
+    ``a + share (b - a)``."""
+    for name in names:
+        a, b = getattr(state, name, None), getattr(other, name, None)
+        if a is not None and b is not None and np.shape(a) == np.shape(b):
+            state = dataclasses.replace(state, **{name: a + share * (np.asarray(b) - a)})
+    return state
 
 
 def _values(states):
