@@ -7,11 +7,7 @@ same, to the last bit, whatever the number of workers.
 
 from __future__ import annotations
 
-import multiprocessing
-import os
 import re
-from concurrent.futures import ProcessPoolExecutor
-from contextlib import contextmanager
 from dataclasses import dataclass
 
 import numpy as np
@@ -22,6 +18,7 @@ from ..errors import InputError
 from ..model import Rotor
 from ..notices import Notice, record
 from ..units import to_hz, to_rpm
+from ..workers import worker_count, worker_pool  # noqa: F401 (the sweep's options)
 from .modes import forward_fraction, log_decrement, modes_at, read_only, whirl_label
 from .tracking import track
 
@@ -221,18 +218,6 @@ def _solve_batch(system, speeds, n_solve, solver):
     return out
 
 
-def worker_count(workers):
-    """The number of worker processes ``workers`` asks for (0: one per available core)."""
-    if not isinstance(workers, (int, np.integer)) or workers < 0:
-        raise InputError("workers", f"workers must be a whole number >= 0, not {workers!r}", kind="option")
-    if workers == 0:
-        try:
-            return len(os.sched_getaffinity(0))
-        except AttributeError:  # not on every platform
-            return os.cpu_count() or 1
-    return int(workers)
-
-
 #: Batches per worker: enough for an even load and a moving progress bar, few
 #: enough that sending the system matrices with each batch costs nothing.
 BATCHES_PER_WORKER = 4
@@ -258,45 +243,6 @@ def solve_speeds(system, speeds, n_solve, solver=None, progress=None, workers=1)
             if progress is not None:
                 progress(len(out), len(speeds))
     return out
-
-
-@contextmanager
-def worker_pool(workers):
-    """A pool of ``workers`` processes, each with one BLAS thread (unless set otherwise)."""
-    with _one_blas_thread(), ProcessPoolExecutor(workers, mp_context=_context()) as pool:
-        yield pool
-
-
-def _context():
-    """'fork' where it exists and BLAS is single-threaded already, else 'spawn'.
-
-    A forked worker starts at once but inherits the parent's BLAS threads; a
-    spawned one imports numpy afresh and reads ``OPENBLAS_NUM_THREADS`` then.
-    """
-    single = all(os.environ.get(v) == "1" for v in BLAS_THREAD_VARIABLES)
-    if single and "fork" in multiprocessing.get_all_start_methods():
-        return multiprocessing.get_context("fork")
-    return multiprocessing.get_context("spawn")
-
-
-BLAS_THREAD_VARIABLES = ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS", "MKL_NUM_THREADS")
-
-
-@contextmanager
-def _one_blas_thread():
-    """One BLAS thread in every worker started inside (the user's own setting wins).
-
-    Several processes each running several BLAS threads on the same cores
-    run slower than one thread each (see rotorcalc/cli/__init__.py).
-    """
-    added = [v for v in BLAS_THREAD_VARIABLES if v not in os.environ]
-    for v in added:
-        os.environ[v] = "1"
-    try:
-        yield
-    finally:
-        for v in added:
-            os.environ.pop(v, None)
 
 
 def _solver_warnings(solved, speeds):

@@ -22,6 +22,9 @@ from .pad_state import (PadEquilibrium, _check_ring, _equilibrium_of, _idle,  # 
                         _keep, pad_viscosities)
 
 _solve = solve_film.__wrapped__
+#: The search from a cold start stops at this share of the load; Newton's method
+#: (:meth:`_Pads.polish`) takes it from there to the tolerance.
+ROUGH = 2e-2
 
 
 class _Pads:
@@ -359,8 +362,11 @@ def pad_equilibrium(ring, speed, load, viscosity, *, options=FilmOptions(), tole
             return _equilibrium_of(pads, *found, w)
     for q in starts:
         q = q if len(q) == pads.size else pads.aligned(q)
-        found = pads.thinnest(q) > 0.05 * ring.bearing_clearance and \
-            pads.carry(q, target, free, scale, tol, iters)
+        # the search to a rough balance, Newton's method from there (its steps are cheaper)
+        rough = pads.thinnest(q) > 0.05 * ring.bearing_clearance and \
+            pads.carry(q, target, free, scale, max(tol, ROUGH), iters)
+        found = rough and (pads.polish(*rough, target, free, scale, tol) or
+                           pads.carry(rough[0], target, free, scale, tol, iters))
         if found:
             return _equilibrium_of(pads, *found, w)
     found = (pads.aligned(np.zeros(2)),)

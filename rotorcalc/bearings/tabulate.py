@@ -42,6 +42,7 @@ from ..model import Settings
 from ..statics import journal_static_loads as journal_loads_at
 from ..statics import static_solution
 from ..unbalance import ResponseSettings
+from ..workers import run_all
 from . import film_cache
 
 #: Speeds of the first fit; the fit is tabulated at TABLE_POINTS speeds.
@@ -225,38 +226,40 @@ def _journal_loads(rotor, speed):
     return film_cache.fetch(("journal-loads", rotor, speed), solve)
 
 
-def _tabulated(rotor, tolerance, max_points):
+def _tabulated(rotor, tolerance, max_points, workers=0):
     films = [i for i, b in enumerate(rotor.bearings) if b.film is not None]
     low, high = film_speed_range(rotor)
     solved, notes = {}, []
     while len(_SOLVED) >= 4:
         _SOLVED.pop(next(iter(_SOLVED)))
     _SOLVED[rotor] = solved
-
-    def solve(speed, check_step=False):
-        sol = static_solution(rotor, speed, starts=_starts(solved, speed),
-                              check_step=check_step)
-        solved[speed] = dict(sol.films)
-        return solved[speed]
-
-    # the lowest speed is where a film is likeliest to fail (it runs near the bore)
+    # two runs from cold starts at the ends towards the middle; the lowest speed is where
+    # a film is likeliest to fail (it runs near the bore): the table then starts higher
     while True:
-        try:
-            solve(low, check_step=True)
-            break
-        except SolverError:
+        fitted = [float(v) for v in np.geomspace(low, high, START_POINTS)]
+        checked = {fitted[0], fitted[START_POINTS // 2], fitted[-1]}
+        up, down = fitted[:SPLIT], fitted[:SPLIT - 1:-1]
+        runs = run_all(_run, [(rotor, up, checked, {}), (rotor, down, checked, {})], workers)
+        if isinstance(runs[0], SolverError):
             if low * 1.5 >= high:
-                raise
+                raise runs[0]
             notes.append(Notice(f"no film equilibrium at {low * 30 / math.pi:.0f} rpm: the "
                                 f"film table starts higher", code="note"))
             low *= 1.5
-    fitted = [float(v) for v in np.geomspace(low, high, START_POINTS)]
-    for speed in fitted[1:]:
-        solve(speed, check_step=speed in (fitted[START_POINTS // 2], fitted[-1]))
+            continue
+        if isinstance(runs[1], SolverError):
+            raise runs[1]
+        break
+    for run in runs:
+        solved.update(run)
     while True:
         checks = [float(v) for v in np.sqrt(np.multiply(fitted[:-1], fitted[1:]))]
-        for speed in checks:
-            solve(speed)
+        # each check starts from its two neighbours only: the same wherever it runs
+        pieces = [(rotor, [c], set(), {a: solved[a], b: solved[b]})
+                  for c, a, b in zip(checks, fitted[:-1], fitted[1:])]
+        halves = [pieces[:len(pieces) // 2], pieces[len(pieces) // 2:]]
+        for run in run_all(_runs, [(half,) for half in halves if half], workers):
+            solved.update(run)
         error = _fit_error(solved, films, fitted, checks)
         fitted = sorted(fitted + checks)
         if error <= tolerance:
@@ -274,6 +277,40 @@ def _tabulated(rotor, tolerance, max_points):
         bearings[i] = _tabled(rotor.bearings[i], np.array(fitted), table,
                               [solved[s][i] for s in fitted], error, notes)
     return dataclasses.replace(rotor, bearings=tuple(bearings))
+
+
+#: The first fit's speeds are solved in two runs, each from a cold start at one end of
+#: the range towards the middle: the lowest SPLIT upwards, the others downwards from the
+#: top.  Two runs share two cores; the split is fixed, so the table is the same whatever
+#: the number of workers (the top's cold start costs less than the bottom's: the film
+#: runs farther from the bore).
+SPLIT = 4
+
+
+def _run(rotor, speeds, checked, known):
+    """``{speed: {bearing index: film state}}`` at ``speeds``, solved in this order, each
+    search started from the states solved before it (and ``known``); the perturbation
+    step checked at the speeds in ``checked``.  A SolverError at the first speed of a
+    cold start (nothing known) is returned, not raised: the caller moves the range."""
+    solved, out = dict(known), {}
+    for speed in speeds:
+        try:
+            sol = static_solution(rotor, speed, starts=_starts(solved, speed),
+                                  check_step=speed in checked)
+        except SolverError as exc:
+            if solved:
+                raise
+            return exc
+        solved[speed] = out[speed] = dict(sol.films)
+    return out
+
+
+def _runs(pieces):
+    """:func:`_run` of each piece, merged."""
+    out = {}
+    for piece in pieces:
+        out.update(_run(*piece))
+    return out
 
 
 def _starts(solved, speed):
@@ -455,7 +492,8 @@ def _tabled(bearing, speeds, table, states, error, notes):
 
 def _reduced(state, whirl):
     """(len(whirl), 8): kxx ... cyy of a state's full linear set reduced at each whirl."""
-    return np.array([np.concatenate([m.ravel() for m in state.reduce(w)]) for w in whirl])
+    k, c = state.reduce(np.asarray(whirl, dtype=float))
+    return np.concatenate([k.reshape(-1, 4), c.reshape(-1, 4)], axis=1)
 
 
 def _whirl_error(states, whirl, solved):

@@ -94,25 +94,34 @@ def condense(stiffness, damping, inertia, whirl, keep=2):
     ----------
     stiffness, damping, inertia : (N, N) array_like
         Full ``K``, ``C`` and ``M``.
-    whirl : float
-        Whirl frequency ``w`` (rad/s); 0 gives the limit ``w -> 0`` (module's notes).
+    whirl : float or 1-D array_like
+        Whirl frequency ``w`` (rad/s), or several (solved together); 0 gives the limit
+        ``w -> 0`` (module's notes).
     keep : int
         Number of leading coordinates kept.
 
     Returns
     -------
     K_red, C_red : ndarray
-        ``Re(Z_red)`` and ``Im(Z_red) / w``.
+        ``Re(Z_red)`` and ``Im(Z_red) / w``: ``(keep, keep)`` each, or ``(len(whirl), keep,
+        keep)`` for several frequencies.
     """
     k, c, m = (np.asarray(a, dtype=float) for a in (stiffness, damping, inertia))
-    j, p, w = slice(0, keep), slice(keep, None), number("whirl", whirl)
-    if w == 0.0:
+    one = np.ndim(whirl) == 0
+    w = np.array([number("whirl", whirl)]) if one else np.asarray(whirl, dtype=float)
+    j, p = slice(0, keep), slice(keep, None)
+    kr, cr = np.empty((len(w), keep, keep)), np.empty((len(w), keep, keep))
+    zero = w == 0.0
+    if np.any(zero):
         g, h = np.linalg.solve(k[p, p], k[p, j]), np.linalg.solve(k[p, p].T, k[j, p].T).T
-        return (k[j, j] - k[j, p] @ g,
-                c[j, j] - c[j, p] @ g - h @ c[p, j] + h @ c[p, p] @ g)
-    z = k + 1j * w * c - w * w * m
-    zr = z[j, j] - z[j, p] @ np.linalg.solve(z[p, p], z[p, j])
-    return zr.real, zr.imag / w
+        kr[zero] = k[j, j] - k[j, p] @ g
+        cr[zero] = c[j, j] - c[j, p] @ g - h @ c[p, j] + h @ c[p, p] @ g
+    if not np.all(zero):
+        v = w[~zero][:, None, None]
+        z = k + 1j * v * c - v * v * m
+        zr = z[:, j, j] - z[:, j, p] @ np.linalg.solve(z[:, p, p], z[:, p, j])
+        kr[~zero], cr[~zero] = zr.real, zr.imag / v
+    return (kr[0], cr[0]) if one else (kr, cr)
 
 
 @dataclass(frozen=True)
@@ -166,8 +175,8 @@ class PadCoefficients:
         return _idle(self.equilibrium.films)
 
     def reduce(self, whirl):
-        """``(K_red, C_red)`` at another whirl frequency (rad/s); pads that carry no film
-        are left out."""
+        """``(K_red, C_red)`` at another whirl frequency (rad/s), or stacked at several
+        (:func:`condense`); pads that carry no film are left out."""
         keep = _keep(self.coordinates, _idle(self.equilibrium.films))
         return condense(*(a[np.ix_(keep, keep)] for a in (
             self.full_stiffness, self.full_damping, self.full_inertia)), whirl)
