@@ -11,7 +11,8 @@ conserves mass cell by cell and is second order in ``dtheta`` and ``dz``.
 
 The equations are symmetric positive definite and banded once a closed land
 is numbered 0, n-1, 1, n-2, ... around its circle: each solve is a banded
-Cholesky factorisation (LAPACK through ``scipy.linalg.solveh_banded``).
+Cholesky factorisation (LAPACK's ``dpbsv``, as ``scipy.linalg.solveh_banded`` calls it,
+called directly: a pad's film is small, and the wrapper's checks cost more than the solve).
 """
 
 from __future__ import annotations
@@ -20,9 +21,11 @@ import functools
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.linalg import solveh_banded
+from scipy.linalg import get_lapack_funcs
 
 from ..errors import SolverError
+
+_PBSV = get_lapack_funcs("pbsv", dtype=np.float64)
 
 
 @dataclass(frozen=True)
@@ -85,13 +88,19 @@ def _faces_of(ni, nj, closed):
     return out
 
 
-def _band_order(grid):
-    """Position of each node in the banded system, and the band's half width.
-
-    A closed land is numbered 0, n-1, 1, n-2, ... around the circle so that the
-    wrap-around neighbours stay within two rings of each other.
-    """
-    return _band_order_of(*grid.shape, grid.closed)
+@functools.lru_cache(maxsize=64)
+def _layout(ni, nj, closed):
+    """Everything of a land's system that depends on its grid's shape only: the faces'
+    node pairs ``a``, ``b`` (circumferential, then axial), the band order ``pos``, the
+    band's half width and each face's place in the band (``row``, ``col``; upper form)."""
+    (ca, cb), (za, zb) = _faces_of(ni, nj, closed)
+    a, b = np.concatenate([ca.ravel(), za.ravel()]), np.concatenate([cb.ravel(), zb.ravel()])
+    pos, width = _band_order_of(ni, nj, closed)
+    lo, hi = np.minimum(pos[a], pos[b]), np.maximum(pos[a], pos[b])
+    row = width + lo - hi
+    for array in (a, b, row, hi):
+        array.flags.writeable = False
+    return a, b, pos, width, row, hi
 
 
 @functools.lru_cache(maxsize=64)
@@ -126,6 +135,8 @@ class LandSystem:
     s: np.ndarray
     pos: np.ndarray
     width: int
+    row: np.ndarray     # each face's place in the band (upper form)
+    col: np.ndarray
 
     @property
     def diagonal(self):
@@ -151,12 +162,14 @@ class LandSystem:
                                             self.g * value[self.a], 0.0), n)
         band = np.zeros((self.width + 1, n))
         band[-1, self.pos] = np.where(held, 1.0, self.diagonal)
-        lo = np.minimum(self.pos[self.a], self.pos[self.b])[both]
-        hi = np.maximum(self.pos[self.a], self.pos[self.b])[both]
-        band[self.width + lo - hi, hi] = -self.g[both]      # each pair of nodes once
+        band[self.row[both], self.col[both]] = -self.g[both]      # each pair of nodes once
         ordered = np.empty(n)
         ordered[self.pos] = rhs
-        return solveh_banded(band, ordered, check_finite=False)[self.pos]
+        _, x, info = _PBSV(band, ordered, lower=0, overwrite_ab=1, overwrite_b=1)
+        if info != 0:
+            raise SolverError(f"the film's equations are not positive definite (LAPACK "
+                              f"dpbsv: {info})")
+        return x[self.pos]
 
 
 def assemble(grid, h_node, h_face, h_dot, *, radius, viscosity, surface_speed):
@@ -178,7 +191,8 @@ def assemble(grid, h_node, h_face, h_dot, *, radius, viscosity, surface_speed):
     wz = grid.z_weights()
     k = 1.0 / (12.0 * viscosity)
     arc = radius * grid.dtheta
-    (ca, cb), (za, zb) = _faces(grid)
+    za = _faces(grid)[1][0]
+    a, b, pos, width, row, col = _layout(ni, nj, grid.closed)
     g_circ = (k * h_face[:, None] ** 3 / arc) * wz[None, :]
     g_axial = np.broadcast_to((k * h_node[:, None] ** 3) * arc / grid.dz, za.shape)
     # Couette inflow U/2 (h_west - h_east) and squeeze -dh/dt over each control volume
@@ -188,11 +202,8 @@ def assemble(grid, h_node, h_face, h_dot, *, radius, viscosity, surface_speed):
         h_east = np.concatenate([h_face, [h_face[-1]]])
         h_west = np.concatenate([[h_face[0]], h_face])
     inflow = 0.5 * surface_speed * (h_west - h_east) - h_dot * arc
-    pos, width = _band_order(grid)
-    return LandSystem(np.concatenate([ca.ravel(), za.ravel()]),
-                      np.concatenate([cb.ravel(), zb.ravel()]),
-                      np.concatenate([g_circ.ravel(), g_axial.ravel()]),
-                      (inflow[:, None] * wz[None, :]).ravel(), pos, width)
+    return LandSystem(a, b, np.concatenate([g_circ.ravel(), g_axial.ravel()]),
+                      (inflow[:, None] * wz[None, :]).ravel(), pos, width, row, col)
 
 
 def fixed_values(grid, edge_pressure):

@@ -273,9 +273,9 @@ def solve_film(geometry, speed, viscosity, position=(0.0, 0.0), velocity=(0.0, 0
     parts = [_land(land, geometry, surface_speed, mu, state, options,
                    None if warm is None else warm[k], hold_rupture)
              for k, land in enumerate(lands)]
-    z = np.linspace(0.0, 0.5 * geometry.length, options.n_z + 1)
+    z = _axial_nodes(float(geometry.length), options.n_z)
     force = np.sum([p["force"] for p in parts], axis=0)
-    _read_only(z, force)
+    _read_only(force)
     return FilmSolution(
         force=force, theta=tuple(p["theta"] for p in parts), z=z,
         pressure=tuple(p["pressure"] for p in parts),
@@ -283,6 +283,12 @@ def solve_film(geometry, speed, viscosity, position=(0.0, 0.0), velocity=(0.0, 0
         min_thickness=float(h_min), iterations=int(sum(p["iterations"] for p in parts)),
         grid=(options.n_theta, options.n_z), cavitation=options.cavitation,
         _active=tuple(p["active"] for p in parts), _lands=tuple(p["land"] for p in parts))
+
+
+@functools.lru_cache(maxsize=64)
+def _axial_nodes(length, n_z):
+    """Axial node positions from the mid-plane to one end (m), read-only."""
+    return _read_only(np.linspace(0.0, 0.5 * length, n_z + 1))[0]
 
 
 def _warm_start(start, hold, options, count):

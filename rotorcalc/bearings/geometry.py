@@ -128,8 +128,10 @@ class Land:
         turns = math.ceil((self.start - beta) / TWO_PI)
         if beta + turns * TWO_PI <= self.end:
             candidates.append(beta + turns * TWO_PI)
-        values = [float(self.thickness(t, x, y)) for t in candidates]
-        i = int(np.argmin(values))
+        ox, oy = self.centre
+        values = [self.clearance - (x - ox) * math.cos(t) - (y - oy) * math.sin(t)
+                  for t in candidates]           # thickness() at each, in floats
+        i = values.index(min(values))
         return values[i], candidates[i]
 
 

@@ -164,10 +164,12 @@ class PadRing:
 
     def pad(self, k, tilt=0.0, lift=0.0, tilt_rate=0.0, lift_rate=0.0):
         """Pad ``k`` turned by ``tilt`` (rad), lifted by ``lift`` (m): a :class:`PadFilm`."""
-        th = float(self.pivots[k])
-        e, t = np.array([math.cos(th), math.sin(th)]), np.array([-math.sin(th), math.cos(th)])
-        centre = (lift - self.preload * self.clearance) * e - self.lever * tilt * t
-        rate = lift_rate * e - self.lever * tilt_rate * t
+        th = self.first_pivot + TWO_PI * k / self.count      # as pivots[k], in floats
+        cos, sin = math.cos(th), math.sin(th)
+        radial, turn = lift - self.preload * self.clearance, self.lever * tilt
+        centre = (radial * cos + turn * sin, radial * sin - turn * cos)
+        turn_rate = self.lever * tilt_rate
+        rate = (lift_rate * cos + turn_rate * sin, lift_rate * sin - turn_rate * cos)
         start = th - self.pivot_offset * self.arc
-        land = _PadArc(start, start + self.arc, self.clearance, tuple(centre), tuple(rate))
+        land = _PadArc(start, start + self.arc, self.clearance, centre, rate)
         return PadFilm(self.diameter, self.length, (land,))

@@ -138,8 +138,8 @@ def test_sweep_and_criticals_do_not_depend_on_worker_count(system):
 
 def test_spawned_workers_give_the_same_sweep(system, monkeypatch):
     """Where 'fork' is unavailable (or BLAS is multi-threaded) workers are spawned."""
-    sweep_module = importlib.import_module("rotorcalc.analysis.sweep")
-    monkeypatch.setattr(sweep_module, "_context", lambda: multiprocessing.get_context("spawn"))
+    workers_module = importlib.import_module("rotorcalc.workers")
+    monkeypatch.setattr(workers_module, "_context", lambda: multiprocessing.get_context("spawn"))
     speeds = np.linspace(100.0, 1500.0, 4)
     _same(sweep(system, speeds, 4, workers=1), sweep(system, speeds, 4, workers=2))
 
