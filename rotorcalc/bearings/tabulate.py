@@ -21,6 +21,9 @@ through every solved speed, is tabulated at :data:`TABLE_POINTS` speeds; the lar
 out-of-sample difference of the last check is the table's error estimate (a
 conservative one: the final fit has twice the points of the one checked).  The
 perturbation step of the coefficients is checked at the lowest, middle and top speeds.
+The first speeds are solved in two fixed runs from cold starts at both ends, the checks
+each from its two neighbours, on up to two worker processes (:data:`SPLIT`): the table is
+the same whatever the number of workers.
 
 Screening only: confirm bearing data against the maker's analysis, the applicable
 standard, the purchase specification, local codes and a licensed engineer's review.
