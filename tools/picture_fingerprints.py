@@ -263,14 +263,22 @@ def fingerprints(cases=None):
     if cases:
         paths = [p for p in paths if p.stem in cases]
     import rotorcalc
+    from rotorcalc.workers import run_all
     print(f"drawing with rotorcalc from {Path(rotorcalc.__file__).parent}", file=sys.stderr)
     pictures = {}
+    # one case a worker process (as many as there are cores): each draws in a process of
+    # its own, as a fresh interpreter would
+    for drawn in run_all(drawn_pictures, [(path,) for path in paths], 0):
+        pictures.update(drawn)
+    return {**versions(), "dpi": DPI, "figsize": list(FIGSIZE), "pictures": pictures}
+
+
+def drawn_pictures(path):
+    """:func:`case_pictures` with matplotlib's default settings at :data:`DPI`."""
     with matplotlib.rc_context():
         matplotlib.rc_file_defaults()       # no user matplotlibrc decides a pixel
         matplotlib.rcParams["figure.dpi"] = DPI
-        for path in paths:
-            pictures.update(case_pictures(path))
-    return {**versions(), "dpi": DPI, "figsize": list(FIGSIZE), "pictures": pictures}
+        return case_pictures(path)
 
 
 def differences(recorded, current):
