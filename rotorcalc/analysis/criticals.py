@@ -136,7 +136,8 @@ def critical_speeds(rotor_or_system, result: Sweep | None = None, orders=None, s
                 if gap[k] == 0.0 and k > 0:
                     continue  # counted as the end of the previous bracket
                 brackets.append((float(order), j, speeds[k], speeds[k + 1],
-                                 result.eigenvalues[k, j], result.shapes[k, j]))
+                                 result.eigenvalues[k, j], result.shapes[k, j],
+                                 result.eigenvalues[k + 1, j], result.shapes[k + 1, j]))
     workers = min(worker_count(workers), len(brackets))
     if workers <= 1:
         found = [_refine(system, b, n_solve, solver) for b in brackets]
@@ -149,11 +150,14 @@ def critical_speeds(rotor_or_system, result: Sweep | None = None, orders=None, s
 
 def _refine(system, bracket, n_solve, solver):
     """The critical speed in one bracket, or None when fresh solves show no crossing."""
-    order, j, lo, hi, ref_value, ref_shape = bracket
-    seen = {}   # speed -> (eigenvalue, shape); Brent's root is usually its last trial speed
+    order, j, lo, hi, ref_value, ref_shape, hi_value, hi_shape = bracket
+    # speed -> (eigenvalue, shape), the ends from the sweep (the same solve: the same
+    # numbers); Brent's root is usually its last trial speed
+    seen = {lo: (ref_value, ref_shape), hi: (hi_value, hi_shape)}
 
-    def g(w):
-        seen[w] = branch_at(system, w, ref_value, ref_shape, n_solve, solver)
+    def g(w):       # each speed solved once: Brent's method evaluates both ends again
+        if w not in seen:
+            seen[w] = branch_at(system, w, ref_value, ref_shape, n_solve, solver)
         return seen[w][0].imag - order * w
 
     g_lo, g_hi = g(lo), g(hi)

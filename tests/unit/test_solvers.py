@@ -177,3 +177,23 @@ def test_auto_repeats_a_doubtful_sparse_solve_densely(monkeypatch):
     reference = DenseSolver()(m, d, k, 4)
     np.testing.assert_allclose(result.values, reference.values, rtol=1e-12)
     assert any("dense solver was used" in w for w in result.warnings)
+
+
+def test_the_refinement_solves_no_speed_twice_and_not_the_sweeps(monkeypatch):
+    """No repeated work: the bracket ends come from the sweep (the same solve gives the same
+    numbers), and Brent's method, which evaluates both ends again, finds them memoised."""
+    from rotorcalc.analysis import criticals as module
+    rotor = generated_rotor(14, mode_count=4, speed_count=30)
+    system = assemble(rotor)
+    result = sweep(system)
+    solved = []
+    real = module.branch_at
+
+    def recording(system, speed, *args):
+        solved.append(speed)
+        return real(system, speed, *args)
+    monkeypatch.setattr(module, "branch_at", recording)
+    found = critical_speeds(system, result)
+    assert found and solved
+    assert len(set(solved)) == len(solved), "a speed was solved twice"
+    assert not set(solved) & set(result.speeds.tolist()), "a sweep speed was solved again"
