@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import multiprocessing
 import os
-from concurrent.futures import ProcessPoolExecutor
+from concurrent.futures import ProcessPoolExecutor, as_completed
 from contextlib import contextmanager
 
 import numpy as np
@@ -68,13 +68,22 @@ def _one_blas_thread():
             os.environ.pop(v, None)
 
 
-def run_all(function, pieces, workers):
+def run_all(function, pieces, workers, progress=None):
     """``[function(*piece) for piece in pieces]``, in order, on up to ``workers``
     processes (0: one per available core); in this process when one worker (or one
-    piece) is asked for."""
+    piece) is asked for.  ``progress(done, total)`` after each piece (as they finish)."""
     workers = min(worker_count(workers), len(pieces))
+    out = [None] * len(pieces)
     if workers <= 1:
-        return [function(*piece) for piece in pieces]
+        for i, piece in enumerate(pieces):
+            out[i] = function(*piece)
+            if progress is not None:
+                progress(i + 1, len(pieces))
+        return out
     with worker_pool(workers) as pool:
-        futures = [pool.submit(function, *piece) for piece in pieces]
-        return [future.result() for future in futures]
+        futures = {pool.submit(function, *piece): i for i, piece in enumerate(pieces)}
+        for done, future in enumerate(as_completed(futures), start=1):
+            out[futures[future]] = future.result()
+            if progress is not None:
+                progress(done, len(pieces))
+    return out

@@ -130,10 +130,11 @@ class Envelope:
         return out
 
 
-def tolerance_envelope(rotor, progress=None, with_sources=False):
+def tolerance_envelope(rotor, progress=None, with_sources=False, workers=0):
     """Screen the rotor and every corner of its bearings' tolerances (module docstring)."""
     variants = corner_variants(rotor)
-    comparison = compare(rotor, variants, progress=progress, with_sources=with_sources)
+    comparison = compare(rotor, variants, progress=progress, with_sources=with_sources,
+                         workers=workers)
     return Envelope(comparison, worst_cases(comparison))
 
 

@@ -17,6 +17,7 @@ from scipy.optimize import brentq, linear_sum_assignment, newton
 from ..assembly import assemble
 from ..units import to_rpm
 from ..variants import Variant, apply_variant, parse_change
+from ..workers import run_all
 from .criticals import CriticalSpeed, branch_at
 from .sweep import TRACKING_RESERVE
 from .margins import CAUTION, Judgement, af_from_log_dec
@@ -118,7 +119,7 @@ def what_if_rotor(rotor, with_sources=False, with_screen=False):
     return dataclasses.replace(rotor, sources=(), coupling_rule=None)
 
 
-def compare(rotor, variants, progress=None, with_sources=False):
+def compare(rotor, variants, progress=None, with_sources=False, workers=0):
     """Screen the base rotor and every variant; rows carry the change against the base.
 
     Parameters
@@ -127,14 +128,13 @@ def compare(rotor, variants, progress=None, with_sources=False):
     variants : sequence of Variant
     progress : callable, optional
         ``progress(done, total)`` after each screening.
+    workers : int
+        Worker processes sharing the screenings (0: one per core, the default; each
+        screening is independent, so the result is the same for any number).
     """
     rotor = what_if_rotor(rotor, with_sources, with_screen=True)
     models = [("base", rotor)] + [(v.name, apply_variant(rotor, v)) for v in variants]
-    screenings = []
-    for i, (_, model) in enumerate(models):
-        screenings.append(screen(model))
-        if progress is not None:
-            progress(i + 1, len(models))
+    screenings = run_all(screen, [(model,) for _, model in models], workers, progress)
     # overdamped modes are not criticals: they are listed, never matched (a heavily
     # damped mode near the first bending critical once took its counterpart)
     base = [r.critical for r in screenings[0].margins.rows if r.verdict != "overdamped"]

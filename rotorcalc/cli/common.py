@@ -175,6 +175,9 @@ class SweepProgress:
 
 JOBS_HELP = ("Worker processes for the sweep (0: one per core; default: one per core for models "
              "of 300 elements or more, else 1); the results do not depend on it.")
+#: ``--jobs`` of the commands that run several screenings (compare, envelope).
+SCREENINGS_JOBS_HELP = ("Worker processes sharing the screenings (0, the default: one per "
+                        "core). The results do not depend on it.")
 
 #: From this many shaft elements the command line shares a sweep among all cores by
 #: default: the sweep then takes ten seconds or more and starting workers pays

@@ -17,9 +17,8 @@ from ..output import file_hash
 from ..reader import load_toml
 from ..tables import comparison_columns
 from ..units import to_rpm
-from .common import (console, fail_input, input_errors, load, print_table, print_warnings,
-                     renamed_notes,
-                     save_figure, write_outputs)
+from .common import (SCREENINGS_JOBS_HELP, console, fail_input, input_errors, load,
+                     print_table, print_warnings, renamed_notes, save_figure, write_outputs)
 from .criticals import apply_overrides
 from .whatif_common import (check_outputs, command_help, critical_text, plotting_function,
                             progress_bar, with_sources_option)
@@ -114,6 +113,7 @@ def command(
     json_path: Optional[Path] = typer.Option(None, "--json",
                                              help="Write the comparison as JSON."),
     csv_path: Optional[Path] = typer.Option(None, "--csv", help="Write the comparison as CSV."),
+    jobs: int = typer.Option(0, "--jobs", min=0, help=SCREENINGS_JOBS_HELP),
 ):
     """Compare variants of one rotor: every critical speed of the rotor as described ('base')
     and of each variant, with whirl, log dec, margin, verdict and the change against the base.
@@ -127,7 +127,8 @@ def command(
     with progress_bar(f"screening the base and {len(variants)} variant(s)",
                       len(variants) + 1) as bar, \
             input_errors():
-        comparison = compare(rotor, variants, progress=bar, with_sources=with_sources)
+        comparison = compare(rotor, variants, progress=bar, with_sources=with_sources,
+                             workers=jobs)
     elapsed = time.perf_counter() - started
     warnings = print_comparison(rotor, comparison, variants)
     console.print(f"[dim]{len(comparison.names)} screenings in {elapsed:.1f} s. {CAUTION}[/]",

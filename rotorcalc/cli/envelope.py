@@ -12,8 +12,8 @@ from rich.markup import escape
 
 from ..analysis.margins import CAUTION
 from ..tables import WORST_CASE_COLUMNS
-from .common import (EXIT_CHECK_FAILED, EXIT_NOT_COVERED, console, input_errors, load,
-                     print_table, save_figure, write_outputs)
+from .common import (EXIT_CHECK_FAILED, EXIT_NOT_COVERED, SCREENINGS_JOBS_HELP, console,
+                     input_errors, load, print_table, save_figure, write_outputs)
 from .compare import print_comparison
 from .criticals import apply_overrides
 from .whatif_common import (check_outputs, command_help, plotting_function, progress_bar,
@@ -35,6 +35,7 @@ def command(
     json_path: Optional[Path] = typer.Option(None, "--json", help="Write every corner as JSON."),
     csv_path: Optional[Path] = typer.Option(None, "--csv",
                                             help="Write the worst corner per item as CSV."),
+    jobs: int = typer.Option(0, "--jobs", min=0, help=SCREENINGS_JOBS_HELP),
 ):
     """Screen the rotor at every corner of its bearings' tolerances: each quantity given a
     range in the rotor file (clearance_range, preload_range, inlet_temperature_range) at its
@@ -51,7 +52,8 @@ def command(
     started = time.perf_counter()
     with progress_bar(f"screening the nominal rotor and {len(variants)} corner(s)",
                       len(variants) + 1) as bar, input_errors():
-        envelope = tolerance_envelope(rotor, progress=bar, with_sources=with_sources)
+        envelope = tolerance_envelope(rotor, progress=bar, with_sources=with_sources,
+                                      workers=jobs)
     elapsed = time.perf_counter() - started
     warnings = print_comparison(rotor, envelope.comparison, variants,
                                 base_text="nominal: the rotor as described")

@@ -197,3 +197,25 @@ def test_the_refinement_solves_no_speed_twice_and_not_the_sweeps(monkeypatch):
     assert found and solved
     assert len(set(solved)) == len(solved), "a speed was solved twice"
     assert not set(solved) & set(result.speeds.tolist()), "a sweep speed was solved again"
+
+
+def test_what_if_screenings_do_not_depend_on_worker_count():
+    """compare (and the envelope, which is compare's) hands its screenings to worker
+    processes: the same rows, margins and sweeps on one worker or two, and the progress
+    told once per screening."""
+    from rotorcalc.analysis.whatif import compare
+    from rotorcalc.variants import read_variants
+    from tests.conftest import ROOT
+    _, rotor, variants = read_variants(ROOT / "cases" / "overhung_fan_variants.toml")
+    told = []
+    one = compare(rotor, variants, workers=1)
+    two = compare(rotor, variants, workers=2, progress=lambda done, total: told.append(done))
+    assert sorted(told) == list(range(1, len(variants) + 2))
+    assert len(one.rows) == len(two.rows) > 0
+    for a, b in zip(one.rows, two.rows):
+        assert (a.variant, a.base_speed, a.row.critical.speed, a.row.critical.eigenvalue,
+                a.row.margin, a.row.verdict) == (b.variant, b.base_speed, b.row.critical.speed,
+                                                 b.row.critical.eigenvalue, b.row.margin,
+                                                 b.row.verdict)
+    for a, b in zip(one.screenings, two.screenings):
+        assert np.array_equal(a.sweep.eigenvalues, b.sweep.eigenvalues, equal_nan=True)
