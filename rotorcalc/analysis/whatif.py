@@ -263,14 +263,16 @@ def _scaled(rotor, targets, factor):
 
 
 def stiffness_window(rotor, target=None, low=0.1, high=10.0, points=9, rtol=2e-3,
-                     progress=None, with_sources=False):
+                     progress=None, with_sources=False, workers=0):
     """The stiffness scale factors, around 1, for which every margin holds.
 
     Scales the four stiffness coefficients of the target bearing(s) (by
     default every bearing together, seals unchanged; or one, e.g.
     ``"bearing.DE"``, ``"bearing[0]"``), screens the rotor on a log grid of
-    factors, and refines each end of the passing interval that contains 1 by
-    Brent's method on the margin excess.  Amplification factors are
+    factors (the screenings in worker processes: ``workers``, 0 for one per core; the
+    result is the same for any number), and refines each end of the passing interval
+    that contains 1 by Brent's method on the margin excess, from the scan's values at
+    the bracket's ends (each factor screened once).  Amplification factors are
     estimated from the log decrement (the unbalance response is not run).
 
     Returns
@@ -282,17 +284,27 @@ def stiffness_window(rotor, target=None, low=0.1, high=10.0, points=9, rtol=2e-3
     factors = window_factors(low, high, points)
     total = [0]
 
-    def evaluate(f):
-        excess, limiting = margin_excess(screen(_scaled(rotor, targets, f)))
-        total[0] += 1
+    def told(done, _):
+        total[0] = done
         if progress is not None:
-            progress(total[0], None)
-        return excess, limiting
+            progress(done, None)
 
-    scan = [evaluate(f) for f in factors]
+    def evaluate(f):
+        found = _window_point(rotor, targets, f)
+        told(total[0] + 1, None)
+        return found
+
+    scan = run_all(_window_point, [(rotor, targets, f) for f in factors], workers, told)
     excess = np.array([e for e, _ in scan])
     one = int(np.argmin(abs(factors - 1.0)))
     base_ok = excess[one] >= 0
+    # log(factor) -> excess: Brent's method evaluates its bracket's ends again
+    known = {math.log(f): e for f, e in zip(factors, excess)}
+
+    def g(s):
+        if s not in known:
+            known[s] = evaluate(math.exp(s))[0]
+        return _finite(known[s])
 
     def end(step):
         if not base_ok:
@@ -304,11 +316,9 @@ def stiffness_window(rotor, target=None, low=0.1, high=10.0, points=9, rtol=2e-3
             return WindowEnd(None, None, f"margins hold up to the end of the search "
                                          f"(x{factors[i]:g})")
         a, b = sorted((factors[i], factors[i + step]))
-        g = lambda f: evaluate(f)[0]  # noqa: E731
         # work in log(factor) so the tolerance is relative
         try:
-            root = math.exp(brentq(lambda s: _finite(g(math.exp(s))), math.log(a), math.log(b),
-                                   xtol=rtol))
+            root = math.exp(brentq(g, math.log(a), math.log(b), xtol=rtol))
         except ValueError:
             root = factors[i]
         # the critical that fails just outside the window limits it
@@ -317,6 +327,11 @@ def stiffness_window(rotor, target=None, low=0.1, high=10.0, points=9, rtol=2e-3
 
     label = target or "all bearings (seals unchanged)"
     return StiffnessWindow(label, factors, excess, end(-1), end(+1), bool(base_ok))
+
+
+def _window_point(rotor, targets, factor):
+    """(margin excess, limiting critical) of the rotor with the targets' stiffness scaled."""
+    return margin_excess(screen(_scaled(rotor, targets, factor)))
 
 
 def _finite(x):

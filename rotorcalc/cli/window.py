@@ -13,7 +13,8 @@ from ..errors import InputError
 from ..tables import WINDOW_END_COLUMNS, WINDOW_SCAN_COLUMNS
 from ..units import to_rpm
 from ..analysis.whatif import WINDOW_CAPTION, WINDOW_DEFAULT
-from .common import console, fail_input, input_errors, load, print_table, write_outputs
+from .common import (SCREENINGS_JOBS_HELP, console, fail_input, input_errors, load,
+                     print_table, write_outputs)
 from .criticals import apply_overrides
 from .whatif_common import (bearing_target, check_outputs, command_help, critical_text, heading,
                             progress_bar, with_sources_option, without_response)
@@ -22,7 +23,7 @@ WINDOW_EXAMPLE = ('[bold]Example[/]: rotorcalc window cases/overhung_fan.toml --
                   '--factor-from 0.2 --factor-to 5 --json window.json')
 
 
-def run_window(rotor, target, target_text, low, high, factors, with_sources=False):
+def run_window(rotor, target, target_text, low, high, factors, with_sources=False, jobs=0):
     """Find the window with a progress bar and print its ends and scan."""
     from ..analysis.whatif import stiffness_window, window_factors
     grid = len(window_factors(low, high, factors))
@@ -37,7 +38,7 @@ def run_window(rotor, target, target_text, low, high, factors, with_sources=Fals
         with input_errors():
             result = stiffness_window(without_response(rotor), target=target, low=low,
                                       high=high, points=factors, progress=progress,
-                                      with_sources=with_sources)
+                                      with_sources=with_sources, workers=jobs)
     elapsed = time.perf_counter() - started
     print_window(rotor, result, target_text)
     if rotor.unbalance:
@@ -85,6 +86,7 @@ def command(
     with_sources: bool = with_sources_option(),
     json_path: Optional[Path] = typer.Option(None, "--json", help="Write the window as JSON."),
     csv_path: Optional[Path] = typer.Option(None, "--csv", help="Write the scan as CSV."),
+    jobs: int = typer.Option(0, "--jobs", min=0, help=SCREENINGS_JOBS_HELP),
 ):
     """Stiffness window: the range of a bearing-stiffness scale factor (one bearing, or all
     together) over which every critical speed keeps its required separation margin, with the
@@ -98,7 +100,7 @@ def command(
                                        "--factor-from 0.1 --factor-to 10",
                               kind="range"))
     target, target_text = bearing_target(rotor, bearing)
-    result = run_window(rotor, target, target_text, low, high, factors, with_sources)
+    result = run_window(rotor, target, target_text, low, high, factors, with_sources, jobs)
     console.print(f"[dim]{CAUTION}[/]", highlight=False)
     write_outputs("window", case, result.to_dict(), (), json_path, csv_path,
                   WINDOW_SCAN_COLUMNS, result.scan_rows())
