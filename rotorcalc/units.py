@@ -17,7 +17,24 @@ import pint
 
 from .errors import InputError
 
-_UREG = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+
+
+def _registry():
+    """pint's registry, its parsed definitions kept between runs in the cache folder's
+    ``units`` (:mod:`rotorcalc.cache`; a tenth of the time of parsing them, which every
+    command paid); built afresh when the cache is off or cannot be used."""
+    from .cache import folder
+    where = folder()
+    if where is not None:
+        try:
+            return pint.UnitRegistry(autoconvert_offset_to_baseunit=True,
+                                     cache_folder=where / "units")
+        except Exception:       # a folder that cannot be written, a damaged file: parsed anew
+            pass
+    return pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+
+
+_UREG = _registry()
 _UREG.define("cycles_per_minute = revolution / minute = cpm")
 _UREG.define("@alias revolution = rev")
 _UREG.define("@alias revolutions_per_minute = RPM")

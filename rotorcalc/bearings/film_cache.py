@@ -24,19 +24,7 @@ import pickle
 import sys
 from pathlib import Path
 
-#: The environment variable naming the folder (``off``: keep nothing).
-ENV = "ROTORCALC_CACHE"
-
-
-def folder():
-    """The cache folder, or None when the environment turns it off."""
-    where = os.environ.get(ENV, "").strip()
-    if where.lower() == "off":
-        return None
-    if where:
-        return Path(where)
-    base = os.environ.get("XDG_CACHE_HOME", "").strip() or Path.home() / ".cache"
-    return Path(base) / "rotorcalc" / "films"
+from ..cache import ENV, folder  # noqa: F401 (the film tables' folder)
 
 
 @functools.lru_cache(maxsize=1)
