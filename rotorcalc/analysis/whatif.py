@@ -282,16 +282,16 @@ def stiffness_window(rotor, target=None, low=0.1, high=10.0, points=9, rtol=2e-3
     targets = window_targets(rotor, target)
     rotor = dataclasses.replace(what_if_rotor(rotor, with_sources), unbalance=())
     factors = window_factors(low, high, points)
-    total = [0]
+    count = [0]
 
-    def told(done, _):
-        total[0] = done
+    def told(*_):                   # after each screening, the scan's and the ends'
+        count[0] += 1
         if progress is not None:
-            progress(done, None)
+            progress(count[0], None)
 
     def evaluate(f):
         found = _window_point(rotor, targets, f)
-        told(total[0] + 1, None)
+        told()
         return found
 
     scan = run_all(_window_point, [(rotor, targets, f) for f in factors], workers, told)

@@ -69,13 +69,9 @@ def land_grid(start, end, n_theta, n_z, length, closed):
     return LandGrid(start + dtheta * np.arange(count), dtheta, 0.5 * length / n_z, n_z, closed)
 
 
-def _faces(grid):
-    """Node pairs ``(a, b)`` of the circumferential and the axial faces (flat indices)."""
-    return _faces_of(*grid.shape, grid.closed)
-
-
 @functools.lru_cache(maxsize=64)
 def _faces_of(ni, nj, closed):
+    """Node pairs ``(a, b)`` of the circumferential and the axial faces (flat indices)."""
     index = np.arange(ni * nj).reshape(ni, nj)
     if closed:
         circ = (index, np.roll(index, -1, axis=0))
@@ -191,10 +187,9 @@ def assemble(grid, h_node, h_face, h_dot, *, radius, viscosity, surface_speed):
     wz = grid.z_weights()
     k = 1.0 / (12.0 * viscosity)
     arc = radius * grid.dtheta
-    za = _faces(grid)[1][0]
     a, b, pos, width, row, col = _layout(ni, nj, grid.closed)
     g_circ = (k * h_face[:, None] ** 3 / arc) * wz[None, :]
-    g_axial = np.broadcast_to((k * h_node[:, None] ** 3) * arc / grid.dz, za.shape)
+    g_axial = np.broadcast_to((k * h_node[:, None] ** 3) * arc / grid.dz, (ni, nj - 1))
     # Couette inflow U/2 (h_west - h_east) and squeeze -dh/dt over each control volume
     if grid.closed:
         h_east, h_west = h_face, np.roll(h_face, 1)

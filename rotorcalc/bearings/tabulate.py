@@ -10,11 +10,11 @@ The coefficients scatter a little from one speed to the next (the cavitation bou
 moves across the film grid's cells: up to 3 % of the damping matrix at high eccentricity
 on the default 72 x 12 grid, about 0.6 % on 240 x 12), so they are not interpolated point
 to point but smoothed: each coefficient is a smoothing spline in log speed, its smoothing chosen
-by generalised cross-validation (``scipy.interpolate.make_smoothing_spline``; ``_smooth``), fitted
-through :data:`START_POINTS` speeds spaced evenly on a log scale over
-:func:`film_speed_range`.  The fit is then checked where it was not fitted: at the
-geometric midpoints the coefficients are solved anew and compared with it (relative
-difference, Frobenius norm of the stiffness and of the damping matrix, the worst film
+by generalised cross-validation (``scipy.interpolate.make_smoothing_spline``;
+:mod:`rotorcalc.bearings.smoothing`), fitted through :data:`START_POINTS` speeds spaced
+evenly on a log scale over :func:`film_speed_range`.  The fit is then checked where it was
+not fitted: at the geometric midpoints the coefficients are solved anew and compared with
+it (relative difference, Frobenius norm of the stiffness and of the damping matrix, the worst film
 journal).  Where the largest difference exceeds ``tolerance`` the midpoints join the
 fit and new midpoints check it, up to ``max_points`` solved speeds.  The final fit,
 through every solved speed, is tabulated at :data:`TABLE_POINTS` speeds; the largest
@@ -37,7 +37,6 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.interpolate import make_smoothing_spline
 
 from ..errors import SolverError
 from ..notices import Notice
@@ -47,6 +46,7 @@ from ..statics import static_solution
 from ..unbalance import ResponseSettings
 from ..workers import run_all
 from . import film_cache
+from .smoothing import smooth
 
 #: Speeds of the first fit; the fit is tabulated at TABLE_POINTS speeds.
 START_POINTS = 9
@@ -211,21 +211,19 @@ def journal_static_loads(rotor, speed=None):
     rotor with film journals, kept on disk beside its tables, their searches started
     from the nearest state its tables solved (a cold start costs about ten times the
     film solves)."""
-    speed = float(rotor.operating.max_speed if speed is None else speed)
-    if not any(b.film is not None for b in rotor.bearings):
-        return dict(_journal_loads(rotor, speed))
-    return dict(_journal_loads(_key(rotor), speed))
+    return dict(_journal_loads(_key(rotor), float(rotor.operating.max_speed if speed is None
+                                                  else speed)))
 
 
 @functools.lru_cache(maxsize=16)
 def _journal_loads(rotor, speed):
+    solved = _SOLVED.get(rotor)
+    starts = solved[min(solved, key=lambda s: abs(math.log(s / speed)))] if solved else None
+
     def solve():
-        solved = _SOLVED.get(rotor)
-        starts = None if not solved else solved[min(solved, key=lambda s: abs(math.log(
-            s / speed)))]
         return tuple(journal_loads_at(rotor, speed, starts=starts).items())
     if not any(b.film is not None for b in rotor.bearings):
-        return tuple(journal_loads_at(rotor, speed).items())
+        return solve()
     return film_cache.fetch(("journal-loads", rotor, speed), solve)
 
 
@@ -361,75 +359,12 @@ def _regime(state):
     return tuple(getattr(state, "idle_pads", ()))
 
 
-#: Smoothing weights tried by the cross-validation (in units of log speed); the limits are
-#: the interpolating spline and the straight line.
-LAMBDAS = np.logspace(-10.0, 4.0, 57)
-
-
-def _smooth(speeds, values, at, regimes=None):
-    """Each column of ``values`` (over increasing ``speeds``, shape ``(n, ...)``) as a
-    smoothing spline in log speed, read at ``at``; piecewise where the ``regimes`` (one per
-    speed) change: one fit per run of neighbouring speeds in the same regime (a pad that
-    picks up its film changes the coefficients by a step, which one smooth curve cannot
-    follow), each read from halfway (in log speed) to the run before to halfway to the run
-    after.  A run of fewer than five speeds is interpolated linearly.
-
-    Each column's smoothing weight is chosen by generalised cross-validation among
-    :data:`LAMBDAS`: a smoothing spline with a given weight is linear in the data, so the
-    fits of every column (every coefficient at every whirl frequency) are products with
-    the smoother's matrices, made once per run (``scipy.interpolate.make_smoothing_spline``
-    on the unit vectors)."""
-    u, v = np.log(speeds), np.log(at)
-    values = np.asarray(values, dtype=float)
-    flat = values.reshape(len(u), -1)
-    regimes = [()] * len(u) if regimes is None else list(regimes)
-    starts = [0] + [i for i in range(1, len(u)) if regimes[i] != regimes[i - 1]]
-    ends = starts[1:] + [len(u)]
-    out = np.empty((len(v), flat.shape[1]))
-    for a, b in zip(starts, ends):
-        low = -np.inf if a == 0 else 0.5 * (u[a - 1] + u[a])
-        high = np.inf if b == len(u) else 0.5 * (u[b - 1] + u[b])
-        here = (v >= low) & (v < high)
-        if b - a >= 5:
-            out[here] = _cross_validated(u[a:b], flat[a:b], v[here])
-        else:
-            for j, column in enumerate(flat[a:b].T):
-                out[here, j] = np.interp(v[here], u[a:b], column)
-    return out.reshape((len(v),) + values.shape[1:])
-
-
-def _cross_validated(u, y, v):
-    """Columns of ``y`` (over ``u``) smoothed, each with the weight of :data:`LAMBDAS` of
-    least generalised cross-validation score ``n |y - S y|^2 / (n - tr S)^2``, read at
-    ``v``."""
-    n = len(u)
-    fits, reads = _smoothers(tuple(u), tuple(v))
-    scores = [n * np.sum((y - fit @ y) ** 2, axis=0) / (n - np.trace(fit)) ** 2
-              for fit in fits]
-    best = np.argmin(np.array(scores), axis=0)
-    return np.column_stack([reads[k] @ y[:, j] for j, k in enumerate(best)])
-
-
-@functools.lru_cache(maxsize=64)
-def _smoothers(u, v):
-    """For each weight of :data:`LAMBDAS`, the smoothing spline through ``u`` as matrices:
-    its values at ``u`` (``S``) and at ``v`` from the data at ``u``.  They depend on the
-    speeds only, which every variant of a rotor shares."""
-    u, eye = np.array(u), np.eye(len(u))
-    fits, reads = [], []
-    for lam in LAMBDAS:
-        spline = make_smoothing_spline(u, eye, lam=lam)
-        fits.append(spline(u))
-        reads.append(spline(np.array(v)) if len(v) else np.empty((0, len(u))))
-    return fits, reads
-
-
 def _fit_error(solved, films, fitted, checks):
     """Largest relative difference, stiffness or damping matrix, between the fit through
     ``fitted`` and the solves at ``checks``."""
     worst = 0.0
     for i in films:
-        fit = _smooth(np.array(fitted), _values([solved[s][i] for s in fitted]), checks,
+        fit = smooth(np.array(fitted), _values([solved[s][i] for s in fitted]), checks,
                       [_regime(solved[s][i]) for s in fitted])
         direct = _values([solved[s][i] for s in checks])
         for part in (slice(0, 4), slice(4, 8)):
@@ -447,10 +382,10 @@ def _tabled(bearing, speeds, table, states, error, notes):
         whirl = np.r_[0.0, np.geomspace(WHIRL_LOW * table[0], WHIRL_TOP * table[-1],
                                         WHIRL_POINTS)]
         solved = np.stack([_reduced(s, whirl) for s in states])        # (speed, whirl, 8)
-        values = _smooth(speeds, solved, table, regimes)
+        values = smooth(speeds, solved, table, regimes)
         whirl_error = _whirl_error(states, whirl, solved)
     else:
-        values = _smooth(speeds, _values(states), table, regimes)
+        values = smooth(speeds, _values(states), table, regimes)
     eq = [s.equilibrium for s in states]
     steps = [max(s.step_change) for s in states if not math.isnan(s.step_change[0])]
     own = [w for s in states for w in s.warnings if getattr(w, "code", "") != "idle-pad"]
