@@ -13,6 +13,7 @@ import math
 CODES = {
     "table-range": "a speed lies outside a bearing's coefficient table (end values held)",
     "solver-doubt": "a sparse eigen-solve could not prove it missed no mode",
+    "reduced-basis": "a reduced-basis solve missed its certificate: solved in the full model",
     "rigid-body": "the rotor is not fully supported: rigid-body modes at zero frequency",
     "growth": "a non-oscillating motion grows (static divergence)",
     "unstable-response": "no steady state where a mode is unstable",

@@ -100,6 +100,8 @@ def _scaling(m, k):
 def scaled_pencil(m, d_mat, k):
     """Dense scaled state-space pencil ``(A, B)`` and the scaling used.
 
+    ``m, d_mat, k`` are sparse, or small dense arrays (a reduced model's).
+
     Returns
     -------
     a, b : ndarray (2n, 2n)
@@ -109,10 +111,12 @@ def scaled_pencil(m, d_mat, k):
         Reference frequency ``s`` of the scaled state.
     """
     scale, ref = _scaling(m, k)
-    inv = sp.diags(1.0 / scale)
-    mh = (inv @ m @ inv).toarray()
-    kh = (inv @ k @ inv).toarray()
-    dh = (inv @ d_mat @ inv).toarray()
+    if sp.issparse(m):
+        inv = sp.diags(1.0 / scale)
+        mh, kh, dh = ((inv @ x @ inv).toarray() for x in (m, k, d_mat))
+    else:   # small dense matrices (a reduced model's)
+        inv = 1.0 / scale
+        mh, kh, dh = (np.asarray(x) * inv[:, None] * inv[None, :] for x in (m, k, d_mat))
     n = mh.shape[0]
     eye, zero = np.eye(n), np.zeros((n, n))
     a = np.block([[zero, ref * eye], [-kh / ref, -dh]])
@@ -162,10 +166,14 @@ class DenseSolver:
         a, b, scale, ref = scaled_pencil(m, d_mat, k)
         n = m.shape[0]
         mass_diag = m.diagonal()
+        lower = None
         if np.all(mass_diag > 0):
+            try:
+                lower = la.cho_factor(b[n:, n:], lower=True, check_finite=False)
+            except la.LinAlgError:   # positive diagonal, yet not positive definite
+                lower = None
+        if lower is not None:
             # Positive-definite mass: the standard problem B^-1 A is cheaper than QZ.
-            mh = b[n:, n:]
-            lower = la.cho_factor(mh, lower=True, check_finite=False)
             a2 = a.copy()
             a2[n:, :] = la.cho_solve(lower, a[n:, :], check_finite=False)
             values, vectors = la.eig(a2, check_finite=False)

@@ -138,7 +138,8 @@ def critical_speeds(rotor_or_system, result: Sweep | None = None, orders=None, s
                 brackets.append((float(order), j, speeds[k], speeds[k + 1],
                                  result.eigenvalues[k, j], result.shapes[k, j],
                                  result.eigenvalues[k + 1, j], result.shapes[k + 1, j]))
-    workers = min(worker_count(workers), len(brackets))
+    workers = 1 if getattr(solver, "in_process", False) else \
+        min(worker_count(workers), len(brackets))
     if workers <= 1:
         found = [_refine(system, b, n_solve, solver) for b in brackets]
     else:

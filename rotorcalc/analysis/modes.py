@@ -314,7 +314,10 @@ def modes_at(rotor_or_system, speed, mode_count=None, solver=None, near=None, wh
     basis = system.rigid_body_basis(speed)
     zeros = system.zero_eigenvalues(speed, basis, d_mat)
     try:
-        if near is None:
+        if hasattr(solve, "solve_at"):     # a solver bound to the system (reduced basis)
+            pairs = solve.solve_at(system, speed, n, near, zeros, whirl, d_mat=d_mat,
+                                   k_mat=k_mat)
+        elif near is None:
             pairs = solve(system.mass, d_mat, k_mat, n, zeros=zeros)
         else:
             pairs = solve(system.mass, d_mat, k_mat, n, near=near, zeros=zeros)

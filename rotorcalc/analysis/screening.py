@@ -14,7 +14,8 @@ from .criticals import critical_speeds
 from .margins import Judgement, MarginTable, required_margin, separation_margins
 from .response import Response, unbalance_response
 from .stability import Stability, stability
-from .sweep import Sweep, sweep
+from .reduced import sweep_solver
+from .sweep import Sweep, default_speeds, sweep
 
 
 @old_keywords(kind="gap")
@@ -118,6 +119,8 @@ def screen(rotor: Rotor, speeds=None, orders=None, solver=None, progress=None,
     """
     system = assemble(rotor)
     system.require_support()
+    # one solver for the sweep and every refinement: a reduced basis is built once
+    solver = sweep_solver(system, default_speeds(rotor) if speeds is None else speeds, solver)
     result = sweep(system, speeds=speeds, solver=solver, progress=progress, workers=workers)
     stab = stability(system, result, solver=solver)
     crits = tuple(critical_speeds(system, result, orders=orders, solver=solver,

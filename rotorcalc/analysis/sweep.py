@@ -19,6 +19,7 @@ from ..model import Rotor
 from ..notices import Notice, record
 from ..units import to_hz, to_rpm
 from ..workers import worker_count, worker_pool  # noqa: F401 (the sweep's options)
+from .reduced import Reduction, sweep_solver
 from .modes import forward_fraction, log_decrement, modes_at, read_only, whirl_label
 from .tracking import track
 
@@ -87,6 +88,9 @@ class Sweep:
     growth : ndarray (n_speeds,)
         Largest non-oscillatory eigenvalue found at each speed, rad/s (-inf
         where there is none): above zero, the rotor diverges without whirling.
+    reduction : Reduction or None
+        The basis size and largest certified residual when the sweep was solved on
+        a reduced basis (:mod:`rotorcalc.analysis.reduced`); None for full solves.
     """
 
     speeds: np.ndarray
@@ -96,6 +100,7 @@ class Sweep:
     station_nodes: np.ndarray
     warnings: tuple = ()
     growth: np.ndarray | None = None
+    reduction: Reduction | None = None
 
     def __post_init__(self):
         read_only(self)
@@ -151,6 +156,7 @@ class Sweep:
                 for j in range(self.eigenvalues.shape[1])
             ],
             "warnings": [record(w) for w in self.warnings],
+            "reduced_basis": None if self.reduction is None else self.reduction.to_dict(),
         }
 
 
@@ -172,8 +178,11 @@ def sweep(rotor_or_system, speeds=None, mode_count=None, solver=None, progress=N
         Every branch that is among the ``mode_count`` lowest modes at some speed is
         reported; defaults to ``settings.mode_count``.
     solver : callable, optional
-        From :func:`rotorcalc.solvers.make_solver` (``"auto"`` by default); with
-        ``workers > 1`` it must be picklable (the package's solvers are).
+        From :func:`rotorcalc.solvers.make_solver`, or a
+        :class:`~rotorcalc.analysis.reduced.ReducedSolver`; by default the reduced
+        basis on large models over many speeds, else ``"auto"``
+        (:func:`~rotorcalc.analysis.reduced.sweep_solver`).  With ``workers > 1`` it
+        must be picklable (the package's solvers are).
     progress : callable, optional
         Called as ``progress(done, total)`` after each speed (after each batch
         of speeds with several workers).
@@ -190,13 +199,15 @@ def sweep(rotor_or_system, speeds=None, mode_count=None, solver=None, progress=N
         else assemble(rotor_or_system)
     speeds = default_speeds(system.rotor) if speeds is None else np.asarray(speeds, dtype=float)
     n = system.rotor.settings.mode_count if mode_count is None else mode_count
+    solver = sweep_solver(system, speeds, solver)
     solved = solve_speeds(system, speeds, n + TRACKING_RESERVE, solver, progress, workers)
     values, shapes = branches_from(solved, n)
     warnings = list(system.table_warnings(speeds))
     warnings.extend(_solver_warnings(solved, speeds))
     growth = np.array([m.growth for m in solved])
+    reduction = solver.summary(system) if hasattr(solver, "summary") else None
     return Sweep(speeds, values, shapes, system.mesh.node_z, system.mesh.station_nodes,
-                 tuple(warnings), growth)
+                 tuple(warnings), growth, reduction)
 
 
 @dataclass(frozen=True)
@@ -225,7 +236,8 @@ BATCHES_PER_WORKER = 4
 
 def solve_speeds(system, speeds, n_solve, solver=None, progress=None, workers=1):
     """:class:`Solved` modes at every speed, in order, with ``workers`` processes."""
-    workers = min(worker_count(workers), len(speeds))
+    workers = 1 if getattr(solver, "in_process", False) else \
+        min(worker_count(workers), len(speeds))
     if workers <= 1:
         out = []
         for i, speed in enumerate(speeds):
@@ -250,13 +262,13 @@ def _solver_warnings(solved, speeds):
     seen = {}
     for m, speed in zip(solved, speeds):
         for w in m.warnings:
-            if getattr(w, "code", None) == "solver-doubt":
+            if getattr(w, "code", None) in ("solver-doubt", "reduced-basis"):
                 # drop the numbers in parentheses (they differ per speed), keep the rest
                 text = re.sub(r" \([^)]*\)", "", w)
-                seen.setdefault(text, []).append(speed)
+                seen.setdefault((text, w.code), []).append(speed)
     return [Notice(f"{text} at {len(at)} of {len(speeds)} speeds (first at "
-                   f"{to_rpm(at[0]):.0f} rpm)", "solver-doubt", at)
-            for text, at in seen.items()]
+                   f"{to_rpm(at[0]):.0f} rpm)", code, at)
+            for (text, code), at in seen.items()]
 
 
 def branches_from(solved, n):

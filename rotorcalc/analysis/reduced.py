@@ -1,0 +1,389 @@
+"""Reduced-basis eigen-solves for speed sweeps, every eigenpair certified in the full model.
+
+The lowest modes of a rotor over a speed range live in a small subspace.  The
+model is projected once onto a basis ``V`` of
+
+* the undamped modes of a *reference system* (shaft, supports, and every
+  bearing's direct stiffness at the middle of the sweep; no damping, no
+  gyroscopics), :data:`MODES_PER_MODE` per mode solved plus :data:`EXTRA_MODES`;
+* static correction vectors: the reference system's deflection under a unit
+  force at every bearing, seal and support DOF and a unit moment at every disk,
+  where the speed-dependent coefficients and the gyroscopic coupling act;
+
+and each speed solves the small dense pencil ``(V^T M V, V^T D V, V^T K V)``.  The
+constant parts are projected once; a bearing whose coefficients change with speed
+changes only its few-DOF term, through the rows of ``V`` at its DOFs.
+
+Every eigenpair returned is certified in the full model by its preconditioned
+relative residual
+
+    eta = |S P Q(lam) x| / |S x|,   Q(lam) = lam^2 M + lam D + K,   P = (K0 - sigma M)^-1,
+
+with ``K0`` the reference stiffness, ``sigma`` a small negative shift and ``S`` the
+DOF scaling of the solvers (square root of the mass diagonal).  For a mode near one
+of the reference system's, ``eta`` is to first order twice the relative error of the
+eigenvalue, and it measures the vector's error in an energy-like norm (docs/theory.md,
+"Reduced-basis sweeps").  While the basis is built, the residual vectors ``P Q x``
+of the pairs above :data:`TOLERANCE` at a few sample speeds are added to it until
+every one passes, and full-model solves at the two end samples check that no mode
+is missing.  After that the basis is fixed (results do not depend on the order of
+the speeds); a speed where a returned pair still misses the tolerance, or where the
+reduced model shows a growing non-oscillating motion, is solved in the full model.
+Nothing is silent: :meth:`ReducedSolver.summary` reports the basis size, the largest
+residual certified and the speeds solved in full.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, replace
+
+import numpy as np
+import scipy.linalg as la
+import scipy.sparse as sp
+import scipy.sparse.linalg as spla
+from scipy.sparse.csgraph import reverse_cuthill_mckee
+
+from ..fe import bearing as fe_bearing
+from ..notices import Notice
+from ..solvers import BAND_LIMIT, AutoSolver, DenseSolver, _scaling, make_solver
+
+#: Largest preconditioned relative residual accepted (about twice the relative
+#: eigenvalue error, to first order): the eigenvalues then agree with the full
+#: solve's to about 1e-8 relative, measured (docs/performance.md).
+TOLERANCE = 1e-7
+#: Undamped reference modes in the first basis, per mode solved (a whirl mode
+#: pair comes from two planar modes), and beyond.
+MODES_PER_MODE = 2
+EXTRA_MODES = 8
+#: Speeds, spread over the sweep, at which the basis is enriched and checked.
+SAMPLES = 9
+#: Enrichment rounds before the basis is left as it is (speeds that fail then
+#: are solved in the full model).
+ROUNDS = 6
+#: Residual directions are kept down to this share of the largest one.
+KEEP = 1e-2
+#: Relative distance within which a full-model eigenvalue must have a reduced one
+#: in the end-sample check (a missing mode is off by far more).
+MATCH = 1e-5
+#: Shift of the reference pencil, a share of the solvers' reference frequency
+#: squared: below zero, so that ``K0 - sigma M`` is regular for a free rotor too.
+SHIFT = 1e-8
+#: Below this share of the DOFs in the first basis, the reduction pays; above it
+#: the basis is the identity (the reduced model is the full one).
+MAX_SHARE = 0.5
+
+
+@dataclass(frozen=True)
+class Reduction:
+    """What a reduced-basis study used and certified.
+
+    Attributes
+    ----------
+    basis_size : int
+        Columns of the final basis (the full model has ``dofs``).
+    dofs : int
+    largest_residual : float
+        Largest certified residual of a returned eigenpair (see the module).
+    tolerance : float
+    rounds : int
+        Enrichment rounds the basis took.
+    full_solves : tuple of float
+        Speeds (rad/s) solved in the full model because a reduced pair missed the
+        tolerance there.
+    """
+
+    basis_size: int
+    dofs: int
+    largest_residual: float
+    tolerance: float
+    rounds: int
+    full_solves: tuple = ()
+
+    def to_dict(self):
+        return {"basis_size": self.basis_size, "dofs": self.dofs,
+                "largest_residual": self.largest_residual, "tolerance": self.tolerance,
+                "enrichment_rounds": self.rounds,
+                "speeds_solved_in_full_rad_s": [float(v) for v in self.full_solves]}
+
+
+def _links(system):
+    return system.links + system.source_links
+
+
+def _reference_stiffness(system, speed):
+    """Shaft, supports and every bearing's direct stiffness (kxx, kyy, not below 0)."""
+    rows, cols, data = [], [], []
+    for link in _links(system):
+        k2 = link.bearing.matrices(speed)[0]
+        direct = np.diag(np.maximum(np.diag(k2), 0.0))
+        local = fe_bearing.grounded(direct) if len(link.dofs) == 2 else fe_bearing.linked(direct)
+        r, c = np.meshgrid(link.dofs, link.dofs, indexing="ij")
+        rows.append(r.ravel())
+        cols.append(c.ravel())
+        data.append(local.ravel())
+    k0 = system.shaft_stiffness + system.support_stiffness
+    if rows:
+        k0 = k0 + sp.coo_matrix((np.concatenate(data), (np.concatenate(rows),
+                                                        np.concatenate(cols))),
+                                shape=k0.shape).tocsr()
+    return k0
+
+
+class _BandedCholesky:
+    """``solve(b) = A^-1 b`` for a symmetric positive definite sparse ``A``: LAPACK's
+    banded Cholesky after a reverse Cuthill-McKee reordering (a shaft's matrices are
+    banded), SuperLU when the band is wide or the factorization fails."""
+
+    def __init__(self, a):
+        a = sp.csr_matrix(a)
+        self.perm = reverse_cuthill_mckee(a, symmetric_mode=True)
+        b = a[self.perm][:, self.perm].tocoo()
+        band = int(np.abs(b.row - b.col).max()) if b.nnz else 0
+        self.factor = None
+        if band <= BAND_LIMIT:
+            upper = b.row <= b.col
+            ab = np.zeros((band + 1, a.shape[0]))
+            ab[band + b.row[upper] - b.col[upper], b.col[upper]] = b.data[upper]
+            try:
+                self.factor = la.cholesky_banded(ab, check_finite=False)
+            except la.LinAlgError:
+                self.factor = None
+        if self.factor is None:
+            self.lu = spla.splu(sp.csc_matrix(a))
+
+    def solve(self, rhs):
+        if self.factor is None:
+            return self.lu.solve(rhs)
+        out = np.empty_like(rhs)
+        out[self.perm] = la.cho_solve_banded((self.factor, False), rhs[self.perm],
+                                             check_finite=False)
+        return out
+
+
+class ReducedModel:
+    """One system projected on a certified basis (built once; see the module)."""
+
+    def __init__(self, system, n_solve, samples, tolerance=TOLERANCE):
+        self.system, self.n_solve, self.tolerance = system, n_solve, tolerance
+        m = system.mass
+        samples = np.asarray(samples, dtype=float)
+        k0 = _reference_stiffness(system, float(np.median(samples)))
+        self.scale, ref = _scaling(m, k0)
+        self.lu = _BandedCholesky(k0 + SHIFT * ref ** 2 * m)
+        self.largest, self.full_solves, self.rounds = 0.0, [], 0
+        n = system.n_dof
+        n_modes = MODES_PER_MODE * n_solve + EXTRA_MODES
+        if n_modes >= MAX_SHARE * n:
+            self._set_basis(np.eye(n))
+            return
+        op = spla.LinearOperator((n, n), matvec=self.lu.solve, dtype=float)
+        v0 = np.random.default_rng(0).standard_normal(n)
+        _, modes = spla.eigsh(k0, k=n_modes, M=m, sigma=-SHIFT * ref ** 2, OPinv=op, v0=v0)
+        self._set_basis(self._orthonormal(np.hstack([modes, self.lu.solve(self._loads())])))
+        self._enrich(samples[np.unique(np.linspace(0, len(samples) - 1,
+                                                   SAMPLES).round().astype(int))])
+
+    # --- the basis ------------------------------------------------------------------
+
+    def _loads(self):
+        """Unit forces at every bearing, seal and support DOF; unit moments at the disks."""
+        system = self.system
+        dofs = {int(d) for link in _links(system) for d in link.dofs}
+        for disk in system.rotor.disks:
+            if disk.polar_inertia > 0 or disk.transverse_inertia > 0:
+                node = system.mesh.station_nodes[disk.station]
+                dofs.update(system.node_dofs(node)[2:].tolist())
+        loads = np.zeros((system.n_dof, len(dofs)))
+        loads[sorted(dofs), np.arange(len(dofs))] = 1.0
+        return loads
+
+    def _orthonormal(self, vectors, basis=None):
+        """Columns orthonormal in the scaled norm, spanning ``vectors`` (less ``basis``)."""
+        w = vectors * self.scale[:, None]
+        w = w / np.maximum(np.linalg.norm(w, axis=0), 1e-300)
+        if basis is not None:
+            b = basis * self.scale[:, None]
+            for _ in range(2):       # twice is enough (Kahan, Parlett)
+                w = w - b @ (b.T @ w)
+        u, sv, _ = la.svd(w, full_matrices=False)
+        keep = sv > (KEEP if basis is not None else 1e-10) * max(sv[0], 1e-300) \
+            if len(sv) else sv > 0
+        return u[:, keep] / self.scale[:, None]
+
+    def _set_basis(self, v):
+        s = self.system
+        self.v = v
+        self.m = v.T @ (s.mass @ v)
+        self.g = v.T @ (s.gyroscopic @ v)
+        self.k = v.T @ ((s.shaft_stiffness + s.support_stiffness) @ v)
+        self.c = v.T @ (s.support_damping @ v)
+        self.rows = [v[link.dofs] for link in _links(s)]
+
+    def _enrich(self, samples):
+        """Add residual vectors until every pair at the samples passes; check the ends."""
+        checked = False
+        for self.rounds in range(1, ROUNDS + 1):
+            directions = []
+            for speed in samples:
+                d_mat = self.system.damping(speed) + speed * self.system.gyroscopic
+                pairs = self._solve(speed, self.n_solve, None, None, None)
+                eta, z = self.certify(pairs.values, pairs.vectors, d_mat,
+                                      self.system.stiffness(speed))
+                bad = eta > self.tolerance
+                directions += [z[:, bad].real, z[:, bad].imag]
+            if not directions or sum(d.shape[1] for d in directions) == 0:
+                if checked:
+                    break
+                checked = True
+                directions = self._missing([samples[0], samples[-1]])
+                if not directions:
+                    break
+            new = self._orthonormal(np.hstack(directions), self.v)
+            if new.shape[1] == 0:
+                break
+            self._set_basis(np.hstack([self.v, new]))
+
+    def _missing(self, speeds):
+        """Full-model eigenvectors at ``speeds`` whose eigenvalue the reduced model lacks."""
+        out = []
+        for speed in speeds:
+            d_mat = self.system.damping(speed) + speed * self.system.gyroscopic
+            k_mat = self.system.stiffness(speed)
+            full = AutoSolver()(self.system.mass, d_mat, k_mat, self.n_solve)
+            mine = self._solve(speed, self.n_solve + EXTRA_MODES, None, None, None).values
+            for value, vector in zip(full.values, full.vectors.T):
+                if not len(mine) or np.min(np.abs(mine - value)) > MATCH * abs(value):
+                    out += [vector.real[:, None], vector.imag[:, None]]
+        return out
+
+    # --- one speed ------------------------------------------------------------------
+
+    def matrices(self, speed, whirl=None):
+        """The projected ``(M, D, K)`` at spin speed ``speed`` (rad/s)."""
+        k, c = self.k.copy(), self.c.copy()
+        for link, rows in zip(_links(self.system), self.rows):
+            k2, c2 = link.bearing.matrices(speed, whirl)
+            local = fe_bearing.grounded if len(link.dofs) == 2 else fe_bearing.linked
+            k += rows.T @ local(k2) @ rows
+            c += rows.T @ local(c2) @ rows
+        return self.m, c + speed * self.g, k
+
+    def _solve(self, speed, n_modes, near, zeros, whirl):
+        m, d, k = self.matrices(speed, whirl)
+        pairs = DenseSolver()(m, d, k, n_modes, near, zeros)
+        y = pairs.vectors     # real basis times complex vectors, without a complex copy of it
+        return replace(pairs, vectors=self.v @ y.real + 1j * (self.v @ y.imag))
+
+    def certify(self, values, vectors, d_mat, k_mat):
+        """Each pair's certified residual (see the module) and its residual vector ``P Q x``."""
+        s = self.system
+        r = (s.mass @ vectors) * values ** 2 + (d_mat @ vectors) * values + k_mat @ vectors
+        z = self.lu.solve(np.ascontiguousarray(r.real)) \
+            + 1j * self.lu.solve(np.ascontiguousarray(r.imag))
+        size = np.linalg.norm(vectors * self.scale[:, None], axis=0)
+        eta = np.linalg.norm(z * self.scale[:, None], axis=0) / np.maximum(size, 1e-300)
+        return eta, z
+
+    def solve(self, speed, n_modes, near, zeros, whirl, d_mat, k_mat):
+        """Eigenpairs at ``speed``, certified, or from the full model when they are not."""
+        reason = ""
+        try:
+            pairs = self._solve(speed, n_modes, near, zeros, whirl)
+            eta, _ = self.certify(pairs.values, pairs.vectors, d_mat, k_mat)
+            worst = float(eta.max()) if len(eta) else 0.0
+            if len(pairs.values) < min(n_modes, 1):
+                reason = "no mode"
+            elif not worst <= self.tolerance:
+                reason = f"residual {worst:.1e}"
+            elif len(pairs.real_eigenvalues) and pairs.real_eigenvalues.max() > 0:
+                reason = "a growing non-oscillating motion"
+        except (np.linalg.LinAlgError, la.LinAlgError, ValueError) as exc:
+            reason = f"{type(exc).__name__}"
+        if not reason:
+            self.largest = max(self.largest, worst)
+            return pairs
+        self.full_solves.append(float(speed))
+        full = AutoSolver()(self.system.mass, d_mat, k_mat, n_modes, near, zeros)
+        note = Notice(f"reduced-basis solve not certified ({reason}): solved in the full model",
+                      "reduced-basis", (float(speed),))
+        return replace(full, warnings=tuple(full.warnings) + (note,))
+
+    def summary(self):
+        return Reduction(self.v.shape[1], self.system.n_dof, self.largest, self.tolerance,
+                         self.rounds, tuple(self.full_solves))
+
+
+class ReducedSolver:
+    """Reduced-basis eigen-solves bound to one assembled system (see the module).
+
+    Used through :func:`~rotorcalc.analysis.modes.modes_at`, which passes the
+    system and the speed (:meth:`solve_at`); called with bare matrices, it solves
+    them in full (:class:`~rotorcalc.solvers.AutoSolver`).  ``speeds`` are the
+    sweep's (rad/s): the basis is enriched at a few of them; by default the rotor's
+    sweep speeds.  It keeps one basis per system and mode count, built on first use,
+    and solves in the calling process only (``in_process``): the reduced solves are
+    cheap, the basis is not worth sending to workers.
+    """
+
+    name = "reduced"
+    in_process = True
+
+    def __init__(self, speeds=None, tolerance=TOLERANCE):
+        self.speeds = None if speeds is None else np.asarray(speeds, dtype=float)
+        self.tolerance = tolerance
+        self._models = []
+
+    def __call__(self, m, d_mat, k, n_modes, near=None, zeros=None):
+        return AutoSolver()(m, d_mat, k, n_modes, near, zeros)
+
+    def model(self, system, n_modes):
+        for known, model in self._models:
+            if known is system and model.n_solve >= n_modes:
+                return model
+        if self.speeds is not None:
+            speeds = self.speeds
+        else:
+            from .sweep import default_speeds
+            speeds = default_speeds(system.rotor)
+        from .sweep import TRACKING_RESERVE
+        n_solve = max(n_modes, system.rotor.settings.mode_count + TRACKING_RESERVE)
+        model = ReducedModel(system, n_solve, speeds, self.tolerance)
+        self._models.append((system, model))
+        return model
+
+    def solve_at(self, system, speed, n_modes, near=None, zeros=None, whirl=None, *,
+                 d_mat, k_mat):
+        """Certified eigenpairs of ``system`` at ``speed`` (see :meth:`ReducedModel.solve`)."""
+        return self.model(system, n_modes).solve(speed, n_modes, near, zeros, whirl,
+                                                 d_mat, k_mat)
+
+    def summary(self, system):
+        """The :class:`Reduction` of the largest basis used for ``system`` (None if none)."""
+        models = [model for known, model in self._models if known is system]
+        if not models:
+            return None
+        best = max(models, key=lambda model: model.n_solve)
+        out = best.summary()
+        full = tuple(sorted({v for model in models for v in model.full_solves}))
+        return replace(out, largest_residual=max(model.largest for model in models),
+                       full_solves=full)
+
+    def __getstate__(self):        # a copy sent to a worker builds its own basis
+        return {"speeds": self.speeds, "tolerance": self.tolerance, "_models": []}
+
+
+#: Sweeps solve on a reduced basis from this many DOFs (measured crossover:
+#: docs/performance.md, "Reduced-basis sweeps") ...
+REDUCED_THRESHOLD = 1200
+#: ... over at least this many speeds (the basis costs a few full solves).
+REDUCED_MIN_SPEEDS = 20
+
+
+def sweep_solver(system, speeds, solver=None):
+    """The solver a sweep of ``system`` over ``speeds`` uses: ``solver`` when given; else a
+    :class:`ReducedSolver` for a large model over many speeds, else ``"auto"``."""
+    if solver is not None:
+        return solver
+    if system.n_dof >= REDUCED_THRESHOLD and len(speeds) >= REDUCED_MIN_SPEEDS:
+        return ReducedSolver(speeds)
+    return make_solver()
