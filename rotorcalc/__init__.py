@@ -24,17 +24,22 @@ The analyses run with one BLAS thread per process (the user's own
 
 __version__ = "0.2.0"
 
-from .analysis import (CoverageGap, CriticalSpeed, MarginRow, MarginTable, Modes, Screening,  # noqa: E402
-                       Stability, Sweep, critical_speeds, modes_at, required_margin, screen,
-                       separation_margins, stability, sweep)
-from .analysis.response import Response, unbalance_response  # noqa: E402
-from .analysis.stiffness_study import StiffnessStudy, stiffness_study  # noqa: E402
-from .assembly import assemble  # noqa: E402
-from .errors import InputError, RotorcalcError, SolverError  # noqa: E402
-from .model import (Bearing, Disk, MarginRule, Material, OperatingRange, Rotor, Section,  # noqa: E402
-                    Settings, StabilityRule, Support)
-from .reader import parse_rotor, read_rotor  # noqa: E402
-from .units import to_hz, to_rpm  # noqa: E402
+#: Where each public name lives: a name is imported on first use (PEP 562), so that
+#: ``import rotorcalc`` (and the command line's ``--help``) loads no numpy or scipy.
+_PUBLIC = {
+    **dict.fromkeys(("CoverageGap", "CriticalSpeed", "MarginRow", "MarginTable", "Modes",
+                     "Screening", "Stability", "Sweep", "critical_speeds", "modes_at",
+                     "required_margin", "screen", "separation_margins", "stability", "sweep"),
+                    ".analysis"),
+    "Response": ".analysis.response", "unbalance_response": ".analysis.response",
+    "StiffnessStudy": ".analysis.stiffness_study", "stiffness_study": ".analysis.stiffness_study",
+    "assemble": ".assembly",
+    **dict.fromkeys(("InputError", "RotorcalcError", "SolverError"), ".errors"),
+    **dict.fromkeys(("Bearing", "Disk", "MarginRule", "Material", "OperatingRange", "Rotor",
+                     "Section", "Settings", "StabilityRule", "Support"), ".model"),
+    "parse_rotor": ".reader", "read_rotor": ".reader",
+    "to_hz": ".units", "to_rpm": ".units",
+}
 
 #: Pictures, loaded with matplotlib on first use (the analyses never need it).
 _PICTURES = ("plot_whirl_speed_map", "plot_mode_shape", "plot_rotor_layout", "plot_bode",
@@ -54,7 +59,16 @@ __all__ = ["read_rotor", "parse_rotor", "assemble", "modes_at", "sweep", "critic
 
 
 def __getattr__(name):
+    if name in _PUBLIC:
+        import importlib
+        value = getattr(importlib.import_module(_PUBLIC[name], __name__), name)
+        globals()[name] = value            # once imported, an ordinary attribute
+        return value
     if name in _PICTURES or name in _OLD_PICTURES:
         from . import plotting
         return getattr(plotting, name)
     raise AttributeError(f"module 'rotorcalc' has no attribute {name!r}")
+
+
+def __dir__():
+    return sorted(set(globals()) | set(__all__))

@@ -23,7 +23,6 @@ journals' film states (eccentricity, minimum film, temperature) come with the so
 from __future__ import annotations
 
 import dataclasses
-import functools
 import math
 from dataclasses import dataclass
 

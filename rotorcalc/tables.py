@@ -339,6 +339,8 @@ WINDOW_END_COLUMNS = [
 
 
 def _agreement(s):
+    if s.method == "derivative":     # no second value to compare with
+        return None if s.value is not None else "not found"
     if s.value is None or s.check is None:
         return "not found"
     return "ok" if abs(s.value - s.check) <= 0.02 * abs(s.value) + 1e-4 else "differs"
@@ -354,6 +356,7 @@ SENSITIVITY_COLUMNS = [
     Column("% per %", lambda r: r[1].value, "{:+.4f}", "sensitivity"),
     Column("Half step", lambda r: r[1].check, "{:+.4f}", "sensitivity_half_step"),
     Column("Check", lambda r: _agreement(r[1]), "{}", "check"),
+    Column("Method", lambda r: r[1].method, "{}", "method"),
     Column("rpm for +10 %", lambda r: None if r[1].value is None
            else float(to_rpm(r[1].critical.speed)) * r[1].value * 0.1, "{:+.0f}",
            "rpm_change_for_plus_10_percent"),

@@ -248,6 +248,7 @@ def versions():
     numpy's and scipy's and the BLAS's code path for this processor (the last bits of the
     results drawn: the same libraries moved markers by a pixel on another processor)."""
     import scipy
+    import scipy.linalg  # noqa: F401 (loads scipy's own BLAS, which the analyses use)
     from threadpoolctl import threadpool_info
     blas = sorted(f"{i.get('internal_api')} {i.get('architecture', '')}".strip()
                   for i in threadpool_info() if i.get("user_api") == "blas")

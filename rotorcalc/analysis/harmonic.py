@@ -4,9 +4,9 @@ At each speed ``w`` the harmonic equation
 
     Z(w) Q = w^2 F0,   Z(w) = K(w) - w^2 M + i w (C(w) + w G)
 
-is solved with a sparse complex LU factorisation.  The fill-reducing order
-(reverse Cuthill-McKee of the fixed sparsity pattern) is computed once and
-reused at every speed.  ``q(t) = Re(Q e^{i w t})``.  An unbalance ``U`` at
+is solved with a banded (or sparse) complex LU factorisation.  The sparsity
+pattern and its bandwidth-reducing order (reverse Cuthill-McKee) are fixed
+once; each speed only sets the values.  ``q(t) = Re(Q e^{i w t})``.  An unbalance ``U`` at
 phase ``phi`` gives ``F0 = U e^{i phi} (1, -i)`` on the station's x and y,
 the complex form of ``U w^2 (cos(w t + phi), sin(w t + phi))``.
 """
@@ -17,31 +17,75 @@ import math
 
 import numpy as np
 import scipy.sparse as sp
-import scipy.sparse.linalg as spla
 from scipy.sparse.csgraph import reverse_cuthill_mckee
 
 from ..assembly import SystemMatrices
 from ..errors import SolverError
-from ..solvers import NUMERICAL_FAILURES, one_blas_thread
+from ..fe import bearing as fe_bearing
+from ..solvers import NUMERICAL_FAILURES, _factor, one_blas_thread
 from ..units import to_rpm
 
 
 class HarmonicSolver:
-    """Sparse harmonic solves of one system, reusing one fill-reducing order."""
+    """Harmonic solves of one system on one sparsity pattern and ordering.
+
+    The pattern of ``Z`` (every matrix and every bearing's full 2x2 or 4x4 block) and its
+    reverse Cuthill-McKee order are fixed once; at each speed only the values change: the
+    constant parts are combined entry by entry, each bearing adds its block at known
+    positions, and the matrix is factored by LAPACK's banded LU (SuperLU when the band is
+    wide: :func:`rotorcalc.solvers._factor`), measured faster than a general sparse LU of
+    the rebuilt matrix (docs/performance.md).
+    """
 
     def __init__(self, system: SystemMatrices):
         self.system = system
-        pattern = (abs(system.mass) + abs(system.shaft_stiffness) + abs(system.gyroscopic)
-                   + abs(system.support_stiffness) + abs(system.stiffness(0.0))
-                   + abs(system.damping(0.0)))
-        pattern = (pattern + pattern.T).tocsr()
-        for link in system.links:  # bearing cross terms appear at every speed
+        s = system
+        parts = [s.mass, s.gyroscopic, s.shaft_stiffness + s.support_stiffness, s.support_damping]
+        pattern = sum(abs(x) for x in parts)
+        rows, cols = [], []
+        for link in s.links + s.source_links:  # bearing cross terms appear at every speed
             r, c = np.meshgrid(link.dofs, link.dofs, indexing="ij")
-            pattern = pattern + sp.csr_matrix((np.ones(r.size), (r.ravel(), c.ravel())),
+            rows.append(r.ravel())
+            cols.append(c.ravel())
+        if rows:
+            pattern = pattern + sp.csr_matrix((np.ones(sum(len(r) for r in rows)),
+                                               (np.concatenate(rows), np.concatenate(cols))),
                                               shape=pattern.shape)
-        self.order = reverse_cuthill_mckee(pattern.tocsr(), symmetric_mode=True)
+        pattern = (pattern + pattern.T).tocsr()
+        self.order = reverse_cuthill_mckee(pattern, symmetric_mode=True)
+        inverse = np.empty_like(self.order)
+        inverse[self.order] = np.arange(len(self.order))
+        pattern = pattern.tocoo()
+        n = pattern.shape[0]
+        keys = pattern.row.astype(np.int64) * n + pattern.col    # the entries, numbered
+        order = np.argsort(keys)
+        keys = keys[order]
+        self.row, self.col = inverse[pattern.row[order]], inverse[pattern.col[order]]
+        self.band = int(np.abs(self.row - self.col).max()) if pattern.nnz else 0
+
+        def at(r, c):
+            return np.searchsorted(keys, np.asarray(r, dtype=np.int64) * n + c)
+
+        def on_pattern(matrix):
+            coo = sp.coo_matrix(matrix)
+            out = np.zeros(len(keys))
+            np.add.at(out, at(coo.row, coo.col), coo.data)
+            return out
+
+        self.m, self.g, self.k, self.c = (on_pattern(x) for x in parts)
+        self.links = [(link, at(r, c)) for link, r, c in zip(s.links + s.source_links, rows, cols)]
+
+    def _values(self, omega):
+        """``Z(omega)`` on the fixed pattern (values in pattern order)."""
+        z = self.k - omega * omega * self.m + 1j * omega * (self.c + omega * self.g)
+        for link, at in self.links:
+            k2, c2 = link.bearing.matrices(omega)
+            local = fe_bearing.grounded if len(link.dofs) == 2 else fe_bearing.linked
+            np.add.at(z, at, (local(k2) + 1j * omega * local(c2)).ravel())
+        return z
 
     def dynamic_stiffness(self, omega):
+        """``Z(omega)`` as a sparse matrix in the original DOF order."""
         s = self.system
         return (s.stiffness(omega) - omega * omega * s.mass
                 + 1j * omega * (s.damping(omega) + omega * s.gyroscopic))
@@ -54,14 +98,14 @@ class HarmonicSolver:
         response is unbounded there); the solve then moves by one part in 1e9
         of the speed, where the response is finite and huge, as it should be.
         """
-        p = self.order
+        p, n = self.order, self.system.n_dof
         for shift in (0.0, 1e-9, -1e-9):
             w = omega * (1.0 + shift)
-            z = self.dynamic_stiffness(w).tocsc()[p][:, p].tocsc()
+            z = sp.coo_matrix((self._values(w), (self.row, self.col)), shape=(n, n))
             try:
-                lu = spla.splu(z, permc_spec="NATURAL")
+                solve = _factor(z, self.band)
                 break
-            except RuntimeError:  # "Factor is exactly singular"
+            except (RuntimeError, np.linalg.LinAlgError):  # exactly singular
                 continue
             except NUMERICAL_FAILURES as exc:
                 raise SolverError(f"the harmonic solve at {to_rpm(omega):.6g} rpm failed "
@@ -70,7 +114,7 @@ class HarmonicSolver:
             raise SolverError(f"the harmonic solve at {to_rpm(omega):.6g} rpm failed: the "
                               "dynamic stiffness is singular")
         out = np.empty_like(rhs, dtype=complex)
-        out[p] = lu.solve(np.ascontiguousarray(rhs[p], dtype=complex))
+        out[p] = solve(np.ascontiguousarray(rhs[p], dtype=complex))
         if not np.all(np.isfinite(out)):
             raise SolverError(f"the harmonic solve at {to_rpm(omega):.6g} rpm returned values "
                               "that are not finite")
@@ -99,8 +143,9 @@ def probe_rows(system, probes):
     return rows
 
 
-def solve_speeds(system, solver, force, rows, speeds):
-    """Station, probe, bearing and support responses at each of ``speeds``."""
+def solve_speeds(system, solver, force, rows, speeds, solved=None):
+    """Station, probe, bearing and support responses at each of ``speeds``; ``solved``
+    (speed -> response, every case) holds speeds solved already."""
     station_dofs = system.translation_dofs[system.mesh.station_nodes]
     n_cases, n_b = force.shape[1], len(system.links)
     st = np.empty((n_cases, len(speeds), len(station_dofs), 2), dtype=complex)
@@ -108,7 +153,7 @@ def solve_speeds(system, solver, force, rows, speeds):
     fb = np.zeros((n_cases, len(speeds), n_b, 2), dtype=complex)
     fs = np.zeros_like(fb)
     for k, w in enumerate(speeds):
-        q = solver.solve(w, w * w * force)            # (n_dof, n_cases)
+        q = solved[w] if solved and w in solved else solver.solve(w, w * w * force)
         st[:, k] = np.transpose(q[station_dofs], (2, 0, 1))
         pv[:, k] = (rows @ q).T
         for b, link in enumerate(system.links):

@@ -55,31 +55,42 @@ class Peak:
                                          else self.af), "note": self.note}
 
 
-MEMO_SPEEDS = 64
+#: Solved speeds the refinement keeps (memory: this many full responses).
+MEMO_BYTES = 64e6
 
 
 class Evaluator:
-    """Fresh solves of one case at any speed, for the refinement steps."""
+    """Fresh solves at any speed for the refinement steps.
+
+    One solve per speed serves every unbalance case, every probe and the peak's shape
+    (the peak and half-power searches of the probes and cases visit the same speeds
+    often); the solved speeds are kept (:data:`MEMO_BYTES`) for the grid the response
+    is drawn on (:attr:`solved`).
+    """
 
     def __init__(self, solver, force, probe_rows):
-        self.solver, self.force, self.rows = solver, force, probe_rows
+        self.solver, self.rows = solver, probe_rows
+        self.force = force if force.ndim == 2 else force[:, None]
         self.solved = {}
+        self.keep = max(8, int(MEMO_BYTES // (16 * self.force.size)))
 
-    def response(self, omega):
-        # one solve per speed serves every probe and the peak's shape (the peak and
-        # half-power searches of each probe visit the same speeds)
+    def responses(self, omega):
+        """Every case's response at ``omega`` (n_dof, n_cases)."""
         if omega not in self.solved:
-            if len(self.solved) >= MEMO_SPEEDS:
+            if len(self.solved) >= self.keep:
                 self.solved.pop(next(iter(self.solved)))
-            self.solved[omega] = self.solver.solve(omega, omega * omega * self.force[:, None])[:, 0]
+            self.solved[omega] = self.solver.solve(omega, omega * omega * self.force)
         return self.solved[omega]
 
-    def probe(self, omega, j):
-        return 2.0 * abs(self.rows[j] @ self.response(omega))
+    def response(self, omega, case=0):
+        return self.responses(omega)[:, case]
 
-    def shape(self, omega):
+    def probe(self, omega, j, case=0):
+        return 2.0 * abs(self.rows[j] @ self.response(omega, case))
+
+    def shape(self, omega, case=0):
         """Deflected shape at ``omega``: complex (x, y) at every shaft node."""
-        q = self.response(omega)
+        q = self.response(omega, case)
         return q[self.solver.system.translation_dofs]
 
 

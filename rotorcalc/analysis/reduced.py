@@ -99,6 +99,15 @@ class Reduction:
     rounds: int
     full_solves: tuple = ()
 
+    def describe(self):
+        """One sentence for the terminal: what was solved how, and how well."""
+        text = (f"Modes solved on a reduced basis of {self.basis_size} of {self.dofs} DOFs, every "
+                f"pair certified in the full model: largest residual {self.largest_residual:.1e} "
+                f"(tolerance {self.tolerance:.0e}; docs/theory.md, section 3.2)")
+        if self.full_solves:
+            text += f"; {len(self.full_solves)} speed(s) solved in the full model"
+        return text + "."
+
     def to_dict(self):
         return {"basis_size": self.basis_size, "dofs": self.dofs,
                 "largest_residual": self.largest_residual, "tolerance": self.tolerance,

@@ -269,9 +269,11 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None, un
     force = unbalance_forces(system, cases)
     rows = probe_rows(system, probes)
     curves = solve_speeds(system, solver, force, rows, speeds)
-    peaks = _peaks(speeds, curves, solver, force, rows, cases, probes)
+    evaluator = Evaluator(solver, force, rows)
+    peaks = _peaks(speeds, curves, evaluator, cases, probes)
     if own_grid:
-        speeds, curves = _with_peak_speeds(system, solver, force, rows, speeds, curves, peaks)
+        speeds, curves = _with_peak_speeds(system, solver, force, rows, speeds, curves, peaks,
+                                           evaluator.solved)
     st, pv, fb, fs = curves
     warnings = list(system.table_warnings(speeds))
     if unstable is None:   # the sweep's stability, for the flags
@@ -292,28 +294,30 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None, un
                     unstable, tuple(tuple(c.weights) for c in cases))
 
 
-def _peaks(speeds, curves, solver, force, rows, cases, probes):
-    """Every probe's refined peaks for every case (one fresh solve serves every probe)."""
+def _peaks(speeds, curves, ev, cases, probes):
+    """Every probe's refined peaks for every case (one fresh solve serves every probe and
+    case: ``ev``, an :class:`~rotorcalc.analysis.peaks.Evaluator`)."""
     st, pv = curves[0], curves[1]
     peaks = []
     for i, case in enumerate(cases):
-        ev = Evaluator(solver, force[:, i], rows)
         floor = PEAK_FLOOR * 2.0 * float(orbit_axes(st[i, ..., 0], st[i, ..., 1])[0].max())
         for j, probe in enumerate(probes):
             amp = 2.0 * np.abs(pv[i, :, j])
-            peaks.extend(find_peaks(speeds, amp, lambda w, j=j, ev=ev: ev.probe(w, j),
-                                    case.name, probe.name, ev.shape, floor))
+            peaks.extend(find_peaks(speeds, amp, lambda w, j=j, i=i: ev.probe(w, j, i),
+                                    case.name, probe.name, lambda w, i=i: ev.shape(w, i),
+                                    floor))
     return peaks
 
 
-def _with_peak_speeds(system, solver, force, rows, speeds, curves, peaks):
+def _with_peak_speeds(system, solver, force, rows, speeds, curves, peaks, solved=None):
     """The grid with the refined peak and half-power speeds added, so that a sharp peak
-    between grid points is drawn and checked at its top."""
+    between grid points is drawn and checked at its top (the responses the refinement
+    solved there, ``solved``, are not solved again)."""
     extra = sorted({v for p in peaks for v in (p.speed,) + (p.half_power or ())})
     extra = [v for v in extra if np.min(np.abs(speeds - v)) > 1e-9 * speeds[-1]]
     if not extra:
         return speeds, curves
-    more = solve_speeds(system, solver, force, rows, np.asarray(extra))
+    more = solve_speeds(system, solver, force, rows, np.asarray(extra), solved)
     order = np.argsort(np.concatenate([speeds, extra]), kind="stable")
     speeds = np.concatenate([speeds, extra])[order]
     return speeds, tuple(np.concatenate([a, b], axis=1)[:, order] for a, b in zip(curves, more))

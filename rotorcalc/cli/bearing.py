@@ -92,4 +92,4 @@ def _file_part(name):
 
 
 def register(app: typer.Typer):
-    app.command("bearing", help=command.__doc__ + "\n\n" + EXAMPLE)(command)
+    app.command("bearing", help=escape(" ".join(command.__doc__.split())) + "\n\n" + EXAMPLE)(command)

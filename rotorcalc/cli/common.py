@@ -247,6 +247,13 @@ def print_warnings(warnings):
         errors.print(f"[yellow]warning[/] {escape(w)}", highlight=False, soft_wrap=True)
 
 
+def print_solve_note(sweep):
+    """Say how the sweep's modes were solved when it was on a reduced basis."""
+    if getattr(sweep, "reduction", None) is not None:
+        console.print(f"[dim]{escape(sweep.reduction.describe())}[/]", highlight=False,
+                      soft_wrap=True)
+
+
 def save_figure(fig, path: Path):
     from ..plotting import save
     try:

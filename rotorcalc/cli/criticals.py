@@ -17,9 +17,9 @@ from ..analysis.response import limits_caption
 from ..analysis.stability import describe_branch
 from ..tables import LIMIT_COLUMNS, STABILITY_COLUMNS, margin_columns
 from ..units import to_rpm
-from .common import (EXIT_CHECK_FAILED, EXIT_NOT_COVERED, EXIT_OK, JOBS_HELP, screen_case,
-                     console, input_errors, load, print_table, print_warnings, save_figure,
-                     speed_option, write_outputs)
+from .common import (EXIT_CHECK_FAILED, EXIT_NOT_COVERED, EXIT_OK, JOBS_HELP, console,
+                     input_errors, load, print_solve_note, print_table, print_warnings,
+                     save_figure, screen_case, speed_option, write_outputs)
 
 EXAMPLE = """[bold]Example[/]: rotorcalc criticals cases/feed_pump.toml --plot pump-map.png --json pump.json"""
 
@@ -152,6 +152,7 @@ def run(case, plot_path, json_path, csv_path, command, workers=None, **overrides
     result = screen_case(rotor, case, {"--plot": plot_path, "--json": json_path,
                                        "--csv": csv_path}, workers)
     print_margins(result)
+    print_solve_note(result.sweep)
     document = result.to_dict()   # the same document as `sweep` writes
     warnings = tuple(dict.fromkeys(result.sweep.warnings
                                    + (result.response.warnings if result.response else ())))

@@ -30,8 +30,13 @@ def command(
                                     "damped, or backward ones that are not judged); slower, "
                                     "and for heavily damped ones the numbers describe the "
                                     "damped frequency, not a resonance."),
+    differences: bool = typer.Option(
+        False, "--differences",
+        help="Central differences of perturbed rotors (four screenings per lever and "
+             "critical), checked at half the step, instead of eigenvalue derivatives; slower."),
     step: float = typer.Option(0.01, "--relative-step", min=1e-4, max=0.2,
-                               help="Relative step of the central difference (0.01 = 1 %)."),
+                               help="Relative step of the central difference (0.01 = 1 %), "
+                                    "with --differences."),
     speed_count: Optional[int] = typer.Option(None, "--speed-count", min=3,
                                               help="Number of sweep speeds for the criticals."),
     with_sources: bool = with_sources_option(),
@@ -50,7 +55,8 @@ def command(
     chosen = what_if_rotor(without_response(rotor), with_sources)
     with busy("finding the critical speeds and their levers"), input_errors():
         result = screen(chosen)
-        table = levers(chosen, result.criticals, step=step, near=near, every=every)
+        table = levers(chosen, result.criticals, step=step, near=near, every=every,
+                       method="difference" if differences else "derivative")
     elapsed = time.perf_counter() - started
     rows = table.rows
     op = rotor.operating

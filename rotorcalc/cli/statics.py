@@ -59,4 +59,4 @@ def command(
 
 
 def register(app: typer.Typer):
-    app.command("statics", help=command.__doc__ + "\n\n" + EXAMPLE)(command)
+    app.command("statics", help=escape(" ".join(command.__doc__.split())) + "\n\n" + EXAMPLE)(command)

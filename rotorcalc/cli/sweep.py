@@ -9,8 +9,8 @@ import typer
 from rich.markup import escape
 
 from ..tables import sweep_columns, sweep_rows
-from .common import (JOBS_HELP, console, load, print_warnings, save_figure, screen_case,
-                     write_outputs)
+from .common import (JOBS_HELP, console, load, print_solve_note, print_warnings, save_figure,
+                     screen_case, write_outputs)
 from .criticals import apply_overrides, print_margins
 
 EXAMPLE = """[bold]Example[/]: rotorcalc sweep cases/compressor.toml --plot map.png --csv sweep.csv"""
@@ -36,6 +36,7 @@ def command(
     console.print(f"{escape(rotor.name)}: {len(sw.speeds)} speeds, "
                   f"{sw.eigenvalues.shape[1]} branches", highlight=False)
     print_margins(result, brief=True)
+    print_solve_note(sw)
     print_warnings(sw.warnings)
     rows = list(sweep_rows(sw))
     write_outputs("sweep", case, result.to_dict(), sw.warnings, json_path, csv_path,

@@ -24,6 +24,42 @@ def test_help_has_an_example_per_command():
         assert "Example" in result.output and f"rotorcalc {command}" in result.output
 
 
+def test_the_command_list_quotes_each_command_s_own_help():
+    """The list ``rotorcalc --help`` shows is kept beside the commands (so that it loads
+    none of them): each summary must be the start of the command's own help."""
+    from rotorcalc.cli import COMMANDS, load_command
+    listing = " ".join(run("--help").output.split())
+    for name, (_, summary) in COMMANDS.items():
+        own = " ".join(load_command(name).help.split()).replace("\\[", "[")
+        assert own.startswith(summary.rstrip(".")), name
+        assert name in listing
+
+
+def test_help_loads_no_analysis_numpy_or_plotting():
+    """``rotorcalc --help`` must start fast: it imports neither numpy nor the analyses
+    (measured CPU in docs/performance.md; no time is asserted here)."""
+    import subprocess
+    import sys
+    code = ("import sys; from typer.testing import CliRunner; from rotorcalc.cli import app; "
+            "r = CliRunner().invoke(app, ['--help']); assert r.exit_code == 0, r.output; "
+            "print(sorted(m for m in ('numpy', 'scipy', 'matplotlib', 'pint', "
+            "'rotorcalc.analysis', 'rotorcalc.model') if m in sys.modules))")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
+                         check=True)
+    assert out.stdout.strip() == "[]"
+
+
+def test_a_reduced_basis_sweep_says_so_and_records_its_certificate(tmp_path, monkeypatch):
+    from rotorcalc.analysis import reduced
+    monkeypatch.setattr(reduced, "REDUCED_THRESHOLD", 10)   # the pump is far below 1200 DOFs
+    out = tmp_path / "c.json"
+    result = run("criticals", PUMP, "--json", out)
+    assert result.exit_code == 0, result.output
+    assert "reduced basis" in " ".join(result.output.split())
+    record = read_json(out)["result"]["sweep"]["reduced_basis"]
+    assert record["largest_residual"] <= record["tolerance"] and record["basis_size"] > 0
+
+
 def test_modes_table_json_csv(tmp_path):
     out_json, out_csv = tmp_path / "m.json", tmp_path / "m.csv"
     result = run("modes", PUMP, "--speed", "3000 rpm", "--mode-count", "4", "--json", out_json,

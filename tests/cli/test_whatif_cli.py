@@ -132,10 +132,21 @@ def test_levers_sorted_biggest_first(tmp_path):
         by_critical.setdefault(r["critical_rpm"], []).append(abs(float(r["sensitivity"])))
     for values in by_critical.values():
         assert values == sorted(values, reverse=True)
-    for r in rows:  # the half-step check agrees with the full step
-        assert float(r["sensitivity_half_step"]) == pytest.approx(float(r["sensitivity"]),
-                                                                  rel=0.02, abs=1e-4)
+    assert {r["method"] for r in rows} == {"derivative"}
+    assert {r["check"] for r in rows} == {""} and {r["sensitivity_half_step"] for r in rows} == {""}
     assert len(read_json(js)["result"]["sensitivities"]) == len(rows)
+    # --differences: the central differences, their half-step check, the same numbers
+    diff_table = tmp_path / "diff.csv"
+    result = run("levers", PUMP, *SHORT, "--differences", "--csv", diff_table)
+    assert result.exit_code == 0, result.output
+    diff = {(r["critical_rpm"], r["parameter"]): r for r in csv_rows(diff_table)}
+    for r in rows:
+        d = diff[(r["critical_rpm"], r["parameter"])]
+        assert d["method"] == "difference" and d["check"] == "ok"
+        assert float(d["sensitivity_half_step"]) == pytest.approx(float(d["sensitivity"]),
+                                                                  rel=0.02, abs=1e-4)
+        assert float(d["sensitivity_half_step"]) == pytest.approx(float(r["sensitivity"]),
+                                                                  rel=1e-3, abs=1e-5)
 
 
 # --- the bundled variants files ---------------------------------------------------------

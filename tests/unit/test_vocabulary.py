@@ -6,7 +6,6 @@ import json
 import warnings
 
 import pytest
-import typer
 from typer.testing import CliRunner
 
 from rotorcalc.cli import app
@@ -43,7 +42,8 @@ max_speed = "3000 rpm"
 
 
 def _options(command_name):
-    command = typer.main.get_command(app).commands[command_name]
+    from rotorcalc.cli import load_command   # the command itself, not its entry in the list
+    command = load_command(command_name)
     return {opt for p in command.params if p.param_type_name == "option" for opt in p.opts}
 
 

@@ -61,10 +61,12 @@ from rotorcalc.analysis.csmap import critical_speed_map
 from rotorcalc.analysis.criticals import SPEED_RTOL
 from rotorcalc.analysis.modes import forward_fraction
 from rotorcalc.analysis.screening import screen
-from rotorcalc.analysis.whatif import sensitivities, stiffness_window
+from rotorcalc.analysis.whatif import (derivative_sensitivities, sensitivities,
+                                      stiffness_window)
 from rotorcalc.assembly import assemble
+from rotorcalc.reader import read_rotor
 from rotorcalc.model import Bearing, Material, MarginRule, OperatingRange
-from tests.conftest import STEEL, disk_at_mid_span, isotropic, uniform_shaft
+from tests.conftest import ROOT, STEEL, disk_at_mid_span, isotropic, uniform_shaft
 from tests.verification import closed_forms as cf
 from tests.verification import closed_forms_whatif as cw
 from tests.verification.record import check
@@ -456,6 +458,51 @@ def test_sensitivities_jeffcott(c_bearing):
         # the damped value is resolved: it differs from the undamped one by
         # far more than the tolerance
         assert abs(d_k / 2.0 - undamped_k) > 20.0 * (STEP**4 + bound)
+
+
+@pytest.mark.parametrize("c_bearing", [0.0, 200.0])
+def test_derivative_sensitivities_jeffcott(c_bearing):
+    """The levers from eigenvalue derivatives (left and right eigenvectors) against the
+    closed-form derivatives of the same Jeffcott critical: no step, so no truncation; the
+    bound is the shaft's mass alone."""
+    ks = k_shaft()
+    rotor = jeffcott([isotropic(0, KB, c_bearing), isotropic(2, KB, c_bearing)],
+                     judge_backward=True, speed_to=600.0)
+    crits = screen(rotor).criticals
+    values = {}
+    for s in derivative_sensitivities(rotor, crits):
+        assert s.method == "derivative" and s.check is None
+        values.setdefault(s.parameter, []).append(s.value)
+    if c_bearing == 0.0:
+        exact = {"bearing[0] kxx, kyy": cw.jeffcott_bearing_sensitivity(ks, KB, KB, 1),
+                 "bearing[1] kxx, kyy": cw.jeffcott_bearing_sensitivity(ks, KB, KB, 2),
+                 "disk[0] mass": cw.JEFFCOTT_DISK_MASS_SENSITIVITY}
+    else:
+        d_k, d_m = cw.jeffcott_damped_sensitivities(ks, KB, c_bearing, MJ)
+        exact = {"bearing[0] kxx, kyy": d_k / 2.0, "bearing[1] kxx, kyy": d_k / 2.0,
+                 "disk[0] mass": d_m}
+    for name, derivative in exact.items():
+        for got in values[name]:   # both members of the degenerate pair
+            check(f"Jeffcott, bearings c = {c_bearing:g} N s/m: sensitivity to {name} from the "
+                  "eigenvalue derivative", SENS, derivative, got, shaft_bound(), kind="abs")
+
+
+@pytest.mark.parametrize("case", ["feed_pump", "compressor"])
+def test_derivative_levers_agree_with_central_differences(case):
+    """On the bundled cases (speed-dependent bearings, gyroscopics): the derivatives against
+    today's central differences, Richardson-extrapolated from steps 1 % and 0.5 % (error
+    O(h^4), about 1e-8 here)."""
+    rotor = read_rotor(ROOT / "cases" / f"{case}.toml")
+    crits = screen(rotor).criticals
+    reference = {(id(s.critical), s.parameter): (4.0 * s.check - s.value) / 3.0
+                 for s in sensitivities(rotor, crits)}
+    got = derivative_sensitivities(rotor, crits)
+    assert len(got) == len(reference) > 0
+    for s in got:
+        check(f"{case}: lever {s.parameter} on the {s.critical.speed * 30 / math.pi:.0f} rpm "
+              "critical, derivative vs central differences", "central differences of the "
+              "full screening (Richardson, steps 1 % and 0.5 %)",
+              reference[(id(s.critical), s.parameter)], s.value, 2e-5, kind="abs")
 
 
 def test_damped_sensitivity_limit_self_check():

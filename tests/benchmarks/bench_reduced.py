@@ -1,0 +1,187 @@
+"""Benchmark: reduced-basis sweeps against the full solve, side by side in one run.
+
+Run from the repository root (see DEVELOPERS.md, "Benchmarks"):
+
+    python tests/benchmarks/bench_reduced.py                    # 100 to 4000 elements + cases
+    python tests/benchmarks/bench_reduced.py --sizes 100 1000   # a quicker look
+    python tests/benchmarks/bench_reduced.py --no-cases         # the generated rotors only
+
+For each size of the generated rotor (tests/benchmarks/generated.py: speed-dependent,
+cross-coupled bearings, one on a pedestal, a seal; the tool's default 8 modes, 100 speeds),
+in a fresh child process, it measures CPU seconds (not wall: the machine is shared) of
+
+* **full**: today's full-model path (``"auto"``: dense below 150 DOFs, sparse shift-invert
+  Arnoldi with its completeness check above): sweep with tracking, then the critical speeds;
+* **reduced**: the same on a reduced basis (:mod:`rotorcalc.analysis.reduced`), basis built
+  and certified inside the timing;
+* **limit**: one sparse LU plus one plain Arnoldi run per speed (``scipy.sparse.linalg.eigs``
+  in shift-invert mode on the same state-space pencil, no completeness check, no tracking):
+  what a full solve per speed cannot go below;
+* the unbalance response (one case at the middle disk, the default probes) and the whole
+  pipeline (sweep, criticals and response, as ``criticals`` runs them);
+
+and prints the eigenvalue agreement between the two paths (largest relative difference of
+every tracked point), the critical speeds' largest difference (rpm), the largest certified
+residual, the basis size, and the growth exponent of CPU time with model size (least squares
+on log-log, over the sizes run).  For the bundled cases it prints the same comparison (their
+sizes are below the automatic choice, so the reduced path is forced) and the CPU time of
+their what-if commands.  No time is asserted anywhere: this prints figures.
+"""
+
+from __future__ import annotations
+
+import os
+
+for _var in ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS", "MKL_NUM_THREADS"):
+    os.environ.setdefault(_var, "1")  # as the command line does, before numpy loads
+
+import argparse  # noqa: E402
+import dataclasses  # noqa: E402
+import json  # noqa: E402
+import math  # noqa: E402
+import subprocess  # noqa: E402
+import sys  # noqa: E402
+import time  # noqa: E402
+from pathlib import Path  # noqa: E402
+
+ROOT = Path(__file__).resolve().parents[2]
+sys.path.insert(0, str(ROOT))
+
+import numpy as np  # noqa: E402
+import scipy.sparse.linalg as spla  # noqa: E402
+
+from rotorcalc.analysis import critical_speeds, sweep  # noqa: E402
+from rotorcalc.analysis.reduced import ReducedSolver  # noqa: E402
+from rotorcalc.analysis.response import unbalance_response  # noqa: E402
+from rotorcalc.assembly import assemble  # noqa: E402
+from rotorcalc.solvers import SHIFT, AutoSolver, _Pencil  # noqa: E402
+from rotorcalc.unbalance import UnbalanceCase, UnbalanceWeight  # noqa: E402
+from tests.benchmarks.generated import generated_rotor  # noqa: E402
+
+SIZES = (100, 250, 500, 1000, 2000, 4000)
+CASES = ("feed_pump", "overhung_fan", "compressor")
+RPM = 30.0 / math.pi
+
+
+def cpu(run):
+    start = time.process_time()
+    out = run()
+    return time.process_time() - start, out
+
+
+def pipeline(system, solver):
+    """Sweep + critical speeds on one solver: CPU seconds and the results."""
+    def run():
+        result = sweep(system, solver=solver)
+        return result, critical_speeds(system, result, solver=solver)
+    return cpu(run)
+
+
+def limit(system, speeds, n_modes):
+    """One sparse LU and one shift-invert Arnoldi run per speed, nothing else."""
+    def run():
+        for w in speeds:
+            d_mat, k = system.damping(w) + w * system.gyroscopic, system.stiffness(w)
+            pencil = _Pencil(system.mass, d_mat, k)
+            spla.eigs(pencil.operator(SHIFT * pencil.ref), k=2 * n_modes + 8, which="LM",
+                      tol=1e-10, v0=np.ones(2 * pencil.n))
+    return cpu(run)[0]
+
+
+def agreement(full, reduced):
+    (a, ca), (b, cb) = full, reduced
+    same_shape = a.eigenvalues.shape == b.eigenvalues.shape
+    ok = np.isfinite(a.eigenvalues) & np.isfinite(b.eigenvalues) if same_shape else None
+    eig = (float(np.max(np.abs(b.eigenvalues[ok] - a.eigenvalues[ok]) / np.abs(a.eigenvalues[ok])))
+           if same_shape else math.nan)
+    crit = (max((abs(x.speed - y.speed) * RPM for x, y in zip(ca, cb)), default=0.0)
+            if len(ca) == len(cb) else math.nan)
+    return eig, crit, same_shape and len(ca) == len(cb)
+
+
+def one_size(elements):
+    rotor = generated_rotor(elements, mode_count=8, speed_count=100)
+    rotor = dataclasses.replace(rotor, unbalance=(UnbalanceCase(
+        "middle disk", (UnbalanceWeight(3 + 4, 2e-4),)),))
+    system = assemble(rotor)
+    t_full, full = pipeline(system, AutoSolver())
+    solver = ReducedSolver()
+    t_red, red = pipeline(system, solver)
+    t_resp, _ = cpu(lambda: unbalance_response(system, unstable=()))
+    eig, crit, same = agreement(full, red)
+    r = red[0].reduction
+    t_limit = limit(system, red[0].speeds, rotor.settings.mode_count + 4)
+    return {"elements": elements, "dofs": system.n_dof, "full": t_full, "reduced": t_red,
+            "limit": t_limit, "response": t_resp, "eig": eig, "crit_rpm": crit,
+            "same_branches": bool(same), "residual": r.largest_residual,
+            "basis": r.basis_size, "full_solves": len(r.full_solves)}
+
+
+def cases():
+    import rotorcalc as rc
+    from rotorcalc.analysis.whatif import compare, stiffness_window
+    from rotorcalc.variants import read_variants
+    from rotorcalc.analysis.stiffness_study import stiffness_study
+    print("\nBundled cases (reduced path forced; automatic choice from "
+          f"{__import__('rotorcalc.analysis.reduced', fromlist=['x']).REDUCED_THRESHOLD} DOFs)")
+    print(f"{'case':14} {'DOFs':>5} {'full s':>7} {'reduced s':>9} {'basis':>5} "
+          f"{'eig diff':>9} {'crit rpm':>9} {'residual':>9}")
+    for name in CASES:
+        system = assemble(rc.read_rotor(ROOT / "cases" / f"{name}.toml"))
+        t_full, full = pipeline(system, AutoSolver())
+        t_red, red = pipeline(system, ReducedSolver())
+        eig, crit, _ = agreement(full, red)
+        r = red[0].reduction
+        print(f"{name:14} {system.n_dof:5d} {t_full:7.2f} {t_red:9.2f} {r.basis_size:5d} "
+              f"{eig:9.1e} {crit:9.1e} {r.largest_residual:9.1e}", flush=True)
+    print("\nWhat-if commands on the bundled cases, CPU s (one worker)")
+    for name in CASES:
+        rotor = rc.read_rotor(ROOT / "cases" / f"{name}.toml")
+        t_screen, _ = cpu(lambda: rc.screen(rotor))
+        t_map, _ = cpu(lambda: stiffness_study(rotor))
+        t_window, _ = cpu(lambda: stiffness_window(rotor, workers=1))
+        variants = ROOT / "cases" / f"{name}_variants.toml"
+        t_compare = cpu(lambda: compare(rotor, read_variants(variants), workers=1))[0] \
+            if variants.exists() else math.nan
+        print(f"{name:14} screen {t_screen:6.2f}  stiffness map {t_map:6.2f}  window "
+              f"{t_window:6.2f}  compare {t_compare:6.2f}", flush=True)
+
+
+def main():
+    parser = argparse.ArgumentParser()
+    parser.add_argument("--sizes", type=int, nargs="*", default=SIZES)
+    parser.add_argument("--no-cases", action="store_true")
+    parser.add_argument("--one", type=int, help=argparse.SUPPRESS)   # child process
+    args = parser.parse_args()
+    if args.one:
+        print(json.dumps(one_size(args.one)))
+        return
+    print("Generated rotors, 8 modes, 100 speeds; CPU seconds of sweep + critical speeds")
+    print(f"{'elements':>8} {'DOFs':>6} {'full':>7} {'reduced':>8} {'limit':>7} {'full/red':>8} "
+          f"{'response':>8} {'pipeline':>8} {'basis':>5} {'eig diff':>9} {'crit rpm':>9} "
+          f"{'residual':>9} {'in full':>7}")
+    rows = []
+    for n in args.sizes:
+        out = subprocess.run([sys.executable, __file__, "--one", str(n)], capture_output=True,
+                             text=True, check=True)
+        row = json.loads(out.stdout.strip().splitlines()[-1])
+        rows.append(row)
+        print(f"{n:8d} {row['dofs']:6d} {row['full']:7.2f} {row['reduced']:8.2f} "
+              f"{row['limit']:7.2f} {row['full'] / row['reduced']:8.2f} {row['response']:8.2f} "
+              f"{row['reduced'] + row['response']:8.2f} {row['basis']:5d} {row['eig']:9.1e} "
+              f"{row['crit_rpm']:9.1e} {row['residual']:9.1e} {row['full_solves']:7d}",
+              flush=True)
+    if len(rows) > 1:
+        x = np.log([r["elements"] for r in rows])
+        for key in ("full", "reduced", "limit"):
+            slope = np.polyfit(x, np.log([r[key] for r in rows]), 1)[0]
+            print(f"growth exponent of {key} CPU time with elements: {slope:.2f}")
+        pipe = [r["reduced"] + r["response"] for r in rows]
+        print(f"growth exponent of the reduced pipeline (with response): "
+              f"{np.polyfit(x, np.log(pipe), 1)[0]:.2f}")
+    if not args.no_cases:
+        cases()
+
+
+if __name__ == "__main__":
+    main()
