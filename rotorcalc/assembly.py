@@ -123,7 +123,7 @@ class SystemMatrices:
         for link in self.links + self.source_links:
             k2, c2 = link.bearing.matrices(omega, whirl)
             block = k2 if which == "k" else c2
-            local = fe_bearing.grounded(block) if len(link.dofs) == 2 else fe_bearing.linked(block)
+            local = fe_bearing.element(block, len(link.dofs))
             r, c = np.meshgrid(link.dofs, link.dofs, indexing="ij")
             rows.append(r.ravel())
             cols.append(c.ravel())

@@ -159,12 +159,12 @@ class _MapProblem:
             if link.bearing.role == "seal":
                 # a seal keeps its own direct stiffness (at the maximum continuous speed)
                 k2 = np.diag(np.diag(link.bearing.matrices(at_speed)[0]))
-                block = fe_bearing.grounded(k2) if len(d) == 2 else fe_bearing.linked(k2)
+                block = fe_bearing.element(k2, len(d))
                 r, c = np.meshgrid(d, d, indexing="ij")
                 seals = seals + sp.csr_matrix((block.ravel(), (r.ravel(), c.ravel())),
                                               shape=(n, n))
                 continue
-            block = fe_bearing.grounded(np.eye(2)) if len(d) == 2 else fe_bearing.linked(np.eye(2))
+            block = fe_bearing.element(np.eye(2), len(d))
             r, c = np.meshgrid(d, d, indexing="ij")
             rows.append(r.ravel())
             cols.append(c.ravel())

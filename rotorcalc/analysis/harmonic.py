@@ -80,8 +80,7 @@ class HarmonicSolver:
         z = self.k - omega * omega * self.m + 1j * omega * (self.c + omega * self.g)
         for link, at in self.links:
             k2, c2 = link.bearing.matrices(omega)
-            local = fe_bearing.grounded if len(link.dofs) == 2 else fe_bearing.linked
-            np.add.at(z, at, (local(k2) + 1j * omega * local(c2)).ravel())
+            np.add.at(z, at, fe_bearing.element(k2 + 1j * omega * c2, len(link.dofs)).ravel())
         return z
 
     def dynamic_stiffness(self, omega):

@@ -84,31 +84,39 @@ def sensitivities(rotor, criticals, step=0.01, near=None, every=False):
     Which criticals: :func:`lever_criticals`.  :func:`derivative_sensitivities` gives the
     same from eigenvalue derivatives, at a fraction of the cost.
     """
-    out = []
-    for crit in lever_criticals(rotor, criticals, near, every):
-        for label, path in parameters(rotor):
-            values = []
-            for h in (step, step / 2):
-                up = refine_near(apply_variant(rotor, Variant("+", (parse_change(
-                    f"{path} *= {1 + h!r}"),))), crit)
-                down = refine_near(apply_variant(rotor, Variant("-", (parse_change(
-                    f"{path} *= {1 - h!r}"),))), crit)
-                values.append(None if up is None or down is None
-                              else (up - down) / (2 * h * crit.speed))
-            out.append(Sensitivity(crit, label, values[0], values[1]))
-    return tuple(out)
+    return tuple(_difference(rotor, crit, label, path, step)
+                 for crit in lever_criticals(rotor, criticals, near, every)
+                 for label, path in parameters(rotor))
 
 
-def derivative_sensitivities(rotor, criticals, near=None, every=False):
+def _difference(rotor, crit, label, path, step):
+    values = []
+    for h in (step, step / 2):
+        up = refine_near(apply_variant(rotor, Variant("+", (parse_change(
+            f"{path} *= {1 + h!r}"),))), crit)
+        down = refine_near(apply_variant(rotor, Variant("-", (parse_change(
+            f"{path} *= {1 - h!r}"),))), crit)
+        values.append(None if up is None or down is None
+                      else (up - down) / (2 * h * crit.speed))
+    return Sensitivity(crit, label, values[0], values[1])
+
+
+def derivative_sensitivities(rotor, criticals, near=None, every=False, step=0.01):
     """:func:`sensitivities` from eigenvalue derivatives
-    (:mod:`rotorcalc.analysis.lever_derivatives`): a few solves per critical."""
+    (:mod:`rotorcalc.analysis.lever_derivatives`): a few solves per critical.  On a rotor
+    with bearings from their geometry, a disk's mass changes the bearings' loads and so
+    their coefficients: those levers are central differences of step ``step``."""
     from .lever_derivatives import critical_derivatives
     levers_of = parameters(rotor)
+    films = any(b.film is not None for b in rotor.bearings)
     out = []
     for crit in lever_criticals(rotor, criticals, near, every):
         values = critical_derivatives(rotor, crit, [path for _, path in levers_of])
-        out += [Sensitivity(crit, label, v, None, "derivative")
-                for (label, _), v in zip(levers_of, values)]
+        for (label, path), value in zip(levers_of, values):
+            if films and path.startswith("disk"):
+                out.append(_difference(rotor, crit, label, path, step))
+            else:
+                out.append(Sensitivity(crit, label, value, None, "derivative"))
     return tuple(out)
 
 
@@ -181,7 +189,7 @@ def levers(rotor, criticals, step=0.01, near=None, every=False, method="derivati
     of step ``step`` (:func:`sensitivities`).  ``rotor`` and ``criticals`` as the caller
     screened them (:func:`what_if_rotor` gives the usual rotor)."""
     if method == "derivative":
-        found = derivative_sensitivities(rotor, criticals, near, every)
+        found = derivative_sensitivities(rotor, criticals, near, every, step)
     else:
         found = sensitivities(rotor, criticals, step, near, every)
     return Levers.ranked(found, step, near, every, method)

@@ -55,7 +55,7 @@ class Peak:
                                          else self.af), "note": self.note}
 
 
-#: Solved speeds the refinement keeps (memory: this many full responses).
+#: Bytes of solved responses the refinement keeps (whole responses, oldest dropped first).
 MEMO_BYTES = 64e6
 
 

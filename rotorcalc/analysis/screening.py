@@ -3,6 +3,7 @@ margins, and whether the analysis covers everything it judges."""
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from dataclasses import dataclass
 
@@ -125,6 +126,8 @@ def screen(rotor: Rotor, speeds=None, orders=None, solver=None, progress=None,
     stab = stability(system, result, solver=solver)
     crits = tuple(critical_speeds(system, result, orders=orders, solver=solver,
                                   workers=workers))
+    if getattr(result, "reduction", None) is not None:   # with the refinements' solves too
+        result = dataclasses.replace(result, reduction=solver.summary(system))
     response = unbalance_response(system, unstable=stab.unstable_ranges) \
         if rotor.unbalance else None
     judgement = Judgement.of(rotor)

@@ -337,5 +337,5 @@ def _finite(x):
 
 
 # the levers moved to their own module; their names stay readable from here
-from .levers import (Levers, Sensitivity, derivative_sensitivities, lever_criticals,  # noqa: E402,F401
-                     levers, parameters, refine_near, sensitivities)
+from .levers import (Levers, Sensitivity, derivative_sensitivities,  # noqa: E402,F401
+                     lever_criticals, levers, parameters, refine_near, sensitivities)

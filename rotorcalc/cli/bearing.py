@@ -92,4 +92,5 @@ def _file_part(name):
 
 
 def register(app: typer.Typer):
-    app.command("bearing", help=escape(" ".join(command.__doc__.split())) + "\n\n" + EXAMPLE)(command)
+    doc = escape(" ".join(command.__doc__.split()))   # a [table] name is no markup
+    app.command("bearing", help=doc + "\n\n" + EXAMPLE)(command)

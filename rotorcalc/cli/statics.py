@@ -59,4 +59,5 @@ def command(
 
 
 def register(app: typer.Typer):
-    app.command("statics", help=escape(" ".join(command.__doc__.split())) + "\n\n" + EXAMPLE)(command)
+    doc = escape(" ".join(command.__doc__.split()))   # a [table] name is no markup
+    app.command("statics", help=doc + "\n\n" + EXAMPLE)(command)

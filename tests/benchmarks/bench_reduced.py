@@ -141,7 +141,7 @@ def cases():
         t_map, _ = cpu(lambda: stiffness_study(rotor))
         t_window, _ = cpu(lambda: stiffness_window(rotor, workers=1))
         variants = ROOT / "cases" / f"{name}_variants.toml"
-        t_compare = cpu(lambda: compare(rotor, read_variants(variants), workers=1))[0] \
+        t_compare = cpu(lambda: compare(rotor, read_variants(variants)[2], workers=1))[0] \
             if variants.exists() else math.nan
         print(f"{name:14} screen {t_screen:6.2f}  stiffness map {t_map:6.2f}  window "
               f"{t_window:6.2f}  compare {t_compare:6.2f}", flush=True)

@@ -55,6 +55,7 @@ import math
 
 import numpy as np
 import pytest
+import scipy.sparse as sp
 
 from rotorcalc import standards
 from rotorcalc.analysis.criticals import critical_speeds
@@ -463,3 +464,20 @@ def test_unbalance_residual_rule(mass, rpm, grams_mm):
 def test_unbalance_allowable_vibration_rule(rpm, micrometres):
     check(f"Allowable vibration at {rpm:g} rpm (um pk-pk)", VIBRATION_SRC, micrometres,
           standards.allowable_vibration(rpm * RPM) * 1e6, 1e-12)
+
+
+def test_the_fixed_pattern_dynamic_stiffness_is_the_assembled_one():
+    """The harmonic solver's dynamic stiffness, set entry by entry on its fixed pattern, is
+    K - w^2 M + i w (C + w G) assembled from the system (bearings, seals, supports,
+    destabilising sources), entry for entry after its reordering."""
+    from rotorcalc import read_rotor
+    from tests.conftest import ROOT
+    for name in ("compressor", "hp_compressor_damper_seal", "feed_pump"):
+        system = assemble(read_rotor(ROOT / "cases" / f"{name}.toml"))
+        solver = HarmonicSolver(system)
+        for w in (0.0, 350.0, 1200.0):
+            z = sp.coo_matrix((solver._values(w), (solver.row, solver.col)),
+                              shape=(system.n_dof, system.n_dof)).toarray()
+            p = solver.order
+            expected = solver.dynamic_stiffness(w).toarray()[np.ix_(p, p)]
+            assert np.abs(z - expected).max() <= 1e-12 * np.abs(expected).max()
