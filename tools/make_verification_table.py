@@ -68,6 +68,9 @@ MODULE_SECTIONS = (
      "16. Tilting-pad bearings: locked pads against fixed arcs and the short-bearing limit, "
      "no cross-coupling with centre pivots, the reduction's limits, symmetry of load on and "
      "between pads, static stiffness by re-settling the pads"),
+    ("test_reduced_basis.py",
+     "17. Reduced-basis sweeps against the full-model solve: every bundled case and a rotor "
+     "with speed-dependent cross-coupled bearings"),
 )
 
 INTRO = """\
