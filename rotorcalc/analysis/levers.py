@@ -167,9 +167,11 @@ class Levers:
     def caption(self):
         if self.method == "derivative":
             return ("% per %: per cent change of the critical per per cent change of the lever, "
-                    "from the eigenvalue's derivative (its left and right eigenvectors); "
-                    "--differences computes it by central differences instead, with a check at "
-                    "half the step. 'rpm for +10 %' is the linear estimate.")
+                    "from the eigenvalue's derivative (its left and right eigenvectors); rows "
+                    "whose Method says 'difference' (a disk's mass when bearings are computed "
+                    "from their geometry: the films are re-loaded) are central differences with "
+                    f"a {self.step:.1%} step, checked at half the step. --differences computes "
+                    "every row that way. 'rpm for +10 %' is the linear estimate.")
         return (f"% per %: per cent change of the critical per per cent change of the lever, "
                 f"central difference with a {self.step:.1%} step; 'Half step' repeats it with "
                 "half the step (agreement verifies it). 'rpm for +10 %' is the linear "
