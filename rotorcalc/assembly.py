@@ -118,12 +118,15 @@ class SystemMatrices:
         base = DOF_PER_NODE * np.arange(self.mesh.n_nodes)
         return np.stack([base, base + 1], axis=1)
 
-    def _bearing_part(self, omega, which, whirl):
+    def _bearing_part(self, omega, which, whirl, part=None):
+        """The bearings' (and sources') stiffness (``which="k"``) or damping at ``omega``,
+        as a sparse matrix; ``part`` maps each 2x2 block first (the reduced basis's
+        reference keeps the direct terms)."""
         rows, cols, data = [], [], []
         for link in self.links + self.source_links:
             k2, c2 = link.bearing.matrices(omega, whirl)
             block = k2 if which == "k" else c2
-            local = fe_bearing.element(block, len(link.dofs))
+            local = fe_bearing.element(block if part is None else part(block), len(link.dofs))
             r, c = np.meshgrid(link.dofs, link.dofs, indexing="ij")
             rows.append(r.ravel())
             cols.append(c.ravel())

@@ -129,20 +129,9 @@ def _links(system):
 
 def _reference_stiffness(system, speed):
     """Shaft, supports and every bearing's direct stiffness (kxx, kyy, not below 0)."""
-    rows, cols, data = [], [], []
-    for link in _links(system):
-        k2 = link.bearing.matrices(speed)[0]
-        local = fe_bearing.element(np.diag(np.maximum(np.diag(k2), 0.0)), len(link.dofs))
-        r, c = np.meshgrid(link.dofs, link.dofs, indexing="ij")
-        rows.append(r.ravel())
-        cols.append(c.ravel())
-        data.append(local.ravel())
-    k0 = system.shaft_stiffness + system.support_stiffness
-    if rows:
-        k0 = k0 + sp.coo_matrix((np.concatenate(data), (np.concatenate(rows),
-                                                        np.concatenate(cols))),
-                                shape=k0.shape).tocsr()
-    return k0
+    return (system.shaft_stiffness + system.support_stiffness
+            + system._bearing_part(speed, "k", None,
+                                   lambda k2: np.diag(np.maximum(np.diag(k2), 0.0))))
 
 
 class _Compliance:
@@ -227,13 +216,14 @@ class ReducedModel:
         first, middle and last sample, that the full model has no mode the basis lacks (and
         go on enriching if it has)."""
         ends = [samples[0], samples[len(samples) // 2], samples[-1]]
+        s = self.system
+        full = [(speed, s.damping(speed) + speed * s.gyroscopic, s.stiffness(speed))
+                for speed in samples]          # the full matrices, once for every round
         for self.rounds in range(1, ROUNDS + 1):
             directions = []
-            for speed in samples:
-                d_mat = self.system.damping(speed) + speed * self.system.gyroscopic
+            for speed, d_mat, k_mat in full:
                 pairs = self._solve(speed, self.n_solve, None, None, None)
-                eta, z = self.certify(pairs.values, pairs.vectors, d_mat,
-                                      self.system.stiffness(speed))
+                eta, z = self.certify(pairs.values, pairs.vectors, d_mat, k_mat)
                 bad = eta > self.tolerance
                 if bad.any():
                     directions += [z[:, bad].real, z[:, bad].imag]
