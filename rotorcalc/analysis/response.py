@@ -166,6 +166,17 @@ class Response:
         st = self.stations[case_index]
         return orbit_axes(st[..., 0], st[..., 1])
 
+    def run_up_envelope(self, case_index, top=None):
+        """The largest orbit (major semi-axis, m) at every station over the speeds up to
+        ``top`` (rad/s; every speed when None), and the speed (rad/s) where each occurs:
+        the deflected shape the clearance check reads."""
+        major = self.orbits(case_index)[0]
+        keep = np.ones(len(self.speeds), bool) if top is None else \
+            self.speeds <= top * (1 + 1e-9)
+        major, speeds = major[keep], self.speeds[keep]
+        worst = np.argmax(major, axis=0)
+        return major[worst, np.arange(major.shape[1])], speeds[worst]
+
     @property
     def steady_peaks(self):
         """The peaks at speeds where every mode is stable: a peak inside an unstable range

@@ -117,7 +117,7 @@ def what_if_rotor(rotor, with_sources=False, with_screen=False):
     return dataclasses.replace(rotor, sources=(), coupling_rule=None)
 
 
-def compare(rotor, variants, progress=None, with_sources=False, workers=0):
+def compare(rotor, variants, progress=None, with_sources=False, workers=0, base=None):
     """Screen the base rotor and every variant; rows carry the change against the base.
 
     Parameters
@@ -129,10 +129,19 @@ def compare(rotor, variants, progress=None, with_sources=False, workers=0):
     workers : int
         Worker processes sharing the screenings (0: one per core, the default; each
         screening is independent, so the result is the same for any number).
+    base : Screening, optional
+        The rotor's own screening, already made: used as the base instead of screening
+        it again when the what-if rotor screens the same (no sources or cross-coupling
+        screen to drop).
     """
-    rotor = what_if_rotor(rotor, with_sources, with_screen=True)
-    models = [("base", rotor)] + [(v.name, apply_variant(rotor, v)) for v in variants]
-    screenings = run_all(screen, [(model,) for _, model in models], workers, progress)
+    what_if = what_if_rotor(rotor, with_sources, with_screen=True)
+    models = [("base", what_if)] + [(v.name, apply_variant(what_if, v)) for v in variants]
+    # the what-if rotor screens as the rotor itself when it has nothing to drop
+    reuse = base is not None and (what_if is rotor or not rotor.sources and (
+        rotor.coupling_rule is None or not rotor.coupling_rule.in_check))
+    screenings = run_all(screen, [(model,) for _, model in models[reuse:]], workers, progress)
+    if reuse:
+        screenings = [base] + list(screenings)
     # overdamped modes are not criticals: they are listed, never matched (a heavily
     # damped mode near the first bending critical once took its counterpart)
     base = [r.critical for r in screenings[0].margins.rows if r.verdict != "overdamped"]

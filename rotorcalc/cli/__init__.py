@@ -56,6 +56,10 @@ COMMANDS = {
                            "rotor's weight."),
     "bearing": ("bearing", "A bearing's eight coefficients against speed."),
     "envelope": ("envelope", "Screen the rotor at every corner of its bearings' tolerances."),
+    "review": ("review", "The design-review report: every analysis the rotor file asks for "
+                         "(statics and bearings, sweep, critical speeds and margins, "
+                         "stability, unbalance response, the variants of --variants) in one "
+                         "self-contained HTML file to read in any browser or print to PDF."),
 }
 
 

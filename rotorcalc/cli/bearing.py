@@ -10,6 +10,7 @@ import typer
 from rich.markup import escape
 
 from ..bearings.fixed_film import CAUTION as FILM_CAUTION
+from ..captions import PAD_CAPTION, WHIRL_CAPTION, film_record_caption
 from ..vocabulary import CAUTION
 from ..tables import (BEARING_COEFFICIENT_COLUMNS, BEARING_ROW_COLUMNS, FILM_STATE_COLUMNS,
                       PAD_COLUMNS, WHIRL_COLUMNS)
@@ -47,24 +48,16 @@ def command(
                     caption=c.description)
         if c.record is not None:
             print_table(f"{c.name}: film state under its static load", FILM_STATE_COLUMNS,
-                        c.film_rows, caption=_record_caption(c.record))
+                        c.film_rows, caption=film_record_caption(c.record))
             for note in c.record.notes:
                 console.print(f"[yellow]note[/] {escape(str(note))}", highlight=False)
         if c.pads is not None:
             print_table(f"{c.name}: the pads at {to_rpm(c.pads.speed):.0f} rpm (maximum "
                         "continuous speed)", PAD_COLUMNS, c.pad_rows,
-                        caption="Pivot angle from +x towards +y; tilt positive in the same "
-                                "sense; load: the pad's film force on the journal; each "
-                                "pad's film at its own temperature from its power loss and "
-                                "the oil it draws in at its leading edge.")
+                        caption=PAD_CAPTION)
             print_table(f"{c.name}: coefficients reduced at each whirl frequency, "
                         f"{to_rpm(c.pads.speed):.0f} rpm", WHIRL_COLUMNS, c.whirl_rows,
-                        caption="The pads' tilts eliminated at each whirl frequency (pad "
-                                "inertia included); the analyses read the synchronous row "
-                                "(whirl = speed), the stability screen each mode's own with "
-                                "coefficients_at = \"mode-frequency\". The trend with whirl "
-                                "frequency is not yet checked against published data "
-                                "(docs/bearings.md).")
+                        caption=WHIRL_CAPTION)
     caution = FILM_CAUTION if any(c.record is not None for c in curves) else CAUTION
     console.print(f"[dim]{caution}[/]", highlight=False)
     write_outputs("bearing", case, {"bearings": [c.to_dict() for c in curves],
@@ -76,15 +69,6 @@ def command(
             target = plot if len(curves) == 1 else plot.parent.joinpath(
                 f"{plot.stem}_{_file_part(c.name)}{plot.suffix}")
             save_figure(c.plot().figure, target)
-
-
-def _record_caption(record):
-    step = ("not checked" if record.step_change != record.step_change else
-            f"{record.step_change:.1e} on halving the perturbation step")
-    return (f"Computed at {len(record.speeds)} speeds; interpolation in speed within "
-            f"{record.interpolation_error:.1%} at the mid-points checked; coefficients "
-            f"change by {step}. Below the lowest speed and above the highest the end "
-            "values hold.")
 
 
 def _file_part(name):

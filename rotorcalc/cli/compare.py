@@ -11,17 +11,17 @@ import typer
 from rich.markup import escape
 
 from ..analysis.margins import CAUTION
-from ..analysis.whatif import MATCH_CAPTION, MATCH_SHARE
+from ..analysis.whatif import MATCH_CAPTION
+from ..captions import comparison_notes, merged_warnings, variant_summary, variants_title
 from ..errors import InputError
 from ..output import file_hash
 from ..reader import load_toml
 from ..tables import comparison_columns
-from ..units import to_rpm
 from .common import (SCREENINGS_JOBS_HELP, console, fail_input, input_errors, load,
                      print_table, print_warnings, renamed_notes, save_figure, write_outputs)
 from .criticals import apply_overrides
-from .whatif_common import (check_outputs, command_help, critical_text, plotting_function,
-                            progress_bar, with_sources_option)
+from .whatif_common import (check_outputs, command_help, plotting_function, progress_bar,
+                            with_sources_option)
 
 COMPARE_EXAMPLE = ("[bold]Example[/]: rotorcalc compare cases/feed_pump_variants.toml "
                    "--plot variants.png --csv variants.csv")
@@ -64,39 +64,6 @@ def read_study(path, vary):
                                   kind="duplicate"))
         seen.add(v.name)
     return base_path, rotor, variants
-
-
-def comparison_notes(comparison):
-    """Unstable criticals, and base criticals that need a margin but have no counterpart."""
-    notes = []
-    for r in comparison.rows:
-        if r.row.critical.log_dec < 0:
-            notes.append(f"{r.variant}: UNSTABLE critical at {critical_text(r.row.critical)}")
-    base_rows = [r for r in comparison.screenings[0].margins.rows
-                 if r.verdict in ("pass", "fail") or not r.passed]
-    for name in comparison.names[1:]:
-        matched = {r.base_speed for r in comparison.rows if r.variant == name}
-        gone = [r.critical for r in base_rows if r.critical.speed not in matched]
-        if gone:
-            notes.append(f"{name}: no critical within {MATCH_SHARE:.0%} of the base critical"
-                         f"{'s' if len(gone) > 1 else ''} "
-                         + ", ".join(critical_text(c) for c in gone)
-                         + " with the same whirl (it moved further, changed whirl, or left "
-                           "the sweep)")
-    return notes
-
-
-def merged_warnings(comparison):
-    """The screenings' warnings, each once, naming the variants that gave it."""
-    where = {}
-    for name, s in zip(comparison.names, comparison.screenings):
-        for w in s.sweep.warnings:
-            where.setdefault(w, []).append(name)
-    out = []
-    for w, names in where.items():
-        label = "all variants" if len(names) == len(comparison.names) else ", ".join(names)
-        out.append(f"({label}) {w}")
-    return tuple(out)
 
 
 def command(
@@ -148,30 +115,9 @@ def print_comparison(rotor, comparison, variants, base_label="base",
                      base_text="the rotor as described"):
     """The summary and critical-speed tables of a comparison, its notes and warnings
     (returned, for the JSON)."""
-    summary = [(base_label, base_text, comparison.screenings[0])] + [
-        (v.name, "; ".join(c.text for c in v.changes), s)
-        for v, s in zip(variants, comparison.screenings[1:])]
-    from ..tables import Column
-    columns = [
-        Column("Variant", lambda r: r[0], "{}"),
-        Column("Changes", lambda r: r[1], "{}"),
-        Column("Criticals", lambda r: len(r[2].margins.rows), "{:d}"),
-        Column("Screening", lambda r: {"pass": "passes", "fail": "FAILS",
-                                       "incomplete": "NOT COVERED"}[r[2].verdict], "{}"),
-    ]
-    screened = comparison.screenings[0].coupling is not None
-    if screened:
-        columns.append(Column("Cross-coupling screen", lambda r: r[2].coupling.brief(), "{}"))
-    print_table(f"{rotor.name}: variants", columns, summary,
-                caption="Screening: every verdict 'check' gives (separation margins by log dec "
-                        "and, with unbalance cases, by response; stability up to trip; response "
-                        "limits; coverage" + ("; the file's cross-coupling screen, at the "
-                        "expected amount, and the check with every source applied)."
-                        if screened else ")."))
-    op = rotor.operating
-    print_table(f"Critical speeds of each variant (base operating range "
-                f"{to_rpm(op.min_speed):.0f}-{to_rpm(op.max_speed):.0f} rpm)",
-                comparison_columns(comparison), comparison.rows,
+    columns, summary, caption = variant_summary(comparison, variants, base_label, base_text)
+    print_table(f"{rotor.name}: variants", columns, summary, caption=caption)
+    print_table(variants_title(rotor.operating), comparison_columns(comparison), comparison.rows,
                 caption=MATCH_CAPTION)
     for note in comparison_notes(comparison):
         console.print(f"[yellow]note[/] {escape(note)}", highlight=False)

@@ -8,9 +8,9 @@ from typing import Optional
 import typer
 from rich.markup import escape
 
+from ..captions import STATIC_FILM_CAPTION, reactions_caption, reactions_title
 from ..statics import CAUTION
 from ..tables import STATIC_FILM_COLUMNS, STATIC_REACTION_COLUMNS
-from ..units import to_rpm
 from .common import (console, input_errors, load, print_table, save_figure, speed_option,
                      write_outputs)
 from .whatif_common import check_outputs
@@ -38,18 +38,12 @@ def command(
     from ..statics import static_solution
     with input_errors():
         solution = static_solution(rotor, at)
-    print_table(f"{escape(rotor.name)}: journal loads at rest (gravity {solution.gravity}, "
-                f"stiffness at {to_rpm(solution.speed):.0f} rpm)", STATIC_REACTION_COLUMNS,
-                solution.rows,
-                caption=f"Force of each journal bearing on the shaft. Weight "
-                        f"{solution.weight:.5g} N; applied in all (x, y) "
-                        f"{solution.applied[0]:.5g}, {solution.applied[1]:.5g} N; the "
-                        f"reactions balance it to {solution.balance_error:.1e}.")
+    print_table(reactions_title(rotor.name, solution), STATIC_REACTION_COLUMNS, solution.rows,
+                caption=reactions_caption(solution))
     if solution.films:
         print_table("Journals computed from their geometry: film state under the load",
                     STATIC_FILM_COLUMNS, solution.film_rows,
-                    caption="Each film carries its journal's load at the equilibrium found "
-                            "by Newton's method on the journal loads (docs/bearings.md).")
+                    caption=STATIC_FILM_CAPTION)
     console.print(escape(solution.summary()), highlight=False)
     console.print(f"[dim]{CAUTION}[/]", highlight=False)
     write_outputs("statics", case, solution.to_dict(), (), json_path, csv_path,

@@ -12,7 +12,6 @@ from rich.markup import escape
 from rich.progress import BarColumn, Progress, TextColumn, TimeElapsedColumn
 
 from ..errors import InputError
-from ..units import to_rpm
 from .common import check_output, console, errors, fail_input
 
 
@@ -112,10 +111,6 @@ def bearing_target(rotor, name, option="--bearing"):
 
 def heading(text):
     console.print(f"[bold]{escape(text)}[/]", highlight=False)
-
-
-def critical_text(c):
-    return f"{to_rpm(c.speed):.0f} rpm {c.whirl} (log dec {c.log_dec:.3f})"
 
 
 def with_sources_option():

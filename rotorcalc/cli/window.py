@@ -13,10 +13,11 @@ from ..errors import InputError
 from ..tables import WINDOW_END_COLUMNS, WINDOW_SCAN_COLUMNS
 from ..units import to_rpm
 from ..analysis.whatif import WINDOW_CAPTION, WINDOW_DEFAULT
+from ..captions import critical_text
 from .common import (SCREENINGS_JOBS_HELP, console, fail_input, input_errors, load,
                      print_table, write_outputs)
 from .criticals import apply_overrides
-from .whatif_common import (bearing_target, check_outputs, command_help, critical_text, heading,
+from .whatif_common import (bearing_target, check_outputs, command_help, heading,
                             progress_bar, with_sources_option, without_response)
 
 WINDOW_EXAMPLE = ('[bold]Example[/]: rotorcalc window cases/overhung_fan.toml --bearing FE '

@@ -11,7 +11,8 @@ shape), ``layout`` (rotor layout), ``bodeplot``, ``polarplot``, ``orbitplot``
 (unbalance response), ``stiffmap`` (critical-speed map), ``overlay`` (variants'
 maps), ``mapshapes`` (mode shapes at map points), ``couplingplot`` (the
 cross-coupling screen), ``staticplot`` (the rotor at rest), ``bearingplot`` (a bearing's
-coefficients against speed).  Shared helpers start with an underscore: ``_style`` and
+coefficients against speed), ``clearanceplot`` (the run-up envelope against the
+clearances).  Shared helpers start with an underscore: ``_style`` and
 ``_labels`` (the look, label placing), ``_units``, ``_orbit``, ``_phase``,
 ``_probes``, ``_panels``, ``_artists``.
 """
@@ -19,6 +20,7 @@ coefficients against speed).  Shared helpers start with an underscore: ``_style`
 from ..vocabulary import renamed
 from .bearingplot import BearingCoefficientArtists, plot_bearing_coefficients
 from .bodeplot import BodeArtists, plot_bode
+from .clearanceplot import ClearanceEnvelopeArtists, plot_clearance_envelope
 from .couplingplot import CouplingScreenArtists, plot_coupling_screen
 from .layout import LayoutArtists, plot_rotor_layout
 from .mapshapes import MapShapeArtists, map_point_label, plot_map_shapes
@@ -35,14 +37,14 @@ from .stiffmap import CriticalMapArtists, plot_critical_speed_map
 PICTURES = ("plot_whirl_speed_map", "plot_mode_shape", "plot_rotor_layout", "plot_bode",
             "plot_polar", "plot_orbits", "plot_critical_speed_map", "plot_variant_maps",
             "plot_map_shapes", "plot_coupling_screen", "plot_static_deflection",
-            "plot_bearing_coefficients")
+            "plot_bearing_coefficients", "plot_clearance_envelope")
 #: The pictures that had 0.1 names without ``plot_`` (read with a note until 0.3).
 _RENAMED = PICTURES[:9]
 
 __all__ = [*PICTURES, "save", "map_point_label", "SpeedMapArtists", "ModeShapeArtists",
            "LayoutArtists", "BodeArtists", "PolarArtists", "OrbitArtists", "CriticalMapArtists",
            "VariantMapArtists", "MapShapeArtists", "CouplingScreenArtists",
-           "StaticDeflectionArtists", "BearingCoefficientArtists"]
+           "StaticDeflectionArtists", "BearingCoefficientArtists", "ClearanceEnvelopeArtists"]
 
 
 def _old_mode_shape(modes, index, **kwargs):

@@ -56,7 +56,7 @@ class ModeShapeArtists(Artists):
 
 
 @st.literal_text
-def plot_mode_shape(modes, mode=1, *, ax=None, rotor=None, orbits=True):
+def plot_mode_shape(modes, mode=1, *, ax=None, rotor=None, orbits=True, title=None):
     """Draw the shape of one mode of a :class:`~rotorcalc.analysis.Modes` result.
 
     The shaded band is the major semi-axis of each node's orbit (the room the
@@ -77,6 +77,8 @@ def plot_mode_shape(modes, mode=1, *, ax=None, rotor=None, orbits=True):
     orbits : bool
         Draw the small orbit of each station below the shape, seen from the
         +z end (spin anticlockwise), with the instant of the line marked.
+    title : str, optional
+        Instead of "Mode N at S rpm" (e.g. "Critical speed 2 at S rpm").
 
     Returns
     -------
@@ -112,7 +114,7 @@ def plot_mode_shape(modes, mode=1, *, ax=None, rotor=None, orbits=True):
             ax.annotate(str(k), xy=(z[node], _SHAPE_BOTTOM), xytext=(0, -2),
                         textcoords="offset points", ha="center", va="top",
                         fontsize=st.FONT_NOTE, color=st.MUTED)
-    _titles(ax, modes, index)
+    _titles(ax, modes, index, title)
     return ModeShapeArtists(figure=fig, ax=ax, envelope=envelope, line=shaft,
                             station_lines=station_lines, orbits=drawn, outline=outline,
                             legend=_legend(ax, rotor is not None, orbits))
@@ -161,13 +163,13 @@ def _stations(ax, z, stations, line):
     return station_lines
 
 
-def _titles(ax, modes, index):
+def _titles(ax, modes, index, title=None):
     """The mode and speed as title, its frequency, log decrement and whirl below it."""
     freq = float(modes.frequency[index])
     hz, cpm = to_hz(freq), to_rpm(freq)
     log_dec = float(modes.log_dec[index])
     whirl = modes.whirl[index]
-    ax.set_title(f"Mode {index + 1} at {st.whole(to_rpm(modes.speed))} rpm", loc="left",
+    ax.set_title(title or f"Mode {index + 1} at {st.whole(to_rpm(modes.speed))} rpm", loc="left",
                  fontsize=st.FONT_TITLE, color=st.INK, pad=20)
     ax.text(0.0, 1.015, f"{hz:.2f} Hz ({st.whole(cpm)} cpm)  \u00b7  log decrement "
             f"\u03b4 = {st.log_dec_text(log_dec)}  \u00b7  {whirl} whirl", transform=ax.transAxes,
@@ -205,6 +207,11 @@ def _outline(ax, rotor):
                                markersize=6 if marker == "^" else 4,
                                markerfacecolor="none", markeredgecolor=colour,
                                markeredgewidth=0.9, alpha=0.55, zorder=1.3))
+        if b.name:      # named, so a reader finds the supports on the shape
+            artists.append(ax.annotate(b.name, xy=(x, -r - 0.07), xytext=(0, -6),
+                                       textcoords="offset points", ha="center", va="top",
+                                       fontsize=st.FONT_NOTE, color=colour, alpha=0.9,
+                                       zorder=1.3))
     return artists
 
 

@@ -492,23 +492,28 @@ def test_derivative_levers_agree_with_central_differences(case):
     """On the bundled cases (speed-dependent bearings, gyroscopics; the sleeve-bearing pump's
     bearings from their geometry, whose disk-mass levers are differences by design): the
     derivatives against the central differences, Richardson-extrapolated from steps 1 % and
-    0.5 % (error O(h^4), about 1e-8 here)."""
+    0.5 % (error O(h^4), about 1e-8 here).  The levers that are differences themselves are
+    held to their own two steps agreeing within 5 % (each step tabulates the films afresh
+    and the tables are smoothed fits, about 1 % apart: docs/bearings.md), not differenced
+    a second time."""
+    from rotorcalc.analysis.levers import _difference, lever_criticals, parameters
     rotor = read_rotor(ROOT / "cases" / f"{case}.toml")
     crits = screen(rotor).criticals
     every = case == "feed_pump_sleeve"   # its criticals are critically damped: need no margin
-    reference = {(id(s.critical), s.parameter): (4.0 * s.check - s.value) / 3.0
-                 for s in sensitivities(rotor, crits, every=every)}
+    films = any(b.film is not None for b in rotor.bearings)
     got = derivative_sensitivities(rotor, crits, every=every)
-    assert len(got) == len(reference) > 0
+    assert len(got) == len(lever_criticals(rotor, crits, every=every)) * len(parameters(rotor))
+    paths = dict(parameters(rotor))
     for s in got:
         if s.method == "difference":   # a film rotor's disk mass: differences by design
-            assert case == "feed_pump_sleeve" and s.parameter.endswith("mass")
-            assert (4.0 * s.check - s.value) / 3.0 == reference[(id(s.critical), s.parameter)]
+            assert films and paths[s.parameter].startswith("disk")
+            assert s.value == pytest.approx(s.check, rel=0.05, abs=1e-5)
             continue
+        ref = _difference(rotor, s.critical, s.parameter, paths[s.parameter], 0.01)
         check(f"{case}: lever {s.parameter} on the {s.critical.speed * 30 / math.pi:.0f} rpm "
               "critical, derivative vs central differences", "central differences of the "
               "full screening (Richardson, steps 1 % and 0.5 %)",
-              reference[(id(s.critical), s.parameter)], s.value, 2e-5, kind="abs")
+              (4.0 * ref.check - ref.value) / 3.0, s.value, 2e-5, kind="abs")
     assert any(s.method == "derivative" for s in got)
 
 

@@ -1,0 +1,43 @@
+"""Matplotlib figures as inline SVG text for the report."""
+
+from __future__ import annotations
+
+import io
+import re
+
+import matplotlib
+import matplotlib.pyplot as plt
+
+#: Everything before the <svg> element (XML declaration, doctype, comments): not allowed
+#: inside an HTML body.
+_PROLOGUE = re.compile(r"^.*?(?=<svg)", re.S)
+_METADATA = re.compile(r"\s*<metadata>.*?</metadata>", re.S)
+
+
+def svg(fig, salt: str) -> str:
+    """The figure as one ``<svg>`` element, then closed.
+
+    ``salt`` prefixes the drawing's internal ids (clip paths, markers, glyphs) and the
+    references to them: several pictures in one HTML document share one id space.  Text is
+    drawn as paths, so no font is needed to show it.
+    """
+    buffer = io.StringIO()
+    with matplotlib.rc_context({"svg.hashsalt": salt, "svg.fonttype": "path"}):
+        # cropped as the command line's pictures are (rotorcalc.plotting.save)
+        fig.savefig(buffer, format="svg", metadata={"Date": None}, bbox_inches="tight",
+                    pad_inches=0.12, facecolor=fig.get_facecolor())
+    plt.close(fig)
+    text = _PROLOGUE.sub("", buffer.getvalue(), count=1)
+    text = _METADATA.sub("", text, count=1)     # names of vocabularies only: nothing to show
+    text = _prefixed(text, salt)
+    # the figure scales with the page: its own size becomes the viewBox only
+    return re.sub(r'<svg([^>]*?) width="[^"]*" height="[^"]*"', r'<svg\1', text, count=1)
+
+
+def _prefixed(text, prefix):
+    """Every ``id`` of the drawing and every reference to one (``href="#id"``,
+    ``url(#id)``) with ``prefix-`` in front."""
+    text = re.sub(r'\bid="([^"]+)"', lambda m: f'id="{prefix}-{m.group(1)}"', text)
+    text = re.sub(r'(href)="#([^"]+)"', lambda m: f'{m.group(1)}="#{prefix}-{m.group(2)}"',
+                  text)
+    return re.sub(r"url\(#([^)]+)\)", lambda m: f"url(#{prefix}-{m.group(1)})", text)
