@@ -81,10 +81,17 @@ def findings(result: Screening):
                     "response", f"{check.check} at {check.where} ({check.case}): "
                     f"{check.value * 1e6:.1f} um at {to_rpm(check.speed):.0f} rpm against "
                     f"{check.limit * 1e6:.1f} um, {check.verdict}", rule, ""))
-    if result.coupling is not None and not result.coupling.passed:
-        criteria = result.coupling.screen.criteria
-        out.append(Finding("cross-coupling", result.coupling.brief(), criteria.describe(),
-                           criteria.label))
+    coupling = result.coupling
+    if coupling is not None and not coupling.passed:
+        criteria = coupling.screen.criteria
+        if coupling.screen.verdict != "pass":
+            out.append(Finding("cross-coupling", f"the screen {coupling.screen.verdict}s: "
+                               f"{coupling.screen.summary()}", criteria.describe_screen(),
+                               criteria.label))
+        if coupling.sources is not None and not coupling.sources.passed:
+            out.append(Finding("cross-coupling", "with every source applied: "
+                               f"{coupling.sources.summary()}", criteria.describe_sources(),
+                               criteria.label))
     out.extend(Finding("coverage", gap.text) for gap in result.gaps)
     return tuple(out)
 

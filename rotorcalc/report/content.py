@@ -160,7 +160,7 @@ def _bearings(review):
                    f"from {'its geometry' if c.source == 'geometry' else 'a table'}: "
                    f"{c.description}")
         sec.table(f"{c.name}: coefficients", tb.BEARING_COEFFICIENT_COLUMNS,
-                  c.coefficient_rows, c.description)
+                  c.coefficient_rows)
         if c.record is not None:
             sec.table(f"{c.name}: film state under its static load", tb.FILM_STATE_COLUMNS,
                       c.film_rows, captions.film_record_caption(c.record))

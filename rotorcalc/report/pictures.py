@@ -74,14 +74,14 @@ def _draw_chunk(pictures):
 
 
 def draw_all(pictures, workers=1):
-    """``{key: svg}`` of every picture, drawn on up to ``workers`` processes (contiguous
-    chunks, so the text does not depend on the count)."""
+    """``{key: svg}`` of every picture, drawn on up to ``workers`` processes (dealt in turn,
+    so that each gets some of each kind; a picture's text does not depend on where it was
+    drawn)."""
     from ..workers import run_all
     pictures = list(pictures)
     if not pictures:
         return {}
     n = max(1, min(workers, len(pictures)))
-    size = -(-len(pictures) // n)
-    chunks = [(pictures[i:i + size],) for i in range(0, len(pictures), size)]
-    drawn = [text for chunk in run_all(_draw_chunk, chunks, n) for text in chunk]
-    return {p.key: text for p, text in zip(pictures, drawn)}
+    chunks = [pictures[i::n] for i in range(n)]
+    drawn = run_all(_draw_chunk, [(chunk,) for chunk in chunks], n)
+    return {p.key: text for chunk, texts in zip(chunks, drawn) for p, text in zip(chunk, texts)}
