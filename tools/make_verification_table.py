@@ -71,6 +71,9 @@ MODULE_SECTIONS = (
     ("test_reduced_basis.py",
      "17. Reduced-basis sweeps against the full-model solve: every bundled case and a rotor "
      "with speed-dependent cross-coupled bearings"),
+    ("test_review.py",
+     "18. The design review's own numbers: rigid-body mass properties against the cylinder "
+     "table and the assembled mass matrix"),
 )
 
 INTRO = """\

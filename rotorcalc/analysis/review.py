@@ -264,27 +264,27 @@ class Review:
 
 
 def side_analyses(rotor: Rotor):
-    """(statics, bearing curves, stiffness study) of a rotor: the analyses that do not
-    need the screening (statics and the map are None without a journal bearing)."""
+    """(statics, bearing curves, stiffness study, cross-coupling study) of a rotor: the
+    analyses that do not need the screening (statics and the map are None without a
+    journal bearing, the study None when the file asks for no cross-coupling screen)."""
     from .bearing_curves import bearing_curves
-    statics = stiffness = None
+    statics = stiffness = coupling = None
     if any(b.role != "seal" for b in rotor.bearings):
         from ..statics import static_solution
         from .stiffness_study import stiffness_study
         statics = static_solution(rotor)
         stiffness = stiffness_study(rotor)
-    return statics, tuple(bearing_curves(rotor)), stiffness
+    if rotor.coupling_rule is not None:
+        from .coupling_screen import coupling_study
+        coupling = coupling_study(rotor)
+    return statics, tuple(bearing_curves(rotor)), stiffness, coupling
 
 
 def finish_review(rotor: Rotor, result: Screening, side, variants=(), workers=1) -> Review:
-    """The review from the rotor's screening and its :func:`side_analyses`: the analyses
-    that read the screening (mesh check, shapes at the criticals, the cross-coupling
-    screen when the file asks for it outside the check, the variants)."""
-    statics, bearings, stiffness = side
-    coupling = result.coupling
-    if coupling is None and rotor.coupling_rule is not None:
-        from .coupling_screen import coupling_study
-        coupling = coupling_study(rotor)
+    """The review from the rotor's screening and its :func:`side_analyses` (whose
+    cross-coupling study the screening took): the analyses that read the screening (mesh
+    check, shapes at the criticals, the variants)."""
+    statics, bearings, stiffness, coupling = side
     comparison = None
     if variants:
         from .whatif import compare
@@ -309,5 +309,6 @@ def review(rotor: Rotor, variants=(), workers=1, progress=None) -> Review:
     progress : callable, optional
         ``progress(done, total)`` of the sweep.
     """
-    result = screen(rotor, progress=progress, workers=workers)
-    return finish_review(rotor, result, side_analyses(rotor), variants, workers)
+    side = side_analyses(rotor)
+    result = screen(rotor, progress=progress, workers=workers, coupling=side[3])
+    return finish_review(rotor, result, side, variants, workers)

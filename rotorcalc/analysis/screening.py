@@ -101,7 +101,7 @@ class Screening:
 
 
 def screen(rotor: Rotor, speeds=None, orders=None, solver=None, progress=None,
-           workers=1) -> Screening:
+           workers=1, coupling=None) -> Screening:
     """Sweep the speed range, judge stability, find the critical speeds and judge
     their margins (and the unbalance response, when the rotor has cases).
 
@@ -117,6 +117,10 @@ def screen(rotor: Rotor, speeds=None, orders=None, solver=None, progress=None,
     workers : int
         Worker processes for the sweep and the critical-speed refinement (1 by
         default, 0 for one per core); the result does not depend on it.
+    coupling : CouplingResult, optional
+        The file's cross-coupling study (:func:`~rotorcalc.analysis.coupling_screen.coupling_study`
+        of this rotor), when it was made already (the report makes it beside the sweep);
+        made here when the file's ``[coupling_screen]`` is in the check.
     """
     system = assemble(rotor)
     system.require_support()
@@ -138,8 +142,9 @@ def screen(rotor: Rotor, speeds=None, orders=None, solver=None, progress=None,
                                response_span=None if response is None else
                                (float(response.speeds[0]), float(response.speeds[-1])))
     gaps = coverage_gaps(rotor, result, table, response)
-    coupling = None
-    if rotor.coupling_rule is not None and rotor.coupling_rule.in_check:
+    if rotor.coupling_rule is None or not rotor.coupling_rule.in_check:
+        coupling = None
+    elif coupling is None:
         from .coupling_screen import coupling_study
         coupling = coupling_study(rotor)
     return Screening(rotor, result, crits, table, response, stab, gaps, coupling)

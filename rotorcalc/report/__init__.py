@@ -95,23 +95,43 @@ def _side_with_pictures(rotor):
     return side, draw_all(side_pictures(rotor, *side))
 
 
+def _screen_part(rotor, progress):
+    """The screening without the cross-coupling study (made beside it): the sweep,
+    stability, criticals, response and margins."""
+    import dataclasses
+    from ..analysis.screening import screen
+    if rotor.coupling_rule is None or not rotor.coupling_rule.in_check:
+        return screen(rotor, progress=progress)
+    return screen(dataclasses.replace(rotor, coupling_rule=None), progress=progress)
+
+
 def write_review(rotor, provenance: Provenance, variants=(), workers=2, paper="A4",
                  progress=None):
     """(Review, HTML text): every analysis once, the pictures drawn on ``workers``
-    processes.  With two or more, the rotor at rest, the bearings and the map (and their
-    pictures) are made in a worker while this process screens the rotor; the page is the
-    same for any count."""
-    from ..analysis.review import finish_review, side_analyses
+    processes.  With two or more, the rotor at rest, the bearings, the map and the
+    cross-coupling study (and their pictures) are made in a worker while this process
+    screens the rotor and draws the screening's pictures; the page is the same for any
+    count."""
+    from ..analysis.review import critical_modes, finish_review, side_analyses
     from ..analysis.screening import screen
     drawn = {}
     if workers > 1:
+        import dataclasses
         from ..workers import worker_pool
+        from .content import screening_pictures
         with worker_pool(1) as pool:
             future = pool.submit(_side_with_pictures, rotor)
-            result = screen(rotor, progress=progress)
-            side, drawn = future.result()
+            part = dataclasses.replace(_screen_part(rotor, progress), rotor=rotor)
+            # the screening's own pictures here while the worker finishes the side
+            drawn = {p.key: p.svg()
+                     for p in screening_pictures(rotor, part, critical_modes(part))}
+            side, side_drawn = future.result()
+        drawn.update(side_drawn)
+        # the verdict with the file's cross-coupling screen, as screen() gives it
+        result = dataclasses.replace(part, coupling=side[3]) if (
+            rotor.coupling_rule is not None and rotor.coupling_rule.in_check) else part
     else:
-        result = screen(rotor, progress=progress)
         side = side_analyses(rotor)
+        result = screen(rotor, progress=progress, coupling=side[3])
     review = finish_review(rotor, result, side, variants, workers)
     return review, render(review, provenance, paper, drawn, workers)

@@ -41,8 +41,10 @@ class Section:
 
     def figure(self, key, kind, args, caption):
         """A picture (:class:`~rotorcalc.report.pictures.Picture`), drawn later."""
-        self.blocks.append({"kind": "figure", "picture": Picture(key, kind, args),
-                            "caption": caption})
+        self.picture(Picture(key, kind, args), caption)
+
+    def picture(self, picture, caption):
+        self.blocks.append({"kind": "figure", "picture": picture, "caption": caption})
 
     @property
     def pictures(self):
@@ -57,15 +59,46 @@ def sections(review):
     return [build(review) for build in builders]
 
 
-def side_pictures(rotor, statics, bearings, stiffness):
-    """The pictures of the rotor at rest, the bearings and the map: drawable before the
-    screening ends (their keys are the ones the sections use)."""
+def side_pictures(rotor, statics, bearings, stiffness, coupling):
+    """The pictures of the rotor, its statics, bearings, map and cross-coupling screen:
+    drawable before the screening ends (their keys are the ones the sections use)."""
     out = [Picture("layout", "layout", (rotor,))]
     if statics is not None:
         out.append(Picture("statics", "own", (statics,)))
     out += [Picture(f"bearing{i}", "own", (c,)) for i, c in enumerate(bearings)]
     if stiffness is not None:
         out.append(Picture("map", "own", (stiffness,)))
+    if coupling is not None:
+        out.append(Picture("coupling", "coupling", (coupling.screen,)))
+    return out
+
+
+def _shape_picture(k, crit, modes, rotor):
+    title = f"Critical speed {k} at {to_rpm(crit.speed):.0f} rpm"
+    return Picture(f"shape{k}", "mode-shape", (modes, rotor, title))
+
+
+def _whirl_picture(result):
+    return Picture("whirl-map", "own", (result,))
+
+
+def _response_pictures(resp, rotor, i):
+    """(Bode, polar, clearance envelope or None) of unbalance case ``i``."""
+    return (Picture(f"bode{i}", "bode", (resp, i, rotor.operating)),
+            Picture(f"polar{i}", "polar", (resp, i)),
+            Picture(f"clearance{i}", "clearance", (resp, rotor, i)) if rotor.clearances
+            else None)
+
+
+def screening_pictures(rotor, result, modes):
+    """The pictures of a screening alone (mode shapes, whirl-speed map, response): drawable
+    while the side analyses run (their keys are the ones the sections use)."""
+    out = [_shape_picture(k, c, m, rotor)
+           for k, (c, m) in enumerate(zip(result.criticals, modes), 1)]
+    out.append(_whirl_picture(result))
+    if result.response is not None:
+        for i in range(len(result.response.cases)):
+            out += [p for p in _response_pictures(result.response, rotor, i) if p is not None]
     return out
 
 
@@ -202,19 +235,18 @@ def _shapes(review):
     named = "; ".join(f"{b.role} {b.name or i} at station {b.station}"
                       for i, b in enumerate(rotor.bearings))
     for k, (crit, modes) in enumerate(zip(review.screening.criticals, review.modes), 1):
-        title = f"Critical speed {k} at {to_rpm(crit.speed):.0f} rpm"
-        sec.figure(f"shape{k}", "mode-shape", (modes, rotor, title),
-                   f"Critical speed {k}: {captions.critical_text(crit)}, order "
-                   f"{crit.order:g}. Supports: {named or 'none'}.")
+        sec.picture(_shape_picture(k, crit, modes, rotor),
+                    f"Critical speed {k}: {captions.critical_text(crit)}, order "
+                    f"{crit.order:g}. Supports: {named or 'none'}.")
     return sec
 
 
 def _whirl_map(review):
     s = review.screening
     sec = Section("whirl-speed-map", "Whirl-speed map (Campbell diagram)")
-    sec.figure("whirl-map", "own", (s,), "Damped natural frequencies against speed, coloured by log "
-               "decrement, with the excitation lines and the critical speeds marked by their "
-               f"margin verdict. {s.margins.caption()} {CAUTION}")
+    sec.picture(_whirl_picture(s), "Damped natural frequencies against speed, coloured by "
+                "log decrement, with the excitation lines and the critical speeds marked by "
+                f"their margin verdict. {s.margins.caption()} {CAUTION}")
     return sec
 
 
@@ -257,16 +289,15 @@ def _response(review):
             + ": the response there has no steady state and its limits cannot be judged"],
             "gaps")
     for i, name in enumerate(resp.cases):
-        sec.figure(f"bode{i}", "bode", (resp, i, rotor.operating),
-                   f"Case {name}: amplitude and phase at every probe, peaks with their "
-                   f"amplification factors. {CAUTION}")
-        sec.figure(f"polar{i}", "polar", (resp, i), f"Case {name}: the same response as "
-                   "polar plots (amplitude and phase lag, speed along each curve).")
-        if rotor.clearances:
-            sec.figure(f"clearance{i}", "clearance", (resp, rotor, i),
-                       f"Case {name}: the largest orbit at every station from the lowest "
-                       f"analysed speed up to trip against the clearances. "
-                       f"{limits_caption(rotor)} {CAUTION}")
+        bode, polar, clearance = _response_pictures(resp, rotor, i)
+        sec.picture(bode, f"Case {name}: amplitude and phase at every probe, peaks with "
+                    f"their amplification factors. {CAUTION}")
+        sec.picture(polar, f"Case {name}: the same response as polar plots (amplitude and "
+                    "phase lag, speed along each curve).")
+        if clearance is not None:
+            sec.picture(clearance, f"Case {name}: the largest orbit at every station from "
+                        "the lowest analysed speed up to trip against the clearances. "
+                        f"{limits_caption(rotor)} {CAUTION}")
     return sec
 
 

@@ -145,7 +145,9 @@ def test_a_failing_rotor_lists_every_failing_item_on_the_summary_page():
 
 @pytest.mark.slow
 def test_the_page_is_the_same_for_any_number_of_processes():
-    case = ROOT / "cases" / "overhung_fan.toml"
+    """The compressor (its cross-coupling screen made beside the sweep with two processes,
+    inside the screening with one; its variants screened on the processes)."""
+    case = ROOT / "cases" / "compressor.toml"
     one, _ = report_of(case, workers=1)
     two, _ = report_of(case, workers=2)
     assert one == two

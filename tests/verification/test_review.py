@@ -26,6 +26,11 @@ from rotorcalc.assembly import assemble
 from rotorcalc.model import Disk, OperatingRange, Rotor, Section
 from rotorcalc.reader import read_rotor
 from tests.conftest import CASES, ROOT, STEEL, uniform_shaft
+from tests.verification.record import check
+
+HANDBOOK = ("homogeneous circular cylinder, mass moments of inertia (Meriam and Kraige, "
+            "Engineering Mechanics: Dynamics, appendix table; from memory)")
+MATRIX = "assembled consistent mass matrix: rigid motions u^T M u, v^T M v"
 
 
 @pytest.mark.parametrize("inner", [0.0, 0.03])
@@ -36,10 +41,14 @@ def test_a_uniform_tube_matches_the_handbook_cylinder(inner):
     props = rv.mass_properties(rotor)
     r2 = (outer / 2) ** 2 + (inner / 2) ** 2
     mass = STEEL.density * math.pi / 4 * (outer ** 2 - inner ** 2) * length
-    assert props.mass == pytest.approx(mass, rel=1e-12)
-    assert props.centre == pytest.approx(length / 2, rel=1e-12)
-    assert props.polar == pytest.approx(mass * r2 / 2, rel=1e-12)
-    assert props.transverse == pytest.approx(mass * (3 * r2 + length ** 2) / 12, rel=1e-12)
+    tube = "hollow" if inner else "solid"
+    check(f"Uniform {tube} tube 0.8 m: mass (kg)", HANDBOOK, mass, props.mass, 1e-12)
+    check(f"Uniform {tube} tube 0.8 m: centre of mass (m)", HANDBOOK, length / 2, props.centre,
+          1e-12)
+    check(f"Uniform {tube} tube 0.8 m: polar moment m (R^2 + r^2) / 2 (kg m^2)", HANDBOOK,
+          mass * r2 / 2, props.polar, 1e-12)
+    check(f"Uniform {tube} tube 0.8 m: transverse moment m (3 (R^2 + r^2) + L^2) / 12 "
+          "(kg m^2)", HANDBOOK, mass * (3 * r2 + length ** 2) / 12, props.transverse, 1e-12)
 
 
 def test_a_shaft_with_a_disk_follows_the_parallel_axis_theorem():
@@ -53,9 +62,12 @@ def test_a_shaft_with_a_disk_follows_the_parallel_axis_theorem():
     transverse = (m_s * (3 * (outer / 2) ** 2 + length ** 2) / 12 + m_s * (length / 2 - centre) ** 2
                   + 0.2 + 50.0 * (length - centre) ** 2)
     props = rv.mass_properties(rotor)
-    assert props.centre == pytest.approx(centre, rel=1e-12)
-    assert props.transverse == pytest.approx(transverse, rel=1e-12)
-    assert props.polar == pytest.approx(m_s * (outer / 2) ** 2 / 2 + 0.4, rel=1e-12)
+    source = "parallel-axis theorem with the cylinder table (" + HANDBOOK + ")"
+    check("Tube with an end disk: centre of mass (m)", source, centre, props.centre, 1e-12)
+    check("Tube with an end disk: transverse moment about the centre (kg m^2)", source,
+          transverse, props.transverse, 1e-12)
+    check("Tube with an end disk: polar moment (kg m^2)", source,
+          m_s * (outer / 2) ** 2 / 2 + 0.4, props.polar, 1e-12)
 
 
 def _rigid_motions(system, centre):
@@ -87,8 +99,10 @@ def test_mass_and_transverse_inertia_match_the_assembled_mass_matrix(case):
     system = assemble(rotor)
     props = rv.mass_properties(rotor)
     shift, tilt = _rigid_motions(system, props.centre)
-    assert shift @ (system.mass @ shift) == pytest.approx(props.mass, rel=1e-9)
-    assert tilt @ (system.mass @ tilt) == pytest.approx(props.transverse, rel=1e-9)
+    check(f"{case.stem}: rotor mass (kg)", MATRIX, shift @ (system.mass @ shift), props.mass,
+          1e-9)
+    check(f"{case.stem}: transverse moment about the centre of mass (kg m^2)", MATRIX,
+          tilt @ (system.mass @ tilt), props.transverse, 1e-9)
 
 
 def test_the_mesh_check_reports_a_coarse_mesh_and_passes_a_fine_one():
