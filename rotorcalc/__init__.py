@@ -44,7 +44,8 @@ _PUBLIC = {
 #: Pictures, loaded with matplotlib on first use (the analyses never need it).
 _PICTURES = ("plot_whirl_speed_map", "plot_mode_shape", "plot_rotor_layout", "plot_bode",
              "plot_polar", "plot_orbits", "plot_critical_speed_map", "plot_variant_maps",
-             "plot_map_shapes", "plot_coupling_screen", "save")
+             "plot_map_shapes", "plot_coupling_screen", "plot_clearance_envelope",
+             "plot_study_criticals", "plot_study_probability", "plot_study_influence", "save")
 #: The 0.1 names of the pictures, read until 0.3 (with a note naming the new one).
 _OLD_PICTURES = ("whirl_speed_map", "mode_shape", "rotor_layout", "bode", "polar", "orbits",
                  "critical_speed_map", "variant_maps", "map_shapes")

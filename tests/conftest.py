@@ -54,6 +54,15 @@ def compressor_without_gas():
     return dataclasses.replace(rotor, sources=(), coupling_rule=None)
 
 
+def pytest_collection_modifyitems(config, items):
+    """On several processes (``-n 2 --dist loadgroup``, the README's command) a file's tests
+    share one process, as its module-level caches expect, unless a test names its own group
+    (the report tests group by case)."""
+    for item in items:
+        if item.get_closest_marker("xdist_group") is None:
+            item.add_marker(pytest.mark.xdist_group(item.module.__name__))
+
+
 def isotropic(station, k, c=0.0, name=""):
     return Bearing(station, {"kxx": (k,), "kyy": (k,), "cxx": (c,), "cyy": (c,)}, name=name)
 

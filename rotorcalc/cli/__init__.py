@@ -56,6 +56,10 @@ COMMANDS = {
                            "rotor's weight."),
     "bearing": ("bearing", "A bearing's eight coefficients against speed."),
     "envelope": ("envelope", "Screen the rotor at every corner of its bearings' tolerances."),
+    "study": ("study", "Uncertainty study: screen the rotor at every sample of its uncertain "
+                       "inputs and report the probability that each check fails (with its "
+                       "confidence interval), the percentiles of every critical speed, "
+                       "margin and log decrement, and each input's influence."),
     "review": ("review", "The design-review report: every analysis the rotor file asks for "
                          "(statics and bearings, sweep, critical speeds and margins, "
                          "stability, unbalance response, the variants of --variants) in one "

@@ -9,7 +9,8 @@ from contextlib import contextmanager
 
 import typer
 from rich.markup import escape
-from rich.progress import BarColumn, Progress, TextColumn, TimeElapsedColumn
+from rich.progress import (BarColumn, Progress, TextColumn, TimeElapsedColumn,
+                           TimeRemainingColumn)
 
 from ..errors import InputError
 from .common import check_output, console, errors, fail_input
@@ -25,9 +26,11 @@ class CountProgress:
         self.label, self.total = label, total
         self.bar = self.task = None
         if errors.is_terminal:
-            self.bar = Progress(TextColumn("{task.description}"), BarColumn(),
-                                TextColumn("{task.completed} done"),
-                                TimeElapsedColumn(), console=errors, transient=True)
+            columns = [TextColumn("{task.description}"), BarColumn(),
+                       TextColumn("{task.completed} done"), TimeElapsedColumn()]
+            if total is not None:       # with a known total, the time left too
+                columns.append(TimeRemainingColumn())
+            self.bar = Progress(*columns, console=errors, transient=True)
             self.bar.start()
             self.task = self.bar.add_task(label, total=total)
 

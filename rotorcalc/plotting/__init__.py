@@ -32,19 +32,23 @@ from .shapes import ModeShapeArtists, plot_mode_shape
 from .speedmap import SpeedMapArtists, plot_whirl_speed_map
 from .staticplot import StaticDeflectionArtists, plot_static_deflection
 from .stiffmap import CriticalMapArtists, plot_critical_speed_map
+from .studyplot import (StudyArtists, plot_study_criticals, plot_study_influence,
+                        plot_study_probability)
 
 #: Every picture function, by its name (``plot_`` and what it draws).
 PICTURES = ("plot_whirl_speed_map", "plot_mode_shape", "plot_rotor_layout", "plot_bode",
             "plot_polar", "plot_orbits", "plot_critical_speed_map", "plot_variant_maps",
             "plot_map_shapes", "plot_coupling_screen", "plot_static_deflection",
-            "plot_bearing_coefficients", "plot_clearance_envelope")
+            "plot_bearing_coefficients", "plot_clearance_envelope", "plot_study_criticals",
+            "plot_study_probability", "plot_study_influence")
 #: The pictures that had 0.1 names without ``plot_`` (read with a note until 0.3).
 _RENAMED = PICTURES[:9]
 
 __all__ = [*PICTURES, "save", "map_point_label", "SpeedMapArtists", "ModeShapeArtists",
            "LayoutArtists", "BodeArtists", "PolarArtists", "OrbitArtists", "CriticalMapArtists",
            "VariantMapArtists", "MapShapeArtists", "CouplingScreenArtists",
-           "StaticDeflectionArtists", "BearingCoefficientArtists", "ClearanceEnvelopeArtists"]
+           "StaticDeflectionArtists", "BearingCoefficientArtists", "ClearanceEnvelopeArtists",
+           "StudyArtists"]
 
 
 def _old_mode_shape(modes, index, **kwargs):

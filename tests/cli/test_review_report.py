@@ -39,6 +39,17 @@ _REPORTS = {}
 WITH_VARIANTS = ("overhung_fan", "compressor")
 
 
+def _cases():
+    """Every bundled case, its report's tests grouped (one process makes and reads it when
+    the suite runs on several: ``--dist loadgroup``)."""
+    return [pytest.param(case, id=case.stem, marks=pytest.mark.xdist_group(_group(case)))
+            for case in CASES]
+
+
+def _group(case):
+    return f"report-{Path(case).stem}"
+
+
 def _variants_of(case):
     path = case.with_name(f"{case.stem}_variants.toml")
     return path if case.stem in WITH_VARIANTS and path.exists() else None
@@ -85,7 +96,7 @@ def _parse(text):
 
 
 @pytest.mark.slow
-@pytest.mark.parametrize("case", CASES, ids=lambda p: p.stem)
+@pytest.mark.parametrize("case", _cases())
 def test_each_bundled_case_gives_a_valid_self_contained_report(case):
     """html5lib in strict mode (module docstring) parses it without one error; every id is
     unique (several pictures share one page); every link is to the page itself and no
@@ -112,6 +123,7 @@ def test_each_bundled_case_gives_a_valid_self_contained_report(case):
 
 
 @pytest.mark.slow
+@pytest.mark.xdist_group(_group("feed_pump"))
 def test_the_tables_are_the_terminal_s_own_cells_and_verdicts_name_their_rules():
     """The margin table's cells are :class:`~rotorcalc.tables.Column` texts of the same
     rows the terminal prints; the summary lists the rules with their labels."""
@@ -129,6 +141,7 @@ def test_the_tables_are_the_terminal_s_own_cells_and_verdicts_name_their_rules()
 
 
 @pytest.mark.slow
+@pytest.mark.xdist_group(_group("hp_compressor"))
 def test_a_failing_rotor_lists_every_failing_item_on_the_summary_page():
     """The bundled rotor meant to fail (its cross-coupling screen): the summary says FAIL
     and lists every failing item with its rule."""
@@ -144,10 +157,11 @@ def test_a_failing_rotor_lists_every_failing_item_on_the_summary_page():
 
 
 @pytest.mark.slow
+@pytest.mark.xdist_group(_group("hp_compressor"))
 def test_the_page_is_the_same_for_any_number_of_processes():
-    """The compressor (its cross-coupling screen made beside the sweep with two processes,
-    inside the screening with one; its variants screened on the processes)."""
-    case = ROOT / "cases" / "compressor.toml"
+    """The high-pressure compressor (its cross-coupling screen, in the check, made beside
+    the sweep with two processes and inside the screening with one)."""
+    case = ROOT / "cases" / "hp_compressor.toml"
     one, _ = report_of(case, workers=1)
     two, _ = report_of(case, workers=2)
     assert one == two
@@ -226,7 +240,7 @@ def _browser_or_skip():
 
 
 @pytest.mark.slow
-@pytest.mark.parametrize("case", CASES, ids=lambda p: p.stem)
+@pytest.mark.parametrize("case", _cases())
 def test_each_report_opens_in_a_browser_without_errors(case, tmp_path):
     """Headless Chromium loads the report: no console error or warning, no failed
     resource, every picture drawn with a size, every section there; a screenshot of the

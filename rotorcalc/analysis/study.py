@@ -1,0 +1,296 @@
+"""Uncertainty studies: how likely is a verdict to fail when the inputs are known only
+within their tolerances?
+
+A study draws ``samples`` points of the uncertain inputs (Latin hypercube or scrambled
+Sobol points, :mod:`scipy.stats.qmc`, seeded), maps them through each input's
+distribution, applies each point to the rotor as a what-if variant (the change grammar of
+:mod:`rotorcalc.variants`) and screens it in full.  Each sample is a record: its inputs,
+the verdict and what failed, every critical matched to the rotor's own (speed, margin,
+log decrement, verdict), or the error it raised.  :func:`summarise` turns the records into
+failure probabilities with exact binomial (Clopper-Pearson) intervals, percentiles and
+each input's influence (Spearman rank correlation).
+
+The samples are independent: :mod:`rotorcalc.executor` runs them anywhere; a sample's
+record depends on its index and the study alone.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from ..units import to_rpm
+
+#: The kinds of failure a screening has, in the order a reviewer reads them.
+KINDS = ("margin", "stability", "response", "cross-coupling", "coverage")
+#: Distributions and their parameters (names as in the study file).
+DISTRIBUTIONS = {"uniform": ("low", "high"), "normal": ("mean", "sd"),
+                 "lognormal": ("median", "sigma"), "triangular": ("low", "mode", "high")}
+SAMPLINGS = ("latin-hypercube", "sobol")
+#: Percentiles reported for each critical's speed, margin and log decrement.
+PERCENTILES = (5, 50, 95)
+
+
+@dataclass(frozen=True)
+class Uncertain:
+    """One uncertain input: a change path of the variants grammar, applied as a factor
+    (``by="factor"``: ``PATH *= x``) or a value (``by="value"``: ``PATH = x UNIT``), with
+    ``x`` drawn from ``distribution`` with ``parameters`` (:data:`DISTRIBUTIONS`)."""
+
+    name: str
+    path: str
+    distribution: str
+    parameters: tuple
+    by: str = "factor"
+    unit: str = ""
+
+    def frozen(self):
+        """The scipy.stats distribution."""
+        from scipy import stats
+        p = self.parameters
+        if self.distribution == "uniform":
+            return stats.uniform(loc=p[0], scale=p[1] - p[0])
+        if self.distribution == "normal":
+            return stats.norm(loc=p[0], scale=p[1])
+        if self.distribution == "lognormal":
+            return stats.lognorm(s=p[1], scale=p[0])
+        return stats.triang(c=(p[1] - p[0]) / (p[2] - p[0]), loc=p[0], scale=p[2] - p[0])
+
+    def change(self, x):
+        if self.by == "factor":
+            return f"{self.path} *= {x!r}"
+        return f"{self.path} = {x!r} {self.unit}".rstrip()
+
+    def describe(self):
+        params = ", ".join(f"{n} {v:g}" for n, v in zip(DISTRIBUTIONS[self.distribution],
+                                                      self.parameters))
+        what = "factor on" if self.by == "factor" else f"value ({self.unit or 'SI'}) of"
+        return f"{self.name}: {self.distribution} ({params}), {what} {self.path}"
+
+
+@dataclass(frozen=True)
+class StudyPlan:
+    """What a study samples: the inputs, how many samples, how, with which seed."""
+
+    inputs: tuple
+    samples: int = 1000
+    sampling: str = "latin-hypercube"
+    seed: int = 0
+    confidence: float = 0.95
+
+    def design(self):
+        """(samples, inputs) array of input values: the seeded points mapped through each
+        input's distribution (inverse CDF)."""
+        from scipy.stats import qmc
+        d = len(self.inputs)
+        if self.sampling == "sobol":
+            engine = qmc.Sobol(d, scramble=True, seed=self.seed)
+        else:
+            engine = qmc.LatinHypercube(d, seed=self.seed)
+        unit = engine.random(self.samples)
+        unit = np.clip(unit, 1e-12, 1 - 1e-12)     # the normal's tails stay finite
+        return np.column_stack([u.frozen().ppf(unit[:, j])
+                                 for j, u in enumerate(self.inputs)])
+
+    def key(self):
+        """A text that changes whenever the samples would (for resuming a results file)."""
+        return repr((self.inputs, self.samples, self.sampling, self.seed))
+
+
+def sample_variant(plan: StudyPlan, index, values):
+    from ..variants import Variant, parse_change
+    return Variant(f"sample {index}", tuple(
+        parse_change(u.change(float(x)), f"uncertain[{j}]")
+        for j, (u, x) in enumerate(zip(plan.inputs, values))))
+
+
+def evaluate(rotor, plan: StudyPlan, base, index, values):
+    """The record of one sample (a plain dict, JSON-ready): the rotor with the sample's
+    changes screened in full; the error's text when it raised."""
+    from ..errors import RotorcalcError
+    from ..variants import apply_variant
+    from .screening import screen
+    from .whatif import margin_excess, match_criticals
+    record = {"index": int(index),
+              "inputs": {u.name: float(x) for u, x in zip(plan.inputs, values)}}
+    try:
+        result = screen(apply_variant(rotor, sample_variant(plan, index, values)))
+    except (RotorcalcError, ArithmeticError, ValueError, np.linalg.LinAlgError) as exc:
+        record["error"] = f"{type(exc).__name__}: {exc}"
+        return record
+    failed = failures(result)
+    matches = match_criticals([r.critical for r in result.margins.rows], list(base))
+    criticals = {}
+    for row, match in zip(result.margins.rows, matches):
+        if match is None:
+            continue
+        j = base.index(match)
+        criticals[str(j)] = {"speed_rpm": float(to_rpm(row.critical.speed)),
+                             "margin_percent": _finite(row.margin),
+                             "required_percent": float(row.required),
+                             "log_dec": float(row.critical.log_dec), "verdict": row.verdict,
+                             "passed": bool(row.passed)}
+    excess, _ = margin_excess(result)
+    lowest = [m.judged_log_dec for m in result.stability.branches
+              if m.judged_log_dec is not None] if result.stability else []
+    record.update({"verdict": result.verdict, "failed": failed, "criticals": criticals,
+                   "margin_excess_percent": _finite(excess),
+                   "lowest_log_dec": float(min(lowest)) if lowest else None})
+    return record
+
+
+def _finite(x):
+    return float(x) if math.isfinite(x) else None
+
+
+def failures(result):
+    """The kinds (:data:`KINDS`) a screening fails on."""
+    out = []
+    if not result.margins.passed:
+        out.append("margin")
+    if result.stability is not None and not result.stability.passed:
+        out.append("stability")
+    if result.response is not None and not result.response.passed:
+        out.append("response")
+    if result.coupling is not None and not result.coupling.passed:
+        out.append("cross-coupling")
+    if result.gaps:
+        out.append("coverage")
+    return out
+
+
+def clopper_pearson(k, n, confidence=0.95):
+    """Exact binomial confidence interval of a probability from ``k`` events in ``n``
+    trials: C. J. Clopper and E. S. Pearson, "The use of confidence or fiducial limits
+    illustrated in the case of the binomial", Biometrika 26 (1934), 404-413."""
+    from scipy.stats import beta
+    if n == 0:
+        return (0.0, 1.0)
+    a = 1.0 - confidence
+    low = 0.0 if k == 0 else float(beta.ppf(a / 2, k, n - k + 1))
+    high = 1.0 if k == n else float(beta.ppf(1 - a / 2, k + 1, n - k))
+    return low, high
+
+
+@dataclass(frozen=True)
+class Probability:
+    """``events`` of ``trials``: the estimate and its interval at ``confidence``."""
+
+    what: str
+    events: int
+    trials: int
+    confidence: float
+
+    @property
+    def estimate(self):
+        return self.events / self.trials if self.trials else float("nan")
+
+    @property
+    def interval(self):
+        return clopper_pearson(self.events, self.trials, self.confidence)
+
+    def to_dict(self):
+        low, high = self.interval
+        return {"what": self.what, "events": self.events, "trials": self.trials,
+                "probability": self.estimate, "interval": [low, high],
+                "confidence": self.confidence}
+
+
+@dataclass(frozen=True)
+class StudyResult:
+    """What a study found (:func:`summarise`)."""
+
+    plan: StudyPlan
+    records: tuple
+    base: tuple                  # the rotor's own criticals (CriticalSpeed)
+    probabilities: tuple         # Probability: any failure, then per kind, then per critical
+    percentiles: dict = field(default_factory=dict)
+    influence: dict = field(default_factory=dict)
+
+    @property
+    def errors(self):
+        return tuple(r for r in self.records if "error" in r)
+
+    def to_dict(self):
+        from ..vocabulary import CAUTION
+        return {"plan": {"samples": self.plan.samples, "sampling": self.plan.sampling,
+                         "seed": self.plan.seed, "confidence": self.plan.confidence,
+                         "inputs": [u.describe() for u in self.plan.inputs]},
+                "base_criticals_rpm": [float(to_rpm(c.speed)) for c in self.base],
+                "probabilities": [p.to_dict() for p in self.probabilities],
+                "percentiles": self.percentiles, "influence": self.influence,
+                "failed_samples": len(self.errors), "samples": list(self.records),
+                "caution": CAUTION}
+
+
+def summarise(plan: StudyPlan, records, base):
+    """Probabilities of failure with intervals, percentiles and influences."""
+    from scipy.stats import spearmanr
+    records = tuple(sorted(records, key=lambda r: r["index"]))
+    valid = [r for r in records if "error" not in r]
+    n = len(valid)
+    c = plan.confidence
+    probs = [Probability("any check", sum(bool(r["failed"]) for r in valid), n, c)]
+    probs += [Probability(kind, sum(kind in r["failed"] for r in valid), n, c)
+              for kind in KINDS]
+    percentiles, influence = {}, {}
+    names = [u.name for u in plan.inputs]
+    x = np.array([[r["inputs"][name] for name in names] for r in valid]).reshape(n, len(names))
+    outputs = {"margin excess %": [r["margin_excess_percent"] for r in valid],
+               "lowest log dec": [r["lowest_log_dec"] for r in valid]}
+    for j, crit in enumerate(base):
+        label = f"critical {j + 1} ({to_rpm(crit.speed):.0f} rpm {crit.whirl})"
+        found = [r["criticals"].get(str(j)) for r in valid]
+        probs.append(Probability(f"{label} fails its margin",
+                                 sum(f is not None and not f["passed"] for f in found), n, c))
+        entry = {}
+        for quantity in ("speed_rpm", "margin_percent", "log_dec"):
+            values = np.array([f[quantity] for f in found
+                               if f is not None and f[quantity] is not None], dtype=float)
+            if len(values):
+                entry[quantity] = {str(p): float(np.percentile(values, p)) for p in PERCENTILES}
+        entry["found_in"] = sum(f is not None for f in found)
+        percentiles[label] = entry
+        outputs[f"{label} speed"] = [None if f is None else f["speed_rpm"] for f in found]
+    for output, values in outputs.items():
+        y = np.array([np.nan if v is None else v for v in values], dtype=float)
+        ok = np.isfinite(y)
+        row = {}
+        for k, name in enumerate(names):
+            if ok.sum() > 2 and np.ptp(y[ok]) > 0 and np.ptp(x[ok, k]) > 0:
+                row[name] = float(spearmanr(x[ok, k], y[ok]).statistic)
+            else:
+                row[name] = None
+        influence[output] = row
+    return StudyResult(plan, records, tuple(base), tuple(probs), percentiles, influence)
+
+
+def run_study(rotor, plan: StudyPlan, executor=None, done=(), progress=None, on_record=None):
+    """Screen every sample not in ``done`` (records already made, e.g. read back from a
+    results file) on ``executor`` (:mod:`rotorcalc.executor`; this process by default) and
+    summarise.  ``on_record(record)`` is called as each finishes (to save it at once);
+    ``progress(done, total)`` after each."""
+    from ..executor import InProcess
+    from .screening import screen
+    executor = executor or InProcess()
+    base = tuple(r.critical for r in screen(rotor).margins.rows if r.verdict != "overdamped")
+    design = plan.design()
+    records = {r["index"]: r for r in done}
+    todo = [i for i in range(plan.samples) if i not in records]
+    pieces = [(rotor, plan, base, i, design[i]) for i in todo]
+    count = len(records)
+    for k, outcome in executor.results(evaluate, pieces):
+        i = todo[k]
+        if isinstance(outcome, BaseException):   # the worker itself failed: say so
+            outcome = {"index": i, "inputs": {u.name: float(x) for u, x in
+                                              zip(plan.inputs, design[i])},
+                       "error": f"{type(outcome).__name__}: {outcome}"}
+        records[i] = outcome
+        count += 1
+        if on_record is not None:
+            on_record(outcome)
+        if progress is not None:
+            progress(count, plan.samples)
+    return summarise(plan, records.values(), base)

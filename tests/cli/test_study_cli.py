@@ -1,0 +1,85 @@
+"""``rotorcalc study``: outputs, resuming an interrupted study from its results file, and
+refusing another study's file (typer's runner)."""
+
+import json
+
+from typer.testing import CliRunner
+
+from rotorcalc.cli import app
+from tests.conftest import ROOT
+
+runner = CliRunner()
+FAN = ROOT / "cases" / "overhung_fan.toml"
+
+
+def _study(tmp_path, seed=3):
+    path = tmp_path / "fan_study.toml"
+    path.write_text(f'''rotor = "{FAN.as_posix()}"
+samples = 6
+seed = {seed}
+
+[[uncertain]]
+name = "bearing stiffness"
+change = "bearing.*.kdirect"
+distribution = "uniform"
+low = 0.7
+high = 1.3
+
+[[uncertain]]
+name = "impeller mass"
+change = "disk[0].mass"
+distribution = "normal"
+mean = 1.0
+sd = 0.02
+''', encoding="utf-8")
+    return path
+
+
+def run(*args):
+    return runner.invoke(app, ["study", *[str(a) for a in args]])
+
+
+def test_study_writes_every_output_and_resumes_where_it_stopped(tmp_path):
+    study = _study(tmp_path)
+    results, doc = tmp_path / "r.jsonl", tmp_path / "s.json"
+    pictures = [tmp_path / f"{n}.png" for n in ("crit", "prob", "infl")]
+    first = run(study, "--jobs", "1", "--results", results, "--json", doc, "--csv",
+                tmp_path / "s.csv", "--plot", pictures[0], "--plot-probability", pictures[1],
+                "--plot-influence", pictures[2])
+    assert first.exit_code == 0, first.output
+    assert "probability of failure" in first.output and "Clopper-Pearson" in first.output
+    assert all(p.stat().st_size > 0 for p in pictures)
+    full = json.loads(doc.read_text())
+    lines = results.read_text().splitlines()
+    assert len(lines) == 1 + 6
+    csv_lines = (tmp_path / "s.csv").read_text().splitlines()
+    assert len(csv_lines) == 1 + 6 and "bearing stiffness" in csv_lines[0]
+    # interrupted after three samples, the fourth line cut short
+    results.write_text("\n".join(lines[:4]) + "\n" + lines[4][:20], encoding="utf-8")
+    again = run(study, "--jobs", "1", "--results", results, "--json", doc)
+    assert again.exit_code == 0, again.output
+    assert "3 already in" in again.output
+    resumed = json.loads(doc.read_text())
+    indices = [json.loads(x)["index"] for x in results.read_text().splitlines()[1:]
+               if x.startswith("{") and x.endswith("}")]
+    assert sorted(indices) == list(range(6))
+    assert resumed["result"]["samples"] == full["result"]["samples"]
+    assert resumed["result"]["probabilities"] == full["result"]["probabilities"]
+
+
+def test_another_study_s_results_file_is_refused(tmp_path):
+    results = tmp_path / "r.jsonl"
+    assert run(_study(tmp_path), "--jobs", "1", "--samples", "2", "--results",
+               results).exit_code == 0
+    other = run(_study(tmp_path, seed=4), "--jobs", "1", "--samples", "2", "--results", results)
+    assert other.exit_code == 2
+    assert "--results" in other.output and "another study" in other.output
+
+
+def test_a_bad_study_file_names_the_key(tmp_path):
+    study = _study(tmp_path)
+    study.write_text(study.read_text().replace('distribution = "uniform"',
+                                               'distribution = "gaussian"'))
+    result = run(study)
+    assert result.exit_code == 2
+    assert "uncertain[0].distribution" in result.output and "gaussian" in result.output
