@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import multiprocessing
 import os
-from concurrent.futures import ProcessPoolExecutor, as_completed
+from concurrent.futures import ProcessPoolExecutor
 from contextlib import contextmanager
 
 import numpy as np
@@ -71,19 +71,17 @@ def _one_blas_thread():
 def run_all(function, pieces, workers, progress=None):
     """``[function(*piece) for piece in pieces]``, in order, on up to ``workers``
     processes (0: one per available core); in this process when one worker (or one
-    piece) is asked for.  ``progress(done, total)`` after each piece (as they finish)."""
+    piece) is asked for.  ``progress(done, total)`` after each piece (as they finish).
+    The first piece that raised raises here.  Runs on :mod:`rotorcalc.executor` (the
+    local pool), as the uncertainty studies do."""
+    from .executor import InProcess, LocalPool
     workers = min(worker_count(workers), len(pieces))
     out = [None] * len(pieces)
-    if workers <= 1:
-        for i, piece in enumerate(pieces):
-            out[i] = function(*piece)
-            if progress is not None:
-                progress(i + 1, len(pieces))
-        return out
-    with worker_pool(workers) as pool:
-        futures = {pool.submit(function, *piece): i for i, piece in enumerate(pieces)}
-        for done, future in enumerate(as_completed(futures), start=1):
-            out[futures[future]] = future.result()
+    with (InProcess() if workers <= 1 else LocalPool(workers)) as executor:
+        for done, (i, outcome) in enumerate(executor.results(function, pieces), start=1):
+            if isinstance(outcome, BaseException):
+                raise outcome
+            out[i] = outcome
             if progress is not None:
                 progress(done, len(pieces))
     return out

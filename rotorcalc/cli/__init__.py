@@ -60,6 +60,9 @@ COMMANDS = {
                        "inputs and report the probability that each check fails (with its "
                        "confidence interval), the percentiles of every critical speed, "
                        "margin and log decrement, and each input's influence."),
+    "fleet": ("fleet", "Fleet screening: every rotor file screened as 'check' does, one row "
+                       "each (file, verdict, the first item that failed or was not covered); "
+                       "exits non-zero when any rotor fails or cannot be judged."),
     "review": ("review", "The design-review report: every analysis the rotor file asks for "
                          "(statics and bearings, sweep, critical speeds and margins, "
                          "stability, unbalance response, the variants of --variants) in one "
