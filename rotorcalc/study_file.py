@@ -85,7 +85,8 @@ def _uncertain(table, i):
 
 
 def read_study(path):
-    """(rotor path, StudyPlan) of a study file; the changes are checked on the rotor."""
+    """(rotor path, StudyPlan) of a study file (:func:`~rotorcalc.analysis.study.check_plan`
+    checks the changes on the rotor)."""
     path = Path(path)
     try:
         text = path.read_text(encoding="utf-8-sig")

@@ -16,7 +16,9 @@ from rotorcalc.model import (Bearing, Disk, Material, OperatingRange, Rotor, Sec
                              Settings)
 
 ROOT = Path(__file__).resolve().parents[1]
-CASES = sorted(p for p in (ROOT / "cases").glob("*.toml") if not p.stem.endswith("_variants"))
+#: The bundled rotor files (not their variants and study files).
+CASES = sorted(p for p in (ROOT / "cases").glob("*.toml")
+               if not p.stem.endswith(("_variants", "_study")))
 
 STEEL = Material("steel", 2.11e11, 2.11e11 / 2.6, 7810.0)
 #: Steel's stiffness with a millionth of its density: the near-massless shaft of a

@@ -74,6 +74,9 @@ MODULE_SECTIONS = (
     ("test_review.py",
      "18. The design review's own numbers: rigid-body mass properties against the cylinder "
      "table and the assembled mass matrix"),
+    ("test_study.py",
+     "19. Uncertainty studies: a probability against the Jeffcott closed form, the "
+     "Clopper-Pearson interval against the binomial tails"),
 )
 
 INTRO = """\

@@ -260,7 +260,7 @@ def fingerprints(cases=None):
     """{"matplotlib", "numpy", "scipy": versions, "dpi", "figsize",
     "pictures": {name: sha256}}."""
     paths = sorted(p for p in CASES.glob("*.toml")
-                   if not p.stem.endswith("_variants") and p.stem not in SKIPPED)
+                   if not p.stem.endswith(("_variants", "_study")) and p.stem not in SKIPPED)
     if cases:
         paths = [p for p in paths if p.stem in cases]
     import rotorcalc

@@ -106,6 +106,16 @@ def sample_variant(plan: StudyPlan, index, values):
         for j, (u, x) in enumerate(zip(plan.inputs, values))))
 
 
+def check_plan(rotor, plan: StudyPlan):
+    """Raise the InputError of the first input whose change does not fit the rotor (each
+    applied alone at its distribution's median), before any sample runs."""
+    from ..variants import Variant, apply_variant, parse_change
+    for j, u in enumerate(plan.inputs):
+        key = f"uncertain[{j}].change"
+        apply_variant(rotor, Variant(u.name, (parse_change(u.change(float(
+            u.frozen().median())), key),)))
+
+
 def evaluate(rotor, plan: StudyPlan, base, index, values):
     """The record of one sample (a plain dict, JSON-ready): the rotor with the sample's
     changes screened in full; the error's text when it raised."""

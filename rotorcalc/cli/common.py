@@ -15,7 +15,7 @@ from rich.table import Table
 
 from .. import units as u
 from ..errors import InputError, RotorcalcError, SolverError
-from ..output import envelope, write_csv, write_json
+from ..output import envelope, file_hash, write_csv, write_json
 from ..reader import read_rotor
 from ..tables import rows_csv
 
@@ -230,10 +230,17 @@ def output_errors(path):
         raise typer.Exit(EXIT_OUTPUT)
 
 
-def write_outputs(command, case, result_dict, warnings, json_path, csv_path, columns, rows):
+def write_outputs(command, case, result_dict, warnings, json_path, csv_path, columns, rows,
+                  inputs=None):
+    """The result as JSON (with the input's path and SHA-256: ``case``, or each of
+    ``inputs`` when a command reads many files) and its rows as CSV."""
     if json_path is not None:
+        document = envelope(command, case, result_dict, warnings)
+        if inputs is not None:
+            document["input"] = [{"path": str(f), "sha256": file_hash(f) if Path(f).is_file()
+                                  else None} for f in inputs]
         with output_errors(json_path):
-            write_json(json_path, envelope(command, case, result_dict, warnings))
+            write_json(json_path, document)
         console.print(f"wrote {escape(str(json_path))}", highlight=False)
     if csv_path is not None:
         header, body = rows_csv(columns, rows)

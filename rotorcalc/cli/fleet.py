@@ -9,7 +9,7 @@ import typer
 from rich.markup import escape
 
 from ..vocabulary import CAUTION
-from .common import console, input_errors, output_errors, print_table
+from .common import console, input_errors, print_table, write_outputs
 
 EXAMPLE = ("[bold]Example[/]: rotorcalc fleet cases/ --jobs 2 --csv fleet.csv || echo "
            "'a rotor fails'\n\nExit codes as check's, the worst file's: 1 a check failed, 3 a "
@@ -61,30 +61,13 @@ def command(
                         "'rotorcalc check' or 'review' on a file shows every item.")
     code = exit_code(rows)
     console.print(f"[dim]{CAUTION}[/]", highlight=False)
-    _write(files, rows, code, json_path, csv_path, columns)
+    write_outputs("fleet", files[0], {"rotors": [r.to_dict() for r in rows], "exit_code": code,
+                                      "caution": CAUTION}, (), json_path, csv_path, columns,
+                  rows, inputs=files)
     if code:
         console.print(f"[bold red]{sum(r.verdict != 'pass' for r in rows)} of {len(rows)} "
                       f"rotors did not pass[/] (exit {code})", highlight=False)
         raise typer.Exit(code)
-
-
-def _write(files, rows, code, json_path, csv_path, columns):
-    """The table as JSON (with every file's path and SHA-256) and CSV."""
-    from ..output import envelope, file_hash, write_csv, write_json
-    from ..tables import rows_csv
-    if json_path is not None:
-        document = envelope("fleet", files[0], {"rotors": [r.to_dict() for r in rows],
-                                                "exit_code": code, "caution": CAUTION})
-        document["input"] = [{"path": str(f), "sha256": file_hash(f) if f.is_file() else None}
-                             for f in files]
-        with output_errors(json_path):
-            write_json(json_path, document)
-        console.print(f"wrote {escape(str(json_path))}", highlight=False)
-    if csv_path is not None:
-        header, body = rows_csv(columns, rows)
-        with output_errors(csv_path):
-            write_csv(csv_path, header, body)
-        console.print(f"wrote {escape(str(csv_path))}", highlight=False)
 
 
 def register(app: typer.Typer):

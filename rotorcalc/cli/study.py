@@ -9,6 +9,7 @@ from typing import Optional
 import typer
 from rich.markup import escape
 
+from ..errors import InputError
 from ..vocabulary import CAUTION
 from .common import (EXIT_BAD_INPUT, console, errors, fail_input, input_errors, load,
                      output_errors, print_table, save_figure, write_outputs)
@@ -114,6 +115,12 @@ def command(
     if samples is not None:
         plan = dataclasses.replace(plan, samples=samples)
     rotor = load(rotor_path)
+    from ..analysis.study import check_plan
+    with input_errors():
+        try:
+            check_plan(rotor, plan)
+        except InputError as err:     # named in the study file, not the rotor file
+            raise err.with_location(file=str(study)) from None
     done = _read_results(results, plan)
     with output_errors(results):
         log = _Log(results, plan, done)

@@ -8,10 +8,11 @@ first SAMPLES samples, 24 by default) on:
 * a local pool of 1 and of 2 worker processes;
 * a Dask LocalCluster of 2 workers (one thread each);
 
-wall time, samples per second, and the fitted per-sample cost: ``t = overhead + n t_s / W``
-(the in-process run gives ``t_s``; each executor's overhead per sample is its extra time
-over ``n t_s / W``, divided by ``n``).  With these a study of N samples on W workers takes
-about ``N (t_s / W + overhead per sample)``.
+wall time, samples per second, and the fitted per-sample cost: a study screens the rotor
+once for its own criticals, then each sample, so ``t = t_s + n t_s / W + n c`` (the
+in-process run gives ``t_s = t / (n + 1)``; each executor's overhead ``c`` per sample is its
+time beyond that, over ``n``; it includes starting the workers, so it falls with ``n``).
+With these a study of N samples on W workers takes about ``N (t_s / W + c)``.
 """
 
 from __future__ import annotations
@@ -42,20 +43,21 @@ def main(samples):
         with make() as executor:
             run_study(rotor, plan, executor)
         times[name] = (time.perf_counter() - start, workers)
-    per_sample = times["this process"][0] / samples
+    per_sample = times["this process"][0] / (samples + 1)     # + the rotor's own screening
     print(f"compressor study, {samples} samples, {len(plan.inputs)} uncertain inputs")
     print(f"  {'executor':<30}{'wall s':>8}{'samples/s':>11}{'overhead/sample s':>19}")
     for name, (wall, workers) in times.items():
-        overhead = (wall - samples * per_sample / workers) / samples
+        overhead = (wall - per_sample - samples * per_sample / workers) / samples
         print(f"  {name:<30}{wall:8.2f}{samples / wall:11.2f}{overhead:19.3f}")
     print(f"  one sample in this process: {per_sample:.3f} s")
     dask_wall = times["Dask LocalCluster, 2 workers"][0]
     pool_wall = times["local pool, 2 workers"][0]
     print(f"  cluster / pool (2 workers each): {dask_wall / pool_wall:.2f}")
-    for n, w in ((100_000, 2), (100_000, 64), (100_000, 512)):
-        cluster_over = (dask_wall - samples * per_sample / 2) / samples
-        print(f"  {n} samples on {w} workers: about "
-              f"{n * (per_sample / w + max(cluster_over, 0.0) / max(w / 2, 1)) / 3600:.1f} h")
+    cluster_over = max((dask_wall - per_sample - samples * per_sample / 2) / samples, 0.0)
+    for n, w in ((1_000, 2), (100_000, 2), (100_000, 64), (100_000, 512)):
+        # the cluster's overhead per sample is spread over its workers like the work
+        hours = n * (per_sample + 2 * cluster_over) / w / 3600
+        print(f"  {n} samples on {w} workers: about {hours:.1f} h")
 
 
 if __name__ == "__main__":

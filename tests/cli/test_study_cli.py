@@ -83,3 +83,22 @@ def test_a_bad_study_file_names_the_key(tmp_path):
     result = run(study)
     assert result.exit_code == 2
     assert "uncertain[0].distribution" in result.output and "gaussian" in result.output
+
+
+def test_a_change_that_does_not_fit_the_rotor_is_refused_before_any_sample(tmp_path):
+    study = _study(tmp_path)
+    study.write_text(study.read_text().replace("disk[0].mass", "disk[7].mass"))
+    result = run(study, "--jobs", "1")
+    assert result.exit_code == 2
+    assert "fan_study.toml" in result.output and "disk" in result.output
+    assert "samples on" not in result.output
+
+
+def test_the_bundled_study_fits_its_rotor():
+    from rotorcalc.analysis.study import check_plan
+    from rotorcalc.reader import read_rotor
+    from rotorcalc.study_file import read_study
+    rotor_path, plan = read_study(ROOT / "cases" / "compressor_study.toml")
+    assert rotor_path == (ROOT / "cases" / "compressor.toml").resolve()
+    assert len(plan.inputs) == 10 and plan.samples == 1000
+    check_plan(read_rotor(rotor_path), plan)
