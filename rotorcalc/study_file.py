@@ -35,9 +35,11 @@ MAX_SAMPLES = 1_000_000
 
 def _number(table, key, where):
     value = table.get(key)
+    if value is None:
+        raise InputError(f"{where}.{key}", "is missing", expected="a number", kind="missing")
     if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value):
         raise InputError(f"{where}.{key}", "must be a finite number", value=value,
-                         kind="missing" if value is None else "type")
+                         kind="type")
     return float(value)
 
 

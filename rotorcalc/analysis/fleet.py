@@ -66,6 +66,21 @@ def screen_file(path):
                     found[0].text if found else "", len(found))
 
 
+def screen_files(files, executor=None, progress=None):
+    """The :class:`FleetRow` of every file, in order, screened on ``executor``
+    (:mod:`rotorcalc.executor`; this process by default); ``progress(done, total)``."""
+    from ..executor import InProcess
+    executor = executor or InProcess()
+    rows = [None] * len(files)
+    for done, (i, row) in enumerate(executor.results(screen_file, [(f,) for f in files]), 1):
+        if isinstance(row, BaseException):      # the worker itself failed: say so
+            row = FleetRow(str(files[i]), NUMERICAL, first=f"{type(row).__name__}: {row}")
+        rows[i] = row
+        if progress is not None:
+            progress(done, len(files))
+    return rows
+
+
 def exit_code(rows):
     """The worst of the rows' codes (:data:`SEVERITY`)."""
     codes = [SEVERITY.get(r.verdict, 3) for r in rows]

@@ -101,13 +101,16 @@ def _difference(rotor, crit, label, path, step):
     return Sensitivity(crit, label, values[0], values[1])
 
 
-def derivative_sensitivities(rotor, criticals, near=None, every=False, step=0.01):
+def derivative_sensitivities(rotor, criticals, near=None, every=False, step=0.01, paths=None):
     """:func:`sensitivities` from eigenvalue derivatives
     (:mod:`rotorcalc.analysis.lever_derivatives`): a few solves per critical.  On a rotor
     with bearings from their geometry, a disk's mass changes the bearings' loads and so
-    their coefficients: those levers are central differences of step ``step``."""
+    their coefficients: those levers are central differences of step ``step``.  ``paths``
+    keeps only the levers of those change paths (default every lever of
+    :func:`parameters`)."""
     from .lever_derivatives import critical_derivatives
-    levers_of = parameters(rotor)
+    levers_of = [(label, path) for label, path in parameters(rotor)
+                 if paths is None or path in paths]
     films = any(b.film is not None for b in rotor.bearings)
     out = []
     for crit in lever_criticals(rotor, criticals, near, every):

@@ -29,7 +29,7 @@ def command(
     """Fleet screening: every rotor file screened as 'check' does, one row each (file,
     verdict, the first item that failed or was not covered); exits non-zero when any
     rotor fails or cannot be judged."""
-    from ..analysis.fleet import exit_code, rotor_files, screen_file
+    from ..analysis.fleet import exit_code, rotor_files, screen_files
     from ..executor import make_executor
     from ..tables import Column
     from .whatif_common import progress_bar
@@ -40,16 +40,9 @@ def command(
         fail_input(InputError("paths", "hold no rotor file", value=", ".join(map(str, paths)),
                               expected="rotor files, or folders with *.toml rotor files",
                               kind="missing"))
-    rows = [None] * len(files)
     with input_errors(), make_executor(jobs, scheduler) as executor, \
             progress_bar("screening rotors", len(files)) as bar:
-        for done, (i, row) in enumerate(executor.results(screen_file,
-                                                         [(f,) for f in files]), 1):
-            if isinstance(row, BaseException):      # the worker itself failed: say so
-                from ..analysis.fleet import NUMERICAL, FleetRow
-                row = FleetRow(str(files[i]), NUMERICAL, first=f"{type(row).__name__}: {row}")
-            rows[i] = row
-            bar(done)
+        rows = screen_files(files, executor, bar)
     columns = [Column("File", lambda r: r.path, "{}", "file"),
                Column("Rotor", lambda r: r.name, "{}", "rotor"),
                Column("Verdict", lambda r: r.verdict, "{}", "verdict"),
@@ -65,8 +58,9 @@ def command(
                                       "caution": CAUTION}, (), json_path, csv_path, columns,
                   rows, inputs=files)
     if code:
-        console.print(f"[bold red]{sum(r.verdict != 'pass' for r in rows)} of {len(rows)} "
-                      f"rotors did not pass[/] (exit {code})", highlight=False)
+        failing = [r for r in rows if r.verdict != "pass"]
+        console.print(f"[bold red]{len(failing)} of {len(rows)} rotors did not pass[/] "
+                      f"(exit {code})", highlight=False)
         raise typer.Exit(code)
 
 
