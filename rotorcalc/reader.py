@@ -49,6 +49,24 @@ ANALYSIS_KEYS = {"speed_from", "speed_to", "speed_count", "mode_count", "orders"
                  "overdamped_ratio", "stability_rule", "min_log_dec", "marginal_band"}
 
 
+def read_input_text(path, what="a TOML input file of a few kB") -> str:
+    """The text of an input file (a rotor, variants or study file), or an InputError: a
+    file that cannot be read, is over :data:`FILE_LIMIT` or is not UTF-8 text."""
+    path = Path(path)
+    try:
+        if path.is_file() and path.stat().st_size > FILE_LIMIT:
+            raise InputError("file", f"is larger than {FILE_LIMIT // 1_000_000} MB",
+                             value=str(path), expected=what, file=str(path), kind="size")
+        # utf-8-sig: a byte-order mark (some editors write one) is not part of the text
+        return path.read_text(encoding="utf-8-sig")
+    except OSError as exc:
+        raise InputError("file", f"cannot be read ({exc.strerror})", value=str(path),
+                         expected="a readable TOML file", file=str(path), kind="file") from None
+    except UnicodeDecodeError:
+        raise InputError("file", "is not UTF-8 text", value=str(path), file=str(path),
+                         kind="file") from None
+
+
 def read_rotor(path) -> Rotor:
     """Read a rotor description from a TOML file.
 
@@ -58,19 +76,7 @@ def read_rotor(path) -> Rotor:
         With the key path, file and line of the first problem found.
     """
     path = Path(path)
-    try:
-        if path.is_file() and path.stat().st_size > FILE_LIMIT:
-            raise InputError("file", f"is larger than {FILE_LIMIT // 1_000_000} MB",
-                             value=str(path), expected="a rotor description of a few kB",
-                             file=str(path), kind="size")
-        # utf-8-sig: a byte-order mark (some editors write one) is not part of the text
-        text = path.read_text(encoding="utf-8-sig")
-    except OSError as exc:
-        raise InputError("file", f"cannot be read ({exc.strerror})", value=str(path),
-                         expected="a readable TOML file", file=str(path), kind="file") from None
-    except UnicodeDecodeError:
-        raise InputError("file", "is not UTF-8 text", value=str(path), file=str(path),
-                         kind="file") from None
+    text = read_input_text(path, "a rotor description of a few kB")
     return parse_rotor(text, source=str(path))
 
 

@@ -89,12 +89,9 @@ def _uncertain(table, i):
 def read_study(path):
     """(rotor path, StudyPlan) of a study file (:func:`~rotorcalc.analysis.study.check_plan`
     checks the changes on the rotor)."""
+    from .reader import read_input_text
     path = Path(path)
-    try:
-        text = path.read_text(encoding="utf-8-sig")
-    except OSError as exc:
-        raise InputError("file", f"cannot be read ({exc.strerror})", value=str(path),
-                         file=str(path), kind="file") from None
+    text = read_input_text(path, "a study file of a few kB")
     data = load_toml(text, str(path))
     try:
         check_keys(data, TOP, "")

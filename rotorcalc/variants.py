@@ -46,7 +46,7 @@ from .errors import InputError
 from .model import COEFFICIENT_NAMES, Rotor
 from .supports import scale_table
 from .bearings.tabulate import tabulate_films
-from .reader import check_keys, load_toml, locate, read_rotor
+from .reader import check_keys, load_toml, locate, read_input_text, read_rotor
 
 GROUPS = {
     "k": ("kxx", "kxy", "kyx", "kyy"),
@@ -397,14 +397,7 @@ def read_variants(path):
         the rotor is reported now, with the variants file's line.
     """
     path = Path(path)
-    try:
-        text = path.read_text(encoding="utf-8-sig")
-    except OSError as exc:
-        raise InputError("file", f"cannot be read ({exc.strerror})", value=str(path),
-                         file=str(path), kind="file") from None
-    except UnicodeDecodeError:
-        raise InputError("file", "is not UTF-8 text", value=str(path), file=str(path),
-                         kind="file") from None
+    text = read_input_text(path, "a variants file of a few kB")
     data = load_toml(text, str(path))
     try:
         check_keys(data, VARIANTS_TOP, "")

@@ -30,6 +30,18 @@ RULE_HELP = ("Margin rule: af-curve (amplification-factor rule with its caps, co
              "practice, from memory), fixed (--margin-below/--margin-above per cent) or none.")
 
 
+# The rule options of every command that judges (criticals, check, review): declared once.
+MARGIN_RULE = typer.Option(None, "--margin-rule", help=RULE_HELP)
+MARGIN_BELOW = typer.Option(None, "--margin-below", help="Required margin below the minimum "
+                            "speed, per cent (fixed rule).")
+MARGIN_ABOVE = typer.Option(None, "--margin-above", help="Required margin above the maximum "
+                            "continuous speed, per cent (fixed rule).")
+STABILITY_RULE = typer.Option(None, "--stability-rule", help=STABILITY_HELP)
+MIN_LOG_DEC = typer.Option(None, "--min-log-dec", help="Least log decrement every mode needs "
+                           "up to trip (implies --stability-rule at-least; 0.1 is common "
+                           "practice, from memory).")
+
+
 def apply_overrides(rotor, speed_count=None, speed_to=None, orders=None, margin_rule=None,
                     margin_below=None, margin_above=None, stability_rule=None, min_log_dec=None):
     """Copy of ``rotor`` with command-line overrides of its analysis settings."""
@@ -185,19 +197,11 @@ def make_command(name, gate):
                                                help='Highest sweep speed, e.g. "12000 rpm".'),
         orders: Optional[str] = typer.Option(
             None, "--orders", help="Excitation orders, comma separated, e.g. 1,2."),
-        margin_rule: Optional[str] = typer.Option(None, "--margin-rule", help=RULE_HELP),
-        margin_below: Optional[float] = typer.Option(
-            None, "--margin-below",
-            help="Required margin below the minimum speed, per cent (fixed rule)."),
-        margin_above: Optional[float] = typer.Option(
-            None, "--margin-above",
-            help="Required margin above the maximum continuous speed, per cent (fixed rule)."),
-        stability_rule: Optional[str] = typer.Option(None, "--stability-rule",
-                                                     help=STABILITY_HELP),
-        min_log_dec: Optional[float] = typer.Option(
-            None, "--min-log-dec",
-            help="Least log decrement every mode needs up to trip (implies --stability-rule "
-                 "at-least; 0.1 is common practice, from memory)."),
+        margin_rule: Optional[str] = MARGIN_RULE,
+        margin_below: Optional[float] = MARGIN_BELOW,
+        margin_above: Optional[float] = MARGIN_ABOVE,
+        stability_rule: Optional[str] = STABILITY_RULE,
+        min_log_dec: Optional[float] = MIN_LOG_DEC,
         jobs: Optional[int] = typer.Option(None, "--jobs", min=0, help=JOBS_HELP),
     ):
         result = run(case, plot_path, json_path, csv_path, name, jobs, speed_count=speed_count,

@@ -15,7 +15,8 @@ from ..errors import InputError
 from ..vocabulary import CAUTION
 from .common import (EXIT_OUTPUT, SweepProgress, console, errors, fail_input, input_errors,
                      load, output_errors, renamed_notes)
-from .criticals import RULE_HELP, STABILITY_HELP, apply_overrides
+from .criticals import (MARGIN_ABOVE, MARGIN_BELOW, MARGIN_RULE, MIN_LOG_DEC, STABILITY_RULE,
+                        apply_overrides)
 from .whatif_common import check_outputs
 
 EXAMPLE = ("[bold]Example[/]: rotorcalc review cases/compressor.toml -o compressor-review.html "
@@ -47,17 +48,11 @@ def command(
                                                     "or letter."),
     speed_count: Optional[int] = typer.Option(None, "--speed-count", min=3,
                                               help="Number of sweep speeds."),
-    margin_rule: Optional[str] = typer.Option(None, "--margin-rule", help=RULE_HELP),
-    margin_below: Optional[float] = typer.Option(
-        None, "--margin-below",
-        help="Required margin below the minimum speed, per cent (fixed rule)."),
-    margin_above: Optional[float] = typer.Option(
-        None, "--margin-above",
-        help="Required margin above the maximum continuous speed, per cent (fixed rule)."),
-    stability_rule: Optional[str] = typer.Option(None, "--stability-rule",
-                                                 help=STABILITY_HELP),
-    min_log_dec: Optional[float] = typer.Option(
-        None, "--min-log-dec", help="Least log decrement every mode needs up to trip."),
+    margin_rule: Optional[str] = MARGIN_RULE,
+    margin_below: Optional[float] = MARGIN_BELOW,
+    margin_above: Optional[float] = MARGIN_ABOVE,
+    stability_rule: Optional[str] = STABILITY_RULE,
+    min_log_dec: Optional[float] = MIN_LOG_DEC,
     jobs: int = typer.Option(2, "--jobs", min=1, help="Processes sharing the work (the "
                              "pictures, the variants; 1: all in this one). The report does "
                              "not depend on it."),

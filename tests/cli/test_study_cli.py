@@ -102,3 +102,12 @@ def test_the_bundled_study_fits_its_rotor():
     assert rotor_path == (ROOT / "cases" / "compressor.toml").resolve()
     assert len(plan.inputs) == 10 and plan.samples == 1000
     check_plan(read_rotor(rotor_path), plan)
+
+
+def test_a_study_file_that_is_not_text_gets_an_input_error(tmp_path):
+    """The same reading as the rotor file's (before, a non-UTF-8 study file was a crash)."""
+    study = tmp_path / "bad_study.toml"
+    study.write_bytes(b"rotor = \"x.toml\"\n\xff\xfe\x00")
+    result = run(study)
+    assert result.exit_code == 2
+    assert "UTF-8" in result.output and "bad_study.toml" in result.output
