@@ -6,6 +6,7 @@ samples = 1000
 sampling = "latin-hypercube"     # or "sobol"
 seed = 2026
 confidence = 0.95
+indices = "rank"                 # or "sobol": also Sobol indices, samples x (inputs + 2) runs
 
 [[uncertain]]
 name = "bearing stiffness"
@@ -23,10 +24,10 @@ import math
 from pathlib import Path
 
 from ._toml import check_keys, load_toml, locate
-from .analysis.study import DISTRIBUTIONS, SAMPLINGS, StudyPlan, Uncertain
+from .analysis.study import DISTRIBUTIONS, INDICES, SAMPLINGS, StudyPlan, Uncertain
 from .errors import InputError
 
-TOP = {"rotor", "samples", "sampling", "seed", "confidence", "uncertain"}
+TOP = {"rotor", "samples", "sampling", "seed", "confidence", "indices", "uncertain"}
 INPUT_KEYS = {"name", "change", "by", "distribution", "unit"} | {
     p for params in DISTRIBUTIONS.values() for p in params}
 #: Most samples a study file may ask for (a study of more is a cluster's job: split it).
@@ -132,4 +133,9 @@ def _settings(data):
         raise InputError("confidence", "must be a level from 0.5 to below 1",
                          value=confidence, expected="e.g. 0.95", kind="range")
     out["confidence"] = float(confidence)
+    indices = data.get("indices", "rank")
+    if indices not in INDICES:
+        raise InputError("indices", "is not a way to measure influence", value=indices,
+                         expected=" or ".join(INDICES), kind="choice")
+    out["indices"] = indices
     return out

@@ -3,6 +3,8 @@ serve the terminal and the CSV."""
 
 from __future__ import annotations
 
+import re
+
 from .analysis.study import KINDS, PERCENTILES
 from .tables import Column
 
@@ -35,15 +37,67 @@ PERCENTILE_COLUMNS = [
     Column("Found in", lambda r: r[3], "{:d}", "found_in")]
 
 
+def describe_runs(plan):
+    """"1000 samples", or "64 samples x (10 inputs + 2) = 768 screenings"."""
+    if plan.runs == plan.samples:
+        return f"{plan.samples} samples"
+    return (f"{plan.samples} samples x ({len(plan.inputs)} inputs + 2) = {plan.runs} "
+            "screenings")
+
+
 def influence_rows(result):
-    """(output, {input: rho}) per output."""
-    return list(result.influence.items())
+    """(input name, {output: rho}) per input."""
+    return [(u.name, {output: row.get(u.name) for output, row in result.influence.items()})
+            for u in result.plan.inputs]
+
+
+def short_output(output):
+    """"critical 2 (5657 rpm forward) speed" -> "critical 2 speed" (the percentile table
+    names each critical in full)."""
+    return re.sub(r"^critical (\d+) \(.*\) speed$", r"critical \1 speed", output)
 
 
 def influence_columns(result):
-    return [Column("Output", lambda r: r[0], "{}", "output")] + [
-        Column(u.name, lambda r, n=u.name: r[1].get(n), "{:+.2f}", u.name)
-        for u in result.plan.inputs]
+    """The input, then one column per output (its rank correlation with the input)."""
+    return [Column("Input", lambda r: r[0], "{}", "input")] + [
+        Column(short_output(output), lambda r, o=output: r[1].get(o), "{:+.2f}", output)
+        for output in result.influence]
+
+
+SOBOL_SHARE = 0.05
+SOBOL_CAPTION = (
+    "First-order index: the share of the output's variance the input explains alone; total: "
+    "the share it has a hand in, with its interactions (A. Saltelli et al., Comput. Phys. "
+    "Commun. 181 (2010), Table 2 (b) and Jansen's (f)); intervals from a seeded bootstrap. "
+    f"Inputs with a total index below {SOBOL_SHARE:g} are left out here (all are in the "
+    "JSON).")
+
+
+def sobol_rows(result):
+    """(output, input, first, first interval, total, total interval, base rows) for the
+    inputs whose total index reaches :data:`SOBOL_SHARE`, largest first."""
+    rows = []
+    names = [u.name for u in result.plan.inputs]
+    for output, ix in result.sobol.items():
+        if ix is None:
+            continue
+        order = sorted(range(len(names)), key=lambda i: -ix.total[i])
+        for i in order:
+            if ix.total[i] >= SOBOL_SHARE:
+                rows.append((output, names[i], ix.first[i], ix.first_interval[i],
+                             ix.total[i], ix.total_interval[i], ix.rows))
+    return rows
+
+
+SOBOL_COLUMNS = [
+    Column("Output", lambda r: r[0], "{}", "output"),
+    Column("Input", lambda r: r[1], "{}", "input"),
+    Column("First-order", lambda r: r[2], "{:.2f}", "first"),
+    Column("Interval", lambda r: f"{r[3][0]:.2f} to {r[3][1]:.2f}", "{}", "first_interval"),
+    Column("Total", lambda r: r[4], "{:.2f}", "total"),
+    Column("Interval", lambda r: f"{r[5][0]:.2f} to {r[5][1]:.2f}", "{}", "total_interval"),
+    Column("Base rows", lambda r: r[6], "{:d}", "rows"),
+]
 
 
 def sample_columns(result):

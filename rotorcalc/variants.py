@@ -28,6 +28,8 @@ Targets:
 * ``disk[i].FIELD`` or ``disk.NAME.FIELD`` (or ``disk.*``): mass,
   polar_inertia, transverse_inertia.
 * ``operating.FIELD``: min_speed, max_speed, trip_speed.
+* ``cross_coupling.SEL.q`` (or a coefficient) and ``unbalance.CASE.amount``,
+  ``unbalance.CASE.weight[i].phase``: the loads (:mod:`rotorcalc.change_loads`).
 
 Every changed part is rebuilt through its constructor, so a change that makes
 the model invalid raises the same :class:`~rotorcalc.errors.InputError` as a
@@ -42,20 +44,14 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from . import units as u
+from ._change_values import (GROUPS, change_coefficients, field, new_value, pick,
+                             plain_or_quantity)
+from .change_loads import change_sources, change_unbalance
 from .errors import InputError
-from .model import COEFFICIENT_NAMES, Rotor
-from .supports import scale_table
+from .model import Rotor
 from .bearings.tabulate import tabulate_films
 from .reader import check_keys, load_toml, locate, read_input_text, read_rotor
 
-GROUPS = {
-    "k": ("kxx", "kxy", "kyx", "kyy"),
-    "c": ("cxx", "cxy", "cyx", "cyy"),
-    "kdirect": ("kxx", "kyy"),
-    "cdirect": ("cxx", "cyy"),
-    "all": COEFFICIENT_NAMES,
-    **{name: (name,) for name in COEFFICIENT_NAMES},
-}
 SUPPORT_FIELDS = {"mass": u.MASS, "kx": u.STIFFNESS, "ky": u.STIFFNESS, "cx": u.DAMPING,
                   "cy": u.DAMPING}
 SECTION_FIELDS = {"length": u.LENGTH, "outer_diameter": u.LENGTH, "inner_diameter": u.LENGTH,
@@ -106,12 +102,15 @@ def parse_change(text, key="change") -> Change:
         if not m:
             raise InputError(key, f"has a bad path element {piece!r}", value=text,
                              expected="names, [index] or *", kind="syntax")
-        if m.group("index") is not None and position > 0:
+        if m.group("index") is not None and position > 0 and not (
+                position == 2 and m.group("name") == "weight" and parts[0][0] == "unbalance"):
             # only the part itself takes an index (bearing[0], section[2]); an index on a
             # field or coefficient would be silently ignored
             raise InputError(key, f"has an index on {m.group('name')!r}, which takes none",
-                             value=text, expected="an index only right after bearing, section "
-                                                  "or disk, e.g. bearing[0].kxx", kind="syntax")
+                             value=text, expected="an index only right after bearing, section, "
+                                                  "disk or cross_coupling, or on an unbalance "
+                                                  "case's weight, e.g. bearing[0].kxx",
+                                 kind="syntax")
         parts.append((m.group("name"), None if m.group("index") is None else int(m.group("index"))))
     op = "scale" if match.group("op") == "*=" else "set"
     value = match.group("value")
@@ -127,51 +126,6 @@ def parse_change(text, key="change") -> Change:
     return Change(text, tuple(parts), op, value, key)
 
 
-def _pick(items, selector, index, label, key, text):
-    """Indices of the parts a path element selects: a name, [i] or *."""
-    if selector == "*" and index is None:
-        return list(range(len(items)))
-    if index is not None:
-        if selector != label or not 0 <= index < len(items):
-            raise InputError(key, f"selects {label}[{index}], which does not exist", value=text,
-                             expected=f"an index 0..{len(items) - 1}", kind="station")
-        return [index]
-    hits = [i for i, part in enumerate(items) if getattr(part, "name", "") == selector]
-    if not hits:
-        names = [p.name for p in items if getattr(p, "name", "")]
-        raise InputError(key, f"names no {label} called {selector!r}", value=text,
-                         expected="one of " + ", ".join(names) if names else "an index",
-                         kind="unknown-key")
-    return hits
-
-
-def _new_value(change, old, dim):
-    if change.op == "scale":
-        return old * change.value
-    text = str(change.value).strip()
-    try:
-        float(text)
-    except ValueError:
-        pass
-    else:
-        if float(text) != 0.0:  # "4000" for a speed would silently be rad/s
-            raise InputError(change.key, "sets a value without a unit", value=change.text,
-                             expected=f"a {dim.name} with a unit, e.g. {dim.examples}",
-                             kind="unit")
-    try:
-        return u.parse(text, dim, change.key)
-    except InputError as err:
-        raise InputError(change.key, err.problem, value=change.text, expected=err.expected,
-                         kind=err.kind) from None
-
-
-def _field(fields, name, change):
-    if name not in fields:
-        raise InputError(change.key, f"cannot change {name!r}", value=change.text,
-                         expected="one of " + ", ".join(fields), kind="unknown-key")
-    return fields[name]
-
-
 def apply_change(rotor: Rotor, change: Change) -> Rotor:
     """A copy of ``rotor`` with one change applied."""
     parts, key, text = change.path, change.key, change.text
@@ -181,48 +135,53 @@ def apply_change(rotor: Rotor, change: Change) -> Rotor:
     if head in ("section", "disk"):
         items = rotor.sections if head == "section" else rotor.disks
         if head_index is not None:
-            chosen, rest = _pick(items, head, head_index, head, key, text), parts[1:]
+            chosen, rest = pick(items, head, head_index, head, key, text), parts[1:]
         else:
             if len(parts) < 3:
                 raise InputError(key, "needs a part and a field", value=text,
                                  expected=f"{head}[i].FIELD or {head}.NAME.FIELD", kind="syntax")
-            chosen, rest = _pick(items, parts[1][0], None, head, key, text), parts[2:]
+            chosen, rest = pick(items, parts[1][0], None, head, key, text), parts[2:]
         if len(rest) != 1:
             raise InputError(key, "needs exactly one field after the part", value=text,
                              kind="syntax")
         fields = SECTION_FIELDS if head == "section" else DISK_FIELDS
         name = rest[0][0]
-        dim = _field(fields, name, change)
+        dim = field(fields, name, change)
         new = list(items)
         for i in chosen:
-            new[i] = dataclasses.replace(new[i], **{name: _new_value(change, getattr(new[i], name), dim)})
+            new[i] = dataclasses.replace(new[i], **{name: new_value(change, getattr(new[i], name), dim)})
         return dataclasses.replace(rotor, **{"sections" if head == "section" else "disks": tuple(new)})
     if head == "operating":
         if len(parts) != 2:
             raise InputError(key, "needs one field", value=text,
                              expected="operating.min_speed, max_speed or trip_speed", kind="syntax")
         name = parts[1][0]
-        dim = _field(OPERATING_FIELDS, name, change)
+        dim = field(OPERATING_FIELDS, name, change)
         old = getattr(rotor.operating, name)
         if old is None and change.op == "scale":
             raise InputError(key, f"scales {name}, which the rotor does not have", value=text,
                              kind="missing")
         return dataclasses.replace(rotor, operating=dataclasses.replace(
-            rotor.operating, **{name: _new_value(change, old, dim)}))
+            rotor.operating, **{name: new_value(change, old, dim)}))
+    if head == "cross_coupling":
+        return change_sources(rotor, change, parts, head_index)
+    if head == "unbalance" and head_index is None:
+        return change_unbalance(rotor, change, parts)
     raise InputError(key, f"cannot change {head!r}", value=text,
-                     expected="bearing..., section..., disk... or operating...", kind="unknown-key")
+                     expected="bearing..., section..., disk..., operating..., cross_coupling... "
+                              "or unbalance...", kind="unknown-key")
 
 
 def _change_bearings(rotor, change, parts, head_index):
     key, text = change.key, change.text
     if head_index is not None:
-        chosen, rest = _pick(rotor.bearings, "bearing", head_index, "bearing", key, text), parts[1:]
+        chosen, rest = pick(rotor.bearings, "bearing", head_index, "bearing", key, text), parts[1:]
     else:
         if len(parts) < 3:
             raise InputError(key, "needs a bearing and a coefficient", value=text,
                              expected="bearing.NAME.k, bearing[0].kxx, bearing.*.support.kx",
                              kind="syntax")
-        chosen, rest = _pick(rotor.bearings, parts[1][0], None, "bearing", key, text), parts[2:]
+        chosen, rest = pick(rotor.bearings, parts[1][0], None, "bearing", key, text), parts[2:]
     new = list(rotor.bearings)
     if rest and rest[0][0] in ("film", "oil"):
         if parts[1][0] == "*" and head_index is None:
@@ -237,7 +196,7 @@ def _change_bearings(rotor, change, parts, head_index):
             raise InputError(key, "needs one support field", value=text,
                              expected="support.mass, kx, ky, cx or cy", kind="syntax")
         name = rest[1][0]
-        dim = _field(SUPPORT_FIELDS, name, change)
+        dim = field(SUPPORT_FIELDS, name, change)
         if parts[1][0] == "*" and head_index is None:
             chosen = [i for i in chosen if new[i].support is not None]  # those that have one
             if not chosen:
@@ -248,29 +207,16 @@ def _change_bearings(rotor, change, parts, head_index):
             if support is None:
                 raise InputError(key, f"changes the support of bearing {new[i].name!r}, which "
                                       "has none", value=text, kind="missing")
-            value = _new_value(change, getattr(support, name), dim)
+            value = new_value(change, getattr(support, name), dim)
             new[i] = dataclasses.replace(new[i], support=dataclasses.replace(support, **{name: value}))
         return dataclasses.replace(rotor, bearings=tuple(new))
     if len(rest) != 1 or rest[0][0] not in GROUPS:
         raise InputError(key, "names no bearing coefficient", value=text,
                          expected="kxx ... cyy, or k, c, kdirect, cdirect, all", kind="unknown-key")
-    names = GROUPS[rest[0][0]]
-    if change.op == "set" and len({n[0] for n in names}) > 1:
-        raise InputError(key, "sets stiffness and damping to one value", value=text,
-                         expected="set the k and c coefficients in separate changes",
-                         kind="conflict")
-    for i in chosen:
-        coefficients = dict(new[i].coefficients)
-        for name in names:
-            dim = u.STIFFNESS if name[0] == "k" else u.DAMPING
-            if change.op == "scale":
-                coefficients[name] = scale_table(new[i].table(name), change.value)
-            else:
-                coefficients[name] = (_new_value(change, None, dim),)
-        # a film bearing's computed table is frozen: changed as given, never recomputed
-        # (its record stays: the table came from a film, whose physics it keeps)
-        new[i] = dataclasses.replace(new[i], coefficients=coefficients, film=None)
-    return dataclasses.replace(rotor, bearings=tuple(new))
+    # a film bearing's computed table is frozen: changed as given, never recomputed
+    # (its record stays: the table came from a film, whose physics it keeps)
+    return dataclasses.replace(rotor, bearings=change_coefficients(
+        new, chosen, GROUPS[rest[0][0]], change, film=None))
 
 
 def _change_films(bearings, chosen, rest, change):
@@ -282,7 +228,7 @@ def _change_films(bearings, chosen, rest, change):
         raise InputError(key, f"needs one {part} field", value=text,
                          expected=f"{part}." + ", ".join(fields), kind="syntax")
     name = rest[1][0]
-    dim = _field(fields, name, change)
+    dim = field(fields, name, change)
     for i in chosen:
         film = bearings[i].film
         if film is None:
@@ -294,25 +240,12 @@ def _change_films(bearings, chosen, rest, change):
                 raise InputError(key, f"changes {name}, which a {film.bore} bearing does not "
                                  "have", value=text, expected="clearance, preload, length or "
                                  "diameter", kind="unknown-key")
-            film = film.changed(**{name: _plain_or_quantity(change, getattr(film, name), dim)})
+            film = film.changed(**{name: plain_or_quantity(change, getattr(film, name), dim)})
         else:
             film = _change_oil(film, name, change, dim)
         bearings[i] = dataclasses.replace(bearings[i], film=film, speeds=(), coefficients={},
                                           film_record=None)
     return tuple(bearings)
-
-
-def _plain_or_quantity(change, old, dim):
-    """A new value: a quantity, or a plain number where ``dim`` is None."""
-    if dim is not None:
-        return _new_value(change, old, dim)
-    if change.op == "scale":
-        return old * change.value
-    try:
-        return float(str(change.value))
-    except ValueError:
-        raise InputError(change.key, "sets a number to text", value=change.text,
-                         expected="a plain number", kind="type") from None
 
 
 def _change_oil(film, name, change, dim):
@@ -326,13 +259,13 @@ def _change_oil(film, name, change, dim):
                              expected="oil.grade = an ISO viscosity grade such as 46",
                              kind="syntax")
         old = film.lubricant
-        grade = _plain_or_quantity(change, None, None)
+        grade = plain_or_quantity(change, None, None)
         lubricant = type(old)(grade=int(grade) if grade == int(grade) else grade,
                               reference_density=old.reference_density,
                               expansion=old.expansion, specific_heat=old.specific_heat,
                               name=old.name, key=old.key)
         return film.changed(lubricant=lubricant)
-    return film.changed(**{name: _new_value(change, getattr(film, name), dim)})
+    return film.changed(**{name: new_value(change, getattr(film, name), dim)})
 
 
 def apply_variant(rotor: Rotor, variant: Variant) -> Rotor:

@@ -29,6 +29,9 @@ KINDS = ("margin", "stability", "response", "cross-coupling", "coverage")
 DISTRIBUTIONS = {"uniform": ("low", "high"), "normal": ("mean", "sd"),
                  "lognormal": ("median", "sigma"), "triangular": ("low", "mode", "high")}
 SAMPLINGS = ("latin-hypercube", "sobol")
+#: How each input's influence is measured: rank correlations over the samples, or those
+#: and Sobol indices from a pick-and-freeze design (:mod:`rotorcalc.analysis.sobol`).
+INDICES = ("rank", "sobol")
 #: Percentiles reported for each critical's speed, margin and log decrement.
 PERCENTILES = (5, 50, 95)
 
@@ -79,24 +82,44 @@ class StudyPlan:
     sampling: str = "latin-hypercube"
     seed: int = 0
     confidence: float = 0.95
+    indices: str = "rank"
+
+    @property
+    def runs(self):
+        """Screenings the study makes: ``samples``, or ``samples (d + 2)`` for Sobol
+        indices (the rows of A, B and each A_B^i)."""
+        d = len(self.inputs)
+        return self.samples * (d + 2) if self.indices == "sobol" else self.samples
+
+    @property
+    def independent(self):
+        """Runs that are independent draws (every one, or the rows of A and B): the
+        probabilities, percentiles and rank correlations use these."""
+        return 2 * self.samples if self.indices == "sobol" else self.samples
 
     def design(self):
-        """(samples, inputs) array of input values: the seeded points mapped through each
+        """(runs, inputs) array of input values: the seeded points mapped through each
         input's distribution (inverse CDF)."""
         from scipy.stats import qmc
+        from .sobol import pick_freeze_design
         d = len(self.inputs)
+        width = 2 * d if self.indices == "sobol" else d
         if self.sampling == "sobol":
-            engine = qmc.Sobol(d, scramble=True, seed=self.seed)
+            engine = qmc.Sobol(width, scramble=True, seed=self.seed)
         else:
-            engine = qmc.LatinHypercube(d, seed=self.seed)
+            engine = qmc.LatinHypercube(width, seed=self.seed)
         unit = engine.random(self.samples)
+        if self.indices == "sobol":
+            unit = pick_freeze_design(unit)
         unit = np.clip(unit, 1e-12, 1 - 1e-12)     # the normal's tails stay finite
         return np.column_stack([u.frozen().ppf(unit[:, j])
                                  for j, u in enumerate(self.inputs)])
 
     def key(self):
         """A text that changes whenever the samples would (for resuming a results file)."""
-        return repr((self.inputs, self.samples, self.sampling, self.seed))
+        if self.indices == "rank":      # as before Sobol indices existed: old files resume
+            return repr((self.inputs, self.samples, self.sampling, self.seed))
+        return repr((self.inputs, self.samples, self.sampling, self.seed, self.indices))
 
 
 def sample_variant(plan: StudyPlan, index, values):
@@ -218,6 +241,7 @@ class StudyResult:
     probabilities: tuple         # Probability: any failure, then per kind, then per critical
     percentiles: dict = field(default_factory=dict)
     influence: dict = field(default_factory=dict)
+    sobol: dict = field(default_factory=dict)    # output: Indices (or None), when asked
 
     @property
     def errors(self):
@@ -227,19 +251,41 @@ class StudyResult:
         from ..vocabulary import CAUTION
         return {"plan": {"samples": self.plan.samples, "sampling": self.plan.sampling,
                          "seed": self.plan.seed, "confidence": self.plan.confidence,
+                         "indices": self.plan.indices, "runs": self.plan.runs,
                          "inputs": [u.describe() for u in self.plan.inputs]},
                 "base_criticals_rpm": [float(to_rpm(c.speed)) for c in self.base],
                 "probabilities": [p.to_dict() for p in self.probabilities],
                 "percentiles": self.percentiles, "influence": self.influence,
+                "sobol_indices": {
+                    output: None if ix is None else ix.to_dict([u.name for u in
+                                                               self.plan.inputs])
+                    for output, ix in self.sobol.items()},
                 "failed_samples": len(self.errors), "samples": list(self.records),
                 "caution": CAUTION}
 
 
+def critical_label(j, crit):
+    return f"critical {j + 1} ({to_rpm(crit.speed):.0f} rpm {crit.whirl})"
+
+
+def output_values(records, base):
+    """Each output (the smallest margin excess, the lowest log decrement, each critical's
+    speed) over ``records``: None where a record has none (an error, a critical not
+    found)."""
+    outputs = {"margin excess %": [r.get("margin_excess_percent") for r in records],
+               "lowest log dec": [r.get("lowest_log_dec") for r in records]}
+    for j, crit in enumerate(base):
+        outputs[f"{critical_label(j, crit)} speed"] = [
+            (r.get("criticals", {}).get(str(j)) or {}).get("speed_rpm") for r in records]
+    return outputs
+
+
 def summarise(plan: StudyPlan, records, base):
-    """Probabilities of failure with intervals, percentiles and influences."""
+    """Probabilities of failure with intervals, percentiles and influences (over the
+    independent runs), and Sobol indices when the plan asks for them."""
     from scipy.stats import spearmanr
     records = tuple(sorted(records, key=lambda r: r["index"]))
-    valid = [r for r in records if "error" not in r]
+    valid = [r for r in records if "error" not in r and r["index"] < plan.independent]
     n = len(valid)
     c = plan.confidence
     probs = [Probability("any check", sum(bool(r["failed"]) for r in valid), n, c)]
@@ -248,10 +294,8 @@ def summarise(plan: StudyPlan, records, base):
     percentiles, influence = {}, {}
     names = [u.name for u in plan.inputs]
     x = np.array([[r["inputs"][name] for name in names] for r in valid]).reshape(n, len(names))
-    outputs = {"margin excess %": [r["margin_excess_percent"] for r in valid],
-               "lowest log dec": [r["lowest_log_dec"] for r in valid]}
     for j, crit in enumerate(base):
-        label = f"critical {j + 1} ({to_rpm(crit.speed):.0f} rpm {crit.whirl})"
+        label = critical_label(j, crit)
         found = [r["criticals"].get(str(j)) for r in valid]
         probs.append(Probability(f"{label} fails its margin",
                                  sum(f is not None and not f["passed"] for f in found), n, c))
@@ -263,8 +307,7 @@ def summarise(plan: StudyPlan, records, base):
                 entry[quantity] = {str(p): float(np.percentile(values, p)) for p in PERCENTILES}
         entry["found_in"] = sum(f is not None for f in found)
         percentiles[label] = entry
-        outputs[f"{label} speed"] = [None if f is None else f["speed_rpm"] for f in found]
-    for output, values in outputs.items():
+    for output, values in output_values(valid, base).items():
         y = np.array([np.nan if v is None else v for v in values], dtype=float)
         ok = np.isfinite(y)
         row = {}
@@ -274,7 +317,21 @@ def summarise(plan: StudyPlan, records, base):
             else:
                 row[name] = None
         influence[output] = row
-    return StudyResult(plan, records, tuple(base), tuple(probs), percentiles, influence)
+    sobol = _sobol(plan, records, base) if plan.indices == "sobol" else {}
+    return StudyResult(plan, records, tuple(base), tuple(probs), percentiles, influence,
+                       sobol)
+
+
+def _sobol(plan, records, base):
+    """Sobol indices of failing any check and of each output, over every run."""
+    from .sobol import sobol_indices
+    by_index = {r["index"]: r for r in records}
+    rows = [by_index.get(i, {"error": "missing"}) for i in range(plan.runs)]
+    values = {"fails any check": [None if "error" in r else float(bool(r["failed"]))
+                                  for r in rows], **output_values(rows, base)}
+    return {output: sobol_indices([np.nan if v is None else v for v in vals],
+                                  len(plan.inputs), plan.confidence, plan.seed)
+            for output, vals in values.items()}
 
 
 def run_study(rotor, plan: StudyPlan, executor=None, done=(), progress=None, on_record=None):
@@ -288,7 +345,7 @@ def run_study(rotor, plan: StudyPlan, executor=None, done=(), progress=None, on_
     base = tuple(r.critical for r in screen(rotor).margins.rows if r.verdict != "overdamped")
     design = plan.design()
     records = {r["index"]: r for r in done}
-    todo = [i for i in range(plan.samples) if i not in records]
+    todo = [i for i in range(plan.runs) if i not in records]
     pieces = [(rotor, plan, base, i, design[i]) for i in todo]
     count = len(records)
     for k, outcome in executor.results(evaluate, pieces):
@@ -302,5 +359,5 @@ def run_study(rotor, plan: StudyPlan, executor=None, done=(), progress=None, on_
         if on_record is not None:
             on_record(outcome)
         if progress is not None:
-            progress(count, plan.samples)
+            progress(count, plan.runs)
     return summarise(plan, records.values(), base)

@@ -75,6 +75,11 @@ def command(
                                            "inputs and their distributions."),
     samples: Optional[int] = typer.Option(None, "--samples", min=1,
                                           help="Number of samples (default: the file's)."),
+    indices: Optional[str] = typer.Option(
+        None, "--indices", help="Influence measure: 'rank' (rank correlations over the "
+                                "samples) or 'sobol' (also Sobol indices, by Saltelli's and "
+                                "Jansen's estimators: samples x (inputs + 2) screenings). "
+                                "Default: the file's, else rank."),
     jobs: int = typer.Option(0, "--jobs", min=0, help="Local worker processes (0: one per "
                              "core); with --scheduler local, the LocalCluster's workers."),
     scheduler: Optional[str] = typer.Option(
@@ -103,9 +108,10 @@ def command(
     from ..analysis.study import run_study
     from ..executor import make_executor
     from ..study_file import read_study
-    from ..tables_study import (INFLUENCE_CAPTION, PROBABILITY_COLUMNS, influence_columns,
-                                influence_rows, percentile_rows, PERCENTILE_COLUMNS,
-                                sample_columns)
+    from ..tables_study import (INFLUENCE_CAPTION, PERCENTILE_COLUMNS, PROBABILITY_COLUMNS,
+                                SOBOL_CAPTION, SOBOL_COLUMNS, describe_runs,
+                                influence_columns, influence_rows, percentile_rows,
+                                sample_columns, sobol_rows)
     outputs = {"--json": json_path, "--csv": csv_path, "--plot": plot,
                "--plot-probability": plot_probability, "--plot-influence": plot_influence,
                "--results": results}
@@ -114,6 +120,12 @@ def command(
         rotor_path, plan = read_study(study)
     if samples is not None:
         plan = dataclasses.replace(plan, samples=samples)
+    if indices is not None:
+        from ..analysis.study import INDICES
+        if indices not in INDICES:
+            fail_input(InputError("--indices", "is not a way to measure influence",
+                                  value=indices, expected=" or ".join(INDICES), kind="choice"))
+        plan = dataclasses.replace(plan, indices=indices)
     rotor = load(rotor_path)
     from ..analysis.study import check_plan
     with input_errors():
@@ -127,16 +139,17 @@ def command(
     from .whatif_common import progress_bar
     try:
         with input_errors(), make_executor(jobs, scheduler) as executor:
-            console.print(f"{plan.samples} samples ({len(done)} already in "
-                          f"{escape(str(results))}) on {escape(executor.name)}"
-                          if done else f"{plan.samples} samples on {escape(executor.name)}",
-                          highlight=False)
-            with progress_bar("screening samples", plan.samples) as bar:
+            runs = describe_runs(plan)
+            console.print(f"{runs} ({len(done)} already in {escape(str(results))}) on "
+                          f"{escape(executor.name)}" if done
+                          else f"{runs} on {escape(executor.name)}", highlight=False)
+            with progress_bar("screening samples", plan.runs) as bar:
                 found = run_study(rotor, plan, executor, done, progress=bar,
                                   on_record=log.write)
     finally:
         log.close()
-    print_table(f"{rotor.name}: probability of failure over {len(found.records)} samples "
+    print_table(f"{rotor.name}: probability of failure over "
+                f"{found.probabilities[0].trials + len(found.errors)} samples "
                 f"({plan.sampling}, seed {plan.seed})", PROBABILITY_COLUMNS,
                 found.probabilities,
                 caption=f"Interval: exact binomial (Clopper-Pearson 1934) at "
@@ -145,8 +158,15 @@ def command(
     print_table("Critical speeds, margins and log decrements over the samples",
                 PERCENTILE_COLUMNS, percentile_rows(found),
                 caption="Each sample's criticals matched one to one to the rotor's own.")
-    print_table("Influence of each input", influence_columns(found), influence_rows(found),
-                caption=INFLUENCE_CAPTION)
+    print_table("Influence of each input (rank correlation)", influence_columns(found),
+                influence_rows(found), caption=INFLUENCE_CAPTION)
+    if found.sobol and not any(found.sobol.values()):
+        errors.print("[yellow]warning[/] too few complete base rows for Sobol indices (4 or "
+                     "more needed: every run of a row must compute); raise --samples",
+                     highlight=False, soft_wrap=True)
+    elif found.sobol:
+        print_table("Sobol indices: the inputs that matter to each output",
+                    SOBOL_COLUMNS, sobol_rows(found), caption=SOBOL_CAPTION)
     if found.errors:
         errors.print(f"[yellow]warning[/] {len(found.errors)} sample(s) failed to compute "
                      f"and are left out (first: {escape(found.errors[0]['error'])}); they "

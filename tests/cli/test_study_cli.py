@@ -111,3 +111,45 @@ def test_a_study_file_that_is_not_text_gets_an_input_error(tmp_path):
     result = run(study)
     assert result.exit_code == 2
     assert "UTF-8" in result.output and "bad_study.toml" in result.output
+
+
+def test_sobol_indices_on_request(tmp_path):
+    """4 base rows x (2 inputs + 2) = 16 screenings; probabilities over the 8 independent
+    rows; the indices in the table and the JSON; the influence table has a row per input."""
+    study = _study(tmp_path)
+    doc = tmp_path / "s.json"
+    result = run(study, "--jobs", "1", "--samples", "4", "--indices", "sobol", "--json", doc,
+                 "--csv", tmp_path / "s.csv")
+    assert result.exit_code == 0, result.output
+    assert "4 samples x (2 inputs + 2) = 16 screenings" in result.output
+    assert "over 8 samples" in result.output
+    assert "Sobol indices" in result.output and "Saltelli" in result.output
+    out = json.loads(doc.read_text())["result"]
+    assert out["plan"]["runs"] == 16 and len(out["samples"]) == 16
+    indices = out["sobol_indices"]
+    assert set(indices) >= {"fails any check", "margin excess %", "lowest log dec"}
+    some = next(v for v in indices.values() if v is not None)
+    assert set(some) == {"bearing stiffness", "impeller mass", "rows"}
+    assert {"first", "total", "first_interval", "total_interval"} <= set(
+        some["bearing stiffness"])
+    assert len((tmp_path / "s.csv").read_text().splitlines()) == 1 + 16
+    table = result.output[result.output.index("Influence of each input"):]
+    assert "bearing stiffness" in table and "impeller mass" in table
+
+
+def test_a_bad_indices_choice_is_refused(tmp_path):
+    study = _study(tmp_path)
+    result = run(study, "--indices", "fast")
+    assert result.exit_code == 2 and "--indices" in result.output and "sobol" in result.output
+    study.write_text(study.read_text().replace("seed = 3", 'seed = 3\nindices = "fast"'))
+    result = run(study)
+    assert result.exit_code == 2 and "indices" in result.output and "fast" in result.output
+
+
+def test_the_bundled_study_reaches_the_loads():
+    """Its inputs include the stages' cross-coupling and both unbalance cases."""
+    from rotorcalc.study_file import read_study
+    _, plan = read_study(ROOT / "cases" / "compressor_study.toml")
+    paths = {u.path for u in plan.inputs}
+    assert {"cross_coupling.*.q", "unbalance.mid_span.amount",
+            "unbalance.couple.amount"} <= paths
