@@ -7,6 +7,7 @@ motion is ``M q'' + (C(spin) + spin G) q' + K(spin) q = f``.
 
 from __future__ import annotations
 
+import dataclasses
 from dataclasses import dataclass
 
 import numpy as np
@@ -348,3 +349,16 @@ def assemble(rotor: Rotor) -> SystemMatrices:
         source_links=tuple(_Link(s, DOF_PER_NODE * m.station_nodes[s.station] + np.arange(2))
                            for s in rotor.sources),
         support_dofs=np.asarray(support_dofs, dtype=int).reshape(-1, 2))
+
+
+def with_sources(system: SystemMatrices, sources) -> SystemMatrices:
+    """``system`` with ``sources`` in place of its rotor's own destabilising sources: the
+    shaft, bearings and supports as assembled (what a sweep of the applied cross-coupling
+    changes, without assembling the rest again).  Equal to assembling the rotor with those
+    sources (sources sit at stations, which are nodes of every mesh)."""
+    sources = tuple(sources)
+    nodes = system.mesh.station_nodes
+    return dataclasses.replace(
+        system, rotor=dataclasses.replace(system.rotor, sources=sources),
+        source_links=tuple(_Link(s, DOF_PER_NODE * nodes[s.station] + np.arange(2))
+                           for s in sources))

@@ -111,12 +111,10 @@ def scaled_pencil(m, d_mat, k):
         Reference frequency ``s`` of the scaled state.
     """
     scale, ref = _scaling(m, k)
-    if sp.issparse(m):
-        inv = sp.diags(1.0 / scale)
-        mh, kh, dh = ((inv @ x @ inv).toarray() for x in (m, k, d_mat))
-    else:   # small dense matrices (a reduced model's)
-        inv = 1.0 / scale
-        mh, kh, dh = (np.asarray(x) * inv[:, None] * inv[None, :] for x in (m, k, d_mat))
+    inv = 1.0 / scale
+    # (inv_i x_ij) inv_j, in the order the sparse products D^-1 X D^-1 round in
+    mh, kh, dh = ((x.toarray() if sp.issparse(x) else np.asarray(x)) * inv[:, None]
+                  * inv[None, :] for x in (m, k, d_mat))
     n = mh.shape[0]
     eye, zero = np.eye(n), np.zeros((n, n))
     a = np.block([[zero, ref * eye], [-kh / ref, -dh]])

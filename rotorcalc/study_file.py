@@ -80,6 +80,13 @@ def _uncertain(table, i):
     unit = table.get("unit", "")
     if not isinstance(unit, str) or not isinstance(name, str):
         raise InputError(where, "name and unit must be text", kind="type")
+    if by == "factor" and unit:
+        raise InputError(f"{where}.unit", "is given for a factor, which has no unit",
+                         value=unit, expected='by = "value" with the unit, or no unit',
+                         kind="conflict")
+    if by == "factor" and distribution in ("uniform", "triangular") and not params[0] > 0:
+        raise InputError(f"{where}.low", "lets the factor reach zero or below", value=params[0],
+                         expected="a factor range above 0", kind="range")
     if by == "factor" and distribution == "normal" and params[0] - 4 * params[1] <= 0:
         raise InputError(f"{where}.sd", "lets the factor reach zero or below (mean - 4 sd)",
                          value=params[1], expected="a factor distribution that stays above 0 "
@@ -104,8 +111,13 @@ def read_study(path):
         if not isinstance(inputs, list) or not inputs:
             raise InputError("uncertain", "must list the uncertain inputs",
                              expected="[[uncertain]] tables", kind="missing")
-        plan = StudyPlan(tuple(_uncertain(t, i) for i, t in enumerate(inputs)),
-                         **_settings(data))
+        uncertain = tuple(_uncertain(t, i) for i, t in enumerate(inputs))
+        for i, u in enumerate(uncertain):
+            if u.name in [v.name for v in uncertain[:i]]:
+                raise InputError(f"uncertain[{i}].name", "is already used by another input",
+                                 value=u.name, expected="a name of its own for each input",
+                                 kind="duplicate")
+        plan = StudyPlan(uncertain, **_settings(data))
     except InputError as err:
         raise err.with_location(file=str(path), line=locate(text, err.key)) from None
     return (path.parent / rotor).resolve(), plan

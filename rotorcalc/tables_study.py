@@ -103,6 +103,9 @@ SOBOL_COLUMNS = [
 def sample_columns(result):
     """One row per sample record: its inputs, verdict, failures, the matched criticals."""
     cols = [Column("Sample", lambda r: r["index"], "{:d}", "sample")]
+    if result.plan.indices == "sobol":
+        cols.append(Column("Design row", lambda r: result.plan.design_row(r["index"]), "{}",
+                           "design"))
     cols += [Column(u.name, lambda r, n=u.name: r["inputs"][n], "{:.6g}", u.name)
              for u in result.plan.inputs]
     cols += [Column("Verdict", lambda r: r.get("verdict"), "{}", "verdict")]

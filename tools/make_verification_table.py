@@ -75,8 +75,13 @@ MODULE_SECTIONS = (
      "18. The design review's own numbers: rigid-body mass properties against the cylinder "
      "table and the assembled mass matrix"),
     ("test_study.py",
-     "19. Uncertainty studies: a probability against the Jeffcott closed form, the "
-     "Clopper-Pearson interval against the binomial tails"),
+     "19. Uncertainty studies: probabilities against Jeffcott closed forms (a critical in a "
+     "band, too little damping under uncertain cross-coupling, vibration over its limit under "
+     "an uncertain unbalance), the Clopper-Pearson interval against the binomial tails, Sobol "
+     "indices against the Ishigami function's and a one-input rotor's"),
+    ("test_change_loads.py",
+     "20. The loads in the change grammar: a stage's cross-coupling scaled against the stage "
+     "estimate at that power, the response to a scaled unbalance against superposition"),
 )
 
 INTRO = """\

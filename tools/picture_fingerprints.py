@@ -6,6 +6,7 @@ Usage (from the repository root)::
     python tools/picture_fingerprints.py --out FILE      # also write it to FILE
     python tools/picture_fingerprints.py --check FILE    # exit 1 when a picture differs
     python tools/picture_fingerprints.py --case feed_pump --png /tmp/pictures   # look at them
+    python tools/picture_fingerprints.py --case study --png /tmp/pictures       # the study's
 
 Each picture function is called on the results of the same analysis calls the
 command line makes (``rotorcalc/cli/*.py``), for every rotor in ``cases/*.toml``
@@ -243,6 +244,37 @@ SKIPPED = {"hp_compressor", "hp_compressor_damper_seal", "feed_pump_sleeve",
            "blower_two_lobe", "compressor_tilting_pad"}
 
 
+#: The study pictures are drawn from recorded samples (the first of the bundled compressor
+#: study's run), not from new screenings: a sample costs seconds, the pictures draw records.
+STUDY_SAMPLE = ROOT / "tests" / "unit" / "study_sample.json"
+
+
+def study_pictures():
+    """The three pictures of ``rotorcalc study`` from :data:`STUDY_SAMPLE`: {name: sha}."""
+    import dataclasses as dc
+    from types import SimpleNamespace
+
+    import rotorcalc.plotting as pl
+    from rotorcalc.analysis.study import summarise
+    from rotorcalc.reader import read_rotor
+    from rotorcalc.study_file import read_study
+    from rotorcalc.units import RPM
+    sample = json.loads(STUDY_SAMPLE.read_text(encoding="utf-8"))
+    rotor_path, plan = read_study(ROOT / sample["study"])
+    plan = dc.replace(plan, samples=len(sample["records"]))
+    base = [SimpleNamespace(speed=rpm * RPM, whirl=whirl) for rpm, whirl in sample["base"]]
+    result = summarise(plan, sample["records"], base)
+    operating = read_rotor(rotor_path).operating
+    out = {}
+    for name, draw in (("criticals", pl.plot_study_criticals),
+                       ("probability", pl.plot_study_probability),
+                       ("influence", pl.plot_study_influence)):
+        out.update(own_and_given(f"study/{name}",
+                                 lambda ax, draw=draw: draw(result, operating, ax=ax),
+                                 roomy_axes))
+    return out
+
+
 def versions():
     """What decides the pixels: matplotlib's version (fonts, hinting, anti-aliasing),
     numpy's and scipy's and the BLAS's code path for this processor (the last bits of the
@@ -271,6 +303,8 @@ def fingerprints(cases=None):
     # its own, as a fresh interpreter would
     for drawn in run_all(drawn_pictures, [(path,) for path in paths], 0):
         pictures.update(drawn)
+    if not cases or "study" in cases:
+        pictures.update(drawn_pictures(None))
     return {**versions(), "dpi": DPI, "figsize": list(FIGSIZE), "pictures": pictures}
 
 
@@ -279,7 +313,7 @@ def drawn_pictures(path):
     with matplotlib.rc_context():
         matplotlib.rc_file_defaults()       # no user matplotlibrc decides a pixel
         matplotlib.rcParams["figure.dpi"] = DPI
-        return case_pictures(path)
+        return study_pictures() if path is None else case_pictures(path)
 
 
 def differences(recorded, current):

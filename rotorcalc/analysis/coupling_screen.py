@@ -26,7 +26,7 @@ from dataclasses import dataclass
 import numpy as np
 from scipy.optimize import brentq
 
-from ..assembly import assemble
+from ..assembly import assemble, with_sources
 from ..errors import InputError
 from ..model import Bearing
 from ..rules import PLACEMENTS, CouplingRule
@@ -238,11 +238,11 @@ class _Judge:
     def __init__(self, rotor, shares, speed, mode_count, own):
         self.rotor, self.shares, self.speed, self.mode_count = rotor, shares, speed, mode_count
         self.own, self.notes = own, []
+        self.bare = assemble(rotor)      # once: each amount changes only the sources
 
     def __call__(self, q, reference=None):
         """(log dec, frequency rad/s, shape) of the judged mode with ``q`` (N/m) applied."""
-        system = assemble(dataclasses.replace(self.rotor,
-                                              sources=applied_sources(self.shares, q)))
+        system = with_sources(self.bare, applied_sources(self.shares, q))
         modes = modes_at(system, self.speed, self.mode_count)
         if reference is None:
             j = _first_forward(modes)

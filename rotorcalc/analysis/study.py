@@ -17,6 +17,7 @@ record depends on its index and the study alone.
 from __future__ import annotations
 
 import math
+import warnings
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -108,12 +109,35 @@ class StudyPlan:
             engine = qmc.Sobol(width, scramble=True, seed=self.seed)
         else:
             engine = qmc.LatinHypercube(width, seed=self.seed)
-        unit = engine.random(self.samples)
+        with warnings.catch_warnings():     # said once by the command (balanced_sobol)
+            warnings.filterwarnings("ignore", message=".*power of 2", category=UserWarning)
+            unit = engine.random(self.samples)
         if self.indices == "sobol":
             unit = pick_freeze_design(unit)
         unit = np.clip(unit, 1e-12, 1 - 1e-12)     # the normal's tails stay finite
         return np.column_stack([u.frozen().ppf(unit[:, j])
                                  for j, u in enumerate(self.inputs)])
+
+    @property
+    def balanced(self):
+        """False for scrambled Sobol points of a count that is not a power of two (their
+        balance, and so their faster convergence, needs one)."""
+        return self.sampling != "sobol" or self.samples & (self.samples - 1) == 0
+
+    def design_row(self, index):
+        """Which set of the pick-and-freeze design run ``index`` belongs to: "A", "B" or
+        "A_B NAME" (A with the input NAME from B); "" without Sobol indices."""
+        if self.indices != "sobol":
+            return ""
+        block = index // self.samples
+        return "A" if block == 0 else "B" if block == 1 else \
+            f"A_B {self.inputs[block - 2].name}"
+
+    @property
+    def nearest_balanced(self):
+        """The powers of two just below and above ``samples``."""
+        top = 1 << self.samples.bit_length()
+        return top // 2, top
 
     def key(self):
         """A text that changes whenever the samples would (for resuming a results file)."""
@@ -148,6 +172,8 @@ def evaluate(rotor, plan: StudyPlan, base, index, values):
     from .whatif import margin_excess, match_criticals
     record = {"index": int(index),
               "inputs": {u.name: float(x) for u, x in zip(plan.inputs, values)}}
+    if plan.indices == "sobol":
+        record["design"] = plan.design_row(index)
     try:
         result = screen(apply_variant(rotor, sample_variant(plan, index, values)))
     except (RotorcalcError, ArithmeticError, ValueError, np.linalg.LinAlgError) as exc:
@@ -246,6 +272,13 @@ class StudyResult:
     @property
     def errors(self):
         return tuple(r for r in self.records if "error" in r)
+
+    @property
+    def independent(self):
+        """The records of independent draws that computed (for Sobol indices, the rows
+        of A and B): what the probabilities, percentiles and pictures use."""
+        return tuple(r for r in self.records
+                     if "error" not in r and r["index"] < self.plan.independent)
 
     def to_dict(self):
         from ..vocabulary import CAUTION

@@ -117,6 +117,19 @@ def what_if_rotor(rotor, with_sources=False, with_screen=False):
     return dataclasses.replace(rotor, sources=(), coupling_rule=None)
 
 
+def _refuse_source_changes(rotor, variants):
+    """A change to the cross-coupling sources of a study that leaves them out would change
+    nothing (or fail as changing what is not there): say so."""
+    from ..errors import InputError
+    for v in variants:
+        for change in v.changes:
+            if change.path[0][0] == "cross_coupling" and rotor.sources:
+                raise InputError(change.key, f"(variant {v.name!r}) changes the "
+                                 "cross-coupling sources, which the what-if study leaves out "
+                                 "unless asked", value=change.text,
+                                 expected="--with-sources (with_sources=True)", kind="conflict")
+
+
 def compare(rotor, variants, progress=None, with_sources=False, workers=0, base=None):
     """Screen the base rotor and every variant; rows carry the change against the base.
 
@@ -134,6 +147,8 @@ def compare(rotor, variants, progress=None, with_sources=False, workers=0, base=
         it again when the what-if rotor screens the same (no sources or cross-coupling
         screen to drop).
     """
+    if not with_sources:
+        _refuse_source_changes(rotor, variants)
     what_if = what_if_rotor(rotor, with_sources, with_screen=True)
     models = [("base", what_if)] + [(v.name, apply_variant(what_if, v)) for v in variants]
     # the what-if rotor screens as the rotor itself when it has nothing to drop

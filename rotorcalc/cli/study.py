@@ -133,6 +133,11 @@ def command(
             check_plan(rotor, plan)
         except InputError as err:     # named in the study file, not the rotor file
             raise err.with_location(file=str(study)) from None
+    if not plan.balanced:
+        low, high = plan.nearest_balanced
+        errors.print(f"[yellow]warning[/] Sobol points are balanced only in powers of two: "
+                     f"{plan.samples} samples converge more slowly than {low} or {high}",
+                     highlight=False, soft_wrap=True)
     done = _read_results(results, plan)
     with output_errors(results):
         log = _Log(results, plan, done)

@@ -37,7 +37,7 @@ def plot_study_criticals(result, operating, *, ax=None):
     if created:
         fig.subplots_adjust(left=0.09, right=0.97, bottom=0.22, top=0.88)
     st.style_axes(ax)
-    valid = [r for r in result.records if "error" not in r]
+    valid = result.independent
     ax.axvspan(to_rpm(operating.min_speed), to_rpm(operating.max_speed),
                color=st.BAND_FILL, zorder=0, label="operating range")
     if operating.trip_speed:
@@ -87,8 +87,9 @@ def plot_study_probability(result, operating=None, *, ax=None):
 
 @st.literal_text
 def plot_study_influence(result, operating=None, *, ax=None):
-    """Each input's rank correlation with the smallest margin excess and the lowest log
-    decrement (bars per input)."""
+    """Each input's influence on the smallest margin excess and the lowest log decrement
+    (bars per input): the Sobol total indices with their intervals when the study has
+    them, else the rank correlations."""
     outputs = ["margin excess %", "lowest log dec"]
     names = [u.name for u in result.plan.inputs]
     fig, ax, created = st.axes_for(ax, figsize=(9.0, 1.2 + 0.45 * len(names)))
@@ -97,15 +98,31 @@ def plot_study_influence(result, operating=None, *, ax=None):
     st.style_axes(ax)
     y = np.arange(len(names))[::-1]
     parts = []
+    sobol = any(result.sobol.get(o) is not None for o in outputs)
+    top = 1.0      # a total index's estimate (or interval) may pass 1 by sampling error
     for k, output in enumerate(outputs):
+        at = y + (0.2 if k == 0 else -0.2)
+        if sobol:
+            ix = result.sobol.get(output)
+            if ix is None:
+                continue
+            parts.append(ax.barh(at, np.clip(ix.total, 0, None), height=0.38,
+                                 color=st.ITEM_COLOURS[k], label=output))
+            low, high = ix.total_interval[:, 0], ix.total_interval[:, 1]
+            top = max(top, float(np.nanmax(high)))
+            ax.errorbar(ix.total, at, xerr=[np.clip(ix.total - low, 0, None),
+                                            np.clip(high - ix.total, 0, None)],
+                        fmt="none", ecolor=st.INK, capsize=2, linewidth=0.8)
+            continue
         row = result.influence.get(output, {})
         rho = np.array([np.nan if row.get(n) is None else row[n] for n in names])
-        parts.append(ax.barh(y + (0.2 if k == 0 else -0.2), np.nan_to_num(rho), height=0.38,
+        parts.append(ax.barh(at, np.nan_to_num(rho), height=0.38,
                              color=st.ITEM_COLOURS[k], label=output))
     ax.axvline(0.0, color=st.MUTED, linewidth=0.8)
-    ax.set_xlim(-1.05, 1.05)
+    ax.set_xlim((-0.02, 1.05 * top) if sobol else (-1.05, 1.05))
     ax.set_yticks(y, names, fontsize=st.FONT_TICK)
-    st.label_axes(ax, "Spearman rank correlation", None, "Influence of each input")
+    st.label_axes(ax, "Sobol total index (share of the variance), bootstrap interval"
+                  if sobol else "Spearman rank correlation", None, "Influence of each input")
     legend = ax.legend(loc="lower right", bbox_to_anchor=(1.0, 1.0), ncol=2,
                        fontsize=st.FONT_NOTE + 0.5, frameon=False)
     return StudyArtists(figure=fig, ax=ax, legend=legend, parts=parts,

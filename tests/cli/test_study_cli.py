@@ -35,6 +35,67 @@ sd = 0.02
     return path
 
 
+#: A small rotor (a disk on a light shaft, two damped bearings) whose screening takes a
+#: fraction of the fan's: for the tests that screen many samples.
+SMALL_ROTOR = """
+title = "small study rotor"
+[materials.light]
+youngs_modulus = "211 GPa"
+shear_modulus = "81.15 GPa"
+density = "7.81 kg/m^3"
+[[section]]
+length = "0.5 m"
+outer_diameter = "50 mm"
+material = "light"
+elements = 2
+[[section]]
+length = "0.5 m"
+outer_diameter = "50 mm"
+material = "light"
+elements = 2
+[[disk]]
+at = 1
+name = "wheel"
+mass = "50 kg"
+[[bearing]]
+name = "A"
+at = 0
+kxx = "2e6 N/m"
+kyy = "2e6 N/m"
+cxx = "2e3 N*s/m"
+cyy = "2e3 N*s/m"
+[[bearing]]
+name = "B"
+at = 2
+kxx = "2e6 N/m"
+kyy = "2e6 N/m"
+cxx = "2e3 N*s/m"
+cyy = "2e3 N*s/m"
+[unbalance.wheel]
+[[unbalance.wheel.weight]]
+at = 1
+amount = "500 g*mm"
+[operating]
+min_speed = "1000 rpm"
+max_speed = "1400 rpm"
+[analysis]
+beam_theory = "euler-bernoulli"
+mode_count = 4
+speed_to = "3000 rpm"
+speed_count = 9
+"""
+
+
+def _small_study(tmp_path):
+    rotor = tmp_path / "small.toml"
+    rotor.write_text(SMALL_ROTOR, encoding="utf-8")
+    path = tmp_path / "small_study.toml"
+    path.write_text(_study(tmp_path).read_text().replace(FAN.as_posix(), rotor.as_posix())
+                    .replace("disk[0].mass", "unbalance.wheel.amount")
+                    .replace('"impeller mass"', '"unbalance"'), encoding="utf-8")
+    return path
+
+
 def run(*args):
     return runner.invoke(app, ["study", *[str(a) for a in args]])
 
@@ -116,7 +177,7 @@ def test_a_study_file_that_is_not_text_gets_an_input_error(tmp_path):
 def test_sobol_indices_on_request(tmp_path):
     """4 base rows x (2 inputs + 2) = 16 screenings; probabilities over the 8 independent
     rows; the indices in the table and the JSON; the influence table has a row per input."""
-    study = _study(tmp_path)
+    study = _small_study(tmp_path)
     doc = tmp_path / "s.json"
     result = run(study, "--jobs", "1", "--samples", "4", "--indices", "sobol", "--json", doc,
                  "--csv", tmp_path / "s.csv")
@@ -129,12 +190,15 @@ def test_sobol_indices_on_request(tmp_path):
     indices = out["sobol_indices"]
     assert set(indices) >= {"fails any check", "margin excess %", "lowest log dec"}
     some = next(v for v in indices.values() if v is not None)
-    assert set(some) == {"bearing stiffness", "impeller mass", "rows"}
+    assert set(some) == {"bearing stiffness", "unbalance", "rows"}
     assert {"first", "total", "first_interval", "total_interval"} <= set(
         some["bearing stiffness"])
-    assert len((tmp_path / "s.csv").read_text().splitlines()) == 1 + 16
+    csv_lines = (tmp_path / "s.csv").read_text().splitlines()
+    assert len(csv_lines) == 1 + 16 and "design" in csv_lines[0]
+    assert [r["design"] for r in out["samples"]] == (
+        ["A"] * 4 + ["B"] * 4 + ["A_B bearing stiffness"] * 4 + ["A_B unbalance"] * 4)
     table = result.output[result.output.index("Influence of each input"):]
-    assert "bearing stiffness" in table and "impeller mass" in table
+    assert "bearing stiffness" in table and "unbalance" in table
 
 
 def test_a_bad_indices_choice_is_refused(tmp_path):
@@ -153,3 +217,12 @@ def test_the_bundled_study_reaches_the_loads():
     paths = {u.path for u in plan.inputs}
     assert {"cross_coupling.*.q", "unbalance.mid_span.amount",
             "unbalance.couple.amount"} <= paths
+
+
+def test_sobol_points_not_a_power_of_two_are_said_to_converge_more_slowly(tmp_path):
+    study = _small_study(tmp_path)
+    study.write_text(study.read_text().replace("seed = 3", 'seed = 3\nsampling = "sobol"'))
+    result = run(study, "--jobs", "1", "--samples", "3")
+    assert result.exit_code == 0, result.output
+    assert "powers of two" in result.output and "2 or 4" in result.output
+    assert "UserWarning" not in result.output

@@ -260,3 +260,12 @@ def test_help_texts_state_what_the_analysis_does():
     assert len(window_targets(pump)) == sum(b.role == "bearing" for b in pump.bearings) == 2
     result = runner.invoke(app, ["compare", str(ROOT / "cases" / "overhung_fan_variants.toml")])
     assert f"within {MATCH_SHARE:.0%}" in " ".join(result.output.split())
+
+
+def test_a_change_to_the_sources_needs_them_in_the_study():
+    """compare leaves the stages' cross-coupling out unless --with-sources: a variant that
+    changes it would change nothing, and is refused with the way out named."""
+    compressor = ROOT / "cases" / "compressor.toml"
+    result = run("compare", compressor, "--vary", "strong gas: cross_coupling.*.q *= 2")
+    assert result.exit_code == 2, result.output
+    assert "--with-sources" in result.output and "cross_coupling.*.q *= 2" in result.output

@@ -8,6 +8,8 @@ message the tool gives for it.
 import ast
 import json
 import os
+import tempfile
+from pathlib import Path
 
 import pytest
 
@@ -38,6 +40,37 @@ def sleeve(old, new, before=""):
 def change(text):
     rotor = read_rotor(ROOT / "cases" / "feed_pump.toml")
     return lambda: apply_change(rotor, parse_change(text))
+
+
+STUDY = f"""rotor = "{(ROOT / 'cases' / 'feed_pump.toml').as_posix()}"
+samples = 10
+seed = 1
+
+[[uncertain]]
+name = "stiffness"
+change = "bearing.*.kdirect"
+distribution = "uniform"
+low = 0.8
+high = 1.2
+"""
+
+
+def study(old, new, extra=""):
+    """A study file of the feed pump with one edit (and ``extra`` text after it), read and
+    its changes checked on the rotor, as ``rotorcalc study`` does before any sample."""
+    def call():
+        from rotorcalc.analysis.study import check_plan
+        from rotorcalc.study_file import read_study
+        assert old in STUDY, old
+        with tempfile.TemporaryDirectory() as tmp:
+            path = Path(tmp) / "pump_study.toml"
+            path.write_text(STUDY.replace(old, new, 1) + extra, encoding="utf-8")
+            rotor_path, plan = read_study(path)
+            check_plan(read_rotor(rotor_path), plan)
+    return call
+
+
+SECOND = '\n[[uncertain]]\nname = "mass"\nchange = "disk.*.mass"\ndistribution = "uniform"\n'
 
 
 #: (kind, what is wrong, the call that must raise it)
@@ -113,6 +146,50 @@ CASES = [
     ("choice", "an oil grade that is no ISO viscosity grade", sleeve("grade = 46", "grade = 47")),
     ("missing", "a film without its oil", sleeve('[bearing.oil]\ngrade = 46\n'
                                                  'inlet_temperature = "45 degC"\n', "")),
+    # changes to the loads
+    ("missing", "a change to cross-coupling on a rotor without sources",
+     change("cross_coupling.*.q *= 2")),
+    ("unknown-key", "a change naming an unbalance case that does not exist",
+     change("unbalance.top.amount *= 2")),
+    ("syntax", "a change scaling an unbalance's phase", change("unbalance.couple.phase *= 2")),
+    # study files (rotorcalc study, docs/scale.md)
+    ("missing", "a study file naming no rotor", study('rotor = "', '# rotor = "')),
+    ("missing", "a study file without uncertain inputs", study(
+        STUDY[STUDY.index("[[uncertain]]"):], "")),
+    ("unknown-key", "a misspelt key in a study file", study("seed = 1", "sed = 1")),
+    ("range", "a study of no samples", study("samples = 10", "samples = 0")),
+    ("choice", "an unknown sampling", study("seed = 1", 'seed = 1\nsampling = "random"')),
+    ("type", "a negative seed", study("seed = 1", "seed = -1")),
+    ("range", "a confidence of 100 %", study("seed = 1", "seed = 1\nconfidence = 1.0")),
+    ("choice", "an unknown influence measure", study("seed = 1", 'seed = 1\nindices = "fast"')),
+    ("choice", "an unknown distribution", study('"uniform"', '"gaussian"')),
+    ("unknown-key", "a parameter of another distribution", study("high = 1.2",
+                                                                  "high = 1.2\nsd = 0.1")),
+    ("missing", "a distribution's parameter left out", study("high = 1.2", "")),
+    ("type", "a parameter that is not a number", study("high = 1.2", 'high = "1.2"')),
+    ("range", "a uniform range upside down", study("high = 1.2", "high = 0.7")),
+    ("range", "a triangular mode outside its range", study(
+        'distribution = "uniform"\nlow = 0.8\nhigh = 1.2',
+        'distribution = "triangular"\nlow = 0.8\nmode = 1.3\nhigh = 1.2')),
+    ("range", "a normal spread of zero", study(
+        'distribution = "uniform"\nlow = 0.8\nhigh = 1.2',
+        'distribution = "normal"\nmean = 1.0\nsd = 0')),
+    ("range", "a lognormal median of zero", study(
+        'distribution = "uniform"\nlow = 0.8\nhigh = 1.2',
+        'distribution = "lognormal"\nmedian = 0\nsigma = 0.1')),
+    ("range", "a normal factor that can reach zero", study(
+        'distribution = "uniform"\nlow = 0.8\nhigh = 1.2',
+        'distribution = "normal"\nmean = 1.0\nsd = 0.3')),
+    ("range", "a uniform factor that can reach zero", study("low = 0.8", "low = 0")),
+    ("choice", "an unknown way to apply a value", study('change = "', 'by = "add"\nchange = "')),
+    ("conflict", "a unit on a factor", study('change = "', 'unit = "N/m"\nchange = "')),
+    ("missing", "an input without a change", study('change = "bearing.*.kdirect"', "")),
+    ("type", "an input name that is not text", study('name = "stiffness"', "name = 3")),
+    ("duplicate", "two inputs of one name", study("samples = 10", "samples = 10",
+                                                  SECOND.replace('"mass"', '"stiffness"')
+                                                  + "low = 0.9\nhigh = 1.1\n")),
+    ("unknown-key", "a study input whose change does not fit the rotor",
+     study("bearing.*.kdirect", "bearing.XX.kdirect")),
 ]
 
 #: Kinds raised only by the command line (tested in tests/cli): refusing to

@@ -11,7 +11,6 @@ References
   response to an unbalance scaled by f is the response scaled by f.
 """
 
-import dataclasses
 import math
 import re
 
