@@ -301,10 +301,11 @@ def fingerprints(cases=None):
     pictures = {}
     # one case a worker process (as many as there are cores): each draws in a process of
     # its own, as a fresh interpreter would
-    for drawn in run_all(drawn_pictures, [(path,) for path in paths], 0):
-        pictures.update(drawn)
+    pieces = [(path,) for path in paths]
     if not cases or "study" in cases:
-        pictures.update(drawn_pictures(None))
+        pieces.append((None,))            # the study's pictures, beside the cases
+    for drawn in run_all(drawn_pictures, pieces, 0):
+        pictures.update(drawn)
     return {**versions(), "dpi": DPI, "figsize": list(FIGSIZE), "pictures": pictures}
 
 

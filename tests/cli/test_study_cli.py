@@ -86,11 +86,11 @@ speed_count = 9
 """
 
 
-def _small_study(tmp_path):
+def _small_study(tmp_path, seed=3):
     rotor = tmp_path / "small.toml"
     rotor.write_text(SMALL_ROTOR, encoding="utf-8")
     path = tmp_path / "small_study.toml"
-    path.write_text(_study(tmp_path).read_text().replace(FAN.as_posix(), rotor.as_posix())
+    path.write_text(_study(tmp_path, seed).read_text().replace(FAN.as_posix(), rotor.as_posix())
                     .replace("disk[0].mass", "unbalance.wheel.amount")
                     .replace('"impeller mass"', '"unbalance"'), encoding="utf-8")
     return path
@@ -101,7 +101,7 @@ def run(*args):
 
 
 def test_study_writes_every_output_and_resumes_where_it_stopped(tmp_path):
-    study = _study(tmp_path)
+    study = _small_study(tmp_path)
     results, doc = tmp_path / "r.jsonl", tmp_path / "s.json"
     pictures = [tmp_path / f"{n}.png" for n in ("crit", "prob", "infl")]
     first = run(study, "--jobs", "1", "--results", results, "--json", doc, "--csv",
@@ -130,9 +130,10 @@ def test_study_writes_every_output_and_resumes_where_it_stopped(tmp_path):
 
 def test_another_study_s_results_file_is_refused(tmp_path):
     results = tmp_path / "r.jsonl"
-    assert run(_study(tmp_path), "--jobs", "1", "--samples", "2", "--results",
+    assert run(_small_study(tmp_path), "--jobs", "1", "--samples", "2", "--results",
                results).exit_code == 0
-    other = run(_study(tmp_path, seed=4), "--jobs", "1", "--samples", "2", "--results", results)
+    other = run(_small_study(tmp_path, seed=4), "--jobs", "1", "--samples", "2", "--results",
+                results)
     assert other.exit_code == 2
     assert "--results" in other.output and "another study" in other.output
 

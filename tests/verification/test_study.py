@@ -299,8 +299,8 @@ def test_sobol_indices_of_the_ishigami_function():
 def test_sobol_indices_of_a_jeffcott_rotor_s_critical_speed():
     """The critical speed sqrt(k/m) depends on the bearings' factor alone, not on the
     unbalance: the unbalance's indices are exactly zero (f(A_B^i) = f(A) run for run) and
-    the bearings' near one (within the sampling error of 16 scrambled Sobol base rows); probabilities come
-    from the 2 N independent rows only."""
+    the bearings' near one (within the sampling error of 16 scrambled Sobol base rows);
+    probabilities come from the 2 N independent rows only."""
     rotor, _, _ = jeffcott_study()
     rotor = dataclasses.replace(
         rotor, unbalance=(UnbalanceCase("disk", (UnbalanceWeight(1, 1e-4),)),))
