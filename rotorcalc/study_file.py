@@ -145,9 +145,13 @@ def _settings(data):
         raise InputError("confidence", "must be a level from 0.5 to below 1",
                          value=confidence, expected="e.g. 0.95", kind="range")
     out["confidence"] = float(confidence)
-    indices = data.get("indices", "rank")
-    if indices not in INDICES:
-        raise InputError("indices", "is not a way to measure influence", value=indices,
-                         expected=" or ".join(INDICES), kind="choice")
-    out["indices"] = indices
+    out["indices"] = checked_indices(data.get("indices", "rank"), "indices")
     return out
+
+
+def checked_indices(value, key):
+    """``value`` when it names a way to measure influence (:data:`INDICES`)."""
+    if value not in INDICES:
+        raise InputError(key, "is not a way to measure influence", value=value,
+                         expected=" or ".join(INDICES), kind="choice")
+    return value

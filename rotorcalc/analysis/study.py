@@ -139,6 +139,18 @@ class StudyPlan:
         top = 1 << self.samples.bit_length()
         return top // 2, top
 
+    def is_independent(self, record):
+        """True for the record of an independent draw that computed."""
+        return "error" not in record and record["index"] < self.independent
+
+    def record(self, index, values):
+        """The start of a run's record: its index, inputs and (for Sobol indices) design row."""
+        record = {"index": int(index),
+                  "inputs": {u.name: float(x) for u, x in zip(self.inputs, values)}}
+        if self.indices == "sobol":
+            record["design"] = self.design_row(index)
+        return record
+
     def key(self):
         """A text that changes whenever the samples would (for resuming a results file)."""
         if self.indices == "rank":      # as before Sobol indices existed: old files resume
@@ -170,10 +182,7 @@ def evaluate(rotor, plan: StudyPlan, base, index, values):
     from ..variants import apply_variant
     from .screening import screen
     from .whatif import margin_excess, match_criticals
-    record = {"index": int(index),
-              "inputs": {u.name: float(x) for u, x in zip(plan.inputs, values)}}
-    if plan.indices == "sobol":
-        record["design"] = plan.design_row(index)
+    record = plan.record(index, values)
     try:
         result = screen(apply_variant(rotor, sample_variant(plan, index, values)))
     except (RotorcalcError, ArithmeticError, ValueError, np.linalg.LinAlgError) as exc:
@@ -277,8 +286,7 @@ class StudyResult:
     def independent(self):
         """The records of independent draws that computed (for Sobol indices, the rows
         of A and B): what the probabilities, percentiles and pictures use."""
-        return tuple(r for r in self.records
-                     if "error" not in r and r["index"] < self.plan.independent)
+        return tuple(filter(self.plan.is_independent, self.records))
 
     def to_dict(self):
         from ..vocabulary import CAUTION
@@ -318,7 +326,7 @@ def summarise(plan: StudyPlan, records, base):
     independent runs), and Sobol indices when the plan asks for them."""
     from scipy.stats import spearmanr
     records = tuple(sorted(records, key=lambda r: r["index"]))
-    valid = [r for r in records if "error" not in r and r["index"] < plan.independent]
+    valid = list(filter(plan.is_independent, records))
     n = len(valid)
     c = plan.confidence
     probs = [Probability("any check", sum(bool(r["failed"]) for r in valid), n, c)]
@@ -384,8 +392,7 @@ def run_study(rotor, plan: StudyPlan, executor=None, done=(), progress=None, on_
     for k, outcome in executor.results(evaluate, pieces):
         i = todo[k]
         if isinstance(outcome, BaseException):   # the worker itself failed: say so
-            outcome = {"index": i, "inputs": {u.name: float(x) for u, x in
-                                              zip(plan.inputs, design[i])},
+            outcome = {**plan.record(i, design[i]),
                        "error": f"{type(outcome).__name__}: {outcome}"}
         records[i] = outcome
         count += 1

@@ -107,7 +107,7 @@ def command(
 
     from ..analysis.study import run_study
     from ..executor import make_executor
-    from ..study_file import read_study
+    from ..study_file import checked_indices, read_study
     from ..tables_study import (INFLUENCE_CAPTION, PERCENTILE_COLUMNS, PROBABILITY_COLUMNS,
                                 SOBOL_CAPTION, SOBOL_COLUMNS, describe_runs,
                                 influence_columns, influence_rows, percentile_rows,
@@ -121,11 +121,8 @@ def command(
     if samples is not None:
         plan = dataclasses.replace(plan, samples=samples)
     if indices is not None:
-        from ..analysis.study import INDICES
-        if indices not in INDICES:
-            fail_input(InputError("--indices", "is not a way to measure influence",
-                                  value=indices, expected=" or ".join(INDICES), kind="choice"))
-        plan = dataclasses.replace(plan, indices=indices)
+        with input_errors():
+            plan = dataclasses.replace(plan, indices=checked_indices(indices, "--indices"))
     rotor = load(rotor_path)
     from ..analysis.study import check_plan
     with input_errors():
@@ -154,7 +151,7 @@ def command(
     finally:
         log.close()
     print_table(f"{rotor.name}: probability of failure over "
-                f"{found.probabilities[0].trials + len(found.errors)} samples "
+                f"{plan.independent} samples "
                 f"({plan.sampling}, seed {plan.seed})", PROBABILITY_COLUMNS,
                 found.probabilities,
                 caption=f"Interval: exact binomial (Clopper-Pearson 1934) at "
