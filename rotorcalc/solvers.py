@@ -447,8 +447,9 @@ class SparseSolver:
 
 
 #: ``AutoSolver`` uses the dense solver below this many DOFs, the sparse one from
-#: it on (measured: tests/benchmarks/bench_large.py --crossover; docs/performance.md).
-AUTO_THRESHOLD = 150
+#: it on (measured: tests/benchmarks/bench_large.py --crossover, and whole sweeps of the
+#: bundled cases: the sparse solve is the cheaper from about 80 DOFs; docs/performance.md).
+AUTO_THRESHOLD = 80
 #: When a sparse solve is in doubt (a mode may be missed, or a residual is poor),
 #: ``AutoSolver`` repeats it densely up to this many DOFs (a few seconds per solve).
 DENSE_FALLBACK_LIMIT = 1200

@@ -25,6 +25,7 @@ from dataclasses import dataclass
 
 import numpy as np
 from scipy.optimize import brentq
+from scipy.sparse.linalg import spsolve
 
 from ..assembly import assemble, with_sources
 from ..errors import InputError
@@ -34,7 +35,9 @@ from ..units import to_rpm
 from ..vocabulary import BearingRole, Outcome
 from .margins import CAUTION
 from ..notices import Notice
+from ..solvers import NUMERICAL_FAILURES
 from .modes import modes_at, read_only
+from .projected import ProjectedSolver
 from .own_frequency import at_own_frequency, own_frequency_notes
 from .tracking import mac_matrix
 
@@ -223,6 +226,8 @@ def _station_shares(rotor, placement, speed, mode_count):
 
 #: Modes the screen solves at least.
 SCREEN_MODES = 8
+#: Modes beyond those judged whose shapes at the sweep's ends join the projection basis.
+PROJECTION_GUARD = 4
 
 
 def _no_forward_mode():
@@ -239,11 +244,36 @@ class _Judge:
         self.rotor, self.shares, self.speed, self.mode_count = rotor, shares, speed, mode_count
         self.own, self.notes = own, []
         self.bare = assemble(rotor)      # once: each amount changes only the sources
+        self.solver, self.solved = None, {}
+
+    def project(self, top):
+        """Solve the amounts that follow on a basis (:mod:`.projected`): the modes with none
+        and with ``top`` (N/m) applied, and the deflections under a unit force at each
+        loaded DOF of the bare rotor (the directions the applied stiffness acts in)."""
+        ends = [modes_at(with_sources(self.bare, applied_sources(self.shares, q)),
+                         self.speed, self.mode_count + PROJECTION_GUARD) for q in (0.0, top)]
+        system = with_sources(self.bare, applied_sources(self.shares, 1.0))
+        dofs = np.concatenate([link.dofs for link in system.source_links])
+        loads = np.zeros((system.mass.shape[0], len(dofs)))
+        loads[dofs, np.arange(len(dofs))] = 1.0
+        try:
+            static = spsolve(self.bare.stiffness(self.speed).tocsc(), loads)
+        except NUMERICAL_FAILURES:
+            return        # a singular stiffness (a free rotor): every amount solved in full
+        static = np.reshape(static, loads.shape)
+        if np.all(np.isfinite(static)):
+            self.solver = ProjectedSolver(np.hstack([ends[0].vectors, ends[1].vectors, static]))
 
     def __call__(self, q, reference=None):
-        """(log dec, frequency rad/s, shape) of the judged mode with ``q`` (N/m) applied."""
+        """(log dec, frequency rad/s, shape) of the judged mode with ``q`` (N/m) applied;
+        each amount solved once."""
+        if (q, reference is None) not in self.solved:
+            self.solved[q, reference is None] = self._judge(q, reference)
+        return self.solved[q, reference is None]
+
+    def _judge(self, q, reference):
         system = with_sources(self.bare, applied_sources(self.shares, q))
-        modes = modes_at(system, self.speed, self.mode_count)
+        modes = modes_at(system, self.speed, self.mode_count, self.solver)
         if reference is None:
             j = _first_forward(modes)
             if j is None:
@@ -319,6 +349,7 @@ def cross_coupling_screen(rotor, expected=None, placement=None, top_ratio=None,
     amounts = np.unique(np.concatenate([amounts, [expected]]))
     judge = _Judge(bare, shares, speed, mode_count,
                    criteria.coefficients_at == "mode-frequency")
+    judge.project(amounts[-1])
     log_dec, freq, shapes = _follow(judge, amounts)
     threshold = _threshold(judge, amounts, log_dec, shapes, xtol_share * amounts[-1])
     notes = judge.notes + _synchronous_note(bare, criteria)

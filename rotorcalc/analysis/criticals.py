@@ -18,10 +18,11 @@ from scipy.optimize import brentq
 
 from ..assembly import SystemMatrices, assemble
 from ..units import to_hz, to_rpm
-from .modes import forward_fraction, log_decrement, modes_at, read_only, whirl_label
+from .modes import forward_fraction, log_decrement, modes_at, read_only, settle, whirl_label
+from .pair_newton import newton_pair
 from .sweep import TRACKING_RESERVE, Sweep, worker_count, worker_pool
 from .sweep import sweep as run_sweep
-from .tracking import GATE, match_cost
+from .tracking import GATE, mac_matrix, match_cost
 
 #: Relative speed tolerance of the root refinement.
 SPEED_RTOL = 1e-9
@@ -93,6 +94,8 @@ def branch_at(system, speed, ref_value, ref_shape, n_solve, solver):
     for near in (ref_value, None):
         n = NEAR_MODES if near is not None else n_solve
         modes = modes_at(system, speed, n, solver, near=near)
+        if not len(modes.eigenvalues):     # none near a branch turning overdamped
+            continue
         cost = match_cost(ref_shape[None], np.array([ref_value]), modes.shapes,
                           modes.eigenvalues)[0]
         j = int(np.argmin(cost))
@@ -152,13 +155,14 @@ def critical_speeds(rotor_or_system, result: Sweep | None = None, orders=None, s
 def _refine(system, bracket, n_solve, solver):
     """The critical speed in one bracket, or None when fresh solves show no crossing."""
     order, j, lo, hi, ref_value, ref_shape, hi_value, hi_shape = bracket
-    # speed -> (eigenvalue, shape), the ends from the sweep (the same solve: the same
-    # numbers); Brent's root is usually its last trial speed
-    seen = {lo: (ref_value, ref_shape), hi: (hi_value, hi_shape)}
+    # speed -> (eigenvalue, shape, vector or None), the ends from the sweep (the same solve:
+    # the same numbers); Brent's root is usually its last trial speed
+    seen = {lo: (ref_value, ref_shape, None), hi: (hi_value, hi_shape, None)}
 
     def g(w):       # each speed solved once: Brent's method evaluates both ends again
         if w not in seen:
-            seen[w] = branch_at(system, w, ref_value, ref_shape, n_solve, solver)
+            seen[w] = _followed(system, w, seen) or \
+                branch_at(system, w, ref_value, ref_shape, n_solve, solver) + (None,)
         return seen[w][0].imag - order * w
 
     g_lo, g_hi = g(lo), g(hi)
@@ -173,6 +177,32 @@ def _refine(system, bracket, n_solve, solver):
         g_lo, lo, g_hi, hi = (0.0, end, 0.0, end)
     root = lo if g_lo == 0 else hi if g_hi == 0 else brentq(
         g, lo, hi, xtol=SPEED_RTOL * max(hi, 1.0), rtol=SPEED_RTOL)
-    value, shape = seen[root] if root in seen else branch_at(system, root, ref_value, ref_shape,
-                                                              n_solve, solver)
+    g(root)
+    value, shape, _ = seen[root]
     return CriticalSpeed(float(root), order, j + 1, complex(value), shape)
+
+
+#: A mode followed by Newton's method is the branch's when its shape's MAC with the start's
+#: is at least this; otherwise the speed is solved in full and the branch picked by shape.
+FOLLOW_MAC = 0.98
+
+
+def _followed(system, speed, seen):
+    """(eigenvalue, shape, vector) of the branch at ``speed`` by Newton's method from the
+    nearest speed already solved (:mod:`.pair_newton`), or None (then solve in full)."""
+    start = min(seen, key=lambda w: abs(w - speed))
+    value, shape, vector = seen[start]
+    if vector is None:      # a sweep's end: its node shape, rotations zero, will do as a start
+        vector = np.zeros(system.mass.shape[0], dtype=complex)
+        tdofs = system.translation_dofs
+        vector[tdofs[:, 0]], vector[tdofs[:, 1]] = shape[:, 0], shape[:, 1]
+    c_mat, k_mat = system.damping(speed), system.stiffness(speed)
+    d_mat = c_mat + speed * system.gyroscopic
+    pair = newton_pair(system.mass, d_mat, k_mat, value, vector)
+    if pair is None:
+        return None
+    values, shapes, vectors = settle(system, speed, np.array([pair.value]),
+                                     pair.vector[:, None], c_mat, d_mat, k_mat)
+    if mac_matrix(shape[None], shapes)[0, 0] < FOLLOW_MAC:
+        return None
+    return values[0], shapes[0], vectors[:, 0]

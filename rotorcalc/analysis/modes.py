@@ -329,15 +329,8 @@ def modes_at(rotor_or_system, speed, mode_count=None, solver=None, near=None, wh
                           "are not finite (the model's numbers span too many decades?)")
     values, q = split_degenerate(pairs.values, pairs.vectors, system.mass, d_mat, k_mat)
     order = np.argsort(values.imag, kind="stable")
-    values, q = values[order], q[:, order]
-    errors, rayleigh = mode_checks(values, q, system.mass, d_mat, k_mat)
-    _check_digits(values, rayleigh, speed)
-    values = snap_roundoff(values, errors, is_conservative(c_mat, k_mat))
-    tdofs = system.translation_dofs
-    shapes = np.stack([q[tdofs[:, 0], :].T, q[tdofs[:, 1], :].T], axis=-1)
-    peak = _peak(shapes)
-    shapes = shapes / peak[:, None, None]
-    vectors = q / peak[None, :]
+    values, shapes, vectors = settle(system, speed, values[order], q[:, order], c_mat, d_mat,
+                                     k_mat)
     warnings = list(system.table_warnings(speed)) + list(getattr(pairs, "warnings", ()))
     scale = float(np.abs(values).min()) if len(values) else 1.0
     growing = pairs.real_eigenvalues[pairs.real_eigenvalues > GROWTH_RTOL * scale]
@@ -353,8 +346,21 @@ def modes_at(rotor_or_system, speed, mode_count=None, solver=None, near=None, wh
                  system.mesh.station_nodes, pairs.real_eigenvalues, tuple(warnings), rigid)
 
 
+def settle(system, speed, values, q, c_mat, d_mat, k_mat):
+    """Checked eigenvalues, node shapes and vectors (both scaled to a peak translation of 1)
+    of solved eigenpairs ``values``, ``q`` (columns) at ``speed``: the digits checked, roundoff
+    real parts set to zero (:func:`snap_roundoff`)."""
+    errors, rayleigh = mode_checks(values, q, system.mass, d_mat, k_mat)
+    _check_digits(values, rayleigh, speed)
+    values = snap_roundoff(values, errors, is_conservative(c_mat, k_mat))
+    tdofs = system.translation_dofs
+    shapes = np.stack([q[tdofs[:, 0], :].T, q[tdofs[:, 1], :].T], axis=-1)
+    peak = _peak(shapes)
+    return values, shapes / peak[:, None, None], q / peak[None, :]
+
+
 def _peak(shapes):
-    flat = shapes.reshape(shapes.shape[0], -1)
+    flat = shapes.reshape(shapes.shape[0], int(np.prod(shapes.shape[1:])))   # none: (0, k)
     idx = np.argmax(np.abs(flat), axis=1)
     peak = flat[np.arange(flat.shape[0]), idx]
     return np.where(np.abs(peak) > 0, peak, 1.0)

@@ -5,12 +5,14 @@ Run from the repository root (see DEVELOPERS.md, "Benchmarks"):
     python tests/benchmarks/bench_reduced.py                    # 100 to 4000 elements + cases
     python tests/benchmarks/bench_reduced.py --sizes 100 1000   # a quicker look
     python tests/benchmarks/bench_reduced.py --no-cases         # the generated rotors only
+    python tests/benchmarks/bench_reduced.py --sizes            # the bundled cases only
+    python tests/benchmarks/bench_reduced.py --commands         # whole commands, start-up
 
 For each size of the generated rotor (tests/benchmarks/generated.py: speed-dependent,
 cross-coupled bearings, one on a pedestal, a seal; the tool's default 8 modes, 100 speeds),
 in a fresh child process, it measures CPU seconds (not wall: the machine is shared) of
 
-* **full**: today's full-model path (``"auto"``: dense below 150 DOFs, sparse shift-invert
+* **full**: today's full-model path (``"auto"``: dense below 80 DOFs, sparse shift-invert
   Arnoldi with its completeness check above): sweep with tracking, then the critical speeds;
 * **reduced**: the same on a reduced basis (:mod:`rotorcalc.analysis.reduced`), basis built
   and certified inside the timing;
@@ -25,7 +27,9 @@ every tracked point), the critical speeds' largest difference (rpm), the largest
 residual, the basis size, and the growth exponent of CPU time with model size (least squares
 on log-log, over the sizes run).  For the bundled cases it prints the same comparison (their
 sizes are below the automatic choice, so the reduced path is forced) and the CPU time of
-their what-if commands.  No time is asserted anywhere: this prints figures.
+their what-if commands (in the process), then whole commands on the compressor in fresh
+processes with their start-up (``--commands`` alone prints only these).  No time is asserted
+anywhere: this prints figures.
 """
 
 from __future__ import annotations
@@ -39,6 +43,7 @@ import argparse  # noqa: E402
 import dataclasses  # noqa: E402
 import json  # noqa: E402
 import math  # noqa: E402
+import resource  # noqa: E402
 import subprocess  # noqa: E402
 import sys  # noqa: E402
 import time  # noqa: E402
@@ -143,18 +148,61 @@ def cases():
         variants = ROOT / "cases" / f"{name}_variants.toml"
         t_compare = cpu(lambda: compare(rotor, read_variants(variants)[2], workers=1))[0] \
             if variants.exists() else math.nan
+        t_levers = cpu(lambda: levers_work(rotor))[0]
         print(f"{name:14} screen {t_screen:6.2f}  stiffness map {t_map:6.2f}  window "
-              f"{t_window:6.2f}  compare {t_compare:6.2f}", flush=True)
+              f"{t_window:6.2f}  compare {t_compare:6.2f}  levers {t_levers:6.2f}", flush=True)
+    commands()
+
+
+def levers_work(rotor):
+    """What ``rotorcalc levers`` computes: the what-if rotor screened, then its levers."""
+    import rotorcalc as rc
+    from rotorcalc.analysis.whatif import levers, what_if_rotor
+    chosen = what_if_rotor(dataclasses.replace(rotor, unbalance=()))
+    return levers(chosen, rc.screen(chosen).criticals)
+
+
+def child_cpu(args):
+    """CPU seconds (user + system) of a child process, best of three."""
+    best = math.inf
+    for _ in range(3):
+        before = resource.getrusage(resource.RUSAGE_CHILDREN)
+        subprocess.run(args, capture_output=True, check=False)
+        after = resource.getrusage(resource.RUSAGE_CHILDREN)
+        best = min(best, after.ru_utime - before.ru_utime + after.ru_stime - before.ru_stime)
+    return best
+
+
+def commands():
+    """Whole commands in fresh processes (start-up included), and the start-up alone."""
+    exe = str(Path(sys.executable).with_name("rotorcalc"))
+    case = str(ROOT / "cases" / "compressor.toml")
+    rows = [("rotorcalc --help", [exe, "--help"]),
+            ("numpy + scipy imports alone", [sys.executable, "-c", "import numpy, scipy.linalg, "
+                                             "scipy.sparse.linalg, scipy.optimize"]),
+            ("rotorcalc's imports for criticals", [sys.executable, "-c", "import "
+                                                   "rotorcalc.cli.common, rotorcalc.cli.criticals"]),
+            ("rotorcalc criticals compressor", [exe, "criticals", case, "--jobs", "1"]),
+            ("rotorcalc levers compressor", [exe, "levers", case]),
+            ("rotorcalc window compressor", [exe, "window", case, "--jobs", "1"])]
+    print("\nCommands in a fresh process, CPU s (user + system, best of 3)")
+    for label, args in rows:
+        print(f"{label:36} {child_cpu(args):6.2f}", flush=True)
 
 
 def main():
     parser = argparse.ArgumentParser()
     parser.add_argument("--sizes", type=int, nargs="*", default=SIZES)
     parser.add_argument("--no-cases", action="store_true")
+    parser.add_argument("--commands", action="store_true",
+                        help="only the commands in fresh processes")
     parser.add_argument("--one", type=int, help=argparse.SUPPRESS)   # child process
     args = parser.parse_args()
     if args.one:
         print(json.dumps(one_size(args.one)))
+        return
+    if args.commands:
+        commands()
         return
     print("Generated rotors, 8 modes, 100 speeds; CPU seconds of sweep + critical speeds")
     print(f"{'elements':>8} {'DOFs':>6} {'full':>7} {'reduced':>8} {'limit':>7} {'full/red':>8} "

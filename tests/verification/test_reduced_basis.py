@@ -1,7 +1,7 @@
 """The reduced-basis sweep against the full-model solve, on every bundled case.
 
 Reference: the full-model eigen-solve of the same matrices (LAPACK's QZ/Hessenberg QR through
-``scipy.linalg.eig`` below 150 DOFs, ARPACK's shift-invert Arnoldi above, with its proof that no
+``scipy.linalg.eig`` below 80 DOFs, ARPACK's shift-invert Arnoldi above, with its proof that no
 mode was missed: docs/theory.md, section 3.1) -- general-purpose reference libraries, not the
 reduction.  The reduced path (rotorcalc.analysis.reduced) must give the same screening:
 

@@ -1,0 +1,154 @@
+"""One eigenpair of the rotor's quadratic, followed from a nearby one by Newton's method.
+
+Where a result needs one mode at a new spin speed (the critical-speed refinement) or with
+a little more cross-coupling (the cross-coupling screen), and that mode is known at a state
+close by, solving for every mode again is wasted work.  Newton's method on the quadratic
+eigenproblem ``Q(lam) x = (lam^2 M + lam D + K) x = 0`` with the normalisation ``v^H x = 1``
+(``v`` the start vector) converges quadratically from a close start:
+
+    u = Q(lam)^-1 Q'(lam) x,    lam <- lam - 1 / (v^H u),    x <- u / (v^H u)
+
+(Ruhe, "Algorithms for the nonlinear eigenvalue problem", SIAM J. Numer. Anal. 10 (1973),
+section 3; with ``Q' = 2 lam M + D``).  Each step costs one banded LU of the shifted
+quadratic, milliseconds where a full solve costs tens of them (docs/theory.md, section 3.3).
+
+The answer is certified, never assumed: it is returned only when the steps have converged
+and the pair's relative backward error in the full model is below :data:`BACKWARD_LIMIT`
+(then it is an eigenpair of the model to that accuracy); the caller checks that it is the
+mode it wanted (by shape) and solves in full otherwise.  In an isotropic model a mode can
+be one of a degenerate pair, whose vector Newton's method may return mixed: such an answer
+is refused too, and the full solve splits the pair.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+import scipy.linalg as la
+import scipy.sparse as sp
+from scipy.sparse import coo_matrix
+
+from ..solvers import NUMERICAL_FAILURES, _factor, _Pencil, _scaling
+from ..threads import one_blas_thread
+from .circular import MIXED, is_isotropic, mixing
+
+#: Newton steps before giving up (the full solve then answers).
+MAX_STEPS = 12
+#: A step that moves the eigenvalue by less than this share of it leaves an error of about
+#: its square: one more step, and the pair is converged to roundoff.
+STEP_RTOL = 1e-8
+#: Largest accepted relative backward error of the answer.  The dense solve's own are
+#: about 1e-15 on the bundled cases; a converged Newton pair's are of the same order.
+BACKWARD_LIMIT = 1e-11
+
+
+@dataclass(frozen=True)
+class NewtonPair:
+    value: complex
+    vector: np.ndarray      # displacements, original DOF order
+    backward_error: float
+    steps: int
+
+
+#: Up to this many DOFs the steps use dense LU (cheaper than reordering for a band).
+DENSE_LIMIT = 400
+
+
+@one_blas_thread
+def newton_pair(m, d_mat, k, value, vector):
+    """The eigenpair of ``lam^2 M + lam D + K`` that Newton's method reaches from ``(value,
+    vector)``; None when it does not converge or its backward error is too large.
+
+    ``vector`` is a displacement vector in the original DOF order (a rough one will do: the
+    first step is an inverse iteration at ``value``).
+    """
+    quad = (_Dense if m.shape[0] <= DENSE_LIMIT else _Banded)(m, d_mat, k)
+    x = quad.to_scaled(np.asarray(vector, dtype=complex))
+    norm = np.linalg.norm(x)
+    if not (norm > 0 and np.isfinite(norm)):
+        return None
+    v = x / norm
+    x = v / np.vdot(v, v)
+    lam = complex(value)
+    steps, close = 0, False
+    try:
+        for steps in range(1, MAX_STEPS + 1):
+            u = quad.solve(lam, quad.d @ x + 2.0 * lam * (quad.m @ x))
+            size = np.vdot(v, u)
+            if not (size != 0 and np.isfinite(size)):
+                return None
+            step = 1.0 / size
+            lam, x = lam - step, u / size
+            if close:       # one step after a small one: converged to roundoff
+                break
+            close = abs(step) <= STEP_RTOL * abs(lam)
+        else:
+            return None
+    except NUMERICAL_FAILURES:
+        return None
+    error = quad.backward_error(lam, x)
+    if not error <= BACKWARD_LIMIT:
+        return None
+    q = quad.displacements(x)
+    if mixing(q) > MIXED and is_isotropic(m, d_mat, k):
+        return None
+    return NewtonPair(lam, q, error, steps)
+
+
+class _Dense:
+    """The DOF-scaled quadratic as dense arrays (small models)."""
+
+    def __init__(self, m, d_mat, k):
+        self.scale, _ = _scaling(m, k)
+        inv = 1.0 / self.scale
+        self.m, self.d, self.k = ((x.toarray() if sp.issparse(x) else np.asarray(x))
+                                  * inv[:, None] * inv[None, :] for x in (m, d_mat, k))
+
+    def to_scaled(self, q):
+        return q * self.scale
+
+    def displacements(self, x):
+        return x / self.scale
+
+    def solve(self, lam, rhs):
+        lu = la.lu_factor(self.k + lam * self.d + (lam * lam) * self.m, check_finite=False)
+        return la.lu_solve(lu, rhs, check_finite=False)
+
+    def backward_error(self, lam, x):
+        res = lam * lam * (self.m @ x) + lam * (self.d @ x) + self.k @ x
+        size = sum(abs(c) * np.abs(a).sum(axis=0).max()
+                   for c, a in ((lam * lam, self.m), (lam, self.d), (1.0, self.k)))
+        return float(np.linalg.norm(res) / (size * np.linalg.norm(x)))
+
+
+class _Banded:
+    """The DOF-scaled quadratic in a bandwidth-reducing order (large models): each shift
+    sets the values of one fixed pattern and factors it by a banded LU."""
+
+    def __init__(self, m, d_mat, k):
+        self.pencil = pencil = _Pencil(m, d_mat, k)
+        self.m, self.d = pencil.m, pencil.d
+        mats = [a.tocoo() for a in (pencil.k, pencil.d, pencil.m)]
+        rows = np.concatenate([a.row for a in mats])
+        cols = np.concatenate([a.col for a in mats])
+        key, where = np.unique(rows.astype(np.int64) * pencil.n + cols, return_inverse=True)
+        self.rows, self.cols = key // pencil.n, key % pencil.n
+        sizes = np.cumsum([0] + [a.nnz for a in mats])
+        self.parts = [(where[sizes[i]:sizes[i + 1]], mats[i].data) for i in range(3)]
+
+    def to_scaled(self, q):
+        return q[self.pencil.perm] * self.pencil.scale[self.pencil.perm]
+
+    def displacements(self, x):
+        return self.pencil.displacements(x[:, None])[:, 0]
+
+    def solve(self, lam, rhs):
+        data = np.zeros(len(self.rows), dtype=complex)
+        for (where, values), factor in zip(self.parts, (1.0, lam, lam * lam)):
+            np.add.at(data, where, factor * values)
+        q = coo_matrix((data, (self.rows, self.cols)), shape=(self.pencil.n,) * 2)
+        return _factor(q, self.pencil.band)(rhs)
+
+    def backward_error(self, lam, x):
+        return float(self.pencil.backward_errors(np.array([lam]), x[:, None])[0])
