@@ -226,15 +226,24 @@ class _Pencil:
 
     def __init__(self, m, d_mat, k):
         self.scale, self.ref = _scaling(m, k)
-        inv = sp.diags(1.0 / self.scale)
-        mats = [sp.csr_matrix(inv @ x @ inv) for x in (m, d_mat, k)]
-        pattern = abs(mats[0]) + abs(mats[1]) + abs(mats[2])
-        self.perm = reverse_cuthill_mckee(sp.csr_matrix(pattern + pattern.T),
-                                          symmetric_mode=True)
-        self.m, self.d, self.k = (x[self.perm][:, self.perm].tocsr() for x in mats)
-        coo = (abs(self.m) + abs(self.d) + abs(self.k)).tocoo()
-        self.band = int(np.abs(coo.row - coo.col).max()) if coo.nnz else 0
         self.n = m.shape[0]
+        inv = 1.0 / self.scale
+        mats = (m, d_mat, k)
+        layout = _layout(mats)
+        if layout is None:      # not canonical CSR, or explicit zeros: the general way
+            scaling = sp.diags(inv)
+            mats = [sp.csr_matrix(scaling @ x @ scaling) for x in mats]
+            self.perm, self.band = _order(mats)
+            self.m, self.d, self.k = (x[self.perm][:, self.perm].tocsr() for x in mats)
+            for x in (self.m, self.d, self.k):
+                x.sort_indices()
+            return
+        self.perm, self.band = layout.perm, layout.band
+        # the values D^-1 X D^-1 round to, gathered into the reordered pattern
+        self.m, self.d, self.k = (
+            sp.csr_matrix((((inv[rows] * x.data) * inv[x.indices])[where], indices, indptr),
+                          shape=x.shape)
+            for x, (rows, where, indices, indptr) in zip(mats, layout.parts))
 
     def operator(self, sigma):
         """``T = (A - sigma B)^-1 B`` on the (reordered) state ``[q^, v]``.
@@ -268,6 +277,53 @@ class _Pencil:
         res = (self.m @ x) * values ** 2 + (self.d @ x) * values + self.k @ x
         size = np.abs(values) ** 2 * norms[0] + np.abs(values) * norms[1] + norms[2]
         return np.linalg.norm(res, axis=0) / (size * np.linalg.norm(x, axis=0))
+
+
+def _order(mats):
+    """Reverse Cuthill-McKee order of the matrices' joint pattern, and its half-bandwidth."""
+    pattern = abs(mats[0]) + abs(mats[1]) + abs(mats[2])
+    perm = reverse_cuthill_mckee(sp.csr_matrix(pattern + pattern.T), symmetric_mode=True)
+    coo = (abs(pattern[perm][:, perm])).tocoo()
+    return perm, (int(np.abs(coo.row - coo.col).max()) if coo.nnz else 0)
+
+
+@dataclass(frozen=True)
+class _Layout:
+    perm: np.ndarray
+    band: int
+    parts: tuple      # per matrix: (row of each entry, gather map, indices, indptr)
+
+
+#: Reorderings kept for the patterns seen last (a sweep's speeds share one or two).
+LAYOUTS = 8
+_LAYOUTS: dict = {}
+
+
+def _layout(mats):
+    """The reordering of matrices of this pattern, found once per pattern: their order,
+    half-bandwidth, and for each matrix where each entry of its reordered CSR comes from.
+    None for matrices that are not canonical CSR without explicit zeros (the pattern then
+    is not the one the scaled products have)."""
+    if not all(sp.isspmatrix_csr(x) and x.has_canonical_format and not (x.data == 0).any()
+               for x in mats):
+        return None
+    key = tuple((x.shape, x.indptr.tobytes(), x.indices.tobytes()) for x in mats)
+    if key in _LAYOUTS:
+        return _LAYOUTS[key]
+    perm, band = _order(mats)
+    parts = []
+    for x in mats:
+        # entries numbered from 1 (none is zero): the reordering gathers, never adds
+        numbered = sp.csr_matrix((np.arange(1.0, x.nnz + 1.0), x.indices, x.indptr),
+                                 shape=x.shape)[perm][:, perm].tocsr()
+        numbered.sort_indices()
+        rows = np.repeat(np.arange(x.shape[0]), np.diff(x.indptr))
+        parts.append((rows, numbered.data.astype(np.int64) - 1, numbered.indices,
+                      numbered.indptr))
+    if len(_LAYOUTS) >= LAYOUTS:
+        _LAYOUTS.pop(next(iter(_LAYOUTS)))
+    _LAYOUTS[key] = _Layout(perm, band, tuple(parts))
+    return _LAYOUTS[key]
 
 
 def _factor(q, band):

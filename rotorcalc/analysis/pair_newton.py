@@ -124,7 +124,7 @@ class _Dense:
 
 class _Banded:
     """The DOF-scaled quadratic in a bandwidth-reducing order (large models): each shift
-    sets the values of one fixed pattern and factors it by a banded LU."""
+    sets the values of one fixed band and factors it by LAPACK's banded LU."""
 
     def __init__(self, m, d_mat, k):
         self.pencil = pencil = _Pencil(m, d_mat, k)
@@ -134,8 +134,10 @@ class _Banded:
         cols = np.concatenate([a.col for a in mats])
         key, where = np.unique(rows.astype(np.int64) * pencil.n + cols, return_inverse=True)
         self.rows, self.cols = key // pencil.n, key % pencil.n
+        # each matrix's values on the union pattern (duplicates summed)
         sizes = np.cumsum([0] + [a.nnz for a in mats])
-        self.parts = [(where[sizes[i]:sizes[i + 1]], mats[i].data) for i in range(3)]
+        self.values = [np.bincount(where[sizes[i]:sizes[i + 1]], weights=mats[i].data,
+                                   minlength=len(key)) for i in range(3)]
 
     def to_scaled(self, q):
         return q[self.pencil.perm] * self.pencil.scale[self.pencil.perm]
@@ -144,9 +146,8 @@ class _Banded:
         return self.pencil.displacements(x[:, None])[:, 0]
 
     def solve(self, lam, rhs):
-        data = np.zeros(len(self.rows), dtype=complex)
-        for (where, values), factor in zip(self.parts, (1.0, lam, lam * lam)):
-            np.add.at(data, where, factor * values)
+        k, d, m = self.values
+        data = k + lam * d + (lam * lam) * m
         q = coo_matrix((data, (self.rows, self.cols)), shape=(self.pencil.n,) * 2)
         return _factor(q, self.pencil.band)(rhs)
 

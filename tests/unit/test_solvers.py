@@ -289,3 +289,27 @@ def test_a_trial_speed_with_no_mode_near_the_branch_falls_back_to_the_lowest_mod
     found = critical_speeds(system, sweep(system))
     assert any(c.damping_ratio > 0.99 for c in found)
     assert all(np.isfinite(c.speed) for c in found)
+
+
+def test_the_cached_reordering_gives_the_pencil_of_the_general_way(monkeypatch):
+    """The pencil's reordering is found once per sparsity pattern and its values gathered
+    into it: the same order, band, matrices and entry order, bit for bit, as scaling and
+    reordering each matrix anew (the general way, kept for matrices with explicit zeros),
+    on every bundled case at rest (where the gyroscopic terms vanish) and running."""
+    from rotorcalc.reader import read_rotor
+    from tests.conftest import ROOT
+    paths = [p for p in sorted((ROOT / "cases").glob("*.toml"))
+             if "variants" not in p.name and "study" not in p.name]
+    for path in paths:
+        system = assemble(read_rotor(path))
+        for speed in (0.0, 700.0):
+            mats = (system.mass, system.damping(speed) + speed * system.gyroscopic,
+                    system.stiffness(speed))
+            fast = solvers._Pencil(*mats)
+            with monkeypatch.context() as patch:
+                patch.setattr(solvers, "_layout", lambda mats: None)
+                general = solvers._Pencil(*mats)
+            assert np.array_equal(fast.perm, general.perm) and fast.band == general.band
+            for a, b in ((fast.m, general.m), (fast.d, general.d), (fast.k, general.k)):
+                for field in ("data", "indices", "indptr"):
+                    assert np.array_equal(getattr(a, field), getattr(b, field))
