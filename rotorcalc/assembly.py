@@ -108,6 +108,10 @@ class SystemMatrices:
     n_dof: int
     support_dofs: np.ndarray   # (n_bearings, 2), -1 where the bearing is grounded
     source_links: tuple = ()   # destabilising sources, grounded at their station
+    # the links' 2x2 coefficients at the last (speed, whirl) read: stiffness and damping
+    # are asked for at the same speed one after the other (never copied by replace)
+    _last: dict = dataclasses.field(default_factory=dict, init=False, compare=False,
+                                    repr=False)
 
     def node_dofs(self, node):
         """Global DOFs ``[x, y, a, b]`` of a shaft node."""
@@ -124,8 +128,8 @@ class SystemMatrices:
         as a sparse matrix; ``part`` maps each 2x2 block first (the reduced basis's
         reference keeps the direct terms)."""
         rows, cols, data = [], [], []
-        for link in self.links + self.source_links:
-            k2, c2 = link.bearing.matrices(omega, whirl)
+        for link, (k2, c2) in zip(self.links + self.source_links,
+                                  self._coefficients(omega, whirl)):
             block = k2 if which == "k" else c2
             local = fe_bearing.element(block if part is None else part(block), len(link.dofs))
             r, c = np.meshgrid(link.dofs, link.dofs, indexing="ij")
@@ -136,6 +140,15 @@ class SystemMatrices:
             return sp.csr_matrix((self.n_dof, self.n_dof))
         return sp.coo_matrix((np.concatenate(data), (np.concatenate(rows), np.concatenate(cols))),
                              shape=(self.n_dof, self.n_dof)).tocsr()
+
+    def _coefficients(self, omega, whirl):
+        """Every link's ``(k2, c2)`` at ``omega``, read once for a pair of calls."""
+        key = (float(omega), None if whirl is None else float(whirl))
+        if key not in self._last:
+            self._last.clear()
+            self._last[key] = [link.bearing.matrices(omega, whirl)
+                               for link in self.links + self.source_links]
+        return self._last[key]
 
     def stiffness(self, omega, whirl=None):
         """K(spin): shaft, bearings at ``omega`` (rad/s) and supports.  ``whirl`` (rad/s):
