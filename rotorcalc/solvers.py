@@ -174,6 +174,8 @@ NEAR_OFFSET = 1e-3
 #: The deflated check estimates distances to about 1 %; a miss is one closer
 #: than this fraction of the found disk's radius.
 CHECK_SLACK = 0.98
+
+
 def _arnoldi(op, nev, seed):
     """The ``nev`` dominant eigenpairs of ``op`` (ARPACK); partial results if not converged."""
     rng = np.random.default_rng(seed)

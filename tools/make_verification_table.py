@@ -82,6 +82,9 @@ MODULE_SECTIONS = (
     ("test_change_loads.py",
      "20. The loads in the change grammar: a stage's cross-coupling scaled against the stage "
      "estimate at that power, the response to a scaled unbalance against superposition"),
+    ("test_projected.py",
+     "21. The cross-coupling screen on a projected basis against full solves at every "
+     "amount: every bundled case, each placement"),
 )
 
 INTRO = """\
