@@ -1,12 +1,14 @@
 """Critical speeds: where a tracked natural frequency equals order x spin speed.
 
-Each crossing is bracketed on the sweep and refined by Brent's method with
-fresh eigen-solves; at every trial speed the branch is picked out by the same
-shape-and-frequency cost the tracker uses.  A trial solve asks only for the few
-modes nearest the branch (a shift-invert solve about its eigenvalue); should
-none of them match, the lowest modes are solved as in the sweep.  Brackets are
-independent, so they can be shared among worker processes like the sweep's
-speeds.
+Each crossing is bracketed on the sweep and refined by Brent's method.  At each
+trial speed the branch's eigenpair is reached by Newton's method from the nearest
+speed already solved (:mod:`.pair_newton`: a few LU factorisations instead of a
+solve for every mode), taken when its backward error and its shape's likeness to
+the start certify it.  Otherwise the speed is solved afresh and the branch picked
+out by the same shape-and-frequency cost the tracker uses: first the few modes
+nearest the branch (a shift-invert solve about its eigenvalue), and should none
+of them match, the lowest modes as in the sweep.  Brackets are independent, so
+they can be shared among worker processes like the sweep's speeds.
 """
 
 from __future__ import annotations
