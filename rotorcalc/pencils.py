@@ -87,9 +87,9 @@ class _Pencil:
             return
         self.perm, self.band = layout.perm, layout.band
         # the values D^-1 X D^-1 round to, gathered into the reordered pattern
-        self.m, self.d, self.k = (
-            sp.csr_matrix((((inv[rows] * x.data) * inv[x.indices])[where], indices, indptr),
-                          shape=x.shape)
+        self.m, self.d, self.k = (     # own index arrays: the cached ones stay untouched
+            sp.csr_matrix((((inv[rows] * x.data) * inv[x.indices])[where], indices.copy(),
+                           indptr.copy()), shape=x.shape)
             for x, (rows, where, indices, indptr) in zip(mats, layout.parts))
 
     def operator(self, sigma):
@@ -160,13 +160,17 @@ class _Shifts:
     """The shift-invert operator's two matrices, ``K^ + sigma D^ + sigma^2 M^`` and
     ``[D^ + sigma M^, s M^]``, for reordered matrices of one pattern: their patterns and
     where each entry's terms come from, found once (the sums as sparse additions would form
-    them: each term where its matrix has an entry, in the same order)."""
+    them: each term where its matrix has an entry, in the same order).  A sum that cancels
+    to exactly zero stays here as an explicit zero where the sparse addition drops it: the
+    banded LU's factors are the same; SuperLU (bands wider than :data:`BAND_LIMIT`) may then
+    order its pivots differently, to roundoff."""
 
     def __init__(self, m, d, k):
         n = m.shape[0]
         union = (abs(m) + abs(d) + abs(k)).tocoo()
-        self.rows, self.cols = union.row, union.col
-        keys = self.rows.astype(np.int64) * n + self.cols
+        keys = union.row.astype(np.int64) * n + union.col
+        order = np.argsort(keys, kind="stable")          # sorted for the searches below
+        keys, self.rows, self.cols = keys[order], union.row[order], union.col[order]
         self.at = [np.searchsorted(keys, _keys(x)) for x in (k, d, m)]
         pair = (abs(d) + abs(m)).tocsr()
         pair.sort_indices()
@@ -198,7 +202,8 @@ def _keys(x):
         + x.indices
 
 
-#: Reorderings kept for the patterns seen last (a sweep's speeds share one or two).
+#: Reorderings kept, the oldest dropped first (a sweep's speeds share one or two patterns;
+#: each worker process keeps its own).
 LAYOUTS = 8
 _LAYOUTS: dict = {}
 

@@ -19,7 +19,9 @@ from .errors import InputError
 def _import_pint():
     """pint, imported without dask: pint imports dask whenever it is installed (for arrays
     of quantities, which rotorcalc never makes), 0.17 s of every command on this machine.
-    ``find_spec`` reports a module set to None in ``sys.modules`` as absent."""
+    ``find_spec`` reports a module set to None in ``sys.modules`` as absent.  pint decides
+    this once per process: a program that imports rotorcalc before pint and then wants
+    pint's dask arrays should import dask first (then nothing is hidden)."""
     import sys
     hide = "dask" not in sys.modules
     if hide:

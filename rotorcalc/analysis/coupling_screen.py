@@ -34,11 +34,11 @@ from ..rules import PLACEMENTS, CouplingRule
 from ..units import to_rpm
 from ..vocabulary import BearingRole, Outcome
 from .margins import CAUTION
-from ..notices import Notice
 from ..solvers import NUMERICAL_FAILURES
 from .modes import modes_at, read_only
 from .projected import ProjectedSolver
 from .own_frequency import at_own_frequency, own_frequency_notes
+from .sources_check import SourcesCheck, _synchronous_note, sources_check  # noqa: F401
 from .tracking import mac_matrix
 
 #: Steps of the sweep from zero to the top amount.
@@ -61,6 +61,7 @@ class CouplingScreen:
     criteria: CouplingRule
     notes: tuple = ()        # Notice records: unconverged whirl iterations, table ends
     expected_from: str = "given to the screen"   # where the expected amount comes from
+    solves: str = ""         # how the amounts were solved (a projected basis, or in full)
 
     def __post_init__(self):
         read_only(self)
@@ -139,6 +140,7 @@ class CouplingScreen:
                          "text": self.criteria.describe_screen(),
                          "label": self.criteria.label},
             "coefficients_at": self.criteria.coefficients_at,
+            "solves": self.solves,
             "notes": [n.to_dict() for n in self.notes],
             "verdict": self.verdict, "caution": CAUTION,
         }
@@ -228,6 +230,9 @@ def _station_shares(rotor, placement, speed, mode_count):
 SCREEN_MODES = 8
 #: Modes beyond those judged whose shapes at the sweep's ends join the projection basis.
 PROJECTION_GUARD = 4
+#: A full-model eigenvalue must have a projected one this close (relative) at the checked
+#: amounts; the certified pairs agree to about 1e-9.
+PROJECTION_MATCH = 1e-6
 
 
 def _no_forward_mode():
@@ -244,7 +249,7 @@ class _Judge:
         self.rotor, self.shares, self.speed, self.mode_count = rotor, shares, speed, mode_count
         self.own, self.notes = own, []
         self.bare = assemble(rotor)      # once: each amount changes only the sources
-        self.solver, self.solved = None, {}
+        self.solver, self.solved = None, {}     # the projection; amount -> (system, modes)
 
     def project(self, top):
         """Solve the amounts that follow on a basis (:mod:`.projected`): the modes with none
@@ -264,16 +269,35 @@ class _Judge:
         if np.all(np.isfinite(static)):
             self.solver = ProjectedSolver(np.hstack([ends[0].vectors, ends[1].vectors, static]))
 
-    def __call__(self, q, reference=None):
-        """(log dec, frequency rad/s, shape) of the judged mode with ``q`` (N/m) applied;
-        each amount solved once."""
-        if (q, reference is None) not in self.solved:
-            self.solved[q, reference is None] = self._judge(q, reference)
-        return self.solved[q, reference is None]
+    def verify(self, q):
+        """Check the projected modes at ``q`` against a full solve: every full-model mode
+        must have a projected one within :data:`PROJECTION_MATCH` (a mode the basis lacks
+        would be off by far more).  On a miss the projection is dropped and every amount
+        is solved in full.  True when the projection stands (or was not used)."""
+        if self.solver is None:
+            return True
+        _, projected = self.modes(q)
+        full = modes_at(with_sources(self.bare, applied_sources(self.shares, q)),
+                        self.speed, self.mode_count)
+        gap = np.abs(full.eigenvalues[:, None] - projected.eigenvalues[None, :]).min(axis=1) \
+            if len(projected.eigenvalues) else np.full(len(full.eigenvalues), np.inf)
+        if len(full.eigenvalues) == len(projected.eigenvalues) and np.all(
+                gap <= PROJECTION_MATCH * np.abs(full.eigenvalues)):
+            return True
+        self.solver, self.solved = None, {}
+        return False
 
-    def _judge(self, q, reference):
-        system = with_sources(self.bare, applied_sources(self.shares, q))
-        modes = modes_at(system, self.speed, self.mode_count, self.solver)
+    def modes(self, q):
+        """(system, modes) with ``q`` (N/m) applied, each amount solved once."""
+        if q not in self.solved:
+            system = with_sources(self.bare, applied_sources(self.shares, q))
+            self.solved[q] = (system, modes_at(system, self.speed, self.mode_count,
+                                               self.solver))
+        return self.solved[q]
+
+    def __call__(self, q, reference=None):
+        """(log dec, frequency rad/s, shape) of the judged mode with ``q`` (N/m) applied."""
+        system, modes = self.modes(q)
         if reference is None:
             j = _first_forward(modes)
             if j is None:
@@ -352,21 +376,17 @@ def cross_coupling_screen(rotor, expected=None, placement=None, top_ratio=None,
     judge.project(amounts[-1])
     log_dec, freq, shapes = _follow(judge, amounts)
     threshold = _threshold(judge, amounts, log_dec, shapes, xtol_share * amounts[-1])
+    # no mode missing from the basis: checked in full at the middle amount and at the
+    # threshold (or the expected amount); a miss solves every amount again in full
+    checks = [amounts[len(amounts) // 2], expected if not threshold else threshold]
+    if not all(judge.verify(q) for q in checks):
+        log_dec, freq, shapes = _follow(judge, amounts)
+        threshold = _threshold(judge, amounts, log_dec, shapes, xtol_share * amounts[-1])
     notes = judge.notes + _synchronous_note(bare, criteria)
+    solves = (judge.solver.describe() if judge.solver is not None else
+              "every amount solved in full")
     return CouplingScreen(speed, float(expected), placement, shares, amounts, log_dec, freq,
-                          threshold, criteria, tuple(notes), expected_from)
-
-
-def _synchronous_note(rotor, criteria):
-    """A note when tables over whirl frequency were read at the spin speed."""
-    tables = [b.name for b in rotor.bearings + rotor.sources if b.whirl_dependent]
-    if not tables or criteria.coefficients_at != "synchronous":
-        return []
-    verb = "gives" if len(tables) == 1 else "give"
-    return [Notice(f"{', '.join(tables)} {verb} coefficients over whirl frequency; the "
-                   "stability screen read them at the spin speed (synchronous, the default); "
-                   "[coupling_screen] coefficients_at = \"mode-frequency\" (or "
-                   "--coefficients-at) reads them at each mode's own frequency", "note")]
+                          threshold, criteria, tuple(notes), expected_from, solves)
 
 
 def _threshold(judge, amounts, log_dec, shapes, xtol):
@@ -378,96 +398,6 @@ def _threshold(judge, amounts, log_dec, shapes, xtol):
     k = int(crossing[0])
     return float(brentq(lambda q: judge(q, shapes[k])[0], amounts[k], amounts[k + 1],
                         xtol=xtol))
-
-
-@dataclass(frozen=True)
-class SourcesCheck:
-    """Every forward mode at the maximum continuous speed with every source of the rotor
-    file applied, against ``min_log_dec``.  With ``coefficients_at = "mode-frequency"``
-    ``frequency`` and ``log_dec`` are each mode's at its own whirl frequency and
-    ``synchronous_log_dec`` the values with every table read at the spin speed."""
-
-    speed: float
-    min_log_dec: float
-    numbers: tuple        # mode numbers (from 1, by rising frequency)
-    frequency: np.ndarray
-    log_dec: np.ndarray
-    whirl: tuple
-    coefficients_at: str = "synchronous"
-    synchronous_log_dec: np.ndarray | None = None
-    converged: tuple = ()
-    notes: tuple = ()
-    label: str = ""       # where the required log decrement comes from
-
-    def __post_init__(self):
-        read_only(self)
-
-    @property
-    def passed(self):
-        return bool(np.all(self.log_dec >= self.min_log_dec))
-
-    @property
-    def rows(self):
-        """(mode number, frequency rad/s, log dec, whirl, passed, synchronous log dec,
-        converged) per forward mode."""
-        sync = self.log_dec if self.synchronous_log_dec is None else self.synchronous_log_dec
-        converged = self.converged or (True,) * len(self.numbers)
-        return [(n, float(f), float(d), w, bool(d >= self.min_log_dec), float(ds), bool(ok))
-                for n, f, d, w, ds, ok in zip(self.numbers, self.frequency, self.log_dec,
-                                              self.whirl, sync, converged)]
-
-    def summary(self):
-        """The check's outcome in one sentence, with its rule."""
-        lowest = float(np.min(self.log_dec)) if len(self.log_dec) else math.nan
-        return (f"Lowest forward-mode log decrement {lowest:.3f} at {to_rpm(self.speed):.0f} "
-                f"rpm with every source of the file applied; needed {self.min_log_dec:g} "
-                f"({self.label}).")
-
-    @property
-    def at_own_frequency(self):
-        """True when the modes were read at their own whirl frequencies."""
-        return self.synchronous_log_dec is not None
-
-    @property
-    def verdict(self):
-        return Outcome.PASS if self.passed else Outcome.FAIL
-
-    def to_dict(self):
-        return {"speed_rpm": float(to_rpm(self.speed)), "min_log_dec": self.min_log_dec,
-                "label": self.label, "coefficients_at": self.coefficients_at,
-                "modes": [{"mode": int(n), "frequency_hz": float(f / (2 * math.pi)),
-                           "log_dec": d, "log_dec_synchronous": ds, "converged": ok,
-                           "whirl": w, "passed": ok_d}
-                          for n, f, d, w, ok_d, ds, ok in self.rows],
-                "notes": [n.to_dict() for n in self.notes],
-                "verdict": self.verdict}
-
-
-def sources_check(rotor, min_log_dec=None):
-    """The forward modes' log decrements at the maximum continuous speed, sources applied
-    (each at its own whirl frequency when the rule asks, :mod:`.own_frequency`)."""
-    rule = rotor.coupling_rule or CouplingRule()
-    need = rule.min_log_dec_sources if min_log_dec is None else min_log_dec
-    label = rule.label if min_log_dec is None else "set by the user"
-    speed = rotor.operating.max_speed
-    system = assemble(rotor)
-    modes = modes_at(system, speed, rotor.settings.mode_count)
-    order = [int(i) for i in np.argsort(modes.frequency)]
-    keep = [i for i in order if modes.forward_fraction[i] >= 0.5]
-    numbers = tuple(order.index(i) + 1 for i in keep)
-    frequency = np.array([modes.frequency[i] for i in keep])
-    log_dec = np.array([modes.log_dec[i] for i in keep])
-    whirl = tuple(modes.whirl[i] for i in keep)
-    if rule.coefficients_at != "mode-frequency" or not system.whirl_dependent:
-        return SourcesCheck(speed, need, numbers, frequency, log_dec, whirl,
-                            rule.coefficients_at, None, (),
-                            tuple(_synchronous_note(rotor, rule)), label)
-    own = [at_own_frequency(system, speed, modes.shapes[i], modes.frequency[i],
-                            modes.log_dec[i], rotor.settings.mode_count) for i in keep]
-    notes = own_frequency_notes(system, list(zip(numbers, own)), speed, "mode")
-    return SourcesCheck(speed, need, numbers, np.array([r.frequency for r in own]),
-                        np.array([r.log_dec for r in own]), whirl, rule.coefficients_at,
-                        log_dec, tuple(r.converged for r in own), tuple(notes), label)
 
 
 @dataclass(frozen=True)

@@ -19,6 +19,8 @@ import numpy as np
 from scipy.optimize import brentq
 
 from ..assembly import SystemMatrices, assemble
+from ..errors import SolverError
+from ..solvers import OSCILLATORY
 from ..units import to_hz, to_rpm
 from .modes import forward_fraction, log_decrement, modes_at, read_only, settle, whirl_label
 from .pair_newton import newton_pair
@@ -163,7 +165,7 @@ def _refine(system, bracket, n_solve, solver):
 
     def g(w):       # each speed solved once: Brent's method evaluates both ends again
         if w not in seen:
-            seen[w] = _followed(system, w, seen) or \
+            seen[w] = _followed(system, w, seen, ref_value, ref_shape) or \
                 branch_at(system, w, ref_value, ref_shape, n_solve, solver) + (None,)
         return seen[w][0].imag - order * w
 
@@ -189,9 +191,15 @@ def _refine(system, bracket, n_solve, solver):
 FOLLOW_MAC = 0.98
 
 
-def _followed(system, speed, seen):
+def _followed(system, speed, seen, ref_value, ref_shape):
     """(eigenvalue, shape, vector) of the branch at ``speed`` by Newton's method from the
-    nearest speed already solved (:mod:`.pair_newton`), or None (then solve in full)."""
+    nearest speed already solved (:mod:`.pair_newton`), or None (then solve in full).
+
+    Taken only when the answer whirls (positive frequency: not the conjugate, not a real
+    eigenvalue of a branch turning overdamped), its shape's MAC with the start's is at least
+    :data:`FOLLOW_MAC`, and it passes the tracker's shape-and-frequency gate against the
+    bracket's reference as a full solve's pick must.  The trial speeds are solved in the
+    full model even when the sweep was on a reduced basis (closer to the full solve)."""
     start = min(seen, key=lambda w: abs(w - speed))
     value, shape, vector = seen[start]
     if vector is None:      # a sweep's end: its node shape, rotations zero, will do as a start
@@ -201,10 +209,14 @@ def _followed(system, speed, seen):
     c_mat, k_mat = system.damping(speed), system.stiffness(speed)
     d_mat = c_mat + speed * system.gyroscopic
     pair = newton_pair(system.mass, d_mat, k_mat, value, vector)
-    if pair is None:
+    if pair is None or not pair.value.imag > OSCILLATORY * abs(pair.value):
         return None
-    values, shapes, vectors = settle(system, speed, np.array([pair.value]),
-                                     pair.vector[:, None], c_mat, d_mat, k_mat)
-    if mac_matrix(shape[None], shapes)[0, 0] < FOLLOW_MAC:
+    try:
+        values, shapes, vectors = settle(system, speed, np.array([pair.value]),
+                                         pair.vector[:, None], c_mat, d_mat, k_mat)
+    except SolverError:         # digits lost: the full solve decides
+        return None
+    if mac_matrix(shape[None], shapes)[0, 0] < FOLLOW_MAC or match_cost(
+            ref_shape[None], np.array([ref_value]), shapes, values)[0, 0] > GATE:
         return None
     return values[0], shapes[0], vectors[:, 0]

@@ -9,8 +9,9 @@ eigenproblem ``Q(lam) x = (lam^2 M + lam D + K) x = 0`` with the normalisation `
     u = Q(lam)^-1 Q'(lam) x,    lam <- lam - 1 / (v^H u),    x <- u / (v^H u)
 
 (Ruhe, "Algorithms for the nonlinear eigenvalue problem", SIAM J. Numer. Anal. 10 (1973),
-section 3; with ``Q' = 2 lam M + D``).  Each step costs one banded LU of the shifted
-quadratic, milliseconds where a full solve costs tens of them (docs/theory.md, section 3.3).
+section 3; with ``Q' = 2 lam M + D``).  Each step costs one LU of the shifted quadratic
+(dense up to :data:`DENSE_LIMIT` DOFs, banded above, SuperLU for wide bands), fractions of a
+millisecond to milliseconds where a full solve costs tens of them (docs/theory.md, 3.3).
 
 The answer is certified, never assumed: it is returned only when the steps have converged
 and the pair's relative backward error in the full model is below :data:`BACKWARD_LIMIT`
@@ -69,7 +70,7 @@ def newton_pair(m, d_mat, k, value, vector):
     if not (norm > 0 and np.isfinite(norm)):
         return None
     v = x / norm
-    x = v / np.vdot(v, v)
+    x = v                 # v^H x = 1
     lam = complex(value)
     steps, close = 0, False
     try:
