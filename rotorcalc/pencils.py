@@ -38,6 +38,34 @@ def _scaling(m, k):
     return d, ref
 
 
+def scaled_dense(m, d_mat, k):
+    """The DOF-scaled quadratic ``(M^, D^, K^)`` as dense arrays, with the scaling and the
+    reference frequency (:func:`_scaling`); ``X^ = S^-1 X S^-1``."""
+    scale, ref = _scaling(m, k)
+    inv = 1.0 / scale
+    # (inv_i x_ij) inv_j, in the order the sparse products D^-1 X D^-1 round in
+    mh, dh, kh = ((x.toarray() if sp.issparse(x) else np.asarray(x)) * inv[:, None]
+                  * inv[None, :] for x in (m, d_mat, k))
+    return mh, dh, kh, scale, ref
+
+
+def norm1(a):
+    """1-norm (largest column sum of magnitudes) of a sparse or dense matrix."""
+    if not sp.issparse(a):
+        return float(np.abs(a).sum(axis=0).max()) if a.size else 0.0
+    a = a.tocsr()
+    return float(np.bincount(a.indices, np.abs(a.data), a.shape[1]).max()) if a.nnz else 0.0
+
+
+def backward_errors(m, d_mat, k, values, vectors):
+    """Relative backward error of each eigenpair (a column of ``vectors``) of the quadratic,
+    ``|Q(lam) x|_2 / ((|lam|^2 |M|_1 + |lam| |D|_1 + |K|_1) |x|_2)``."""
+    norms = [norm1(a) for a in (m, d_mat, k)]
+    res = (m @ vectors) * values ** 2 + (d_mat @ vectors) * values + k @ vectors
+    size = np.abs(values) ** 2 * norms[0] + np.abs(values) * norms[1] + norms[2]
+    return np.linalg.norm(res, axis=0) / (size * np.linalg.norm(vectors, axis=0))
+
+
 def scaled_pencil(m, d_mat, k):
     """Dense scaled state-space pencil ``(A, B)`` and the scaling used.
 
@@ -51,11 +79,7 @@ def scaled_pencil(m, d_mat, k):
     ref : float
         Reference frequency ``s`` of the scaled state.
     """
-    scale, ref = _scaling(m, k)
-    inv = 1.0 / scale
-    # (inv_i x_ij) inv_j, in the order the sparse products D^-1 X D^-1 round in
-    mh, kh, dh = ((x.toarray() if sp.issparse(x) else np.asarray(x)) * inv[:, None]
-                  * inv[None, :] for x in (m, k, d_mat))
+    mh, dh, kh, scale, ref = scaled_dense(m, d_mat, k)
     n = mh.shape[0]
     eye, zero = np.eye(n), np.zeros((n, n))
     a = np.block([[zero, ref * eye], [-kh / ref, -dh]])
@@ -100,11 +124,11 @@ class _Pencil:
         ``x1 = -Q^-1 (s M^ z2 + (D^ + sigma M^) z1)``, ``x2 = (z1 + sigma x1) / s``.
         """
         n, s = self.n, self.ref
+        solve = _factor(self.shifted(sigma), self.band)
         if self.shifts is None:
-            solve = _factor((self.k + sigma * self.d + sigma ** 2 * self.m).tocoo(), self.band)
             right = sp.hstack([self.d + sigma * self.m, s * self.m]).tocsr()
         else:
-            solve, right = self.shifts.shifted(self, sigma)
+            right = self.shifts.right_matrix(self, sigma)
 
         def apply(z):
             z = np.ravel(z)
@@ -114,6 +138,12 @@ class _Pencil:
         dtype = complex if isinstance(sigma, complex) else float
         return spla.LinearOperator((2 * n, 2 * n), matvec=apply, dtype=dtype)
 
+    def shifted(self, sigma):
+        """``K^ + sigma D^ + sigma^2 M^`` (COO) in the pencil's order."""
+        if self.shifts is None:
+            return (self.k + sigma * self.d + sigma ** 2 * self.m).tocoo()
+        return self.shifts.quadratic(self, sigma)
+
     def displacements(self, z):
         """Physical displacement vectors (original DOF order) of state vectors ``z``."""
         q = np.empty((self.n, z.shape[1]), dtype=complex)
@@ -122,12 +152,7 @@ class _Pencil:
 
     def backward_errors(self, values, z):
         """Relative backward error of each eigenpair of the quadratic."""
-        x = z[:self.n]
-        norms = [np.bincount(a.indices, np.abs(a.data), self.n).max() if a.nnz else 0.0
-                 for a in (self.m, self.d, self.k)]      # 1-norms: largest column sum
-        res = (self.m @ x) * values ** 2 + (self.d @ x) * values + self.k @ x
-        size = np.abs(values) ** 2 * norms[0] + np.abs(values) * norms[1] + norms[2]
-        return np.linalg.norm(res, axis=0) / (size * np.linalg.norm(x, axis=0))
+        return backward_errors(self.m, self.d, self.k, values, z[:self.n])
 
 
 def _order(mats):
@@ -179,21 +204,22 @@ class _Shifts:
         self.right = (_gather(stacked), stacked.indices, stacked.indptr, stacked.shape)
         self.size, self.pair_size = len(keys), pair.nnz
 
-    def shifted(self, pencil, sigma):
-        """(solve function of the shifted quadratic, the right-hand matrix) at ``sigma``."""
-        dtype = complex if isinstance(sigma, complex) else float
-        q = np.zeros(self.size, dtype=dtype)
+    def quadratic(self, pencil, sigma):
+        """The shifted quadratic at ``sigma`` (COO)."""
+        q = np.zeros(self.size, dtype=complex if isinstance(sigma, complex) else float)
         q[self.at[0]] = pencil.k.data
         q[self.at[1]] += sigma * pencil.d.data
         q[self.at[2]] += sigma ** 2 * pencil.m.data
-        solve = _factor(sp.coo_matrix((q, (self.rows, self.cols)), shape=pencil.k.shape),
-                        pencil.band)
-        pair = np.zeros(self.pair_size, dtype=dtype)
+        return sp.coo_matrix((q, (self.rows, self.cols)), shape=pencil.k.shape)
+
+    def right_matrix(self, pencil, sigma):
+        """``[D^ + sigma M^, s M^]`` at ``sigma`` (CSR)."""
+        pair = np.zeros(self.pair_size, dtype=complex if isinstance(sigma, complex) else float)
         pair[self.pair_at[0]] = pencil.d.data
         pair[self.pair_at[1]] += sigma * pencil.m.data
         where, indices, indptr, shape = self.right
         values = np.concatenate([pair, pencil.ref * pencil.m.data])[where]
-        return solve, sp.csr_matrix((values, indices, indptr), shape=shape)
+        return sp.csr_matrix((values, indices, indptr), shape=shape)
 
 
 def _keys(x):

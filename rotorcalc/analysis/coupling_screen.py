@@ -374,14 +374,14 @@ def cross_coupling_screen(rotor, expected=None, placement=None, top_ratio=None,
     judge = _Judge(bare, shares, speed, mode_count,
                    criteria.coefficients_at == "mode-frequency")
     judge.project(amounts[-1])
-    log_dec, freq, shapes = _follow(judge, amounts)
-    threshold = _threshold(judge, amounts, log_dec, shapes, xtol_share * amounts[-1])
-    # no mode missing from the basis: checked in full at the middle amount and at the
-    # threshold (or the expected amount); a miss solves every amount again in full
-    checks = [amounts[len(amounts) // 2], expected if not threshold else threshold]
-    if not all(judge.verify(q) for q in checks):
+    while True:
         log_dec, freq, shapes = _follow(judge, amounts)
         threshold = _threshold(judge, amounts, log_dec, shapes, xtol_share * amounts[-1])
+        # no mode missing from the basis: checked in full at the middle amount and at the
+        # threshold (or the expected amount); a miss drops the basis and solves again
+        checks = [amounts[len(amounts) // 2], expected if not threshold else threshold]
+        if all(judge.verify(q) for q in checks):
+            break
     notes = judge.notes + _synchronous_note(bare, criteria)
     solves = (judge.solver.describe() if judge.solver is not None else
               "every amount solved in full")

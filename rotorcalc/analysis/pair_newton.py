@@ -9,9 +9,10 @@ eigenproblem ``Q(lam) x = (lam^2 M + lam D + K) x = 0`` with the normalisation `
     u = Q(lam)^-1 Q'(lam) x,    lam <- lam - 1 / (v^H u),    x <- u / (v^H u)
 
 (Ruhe, "Algorithms for the nonlinear eigenvalue problem", SIAM J. Numer. Anal. 10 (1973),
-section 3; with ``Q' = 2 lam M + D``).  Each step costs one LU of the shifted quadratic
-(dense up to :data:`DENSE_LIMIT` DOFs, banded above, SuperLU for wide bands), fractions of a
-millisecond to milliseconds where a full solve costs tens of them (docs/theory.md, 3.3).
+section 3, from memory; with ``Q' = 2 lam M + D``).  Each step costs one LU of the shifted
+quadratic (dense up to :data:`DENSE_LIMIT` DOFs, banded above, SuperLU for wide bands),
+fractions of a millisecond to milliseconds where a full solve costs tens of them
+(docs/theory.md, 3.3).
 
 The answer is certified, never assumed: it is returned only when the steps have converged
 and the pair's relative backward error in the full model is below :data:`BACKWARD_LIMIT`
@@ -27,10 +28,9 @@ from dataclasses import dataclass
 
 import numpy as np
 import scipy.linalg as la
-import scipy.sparse as sp
-from scipy.sparse import coo_matrix
 
-from ..solvers import NUMERICAL_FAILURES, _factor, _Pencil, _scaling
+from ..pencils import _factor, _Pencil, backward_errors, scaled_dense
+from ..solvers import NUMERICAL_FAILURES
 from ..threads import one_blas_thread
 from .circular import MIXED, is_isotropic, mixing
 
@@ -101,10 +101,7 @@ class _Dense:
     """The DOF-scaled quadratic as dense arrays (small models)."""
 
     def __init__(self, m, d_mat, k):
-        self.scale, _ = _scaling(m, k)
-        inv = 1.0 / self.scale
-        self.m, self.d, self.k = ((x.toarray() if sp.issparse(x) else np.asarray(x))
-                                  * inv[:, None] * inv[None, :] for x in (m, d_mat, k))
+        self.m, self.d, self.k, self.scale, _ = scaled_dense(m, d_mat, k)
 
     def to_scaled(self, q):
         return q * self.scale
@@ -117,28 +114,17 @@ class _Dense:
         return la.lu_solve(lu, rhs, check_finite=False)
 
     def backward_error(self, lam, x):
-        res = lam * lam * (self.m @ x) + lam * (self.d @ x) + self.k @ x
-        size = sum(abs(c) * np.abs(a).sum(axis=0).max()
-                   for c, a in ((lam * lam, self.m), (lam, self.d), (1.0, self.k)))
-        return float(np.linalg.norm(res) / (size * np.linalg.norm(x)))
+        return float(backward_errors(self.m, self.d, self.k, np.array([lam]), x[:, None])[0])
 
 
 class _Banded:
     """The DOF-scaled quadratic in a bandwidth-reducing order (large models): each shift
-    sets the values of one fixed band and factors it by LAPACK's banded LU."""
+    factors the pencil's shifted quadratic (:meth:`~rotorcalc.pencils._Pencil.shifted`)
+    by LAPACK's banded LU."""
 
     def __init__(self, m, d_mat, k):
-        self.pencil = pencil = _Pencil(m, d_mat, k)
-        self.m, self.d = pencil.m, pencil.d
-        mats = [a.tocoo() for a in (pencil.k, pencil.d, pencil.m)]
-        rows = np.concatenate([a.row for a in mats])
-        cols = np.concatenate([a.col for a in mats])
-        key, where = np.unique(rows.astype(np.int64) * pencil.n + cols, return_inverse=True)
-        self.rows, self.cols = key // pencil.n, key % pencil.n
-        # each matrix's values on the union pattern (duplicates summed)
-        sizes = np.cumsum([0] + [a.nnz for a in mats])
-        self.values = [np.bincount(where[sizes[i]:sizes[i + 1]], weights=mats[i].data,
-                                   minlength=len(key)) for i in range(3)]
+        self.pencil = _Pencil(m, d_mat, k)
+        self.m, self.d = self.pencil.m, self.pencil.d
 
     def to_scaled(self, q):
         return q[self.pencil.perm] * self.pencil.scale[self.pencil.perm]
@@ -147,10 +133,7 @@ class _Banded:
         return self.pencil.displacements(x[:, None])[:, 0]
 
     def solve(self, lam, rhs):
-        k, d, m = self.values
-        data = k + lam * d + (lam * lam) * m
-        q = coo_matrix((data, (self.rows, self.cols)), shape=(self.pencil.n,) * 2)
-        return _factor(q, self.pencil.band)(rhs)
+        return _factor(self.pencil.shifted(lam), self.pencil.band)(rhs)
 
     def backward_error(self, lam, x):
         return float(self.pencil.backward_errors(np.array([lam]), x[:, None])[0])

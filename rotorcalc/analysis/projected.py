@@ -23,8 +23,8 @@ miss).  The solver counts its projected and full solves and keeps the largest ce
 from __future__ import annotations
 
 import numpy as np
-import scipy.sparse as sp
 
+from ..pencils import backward_errors
 from ..solvers import DenseSolver, Eigenpairs, make_solver
 
 #: Largest relative backward error accepted for a projected pair.  The full solvers' own are
@@ -33,22 +33,6 @@ from ..solvers import DenseSolver, Eigenpairs, make_solver
 LIMIT = 1e-10
 #: A unit vector adds a direction when more than this of it lies outside the basis.
 KEEP = 1e-10
-
-
-def backward_errors(m, d_mat, k, values, vectors):
-    """Relative backward error (module docstring) of each pair, columns of ``vectors``."""
-    norms = [_norm1(a) for a in (m, d_mat, k)]
-    res = (m @ vectors) * values ** 2 + (d_mat @ vectors) * values + k @ vectors
-    size = np.abs(values) ** 2 * norms[0] + np.abs(values) * norms[1] + norms[2]
-    return np.linalg.norm(res, axis=0) / (size * np.linalg.norm(vectors, axis=0))
-
-
-def _norm1(a):
-    """1-norm (largest column sum of magnitudes) of a sparse or dense matrix."""
-    if not sp.issparse(a):
-        return float(np.abs(a).sum(axis=0).max()) if a.size else 0.0
-    a = a.tocsr()
-    return float(np.bincount(a.indices, np.abs(a.data), a.shape[1]).max()) if a.nnz else 0.0
 
 
 def orthonormal(vectors, basis=None):
