@@ -27,6 +27,8 @@ import functools
 import numpy as np
 import scipy.sparse as sp
 
+from ..pencils import times
+
 #: A vector of an isotropic system whose weaker circular part exceeds this share
 #: of its size is mixed (exact eigenvectors have none; roundoff in a well-separated
 #: eigenvalue leaves about 1e-12 or less).
@@ -94,10 +96,19 @@ def rayleigh_values(m, d, k, vectors, near, products=None):
 
     ``products`` may pass ``(M X, D X, K X)`` already computed.
     """
-    mx, dx, kx = products if products is not None else (m @ vectors, d @ vectors,
-                                                        k @ vectors)
+    mx, dx, kx = products if products is not None else (times(m, vectors), times(d, vectors),
+                                                        times(k, vectors))
+    return nearest_root(*quadratic_forms(vectors, (mx, dx, kx)), near)
+
+
+def quadratic_forms(vectors, products):
+    """``x^H P x`` of each column ``x`` of ``vectors`` for each product ``P X`` given."""
     xh = np.conj(vectors)
-    a, b, c = (np.sum(xh * mx, axis=0), np.sum(xh * dx, axis=0), np.sum(xh * kx, axis=0))
+    return [np.einsum("ij,ij->j", xh, px) for px in products]
+
+
+def nearest_root(a, b, c, near):
+    """The root nearest ``near`` of ``a lam^2 + b lam + c = 0`` (elementwise)."""
     near = np.broadcast_to(np.asarray(near, dtype=complex), a.shape)
     with np.errstate(divide="ignore", invalid="ignore"):
         root = np.sqrt(b * b - 4.0 * a * c + 0j)

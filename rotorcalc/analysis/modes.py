@@ -10,9 +10,10 @@ from ..vocabulary import Whirl, old_keywords
 from ..assembly import SystemMatrices, assemble
 from ..errors import SolverError
 from ..notices import Notice, record
+from ..pencils import times
 from ..solvers import NUMERICAL_FAILURES, make_solver
 from ..units import to_hz, to_rpm
-from .circular import rayleigh_values, split_degenerate
+from .circular import nearest_root, quadratic_forms, split_degenerate
 
 #: Whirl labels from the forward share (see :func:`forward_fraction`): forward at
 #: or above this share, backward at or below one minus it, mixed between.  With
@@ -119,15 +120,15 @@ def mode_checks(values, vectors, m, d, k):
         rad/s.
     rayleigh : complex ndarray (n,)
     """
-    mx, dx, kx = m @ vectors, d @ vectors, k @ vectors
+    mx, dx, kx = times(m, vectors), times(d, vectors), times(k, vectors)
     lam = np.asarray(values)
     residual = np.linalg.norm(lam**2 * mx + lam * dx + kx, axis=0)
     size = np.linalg.norm(vectors, axis=0)
-    xh = np.conj(vectors)
-    slope = np.abs(2.0 * lam * np.sum(xh * mx, axis=0) + np.sum(xh * dx, axis=0))
+    a, b, c = quadratic_forms(vectors, (mx, dx, kx))
+    slope = np.abs(2.0 * lam * a + b)
     with np.errstate(divide="ignore", invalid="ignore"):
         errors = np.where(slope > 0, residual * size / slope, np.inf)
-    return errors, rayleigh_values(m, d, k, vectors, lam, (mx, dx, kx))
+    return errors, nearest_root(a, b, c, lam)
 
 
 def snap_roundoff(values, errors, conservative):

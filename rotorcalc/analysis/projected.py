@@ -24,7 +24,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..pencils import backward_errors
+from ..pencils import backward_errors, times
 from ..solvers import DenseSolver, Eigenpairs, make_solver
 
 #: Largest relative backward error accepted for a projected pair.  The full solvers' own are
@@ -68,7 +68,7 @@ class ProjectedSolver:
             v = self.basis
             small = [v.T @ (a @ v) for a in (m, d_mat, k)]
             pairs = DenseSolver()(*small, n_modes, near, 0)
-            q = v @ pairs.vectors
+            q = times(v, pairs.vectors)
             eta = backward_errors(m, d_mat, k, pairs.values, q)
             if len(eta) == n_modes and eta.max() <= LIMIT and not np.any(
                     pairs.real_eigenvalues > 0):

@@ -45,6 +45,7 @@ from scipy.sparse.csgraph import reverse_cuthill_mckee
 
 from ..fe import bearing as fe_bearing
 from ..notices import Notice
+from ..pencils import times
 from ..solvers import (NUMERICAL_FAILURES, AutoSolver, DenseSolver, _factor, _scaling,
                        make_solver)
 from .modes import GROWTH_RTOL
@@ -272,15 +273,15 @@ class ReducedModel:
     def _solve(self, speed, n_modes, near, zeros, whirl):
         m, d, k = self.matrices(speed, whirl)
         pairs = DenseSolver()(m, d, k, n_modes, near, zeros)
-        y = pairs.vectors     # real basis times complex vectors, without a complex copy of it
-        return replace(pairs, vectors=self.v @ y.real + 1j * (self.v @ y.imag))
+        return replace(pairs, vectors=times(self.v, pairs.vectors))
 
     def certify(self, values, vectors, d_mat, k_mat):
         """Each pair's certified residual (see the module) and its residual vector ``P Q x``."""
         s = self.system
-        r = (s.mass @ vectors) * values ** 2 + (d_mat @ vectors) * values + k_mat @ vectors
-        z = self.lu.solve(np.ascontiguousarray(r.real)) \
-            + 1j * self.lu.solve(np.ascontiguousarray(r.imag))
+        r = times(s.mass, vectors) * values ** 2 + times(d_mat, vectors) * values \
+            + times(k_mat, vectors)
+        # the real and imaginary parts as one real block (:func:`~rotorcalc.pencils.times`)
+        z = self.lu.solve(np.ascontiguousarray(r).view(np.float64)).view(np.complex128)
         size = np.linalg.norm(vectors * self.scale[:, None], axis=0)
         eta = np.linalg.norm(z * self.scale[:, None], axis=0) / np.maximum(size, 1e-300)
         return eta, z
