@@ -307,7 +307,8 @@ class _Judge:
         if not (self.own and system.whirl_dependent):
             return float(modes.log_dec[j]), float(modes.frequency[j]), modes.shapes[j]
         r = at_own_frequency(system, self.speed, modes.shapes[j], modes.frequency[j],
-                             modes.log_dec[j], self.mode_count)
+                             modes.log_dec[j], self.mode_count, value=modes.eigenvalues[j],
+                             vector=modes.vectors[:, j])
         for note in own_frequency_notes(system, [(f"{q:.4g} N/m", r)], self.speed,
                                         "the first forward mode with q ="):
             if note not in self.notes:

@@ -19,14 +19,12 @@ import numpy as np
 from scipy.optimize import brentq
 
 from ..assembly import SystemMatrices, assemble
-from ..errors import SolverError
-from ..solvers import OSCILLATORY
 from ..units import to_hz, to_rpm
-from .modes import forward_fraction, log_decrement, modes_at, read_only, settle, whirl_label
-from .pair_newton import newton_pair
+from .modes import forward_fraction, log_decrement, modes_at, read_only, whirl_label
+from .pair_newton import follow
 from .sweep import TRACKING_RESERVE, Sweep, worker_count, worker_pool
 from .sweep import sweep as run_sweep
-from .tracking import GATE, mac_matrix, match_cost
+from .tracking import GATE, match_cost
 
 #: Relative speed tolerance of the root refinement.
 SPEED_RTOL = 1e-9
@@ -186,37 +184,17 @@ def _refine(system, bracket, n_solve, solver):
     return CriticalSpeed(float(root), order, j + 1, complex(value), shape)
 
 
-#: A mode followed by Newton's method is the branch's when its shape's MAC with the start's
-#: is at least this; otherwise the speed is solved in full and the branch picked by shape.
-FOLLOW_MAC = 0.98
-
-
 def _followed(system, speed, seen, ref_value, ref_shape):
     """(eigenvalue, shape, vector) of the branch at ``speed`` by Newton's method from the
-    nearest speed already solved (:mod:`.pair_newton`), or None (then solve in full).
-
-    Taken only when the answer whirls (positive frequency: not the conjugate, not a real
-    eigenvalue of a branch turning overdamped), its shape's MAC with the start's is at least
-    :data:`FOLLOW_MAC`, and it passes the tracker's shape-and-frequency gate against the
-    bracket's reference as a full solve's pick must.  The trial speeds are solved in the
-    full model even when the sweep was on a reduced basis (closer to the full solve)."""
+    nearest speed already solved (:func:`.pair_newton.follow`: it whirls, keeps its digits
+    and its shape's MAC with the start's is at least ``FOLLOW_MAC``), or None (then solve in
+    full).  Taken only when it also passes the tracker's shape-and-frequency gate against
+    the bracket's reference, as a full solve's pick must.  The trial speeds are solved in
+    the full model even when the sweep was on a reduced basis (closer to the full solve)."""
     start = min(seen, key=lambda w: abs(w - speed))
     value, shape, vector = seen[start]
-    if vector is None:      # a sweep's end: its node shape, rotations zero, will do as a start
-        vector = np.zeros(system.mass.shape[0], dtype=complex)
-        tdofs = system.translation_dofs
-        vector[tdofs[:, 0]], vector[tdofs[:, 1]] = shape[:, 0], shape[:, 1]
-    c_mat, k_mat = system.damping(speed), system.stiffness(speed)
-    d_mat = c_mat + speed * system.gyroscopic
-    pair = newton_pair(system.mass, d_mat, k_mat, value, vector)
-    if pair is None or not pair.value.imag > OSCILLATORY * abs(pair.value):
+    found = follow(system, speed, value, vector, shape)
+    if found is None or match_cost(ref_shape[None], np.array([ref_value]), found[1][None],
+                                   np.array([found[0]]))[0, 0] > GATE:
         return None
-    try:
-        values, shapes, vectors = settle(system, speed, np.array([pair.value]),
-                                         pair.vector[:, None], c_mat, d_mat, k_mat)
-    except SolverError:         # digits lost: the full solve decides
-        return None
-    if mac_matrix(shape[None], shapes)[0, 0] < FOLLOW_MAC or match_cost(
-            ref_shape[None], np.array([ref_value]), shapes, values)[0, 0] > GATE:
-        return None
-    return values[0], shapes[0], vectors[:, 0]
+    return found

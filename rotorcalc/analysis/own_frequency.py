@@ -5,6 +5,9 @@ A bearing, seal or source tabulated over whirl frequency as well as speed
 frequency, not at the spin speed.  Starting from the synchronous solve, the mode is solved
 again with every two-way table read at its last frequency ``w`` and followed by its shape
 (modal assurance criterion), until the frequency it comes back with, ``f(w)``, equals ``w``.
+Each solve is Newton's method from the last iterate's eigenpair (:func:`.pair_newton.follow`:
+the tables move little between iterates, a few LU factorisations reach the mode), or, where
+that is not certified, a solve for the lowest modes as before.
 The update is a secant step on ``g(w) = f(w) - w`` (plain substitution ``w <- f(w)`` on the
 first step, and whenever the secant has no slope); it stops when ``|g| <= rtol w`` and says so
 when it does not within ``max_iter`` solves, or when the mode's shape is lost.
@@ -21,7 +24,8 @@ import numpy as np
 
 from ..notices import Notice
 from ..units import to_hz, to_rpm
-from .modes import modes_at, read_only
+from .modes import log_decrement, modes_at, read_only
+from .pair_newton import follow
 from .tracking import mac_matrix
 
 #: Fixed point reached when the mode's frequency and the frequency its tables were read at
@@ -50,22 +54,30 @@ class OwnFrequency:
 
 
 def at_own_frequency(system, speed, shape, frequency, log_dec, mode_count, *, rtol=RTOL,
-                     max_iter=MAX_ITER):
+                     max_iter=MAX_ITER, value=None, vector=None):
     """Iterate one mode of ``system`` at ``speed`` (rad/s) to its own whirl frequency.
 
-    ``shape``, ``frequency`` and ``log_dec`` are the mode's from the synchronous solve.
+    ``shape``, ``frequency`` and ``log_dec`` are the mode's from the synchronous solve;
+    ``value`` and ``vector``, its eigenvalue and vector, start Newton's method (by default
+    the eigenvalue from ``frequency`` and ``log_dec``, the vector from ``shape``).
     """
     w, w_prev, g_prev = float(frequency), None, None
     d = float(log_dec)
+    if value is None:
+        value = complex(-d * w / (2.0 * np.pi), w)
     for iteration in range(1, max_iter + 1):
-        modes = modes_at(system, speed, mode_count, whirl=w)
-        mac = mac_matrix(np.asarray(shape)[None], modes.shapes)[0]
-        j = int(np.argmax(mac))
-        if mac[j] < MAC_LOST:
-            return OwnFrequency(w, d, shape, iteration, False, frequency, log_dec,
-                                f"the mode's shape was lost at {to_hz(w):.4g} Hz "
-                                f"(MAC {mac[j]:.2f})")
-        shape, f, d = modes.shapes[j], float(modes.frequency[j]), float(modes.log_dec[j])
+        found = follow(system, speed, value, vector, shape, whirl=w)
+        if found is None:
+            modes = modes_at(system, speed, mode_count, whirl=w)
+            mac = mac_matrix(np.asarray(shape)[None], modes.shapes)[0]
+            j = int(np.argmax(mac))
+            if mac[j] < MAC_LOST:
+                return OwnFrequency(w, d, shape, iteration, False, frequency, log_dec,
+                                    f"the mode's shape was lost at {to_hz(w):.4g} Hz "
+                                    f"(MAC {mac[j]:.2f})")
+            found = modes.eigenvalues[j], modes.shapes[j], modes.vectors[:, j]
+        value, shape, vector = found
+        f, d = float(value.imag), float(log_decrement(np.array([value]))[0])
         g = f - w
         if abs(g) <= rtol * max(abs(f), abs(w)):
             return OwnFrequency(f, d, shape, iteration, True, frequency, log_dec)

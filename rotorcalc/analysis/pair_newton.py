@@ -29,10 +29,13 @@ from dataclasses import dataclass
 import numpy as np
 import scipy.linalg as la
 
+from ..errors import SolverError
 from ..pencils import _factor, _Pencil, backward_errors, scaled_dense
-from ..solvers import NUMERICAL_FAILURES
+from ..solvers import NUMERICAL_FAILURES, OSCILLATORY
 from ..threads import one_blas_thread
 from .circular import MIXED, is_isotropic, mixing
+from .modes import settle
+from .tracking import mac_matrix
 
 #: Newton steps before giving up (the full solve then answers).
 MAX_STEPS = 12
@@ -95,6 +98,41 @@ def newton_pair(m, d_mat, k, value, vector):
     if mixing(q) > MIXED and is_isotropic(m, d_mat, k):
         return None
     return NewtonPair(lam, q, error, steps)
+
+
+#: A mode followed by Newton's method is the one it started from when its shape's MAC with
+#: the start's is at least this; otherwise the caller solves in full and picks by shape.
+FOLLOW_MAC = 0.98
+
+
+def follow(system, speed, value, vector, shape, whirl=None):
+    """(eigenvalue, shape, vector) of the mode of ``system`` at ``speed`` (rad/s; bearing
+    tables over whirl frequency read at ``whirl``) that Newton's method reaches from the
+    eigenpair ``(value, vector)`` of a nearby state, checked like a solved mode
+    (:func:`~rotorcalc.analysis.modes.settle`, shape and vector scaled to a peak of 1); or
+    None, when it does not converge, does not whirl (positive frequency: not the conjugate,
+    not the real eigenvalue of a mode turning overdamped), loses its digits, or its shape's
+    MAC with ``shape`` (the start's node shape) is below :data:`FOLLOW_MAC`.
+
+    ``vector`` None: the start is ``shape`` at the translations, rotations zero (the first
+    step is an inverse iteration, a rough start will do)."""
+    if vector is None:
+        vector = np.zeros(system.mass.shape[0], dtype=complex)
+        tdofs = system.translation_dofs
+        vector[tdofs[:, 0]], vector[tdofs[:, 1]] = shape[:, 0], shape[:, 1]
+    c_mat, k_mat = system.damping(speed, whirl), system.stiffness(speed, whirl)
+    d_mat = c_mat + speed * system.gyroscopic
+    pair = newton_pair(system.mass, d_mat, k_mat, value, vector)
+    if pair is None or not pair.value.imag > OSCILLATORY * abs(pair.value):
+        return None
+    try:
+        values, shapes, vectors = settle(system, speed, np.array([pair.value]),
+                                         pair.vector[:, None], c_mat, d_mat, k_mat)
+    except SolverError:         # digits lost: the full solve decides
+        return None
+    if mac_matrix(np.asarray(shape)[None], shapes)[0, 0] < FOLLOW_MAC:
+        return None
+    return values[0], shapes[0], vectors[:, 0]
 
 
 class _Dense:

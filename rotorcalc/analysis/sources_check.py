@@ -115,7 +115,9 @@ def sources_check(rotor, min_log_dec=None):
                             rule.coefficients_at, None, (),
                             tuple(_synchronous_note(rotor, rule)), label)
     own = [at_own_frequency(system, speed, modes.shapes[i], modes.frequency[i],
-                            modes.log_dec[i], rotor.settings.mode_count) for i in keep]
+                            modes.log_dec[i], rotor.settings.mode_count,
+                            value=modes.eigenvalues[i], vector=modes.vectors[:, i])
+           for i in keep]
     notes = own_frequency_notes(system, list(zip(numbers, own)), speed, "mode")
     return SourcesCheck(speed, need, numbers, np.array([r.frequency for r in own]),
                         np.array([r.log_dec for r in own]), whirl, rule.coefficients_at,

@@ -128,7 +128,15 @@ def test_log_decrement_at_the_fixed_point_against_the_scalar_equation(share):
 
 def test_tables_flat_in_whirl_frequency_give_the_synchronous_answer():
     """A two-way table whose rows do not change with w is the one-way table: no iteration
-    moves anything (one solve confirms the fixed point)."""
+    moves anything (one solve confirms the fixed point).
+
+    The two answers come by different arithmetic (the iterate by Newton's method from the
+    synchronous solve, the one-way table by that solve alone), so they agree to the
+    eigenvalue's accuracy, not bit for bit: this mode's condition number is about 5e5 (its
+    backward mode has the same frequency), and the full solve's backward error of 2e-14
+    leaves about 1e-8 of the eigenvalue, where Newton's answer leaves 1e-18 (measured with
+    the smallest singular value of the quadratic at each).  Anything the iteration moved
+    would show at the fixed point's tolerance, 1e-6."""
     flat = Bearing(1, {"kxx": ((0.0, 0.0),), "kyy": ((0.0, 0.0),),
                        "cxx": ((C_DISK, C_DISK),), "cyy": ((C_DISK, C_DISK),)},
                    whirl=(0.0, TOP), name="flat")
@@ -137,8 +145,8 @@ def test_tables_flat_in_whirl_frequency_give_the_synchronous_answer():
     a = sources_check(jeffcott(flat, q=0.5 * C_DISK * WN))
     b = sources_check(jeffcott(plain, q=0.5 * C_DISK * WN))
     assert a.converged == (True,)
-    np.testing.assert_allclose(a.log_dec, b.log_dec, rtol=1e-10)
-    np.testing.assert_allclose(a.frequency, b.frequency, rtol=1e-10)
+    np.testing.assert_allclose(a.log_dec, b.log_dec, rtol=1e-7)
+    np.testing.assert_allclose(a.frequency, b.frequency, rtol=1e-7)
 
 
 def test_an_iteration_cut_short_says_it_did_not_converge():
