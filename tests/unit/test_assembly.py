@@ -87,3 +87,54 @@ def test_a_system_with_other_sources_equals_the_rotor_assembled_with_them():
         assert (a != b).nnz == 0, name
     assert (fast.mass != slow.mass).nnz == 0 and fast.rotor == slow.rotor
     assert (fast.stiffness(speed) != assemble(bare).stiffness(speed)).nnz > 0
+
+
+def _sparse_sum(system, speed, whirl, which):
+    """K or C by adding sparse matrices: the constant part and the links' blocks as a COO
+    matrix (what the fixed-pattern assembly replaces)."""
+    part = system._bearing_part(speed, which, whirl)
+    if which == "k":
+        return system.shaft_stiffness + system.support_stiffness + part
+    return system.support_damping + part
+
+
+@pytest.mark.parametrize("case", ["compressor", "hp_compressor_damper_seal", "feed_pump",
+                                  "overhung_fan", "generated"])
+def test_fixed_pattern_assembly_gives_the_sparse_sums_bit_for_bit(case):
+    """K(spin) and C(spin) from the fixed pattern (``assembly._Scatter``): the same pattern
+    (canonical, no stored zeros) and the same numbers, bit for bit, as the sparse sums, at
+    speeds over the range and at other whirl frequencies; on the generated rotor (bearings
+    on pedestals, a seal, speed-dependent cross-coupling) and with applied sources too."""
+    import dataclasses
+
+    from rotorcalc.analysis.coupling_screen import applied_sources
+    from rotorcalc.assembly import with_sources
+    from rotorcalc.reader import read_rotor
+    if case == "generated":
+        from tests.benchmarks.generated import generated_rotor
+        rotor = generated_rotor(40, mode_count=4, speed_count=10)
+    else:
+        rotor = read_rotor(ROOT / "cases" / f"{case}.toml")
+    system = assemble(rotor)
+    systems = [system, with_sources(system, applied_sources(((1, 1.0),), 2e6))]
+    for s in systems:
+        for speed in np.linspace(0.0, 1.3 * rotor.operating.max_speed, 6):
+            for whirl in (None, 0.4 * speed + 1.0):
+                for which, name in (("k", "stiffness"), ("c", "damping")):
+                    a = getattr(s, name)(speed, whirl)
+                    b = _sparse_sum(s, speed, whirl, which).tocsr()
+                    assert a.has_canonical_format and not (a.data == 0).any()
+                    assert np.array_equal(a.indptr, b.indptr), (name, speed)
+                    assert np.array_equal(a.indices, b.indices), (name, speed)
+                    assert np.array_equal(a.data, b.data), (name, speed)
+
+
+def test_fixed_pattern_drops_entries_that_come_to_zero():
+    """A bearing coefficient of exactly zero at some speed leaves no stored zero (the sparse
+    sum drops it too), so the solvers' cached reorderings see one pattern per pattern."""
+    brg = Bearing(0, {"kxx": (1e8, 1e8), "kyy": (1e8, 1e8), "kxy": (0.0, 5e6)},
+                  speeds=(100.0, 200.0), name="A")
+    s = assemble(uniform_shaft(bearings=[brg, isotropic(1, 1e8)]))
+    low, high = s.stiffness(100.0), s.stiffness(200.0)
+    assert not (low.data == 0).any() and high.nnz == low.nnz + 1
+    assert low[0, 1] == s.shaft_stiffness[0, 1] and high[0, 1] == 5e6
