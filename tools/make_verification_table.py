@@ -85,6 +85,9 @@ MODULE_SECTIONS = (
     ("test_projected.py",
      "21. The cross-coupling screen on a projected basis against full solves at every "
      "amount: every bundled case, each placement"),
+    ("test_response_surrogate.py",
+     "22. Response peaks searched on the sweep's reduced basis and confirmed by full solves, "
+     "against the full search"),
 )
 
 INTRO = """\

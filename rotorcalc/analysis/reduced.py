@@ -370,6 +370,15 @@ class ReducedSolver:
                       "reduced-basis", (float(speed),))
         return replace(full, warnings=tuple(full.warnings) + (note,))
 
+    def basis(self, system):
+        """The largest basis built for ``system`` (n_dof, r), or None (none built, or the
+        identity: a model too small to reduce)."""
+        models = [model for known, model in self._models if known is system and model]
+        if not models:
+            return None
+        v = max(models, key=lambda model: model.v.shape[1]).v
+        return v if v.shape[1] < MAX_SHARE * system.n_dof else None
+
     def summary(self, system):
         """The :class:`Reduction` of the largest basis used for ``system`` (None if none)."""
         models = [model for known, model in self._models if known is system and model]

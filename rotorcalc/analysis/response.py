@@ -21,6 +21,7 @@ from .harmonic import HarmonicSolver, probe_rows, solve_speeds, unbalance_forces
 from .modes import read_only
 from .peaks import (HALF_POWER, PEAK_FLOOR, SPEED_RTOL, Evaluator, Peak,  # noqa: F401
                     find_peaks)
+from .response_surrogate import surrogate_for
 from .stability import stability
 from .sweep import default_speeds, sweep, with_operating_speeds
 
@@ -240,7 +241,8 @@ class Response:
 
 
 #: Fresh solves an evaluator keeps (oldest dropped first).
-def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None, unstable=None):
+def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None, unstable=None,
+                       basis=None):
     """Steady-state unbalance response, peaks with amplification factors, and limit checks.
 
     Parameters
@@ -259,6 +261,10 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None, un
         no steady state; those speeds are flagged and the verdict fails when
         one of them lies where the limits are checked.  By default they are
         found here by a sweep of the rotor's settings; ``()`` skips that.
+    basis : ndarray (n_dof, r), optional
+        A reduced basis of the system (the sweep's, :meth:`.reduced.ReducedSolver.basis`):
+        the peaks are searched on it and confirmed by full solves
+        (:mod:`.response_surrogate`); the results hold to the same tolerances.
 
     Returns
     -------
@@ -281,7 +287,8 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None, un
     rows = probe_rows(system, probes)
     curves = solve_speeds(system, solver, force, rows, speeds)
     evaluator = Evaluator(solver, force, rows)
-    peaks = _peaks(speeds, curves, evaluator, cases, probes)
+    peaks = _peaks(speeds, curves, evaluator, cases, probes,
+                   surrogate_for(system, basis, force, rows))
     if own_grid:
         speeds, curves = _with_peak_speeds(system, solver, force, rows, speeds, curves, peaks,
                                            evaluator.solved)
@@ -305,18 +312,21 @@ def unbalance_response(rotor_or_system, speeds=None, cases=None, probes=None, un
                     unstable, tuple(tuple(c.weights) for c in cases))
 
 
-def _peaks(speeds, curves, ev, cases, probes):
+def _peaks(speeds, curves, ev, cases, probes, surrogate=None):
     """Every probe's refined peaks for every case (one fresh solve serves every probe and
-    case: ``ev``, an :class:`~rotorcalc.analysis.peaks.Evaluator`)."""
+    case: ``ev``, an :class:`~rotorcalc.analysis.peaks.Evaluator`; searched first on the
+    ``surrogate``, when there is one, :mod:`.response_surrogate`)."""
     st, pv = curves[0], curves[1]
     peaks = []
     for i, case in enumerate(cases):
         floor = PEAK_FLOOR * 2.0 * float(orbit_axes(st[i, ..., 0], st[i, ..., 1])[0].max())
         for j, probe in enumerate(probes):
             amp = 2.0 * np.abs(pv[i, :, j])
+            guess = None if surrogate is None else \
+                (lambda w, j=j, i=i: surrogate.probe(w, j, i))
             peaks.extend(find_peaks(speeds, amp, lambda w, j=j, i=i: ev.probe(w, j, i),
                                     case.name, probe.name, lambda w, i=i: ev.shape(w, i),
-                                    floor))
+                                    floor, guess))
     return peaks
 
 

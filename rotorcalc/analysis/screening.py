@@ -132,7 +132,8 @@ def screen(rotor: Rotor, speeds=None, orders=None, solver=None, progress=None,
                                   workers=workers))
     if getattr(result, "reduction", None) is not None:   # with the refinements' solves too
         result = dataclasses.replace(result, reduction=solver.summary(system))
-    response = unbalance_response(system, unstable=stab.unstable_ranges) \
+    basis = solver.basis(system) if hasattr(solver, "basis") else None
+    response = unbalance_response(system, unstable=stab.unstable_ranges, basis=basis) \
         if rotor.unbalance else None
     judgement = Judgement.of(rotor)
     table = separation_margins(crits, rotor.operating, rotor.settings.margin_rule,
