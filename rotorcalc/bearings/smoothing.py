@@ -9,7 +9,6 @@ from __future__ import annotations
 import functools
 
 import numpy as np
-from scipy.interpolate import make_smoothing_spline
 
 
 #: Smoothing weights tried by the cross-validation (in units of log speed); the limits are
@@ -66,6 +65,9 @@ def _smoothers(u, v):
     """For each weight of :data:`LAMBDAS`, the smoothing spline through ``u`` as matrices:
     its values at ``u`` (``S``) and at ``v`` from the data at ``u``.  They depend on the
     speeds only, which every variant of a rotor shares."""
+    # imported here: scipy.interpolate costs every command start-up 0.1 s, and only film
+    # bearings given by their geometry smooth their tables
+    from scipy.interpolate import make_smoothing_spline
     u, eye = np.array(u), np.eye(len(u))
     fits, reads = [], []
     for lam in LAMBDAS:
