@@ -76,10 +76,17 @@ class ResponseSurrogate:
         return 2.0 * abs(self.rows[j] @ self.responses(omega)[:, case])
 
 
+#: From this many DOFs the search on the basis pays: below, a full solve (a millisecond or
+#: two) costs about what the surrogate's own set-up and evaluations save (measured with
+#: tests/benchmarks/bench_reduced.py: slower at 1006 DOFs, faster from 2006).
+SURROGATE_FROM = 2000
+
+
 def surrogate_for(system, basis, force, rows):
-    """A :class:`ResponseSurrogate`, or None without a basis or when the static deflections
-    cannot be solved (a rotor free at the maximum continuous speed)."""
-    if basis is None:
+    """A :class:`ResponseSurrogate`, or None without a basis, below :data:`SURROGATE_FROM`
+    DOFs, or when the static deflections cannot be solved (a rotor free at the maximum
+    continuous speed)."""
+    if basis is None or system.n_dof < SURROGATE_FROM:
         return None
     try:
         return ResponseSurrogate(system, basis, force, rows)

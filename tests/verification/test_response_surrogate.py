@@ -25,6 +25,7 @@ import numpy as np
 import pytest
 
 from rotorcalc.analysis import peaks as peak_module
+from rotorcalc.analysis import response_surrogate
 from rotorcalc.analysis import sweep
 from rotorcalc.analysis.reduced import ReducedSolver
 from rotorcalc.analysis.response import unbalance_response
@@ -34,6 +35,12 @@ from tests.benchmarks.generated import generated_rotor
 from tests.verification.record import check
 
 SOURCE = "full-model peak search (banded LU through scipy)"
+
+
+@pytest.fixture(autouse=True)
+def surrogate_on_small_models(monkeypatch):
+    """The test rotor (486 DOFs) is below the size from which the surrogate pays: allowed."""
+    monkeypatch.setattr(response_surrogate, "SURROGATE_FROM", 0)
 
 
 @pytest.fixture(scope="module")
@@ -92,6 +99,15 @@ def test_peaks_found_on_the_basis_equal_the_full_search(generated, monkeypatch):
     kept = np.isin(fast.speeds, full.speeds[grid])
     np.testing.assert_array_equal(full.probe_values[:, grid], fast.probe_values[:, kept])
     assert len(solves) < 0.5 * full_solves, (len(solves), full_solves)
+
+
+def test_below_the_size_it_pays_the_surrogate_is_not_made(generated, monkeypatch):
+    system, basis = generated
+    force = np.ones((system.n_dof, 1), dtype=complex)
+    rows = np.zeros((1, system.n_dof))
+    assert response_surrogate.surrogate_for(system, basis, force, rows) is not None
+    monkeypatch.setattr(response_surrogate, "SURROGATE_FROM", system.n_dof + 1)
+    assert response_surrogate.surrogate_for(system, basis, force, rows) is None
 
 
 def test_a_wrong_surrogate_changes_nothing(generated):
