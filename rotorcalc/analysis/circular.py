@@ -141,7 +141,7 @@ def split_degenerate(values, vectors, m, d, k):
         Unchanged unless the system is isotropic and a pair was mixed.
     """
     values, out = np.array(values, dtype=complex), vectors.copy()
-    if vectors.shape[0] % 2 or len(values) < 2 or not is_isotropic(m, d, k):
+    if vectors.shape[0] % 2 or len(values) < 2 or not is_isotropic(k, d, m):
         return values, out
     mixed = [i for i in range(len(values)) if mixing(out[:, i]) > MIXED]
     while len(mixed) >= 2:

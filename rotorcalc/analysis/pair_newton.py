@@ -95,7 +95,7 @@ def newton_pair(m, d_mat, k, value, vector):
     if not error <= BACKWARD_LIMIT:
         return None
     q = quad.displacements(x)
-    if mixing(q) > MIXED and is_isotropic(m, d_mat, k):
+    if mixing(q) > MIXED and is_isotropic(k, d_mat, m):
         return None
     return NewtonPair(lam, q, error, steps)
 
