@@ -8,6 +8,7 @@ motion is ``M q'' + (C(spin) + spin G) q' + K(spin) q = f``.
 from __future__ import annotations
 
 import dataclasses
+import threading
 from dataclasses import dataclass
 
 import numpy as np
@@ -367,8 +368,10 @@ class _Scatter:
     """A speed-dependent matrix (K or C) on a fixed pattern: the constant part's values and,
     for each link, where its element matrix's entries go.  Each speed adds the links' values
     into zeros in link order, adds that to the constant part and drops the entries that come
-    to zero: the numbers of the sparse sums it replaces (``constant + bearing part``), a
-    tenth of their time (tests/unit/test_assembly.py)."""
+    to zero: the numbers of the sparse sums it replaces (``constant + bearing part``), bit
+    for bit on the bundled and generated rotors (tests/unit/test_assembly.py; where more than
+    eight links meet at one node scipy sums their duplicates in another order: to roundoff),
+    in a quarter of their time."""
 
     def __init__(self, constant, links, n):
         rows = [np.repeat(link.dofs, len(link.dofs)) for link in links]
@@ -407,6 +410,7 @@ class _Scatter:
 #: screen makes a system per amount with the same links).
 SCATTERS = 8
 _SCATTERS = {}
+_LOCK = threading.Lock()
 
 
 def _scatter(system, which):
@@ -422,9 +426,11 @@ def _scatter(system, which):
         total = constant[0] + constant[1] if which == "k" else constant[0]
         total = sp.csr_matrix(total)
         total.sum_duplicates()
-        if len(_SCATTERS) >= SCATTERS:
-            _SCATTERS.pop(next(iter(_SCATTERS)))
-        found = _SCATTERS[key] = (constant, _Scatter(total, links, system.n_dof))
+        found = (constant, _Scatter(total, links, system.n_dof))
+        with _LOCK:   # a worker on threads (an outside cluster's) may share the cache
+            while len(_SCATTERS) >= SCATTERS:
+                _SCATTERS.pop(next(iter(_SCATTERS)), None)
+            _SCATTERS[key] = found
     return found[1]
 
 

@@ -13,6 +13,7 @@ same places as reordering and adding the sparse matrices anew (tests/unit/test_s
 
 from __future__ import annotations
 
+import threading
 from dataclasses import dataclass
 
 import numpy as np
@@ -60,9 +61,11 @@ def norm1(a):
 def times(a, x):
     """``a @ x`` for a real matrix ``a`` (sparse or dense) and a complex block ``x``
     (n, k), without a complex copy of ``a``: the real and imaginary parts of ``x``, side by
-    side in memory, are one real block (n, 2k), so the product is one real product, the
-    same numbers as the complex one (half its time on the generated rotors)."""
-    if not np.iscomplexobj(x) or np.iscomplexobj(a) or x.ndim != 2:
+    side in memory, are one real block (n, 2k), so the product is one real product: a sparse
+    ``a``'s numbers are the complex product's, a dense one's to roundoff (BLAS sums in its
+    own order); half the time on the generated rotors."""
+    if not (isinstance(x, np.ndarray) and x.dtype == np.complex128 and x.ndim == 2) \
+            or np.iscomplexobj(a):
         return a @ x
     return np.ascontiguousarray(a @ np.ascontiguousarray(x).view(np.float64)).view(
         np.complex128)
@@ -243,6 +246,7 @@ def _keys(x):
 #: each worker process keeps its own).
 LAYOUTS = 8
 _LAYOUTS: dict = {}
+_LOCK = threading.Lock()
 
 
 def _layout(mats):
@@ -265,10 +269,12 @@ def _layout(mats):
         rows = np.repeat(np.arange(x.shape[0]), np.diff(x.indptr))
         parts.append((rows, _gather(numbered), numbered.indices, numbered.indptr))
         reordered.append(numbered)
-    if len(_LAYOUTS) >= LAYOUTS:
-        _LAYOUTS.pop(next(iter(_LAYOUTS)))
-    _LAYOUTS[key] = _Layout(perm, band, tuple(parts), _Shifts(*reordered))
-    return _LAYOUTS[key]
+    found = _Layout(perm, band, tuple(parts), _Shifts(*reordered))
+    with _LOCK:       # a worker on threads (an outside cluster's) may share the cache
+        while len(_LAYOUTS) >= LAYOUTS:
+            _LAYOUTS.pop(next(iter(_LAYOUTS)), None)
+        _LAYOUTS[key] = found
+    return found
 
 
 def _factor(q, band):

@@ -152,9 +152,10 @@ def find_peaks(speeds, amp, evaluate, case, probe, shape_at=None, floor=0.0, gue
     for k in range(1, len(speeds) - 1):
         if not (amp[k] > amp[k - 1] and amp[k] >= amp[k + 1]) or amp[k] <= floor:
             continue
-        # on the surrogate: its evaluations between the grid's (full) points
-        found = None if guess is None else confirmed(_search(speeds, amp, k, guess), speeds,
-                                                     amp, k, evaluate)
+        # on the surrogate: its evaluations between the grid's (full) points, its own value
+        # at the grid point (a surrogate reading a little low must not snap to the grid)
+        found = None if guess is None else confirmed(
+            _search(speeds, amp, k, guess, guess(speeds[k])), speeds, amp, k, evaluate)
         w_peak, a_peak, (low, why_low), (high, why_high) = \
             found or _search(speeds, amp, k, evaluate)
         shape = None if shape_at is None else shape_at(w_peak)
@@ -172,15 +173,17 @@ def find_peaks(speeds, amp, evaluate, case, probe, shape_at=None, floor=0.0, gue
     return peaks
 
 
-def _search(speeds, amp, k, evaluate):
+def _search(speeds, amp, k, evaluate, at_k=None):
     """The peak near grid point ``k`` by bounded scalar optimisation, and its half-power
-    sides: ``(speed, amplitude, (low, why), (high, why))``."""
+    sides: ``(speed, amplitude, (low, why), (high, why))``; ``at_k``, ``evaluate`` at the
+    grid point (by default the grid's ``amp[k]``): the grid point when it is higher."""
     lo, hi = speeds[k - 1], speeds[k + 1]
     best = minimize_scalar(lambda w: -evaluate(w), bounds=(lo, hi), method="bounded",
                            options={"xatol": SPEED_RTOL * hi})
     w_peak, a_peak = float(best.x), float(-best.fun)
-    if a_peak < amp[k]:
-        w_peak, a_peak = float(speeds[k]), float(amp[k])
+    at_k = amp[k] if at_k is None else at_k
+    if a_peak < at_k:
+        w_peak, a_peak = float(speeds[k]), float(at_k)
     target = HALF_POWER * a_peak
     return (w_peak, a_peak, _half_power_side(speeds, amp, k, w_peak, target, -1, evaluate),
             _half_power_side(speeds, amp, k, w_peak, target, +1, evaluate))
@@ -188,10 +191,11 @@ def _search(speeds, amp, k, evaluate):
 
 #: A peak found on a surrogate is the curve's when the full amplitude at its speed is at
 #: least that this share of the speed either side: the top then lies within that share.
-#: The full amplitude changes there by about 2 (PEAK_STEP AF)^2 of itself (1e-8 at an
+#: The full amplitude changes there by about 2 (PEAK_STEP AF)^2 of itself (5e-9 at an
 #: amplification factor of 5), above the roundoff of a solve near a flat peak (measured up
 #: to 4e-10 on the generated rotors, where a step of 1e-6 could not tell the top: there the
-#: full search's own 1e-7 finds roundoff, not the top).
+#: full search's own 1e-7 finds roundoff, not the top).  With roundoff ``e`` the top is
+#: told to about ``sqrt(e / 2) / AF`` of the speed: 1e-5 down to an AF of 1.4.
 PEAK_STEP = 1e-5
 
 
@@ -206,7 +210,8 @@ def confirmed(found, speeds, amp, k, evaluate):
     if not math.isfinite(w):
         return None
     top = evaluate(w)
-    if not (top >= evaluate(w * (1.0 - PEAK_STEP)) and top >= evaluate(w * (1.0 + PEAK_STEP))):
+    if not (top >= evaluate(w * (1.0 - PEAK_STEP)) and top >= evaluate(w * (1.0 + PEAK_STEP))
+            and top >= amp[k]):         # not below the grid point it was found from
         return None
     target = HALF_POWER * top
     sides = []

@@ -315,3 +315,24 @@ def test_the_cached_reordering_gives_the_pencil_of_the_general_way(monkeypatch):
             z = np.cos(np.arange(2 * fast.n) * 0.7)
             for sigma in (1e-3 * fast.ref, 900.0 + 30.0j):
                 assert np.array_equal(fast.operator(sigma) @ z, general.operator(sigma) @ z)
+
+
+def test_real_matrix_times_complex_block_is_the_complex_product():
+    """``pencils.times``: one real product on a float view gives the complex product's
+    numbers (scipy's sparse product as the reference: bit for bit; numpy's dense one: to
+    roundoff, BLAS sums in its own order), for C- and Fortran-ordered and strided blocks;
+    other inputs take the plain product."""
+    import scipy.sparse as sp
+
+    from rotorcalc.pencils import times
+    rng = np.random.default_rng(3)
+    a = sp.random(40, 40, density=0.2, random_state=4, format="csr")
+    x = rng.standard_normal((40, 6)) + 1j * rng.standard_normal((40, 6))
+    for block in (x, np.asfortranarray(x), x[:, ::2]):
+        assert np.array_equal(times(a, block), a @ block)
+        dense = a.toarray()
+        np.testing.assert_allclose(times(dense, block), dense @ block, rtol=0, atol=1e-14)
+    single = x.astype(np.complex64)
+    assert times(a, single).dtype == (a @ single).dtype
+    assert np.array_equal(times(a, single), a @ single)
+    assert np.array_equal(times(a, x[:, 0]), a @ x[:, 0])

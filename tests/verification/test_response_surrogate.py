@@ -111,8 +111,9 @@ def test_below_the_size_it_pays_the_surrogate_is_not_made(generated, monkeypatch
 
 
 def test_a_wrong_surrogate_changes_nothing(generated):
-    """A basis of the static deflections alone lacks the modes: the peaks it finds fail the
-    confirmation, and the full search gives what it gives without a surrogate."""
+    """A basis of six random vectors (with the static deflections the surrogate adds) lacks
+    the modes: every peak it finds fails the confirmation, and the full search gives what it
+    gives without a surrogate."""
     system, _ = generated
     rng = np.random.default_rng(1)
     wrong = rng.standard_normal((system.n_dof, 6))
