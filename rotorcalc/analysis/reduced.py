@@ -135,6 +135,30 @@ def _reference_stiffness(system, speed):
                                    lambda k2: np.diag(np.maximum(np.diag(k2), 0.0))))
 
 
+class Projection:
+    """A system's matrices on a real basis ``v`` (n_dof, r): the constant parts projected
+    once; a bearing whose coefficients change with speed changes only its few-DOF term,
+    through the rows of ``v`` at its DOFs (the reduced sweep's and the response surrogate's,
+    :mod:`.response_surrogate`)."""
+
+    def __init__(self, system, v):
+        self.links = _links(system)
+        self.m = v.T @ (system.mass @ v)
+        self.g = v.T @ (system.gyroscopic @ v)
+        self.k = v.T @ ((system.shaft_stiffness + system.support_stiffness) @ v)
+        self.c = v.T @ (system.support_damping @ v)
+        self.rows = [v[link.dofs] for link in self.links]
+
+    def matrices(self, speed, whirl=None):
+        """The projected ``(M, D, K)`` at spin speed ``speed`` (rad/s), ``D = C + speed G``."""
+        k, c = self.k.copy(), self.c.copy()
+        for link, rows in zip(self.links, self.rows):
+            k2, c2 = link.bearing.matrices(speed, whirl)
+            k += rows.T @ fe_bearing.element(k2, len(link.dofs)) @ rows
+            c += rows.T @ fe_bearing.element(c2, len(link.dofs)) @ rows
+        return self.m, c + speed * self.g, k
+
+
 class _Compliance:
     """``solve(b) = A^-1 b`` for the sparse reference pencil ``A``: LAPACK's banded LU after a
     reverse Cuthill-McKee reordering (a shaft's matrices are banded), as the sparse solver
@@ -204,13 +228,8 @@ class ReducedModel:
         return u[:, keep] / self.scale[:, None]
 
     def _set_basis(self, v):
-        s = self.system
         self.v = v
-        self.m = v.T @ (s.mass @ v)
-        self.g = v.T @ (s.gyroscopic @ v)
-        self.k = v.T @ ((s.shaft_stiffness + s.support_stiffness) @ v)
-        self.c = v.T @ (s.support_damping @ v)
-        self.rows = [v[link.dofs] for link in _links(s)]
+        self.projection = Projection(self.system, v)
 
     def _enrich(self, samples):
         """Add residual vectors until every pair at the samples passes; then check, at the
@@ -263,12 +282,7 @@ class ReducedModel:
 
     def matrices(self, speed, whirl=None):
         """The projected ``(M, D, K)`` at spin speed ``speed`` (rad/s)."""
-        k, c = self.k.copy(), self.c.copy()
-        for link, rows in zip(_links(self.system), self.rows):
-            k2, c2 = link.bearing.matrices(speed, whirl)
-            k += rows.T @ fe_bearing.element(k2, len(link.dofs)) @ rows
-            c += rows.T @ fe_bearing.element(c2, len(link.dofs)) @ rows
-        return self.m, c + speed * self.g, k
+        return self.projection.matrices(speed, whirl)
 
     def _solve(self, speed, n_modes, near, zeros, whirl):
         m, d, k = self.matrices(speed, whirl)

@@ -26,9 +26,9 @@ import numpy as np
 import scipy.linalg as la
 from scipy.sparse.linalg import splu
 
-from ..fe import bearing as fe_bearing
 from ..solvers import NUMERICAL_FAILURES
 from .projected import orthonormal
+from .reduced import Projection
 
 
 class ResponseSurrogate:
@@ -41,26 +41,16 @@ class ResponseSurrogate:
         k_mat = system.stiffness(speed).tocsc()
         static = splu(k_mat).solve(np.ascontiguousarray(np.hstack([force.real, force.imag])))
         v = orthonormal(np.hstack([basis, static]))
-        self.links = system.links + system.source_links
-        self.m = v.T @ (system.mass @ v)
-        self.g = v.T @ (system.gyroscopic @ v)
-        self.k = v.T @ ((system.shaft_stiffness + system.support_stiffness) @ v)
-        self.c = v.T @ (system.support_damping @ v)
-        self.link_rows = [v[link.dofs] for link in self.links]
+        self.projection = Projection(system, v)
         self.force = v.T @ force
         self.rows = rows @ v
-        self.size = v.shape[1]
         self.solved = {}
 
     def responses(self, omega):
         """The reduced coordinates of every case's response at ``omega`` (r, n_cases)."""
         if omega not in self.solved:
-            k, c = self.k.astype(complex), self.c.astype(complex)
-            for link, rows in zip(self.links, self.link_rows):
-                k2, c2 = link.bearing.matrices(omega)
-                k += rows.T @ fe_bearing.element(k2, len(link.dofs)) @ rows
-                c += rows.T @ fe_bearing.element(c2, len(link.dofs)) @ rows
-            z = k - omega * omega * self.m + 1j * omega * (c + omega * self.g)
+            m, d, k = self.projection.matrices(omega)
+            z = k - omega * omega * m + 1j * omega * d
             try:
                 with warnings.catch_warnings():     # near an undamped mode: the guess is
                     warnings.simplefilter("ignore", la.LinAlgWarning)   # confirmed anyway
