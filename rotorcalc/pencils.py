@@ -169,6 +169,49 @@ class _Pencil:
         return backward_errors(self.m, self.d, self.k, values, z[:self.n])
 
 
+class DensePencil:
+    """A small dense quadratic (a reduced model's) with :class:`_Pencil`'s interface: the
+    same DOF scaling and scaled state, the shift-invert operator from a dense LU of
+    ``K^ + sigma D^ + sigma^2 M^`` (no reordering: the matrices are full)."""
+
+    def __init__(self, m, d_mat, k):
+        self.m, self.d, self.k, self.scale, self.ref = scaled_dense(m, d_mat, k)
+        self.n = self.m.shape[0]
+
+    def operator(self, sigma):
+        """``T = (A - sigma B)^-1 B`` on the scaled state ``[q^, v]`` (see :class:`_Pencil`)."""
+        n, s = self.n, self.ref
+        lu, piv, info = _GETRF[isinstance(sigma, complex)](self.shifted(sigma))
+        if info != 0:
+            raise np.linalg.LinAlgError(f"shifted pencil is singular (info {info})")
+        getrs = _GETRS[isinstance(sigma, complex)]
+        right = np.hstack([self.d + sigma * self.m, s * self.m])
+
+        def apply(z):
+            z = np.ravel(z)
+            x1 = -getrs(lu, piv, right @ z)[0]
+            return np.concatenate([x1, (z[:n] + sigma * x1) / s])
+
+        dtype = complex if isinstance(sigma, complex) else float
+        return spla.LinearOperator((2 * n, 2 * n), matvec=apply, dtype=dtype)
+
+    def shifted(self, sigma):
+        """``K^ + sigma D^ + sigma^2 M^`` (dense)."""
+        return self.k + sigma * self.d + sigma ** 2 * self.m
+
+    def displacements(self, z):
+        """Physical displacement vectors of state vectors ``z``."""
+        return z[:self.n] / self.scale[:, None]
+
+    def backward_errors(self, values, z):
+        """Relative backward error of each eigenpair of the quadratic."""
+        return backward_errors(self.m, self.d, self.k, values, z[:self.n])
+
+
+_GETRF = {False: lapack.dgetrf, True: lapack.zgetrf}
+_GETRS = {False: lapack.dgetrs, True: lapack.zgetrs}
+
+
 def _order(mats):
     """Reverse Cuthill-McKee order of the matrices' joint pattern, and its half-bandwidth."""
     pattern = abs(mats[0]) + abs(mats[1]) + abs(mats[2])

@@ -37,7 +37,8 @@ from .units import to_hz
 from .errors import InputError
 from .notices import Notice
 from .threads import one_blas_thread  # noqa: F401 (re-exported)
-from .pencils import BAND_LIMIT, _factor, _Pencil, _scaling, scaled_pencil  # noqa: F401
+from .pencils import (BAND_LIMIT, DensePencil, _factor, _Pencil, _scaling,  # noqa: F401
+                      scaled_pencil)
 
 
 #: What LAPACK, SuperLU and ARPACK raise when a solve fails on its numbers (not on
@@ -261,6 +262,9 @@ class SparseSolver:
 
     name = "sparse"
 
+    def __init__(self, pencil=_Pencil):
+        self.pencil = pencil        # or DensePencil: a small dense model's lowest modes
+
     @one_blas_thread
     def __call__(self, m, d_mat, k, n_modes, near=None, zeros=None):
         n = m.shape[0]
@@ -270,7 +274,7 @@ class SparseSolver:
         if 2 * (2 * n_modes + FIRST_EXTRA) + extra >= 2 * n - 2:
             # too few DOFs for a partial solve to pay: the dense one finds everything
             return DenseSolver()(m, d_mat, k, n_modes, near, zeros)
-        pencil = _Pencil(m, d_mat, k)
+        pencil = self.pencil(m, d_mat, k)
         if near is not None:
             return self._near(pencil, n_modes, complex(near))
         return self._lowest(pencil, n_modes, zeros)

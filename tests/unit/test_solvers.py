@@ -47,6 +47,23 @@ def test_sparse_matches_dense(system, speed):
     assert sparse.complete_within >= solvers.RADIUS_RATIO * sparse.values[-1].imag
 
 
+@pytest.mark.parametrize("speed", [0.0, 700.0, 1500.0])
+def test_arnoldi_on_a_dense_model_matches_the_dense_solve(system, speed):
+    """A reduced model's path: the same shift-invert Arnoldi and completeness check on dense
+    matrices (:class:`~rotorcalc.pencils.DensePencil`); lowest and nearest modes."""
+    m, d, k = (x.toarray() for x in _matrices(system, speed))
+    dense = DenseSolver()(m, d, k, 16)
+    arnoldi = SparseSolver(pencils.DensePencil)(m, d, k, 16)
+    assert arnoldi.warnings == ()
+    np.testing.assert_allclose(arnoldi.values, dense.values, rtol=1e-8)
+    assert np.diag(mac_matrix(arnoldi.vectors.T, dense.vectors.T)).min() > 1 - 1e-8
+    assert arnoldi.complete_within >= solvers.RADIUS_RATIO * arnoldi.values[-1].imag
+    target = dense.values[6]
+    near = SparseSolver(pencils.DensePencil)(m, d, k, 3, near=target)
+    np.testing.assert_allclose(near.values, DenseSolver()(m, d, k, 3, near=target).values,
+                               rtol=1e-8)
+
+
 def test_double_eigenvalues_are_both_found():
     """Isotropic, not spinning: every frequency is double (x and y planes), the classic
     case where a single-vector Krylov method can return one copy only."""
