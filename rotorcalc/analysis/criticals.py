@@ -160,10 +160,12 @@ def _refine(system, bracket, n_solve, solver):
     # speed -> (eigenvalue, shape, vector or None), the ends from the sweep (the same solve:
     # the same numbers); Brent's root is usually its last trial speed
     seen = {lo: (ref_value, ref_shape, None), hi: (hi_value, hi_shape, None)}
+    # on a reduced basis (the sweep's), the trial speeds' Newton steps run on it, certified
+    reduced = solver.model(system, n_solve) if hasattr(solver, "model") else None
 
     def g(w):       # each speed solved once: Brent's method evaluates both ends again
         if w not in seen:
-            seen[w] = _followed(system, w, seen, ref_value, ref_shape) or \
+            seen[w] = _followed(system, w, seen, ref_value, ref_shape, reduced) or \
                 branch_at(system, w, ref_value, ref_shape, n_solve, solver) + (None,)
         return seen[w][0].imag - order * w
 
@@ -184,16 +186,17 @@ def _refine(system, bracket, n_solve, solver):
     return CriticalSpeed(float(root), order, j + 1, complex(value), shape)
 
 
-def _followed(system, speed, seen, ref_value, ref_shape):
+def _followed(system, speed, seen, ref_value, ref_shape, reduced=None):
     """(eigenvalue, shape, vector) of the branch at ``speed`` by Newton's method from the
     nearest speed already solved (:func:`.pair_newton.follow`: it whirls, keeps its digits
     and its shape's MAC with the start's is at least ``FOLLOW_MAC``), or None (then solve in
     full).  Taken only when it also passes the tracker's shape-and-frequency gate against
-    the bracket's reference, as a full solve's pick must.  The trial speeds are solved in
-    the full model even when the sweep was on a reduced basis (closer to the full solve)."""
+    the bracket's reference, as a full solve's pick must.  With ``reduced`` (the sweep's
+    reduced model) the steps run on the projected model and the answer is certified in the
+    full one by its residual, like every pair of the reduced sweep."""
     start = min(seen, key=lambda w: abs(w - speed))
     value, shape, vector = seen[start]
-    found = follow(system, speed, value, vector, shape)
+    found = follow(system, speed, value, vector, shape, reduced=reduced)
     if found is None or match_cost(ref_shape[None], np.array([ref_value]), found[1][None],
                                    np.array([found[0]]))[0, 0] > GATE:
         return None

@@ -60,12 +60,14 @@ DENSE_LIMIT = 400
 
 
 @one_blas_thread
-def newton_pair(m, d_mat, k, value, vector):
+def newton_pair(m, d_mat, k, value, vector, physical=True):
     """The eigenpair of ``lam^2 M + lam D + K`` that Newton's method reaches from ``(value,
     vector)``; None when it does not converge or its backward error is too large.
 
     ``vector`` is a displacement vector in the original DOF order (a rough one will do: the
-    first step is an inverse iteration at ``value``).
+    first step is an inverse iteration at ``value``).  ``physical`` False: the matrices are a
+    projected model's (coordinates on a basis, not DOFs): the caller lifts the answer and
+    checks it (a degenerate pair's mixing among them).
     """
     quad = (_Dense if m.shape[0] <= DENSE_LIMIT else _Banded)(m, d_mat, k)
     x = quad.to_scaled(np.asarray(vector, dtype=complex))
@@ -95,9 +97,15 @@ def newton_pair(m, d_mat, k, value, vector):
     if not error <= BACKWARD_LIMIT:
         return None
     q = quad.displacements(x)
-    if mixing(q) > MIXED and is_isotropic(k, d_mat, m):
+    if physical and mixed(q, m, d_mat, k):
         return None
     return NewtonPair(lam, q, error, steps)
+
+
+def mixed(q, m, d_mat, k):
+    """True for a vector mixing a degenerate pair's forward and backward modes (isotropic
+    models): Newton's answer is then refused and the full solve splits the pair."""
+    return bool(mixing(q) > MIXED and is_isotropic(k, d_mat, m))
 
 
 #: A mode followed by Newton's method is the one it started from when its shape's MAC with
@@ -105,7 +113,7 @@ def newton_pair(m, d_mat, k, value, vector):
 FOLLOW_MAC = 0.98
 
 
-def follow(system, speed, value, vector, shape, whirl=None):
+def follow(system, speed, value, vector, shape, whirl=None, reduced=None):
     """(eigenvalue, shape, vector) of the mode of ``system`` at ``speed`` (rad/s; bearing
     tables over whirl frequency read at ``whirl``) that Newton's method reaches from the
     eigenpair ``(value, vector)`` of a nearby state, checked like a solved mode
@@ -115,14 +123,17 @@ def follow(system, speed, value, vector, shape, whirl=None):
     MAC with ``shape`` (the start's node shape) is below :data:`FOLLOW_MAC`.
 
     ``vector`` None: the start is ``shape`` at the translations, rotations zero (the first
-    step is an inverse iteration, a rough start will do)."""
+    step is an inverse iteration, a rough start will do).  ``reduced``, a
+    :class:`~rotorcalc.analysis.reduced.ReducedModel` of ``system``: the steps run on its
+    projected model, the answer certified in the full one (:meth:`~.reduced.ReducedModel.newton`)."""
     if vector is None:
         vector = np.zeros(system.mass.shape[0], dtype=complex)
         tdofs = system.translation_dofs
         vector[tdofs[:, 0]], vector[tdofs[:, 1]] = shape[:, 0], shape[:, 1]
     c_mat, k_mat = system.damping(speed, whirl), system.stiffness(speed, whirl)
     d_mat = c_mat + speed * system.gyroscopic
-    pair = newton_pair(system.mass, d_mat, k_mat, value, vector)
+    pair = newton_pair(system.mass, d_mat, k_mat, value, vector) if reduced is None else \
+        reduced.newton(speed, value, vector, d_mat, k_mat, whirl)
     if pair is None or not pair.value.imag > OSCILLATORY * abs(pair.value):
         return None
     try:

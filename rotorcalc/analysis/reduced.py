@@ -316,6 +316,25 @@ class ReducedModel:
         eta = np.linalg.norm(z * self.scale[:, None], axis=0) / np.maximum(size, 1e-300)
         return eta, z
 
+    def newton(self, speed, value, vector, d_mat, k_mat, whirl=None):
+        """The eigenpair Newton's method reaches from ``(value, vector)`` on the projected model
+        at ``speed`` (:func:`~.pair_newton.newton_pair`), lifted and certified in the full model
+        like a reduced solve's pair (residual at most the tolerance; not a degenerate pair's
+        mixture); None otherwise (the caller then solves).  ``d_mat``, ``k_mat``: the full
+        model's at ``speed``."""
+        from .pair_newton import NewtonPair, mixed, newton_pair
+        m, d, k = self.matrices(speed, whirl)
+        start = self.v.T @ (self.scale ** 2 * np.asarray(vector))   # projection, scaled norm
+        pair = newton_pair(m, d, k, value, start, physical=False)
+        if pair is None:
+            return None
+        x = times(self.v, pair.vector[:, None])
+        eta, _ = self.certify(np.array([pair.value]), x, d_mat, k_mat)
+        if not eta[0] <= self.tolerance or mixed(x[:, 0], self.system.mass, d_mat, k_mat):
+            return None
+        self.largest = max(self.largest, float(eta[0]))
+        return NewtonPair(pair.value, x[:, 0], float(eta[0]), pair.steps)
+
     def solve(self, speed, n_modes, near, zeros, whirl, d_mat, k_mat):
         """Eigenpairs at ``speed``, certified, or from the full model when they are not."""
         reason = ""
