@@ -194,3 +194,28 @@ def test_the_screening_records_the_refinements_too():
     system = forced._models[0][0]
     assert result.sweep.reduction == forced.summary(system)
     assert result.sweep.reduction.complete
+
+
+def test_newton_on_the_projected_model_gives_the_full_models_pair_or_nothing():
+    """The critical-speed refinement's steps on a reduced basis (ReducedModel.newton), from
+    the reduced pair at a nearby speed: the answer is the full model's eigenvalue (dense
+    solve, LAPACK) to 1e-7 relative and carries its certified residual; under a tolerance no
+    basis meets it is refused (the caller then solves), never returned uncertified."""
+    rotor = generated_rotor(40, mode_count=6, speed_count=30)
+    system = assemble(rotor)
+    speeds = default_speeds(rotor)
+    model = ReducedModel(system, 10, speeds)
+    start, speed = speeds[10], speeds[10] * 1.01
+    pairs = model.solve(start, 6, None, None, None,
+                        system.damping(start) + start * system.gyroscopic,
+                        system.stiffness(start))
+    d_mat, k_mat = system.damping(speed) + speed * system.gyroscopic, system.stiffness(speed)
+    every = DenseSolver()(system.mass, d_mat, k_mat, 12).values
+    for value, vector in zip(pairs.values, pairs.vectors.T):
+        found = model.newton(speed, value, vector, d_mat, k_mat)
+        assert found is not None and found.backward_error <= model.tolerance
+        check(f"generated rotor, 40 elements: Newton on the reduced basis, mode near "
+              f"{value.imag:.0f} rad/s", "dense full-model solve (LAPACK)", 0.0,
+              float(np.min(np.abs(every - found.value)) / abs(found.value)), 1e-7, "abs")
+    strict = ReducedModel(system, 10, speeds, tolerance=1e-30)
+    assert strict.newton(speed, pairs.values[0], pairs.vectors[:, 0], d_mat, k_mat) is None
