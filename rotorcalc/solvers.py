@@ -59,7 +59,9 @@ class Eigenpairs:
     finds only the eigenvalues within ``complete_within`` (rad/s) of its shift
     (every one of them; ``inf`` for the dense solve), so its real and zero
     eigenvalues are those within that radius.  ``warnings`` says when a
-    solve could not prove that it missed no mode.
+    solve could not prove that it missed no mode.  ``products``, when the solver
+    computed them (the reduced path's certificate): ``(M X, D X, K X)`` of the vectors
+    ``X`` in the matrices it was given, for the mode checks to reuse.
     """
 
     values: np.ndarray
@@ -68,6 +70,7 @@ class Eigenpairs:
     rigid_body: int = 0
     complete_within: float = math.inf
     warnings: tuple = ()
+    products: tuple = None
 
 
 #: Eigenvalues below this fraction of the scaled pencil's reference frequency

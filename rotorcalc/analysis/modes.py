@@ -104,7 +104,7 @@ def is_conservative(c_mat, k_mat):
     return abs(k_mat - k_mat.T).max() <= 1e-14 * abs(k_mat).max()
 
 
-def mode_checks(values, vectors, m, d, k):
+def mode_checks(values, vectors, m, d, k, products=None):
     """Estimated error and Rayleigh value of every computed eigenpair, in one pass.
 
     With ``X`` the vectors and ``MX, DX, KX`` their products (computed once, in
@@ -114,13 +114,16 @@ def mode_checks(values, vectors, m, d, k):
     Rayleigh value the root nearest ``lam`` of ``x^H Q(rho) x = 0``, with
     ``Q(lam) = lam^2 M + lam D + K``.
 
+    ``products``: ``(MX, DX, KX)`` when the solver computed them already.
+
     Returns
     -------
     errors : ndarray (n,)
         rad/s.
     rayleigh : complex ndarray (n,)
     """
-    mx, dx, kx = times(m, vectors), times(d, vectors), times(k, vectors)
+    mx, dx, kx = products if products is not None else \
+        (times(m, vectors), times(d, vectors), times(k, vectors))
     lam = np.asarray(values)
     residual = np.linalg.norm(lam**2 * mx + lam * dx + kx, axis=0)
     size = np.linalg.norm(vectors, axis=0)
@@ -330,8 +333,12 @@ def modes_at(rotor_or_system, speed, mode_count=None, solver=None, near=None, wh
                           "are not finite (the model's numbers span too many decades?)")
     values, q = split_degenerate(pairs.values, pairs.vectors, system.mass, d_mat, k_mat)
     order = np.argsort(values.imag, kind="stable")
-    values, shapes, vectors = settle(system, speed, values[order], q[:, order], c_mat, d_mat,
-                                     k_mat)
+    products = getattr(pairs, "products", None)   # the solver's (M X, D X, K X), while the vectors are its own
+    if products is not None and not np.array_equal(q, pairs.vectors):
+        products = None
+    values, shapes, vectors = settle(
+        system, speed, values[order], q[:, order], c_mat, d_mat, k_mat,
+        None if products is None else tuple(p[:, order] for p in products))
     warnings = list(system.table_warnings(speed)) + list(getattr(pairs, "warnings", ()))
     scale = float(np.abs(values).min()) if len(values) else 1.0
     growing = pairs.real_eigenvalues[pairs.real_eigenvalues > GROWTH_RTOL * scale]
@@ -347,11 +354,11 @@ def modes_at(rotor_or_system, speed, mode_count=None, solver=None, near=None, wh
                  system.mesh.station_nodes, pairs.real_eigenvalues, tuple(warnings), rigid)
 
 
-def settle(system, speed, values, q, c_mat, d_mat, k_mat):
+def settle(system, speed, values, q, c_mat, d_mat, k_mat, products=None):
     """Checked eigenvalues, node shapes and vectors (both scaled to a peak translation of 1)
     of solved eigenpairs ``values``, ``q`` (columns) at ``speed``: the digits checked, roundoff
-    real parts set to zero (:func:`snap_roundoff`)."""
-    errors, rayleigh = mode_checks(values, q, system.mass, d_mat, k_mat)
+    real parts set to zero (:func:`snap_roundoff`); ``products`` as :func:`mode_checks`."""
+    errors, rayleigh = mode_checks(values, q, system.mass, d_mat, k_mat, products)
     _check_digits(values, rayleigh, speed)
     values = snap_roundoff(values, errors, is_conservative(c_mat, k_mat))
     tdofs = system.translation_dofs

@@ -307,14 +307,18 @@ class ReducedModel:
 
     def certify(self, values, vectors, d_mat, k_mat):
         """Each pair's certified residual (see the module) and its residual vector ``P Q x``."""
-        s = self.system
-        r = times(s.mass, vectors) * values ** 2 + times(d_mat, vectors) * values \
-            + times(k_mat, vectors)
+        eta, z, _ = self._certified(values, vectors, d_mat, k_mat)
+        return eta, z
+
+    def _certified(self, values, vectors, d_mat, k_mat):
+        """:meth:`certify`'s ``eta`` and ``z``, with the products ``(M X, D X, K X)``."""
+        mx, dx, kx = (times(a, vectors) for a in (self.system.mass, d_mat, k_mat))
+        r = mx * values ** 2 + dx * values + kx
         # the real and imaginary parts as one real block (:func:`~rotorcalc.pencils.times`)
         z = self.lu.solve(np.ascontiguousarray(r).view(np.float64)).view(np.complex128)
         size = np.linalg.norm(vectors * self.scale[:, None], axis=0)
         eta = np.linalg.norm(z * self.scale[:, None], axis=0) / np.maximum(size, 1e-300)
-        return eta, z
+        return eta, z, (mx, dx, kx)
 
     def newton(self, speed, value, vector, d_mat, k_mat, whirl=None):
         """The eigenpair Newton's method reaches from ``(value, vector)`` on the projected model
@@ -340,7 +344,7 @@ class ReducedModel:
         reason = ""
         try:
             pairs = self._solve(speed, n_modes, near, zeros, whirl)
-            eta, _ = self.certify(pairs.values, pairs.vectors, d_mat, k_mat)
+            eta, _, products = self._certified(pairs.values, pairs.vectors, d_mat, k_mat)
             worst = float(eta.max()) if len(eta) else 0.0
             scale = float(np.abs(pairs.values).min()) if len(pairs.values) else 1.0
             if n_modes and not len(pairs.values):
@@ -353,7 +357,7 @@ class ReducedModel:
             reason = f"{type(exc).__name__}"
         if not reason:
             self.largest = max(self.largest, worst)
-            return pairs
+            return replace(pairs, products=products)     # the mode checks' products too
         self.full_solves.append(float(speed))
         full = AutoSolver()(self.system.mass, d_mat, k_mat, n_modes, near, zeros)
         note = Notice(f"reduced-basis solve not certified ({reason}): solved in the full model",
