@@ -196,10 +196,12 @@ def _real_span(values, z):
     """Real vectors spanning the (real operator's) eigenvectors ``z``, unit columns."""
     cols = []
     upper = values[values.imag > 0]
-    for lam, v in zip(values, z.T):
+    # paired[i]: the conjugate of values[i] is among the upper half's (one table for all)
+    paired = np.isclose(upper[None, :], np.conj(values)[:, None], rtol=1e-8).any(axis=1)
+    for lam, v, pair in zip(values, z.T, paired):
         if lam.imag == 0:
             cols.append(v.real)
-        elif lam.imag > 0 or not np.any(np.isclose(upper, np.conj(lam), rtol=1e-8)):
+        elif lam.imag > 0 or not pair:
             cols.extend([v.real, v.imag])
     cols = np.array(cols).T
     return cols / np.linalg.norm(cols, axis=0)
