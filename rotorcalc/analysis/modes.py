@@ -333,7 +333,8 @@ def modes_at(rotor_or_system, speed, mode_count=None, solver=None, near=None, wh
                           "are not finite (the model's numbers span too many decades?)")
     values, q = split_degenerate(pairs.values, pairs.vectors, system.mass, d_mat, k_mat)
     order = np.argsort(values.imag, kind="stable")
-    products = getattr(pairs, "products", None)   # the solver's (M X, D X, K X), while the vectors are its own
+    # the solver's (M X, D X, K X), while the vectors are its own
+    products = getattr(pairs, "products", None)
     if products is not None and not np.array_equal(q, pairs.vectors):
         products = None
     values, shapes, vectors = settle(

@@ -125,7 +125,8 @@ def follow(system, speed, value, vector, shape, whirl=None, reduced=None):
     ``vector`` None: the start is ``shape`` at the translations, rotations zero (the first
     step is an inverse iteration, a rough start will do).  ``reduced``, a
     :class:`~rotorcalc.analysis.reduced.ReducedModel` of ``system``: the steps run on its
-    projected model, the answer certified in the full one (:meth:`~.reduced.ReducedModel.newton`)."""
+    projected model, the answer certified in the full one
+    (:meth:`~.reduced.ReducedModel.newton`)."""
     if vector is None:
         vector = np.zeros(system.mass.shape[0], dtype=complex)
         tdofs = system.translation_dofs

@@ -10,9 +10,12 @@ model is projected once onto a basis ``V`` of
   force at every bearing, seal and support DOF and a unit moment at every disk,
   where the speed-dependent coefficients and the gyroscopic coupling act;
 
-and each speed solves the small dense pencil ``(V^T M V, V^T D V, V^T K V)``.  The
-constant parts are projected once; a bearing whose coefficients change with speed
-changes only its few-DOF term, through the rows of ``V`` at its DOFs.
+and each speed solves the small dense pencil ``(V^T M V, V^T D V, V^T K V)``
+(:func:`projected_solve`: shift-invert Arnoldi on its dense LU, with the sparse solve's
+completeness check, from :data:`ARNOLDI_FROM` columns).  The constant parts are projected
+once; a bearing whose coefficients change with speed changes only its few-DOF term, through
+the rows of ``V`` at its DOFs.  The critical-speed refinement's Newton steps run on the same
+projected model (:meth:`ReducedModel.newton`), their answers certified like the sweep's.
 
 Every eigenpair returned is checked in the full model by its preconditioned
 relative residual

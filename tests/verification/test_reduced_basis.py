@@ -16,7 +16,6 @@ The generated rotor carries speed-dependent, cross-coupled bearings on a pedesta
 (tests/benchmarks/generated.py), where the bearings change the projected matrices per speed.
 """
 
-import dataclasses
 import math
 
 import numpy as np
