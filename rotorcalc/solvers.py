@@ -251,6 +251,26 @@ def _nearest_missed(op, values, z, sigma, seed):
     return 1.0 / largest if largest > 0 else math.inf   # nothing left at all
 
 
+def proven_complete(m, d_mat, k, values, vectors, n_modes):
+    """True when the deflated check of :func:`_nearest_missed` proves that the pencil has
+    no eigenvalue but ``values`` (and their conjugates) within :data:`RADIUS_RATIO` beyond the
+    ``n_modes``-th lowest of them: then they hold its ``n_modes`` lowest modes, as a sparse
+    solve's would.  ``values``, ``vectors`` (displacement columns) are accurate eigenpairs
+    found another way (a reduced model's, certified); one LU and a short Arnoldi run on the
+    deflated operator, where a solve would find the modes anew.  False also when the check
+    finds an eigenvalue it cannot place (a real one, say): the caller then solves."""
+    if len(values) < n_modes or n_modes <= 0:
+        return False
+    pencil = _Pencil(m, d_mat, k)
+    sigma = SHIFT * pencil.ref
+    q = (vectors * pencil.scale[:, None])[pencil.perm]
+    z = np.vstack([q, q * (values / pencil.ref)])        # the scaled state [q^, lam q^ / s]
+    top = np.sort(values.imag)[n_modes - 1]
+    needed = RADIUS_RATIO * abs(1j * top - sigma)
+    missed = _nearest_missed(pencil.operator(sigma), 1.0 / (values - sigma), z, sigma, 0)
+    return bool(CHECK_SLACK * missed >= needed)
+
+
 class SparseSolver:
     """The lowest modes by shift-invert Arnoldi on the scaled state-space pencil.
 

@@ -50,7 +50,7 @@ from ..fe import bearing as fe_bearing
 from ..notices import Notice
 from ..pencils import DensePencil, times
 from ..solvers import (NUMERICAL_FAILURES, AutoSolver, DenseSolver, SparseSolver, _factor,
-                       _scaling, make_solver)
+                       _scaling, make_solver, proven_complete)
 from .modes import GROWTH_RTOL
 
 #: Largest preconditioned relative residual accepted (to first order about twice the
@@ -285,13 +285,25 @@ class ReducedModel:
                 self._set_basis(np.hstack([self.v, new]))
 
     def _missing(self, speeds):
-        """Full-model eigenvectors at ``speeds`` whose eigenvalue the reduced model lacks."""
+        """Full-model eigenvectors at ``speeds`` whose eigenvalue the reduced model lacks.
+
+        Where the lowest ``n_solve`` reduced pairs are certified and the deflated check, with
+        every certified pair deflated, proves that the full model has no other eigenvalue near
+        enough (:func:`~rotorcalc.solvers.proven_complete`), none is missing; otherwise (an
+        overdamped eigenvalue in the disk, say: the check cannot place it) the full model is
+        solved and compared."""
         out = []
         for speed in speeds:
             d_mat = self.system.damping(speed) + speed * self.system.gyroscopic
             k_mat = self.system.stiffness(speed)
+            pairs = self._solve(speed, self.n_solve + EXTRA_MODES, None, None, None)
+            sure = self.certify(pairs.values, pairs.vectors, d_mat, k_mat)[0] <= self.tolerance
+            if sure[:self.n_solve].all() and proven_complete(      # the extra ones if certified
+                    self.system.mass, d_mat, k_mat, pairs.values[sure], pairs.vectors[:, sure],
+                    self.n_solve):
+                continue
             full = AutoSolver()(self.system.mass, d_mat, k_mat, self.n_solve)
-            mine = self._solve(speed, self.n_solve + EXTRA_MODES, None, None, None).values
+            mine = pairs.values
             for value, vector in zip(full.values, full.vectors.T):
                 if not len(mine) or np.min(np.abs(mine - value)) > MATCH * abs(value):
                     out += [vector.real[:, None], vector.imag[:, None]]

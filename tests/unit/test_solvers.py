@@ -64,6 +64,19 @@ def test_arnoldi_on_a_dense_model_matches_the_dense_solve(system, speed):
                                rtol=1e-8)
 
 
+def test_the_deflated_check_proves_a_complete_set_and_finds_a_missing_mode(system):
+    """``proven_complete``: given every one of the lowest modes (a sparse solve's, accurate), the
+    deflated Arnoldi run proves that none is missing; with one of them left out it finds it
+    (reference: the sparse solve's own completeness proof, docs/theory.md section 3.1)."""
+    m, d, k = _matrices(system, 900.0)
+    pairs = SparseSolver()(m, d, k, 12)
+    assert solvers.proven_complete(m, d, k, pairs.values, pairs.vectors, 8)
+    keep = np.arange(12) != 3
+    assert not solvers.proven_complete(m, d, k, pairs.values[keep], pairs.vectors[:, keep], 8)
+    # too few pairs for the modes asked: not proven
+    assert not solvers.proven_complete(m, d, k, pairs.values[:5], pairs.vectors[:, :5], 8)
+
+
 def test_double_eigenvalues_are_both_found():
     """Isotropic, not spinning: every frequency is double (x and y planes), the classic
     case where a single-vector Krylov method can return one copy only."""
