@@ -461,11 +461,14 @@ class ReducedSolver:
         return {"speeds": self.speeds, "tolerance": self.tolerance, "_models": []}
 
 
-#: Sweeps solve on a reduced basis from this many DOFs (measured crossover:
-#: docs/performance.md, "Reduced-basis sweeps") ...
-REDUCED_THRESHOLD = 1200
-#: ... over at least this many speeds (the basis costs a few full solves).
+#: Sweeps solve on a reduced basis from this many DOFs ...
+REDUCED_THRESHOLD = 400
+#: ... over at least this many speeds (the basis costs some full solves' time) ...
 REDUCED_MIN_SPEEDS = 20
+#: ... when DOFs times speeds reach this: the basis is paid once, each speed saves a share of
+#: a full solve (measured crossovers on the generated rotors: 1206 DOFs over 20 speeds, 806
+#: over 40, about 400 over 100; docs/performance.md, "fourth pass").
+REDUCED_WORK = 24000
 
 
 def sweep_solver(system, speeds, solver=None):
@@ -473,6 +476,7 @@ def sweep_solver(system, speeds, solver=None):
     :class:`ReducedSolver` for a large model over many speeds, else ``"auto"``."""
     if solver is not None:
         return solver
-    if system.n_dof >= REDUCED_THRESHOLD and len(speeds) >= REDUCED_MIN_SPEEDS:
+    if system.n_dof >= REDUCED_THRESHOLD and len(speeds) >= REDUCED_MIN_SPEEDS \
+            and system.n_dof * len(speeds) >= REDUCED_WORK:
         return ReducedSolver(speeds)
     return make_solver()

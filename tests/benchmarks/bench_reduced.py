@@ -133,8 +133,9 @@ def cases():
     from rotorcalc.analysis.whatif import compare, stiffness_window
     from rotorcalc.variants import read_variants
     from rotorcalc.analysis.stiffness_study import stiffness_study
-    print("\nBundled cases (reduced path forced; automatic choice from "
-          f"{__import__('rotorcalc.analysis.reduced', fromlist=['x']).REDUCED_THRESHOLD} DOFs)")
+    red = __import__('rotorcalc.analysis.reduced', fromlist=['x'])
+    print(f"\nBundled cases (reduced path forced; automatic choice from {red.REDUCED_THRESHOLD} "
+          f"DOFs with DOFs x speeds >= {red.REDUCED_WORK})")
     print(f"{'case':14} {'DOFs':>5} {'full s':>7} {'reduced s':>9} {'basis':>5} "
           f"{'eig diff':>9} {'crit rpm':>9} {'residual':>9}")
     for name in CASES:

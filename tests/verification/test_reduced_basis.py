@@ -160,11 +160,14 @@ def test_the_missing_mode_check_runs_even_when_the_rounds_run_out(monkeypatch):
 
 
 def test_the_reduced_basis_is_chosen_for_large_models_over_many_speeds(monkeypatch):
-    small = assemble(generated_rotor(30, mode_count=3, speed_count=6))
+    small = assemble(generated_rotor(30, mode_count=3, speed_count=6))      # 126 DOFs
     assert not isinstance(sweep_solver(small, np.zeros(100)), ReducedSolver)
     monkeypatch.setattr(reduced, "REDUCED_THRESHOLD", 100)
-    assert isinstance(sweep_solver(small, np.zeros(100)), ReducedSolver)
-    assert not isinstance(sweep_solver(small, np.zeros(5)), ReducedSolver)
+    monkeypatch.setattr(reduced, "REDUCED_WORK", 10000)
+    assert isinstance(sweep_solver(small, np.zeros(100)), ReducedSolver)     # 12600 >= 10000
+    assert not isinstance(sweep_solver(small, np.zeros(50)), ReducedSolver)  # too little work
+    monkeypatch.setattr(reduced, "REDUCED_WORK", 0)
+    assert not isinstance(sweep_solver(small, np.zeros(5)), ReducedSolver)   # too few speeds
     given = AutoSolver()
     assert sweep_solver(small, np.zeros(100), given) is given
 
