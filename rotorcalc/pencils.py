@@ -101,9 +101,6 @@ def scaled_pencil(m, d_mat, k):
     return a, b, scale, ref
 
 
-#: Up to this many DOFs the shift-invert operator multiplies by its right-hand matrix as a dense
-#: array (its sparse product's call overhead is most of that product's cost at these sizes).
-DENSE_RIGHT = 400
 #: Above this half-bandwidth (after reordering) the LU is SuperLU's, not LAPACK's banded one.
 BAND_LIMIT = 64
 
@@ -146,8 +143,6 @@ class _Pencil:
             right = sp.hstack([self.d + sigma * self.m, s * self.m]).tocsr()
         else:
             right = self.shifts.right_matrix(self, sigma)
-        if n <= DENSE_RIGHT:      # a small model: a dense product skips the sparse one's overhead
-            right = right.toarray()
 
         def apply(z):
             z = np.ravel(z)
