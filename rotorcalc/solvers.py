@@ -61,7 +61,8 @@ class Eigenpairs:
     eigenvalues are those within that radius.  ``warnings`` says when a
     solve could not prove that it missed no mode.  ``products``, when the solver
     computed them (the reduced path's certificate): ``(M X, D X, K X)`` of the vectors
-    ``X`` in the matrices it was given, for the mode checks to reuse.
+    ``X`` in the matrices it was given, for the mode checks to reuse (a copy with other
+    vectors must drop them).
     """
 
     values: np.ndarray
@@ -70,7 +71,7 @@ class Eigenpairs:
     rigid_body: int = 0
     complete_within: float = math.inf
     warnings: tuple = ()
-    products: tuple = None
+    products: tuple | None = None
 
 
 #: Eigenvalues below this fraction of the scaled pencil's reference frequency
@@ -251,13 +252,16 @@ def _nearest_missed(op, values, z, sigma, seed):
     return 1.0 / largest if largest > 0 else math.inf   # nothing left at all
 
 
-def proven_complete(m, d_mat, k, values, vectors, n_modes):
-    """True when the deflated check of :func:`_nearest_missed` proves that the pencil has
-    no eigenvalue but ``values`` (and their conjugates) within :data:`RADIUS_RATIO` beyond the
-    ``n_modes``-th lowest of them: then they hold its ``n_modes`` lowest modes, as a sparse
-    solve's would.  ``values``, ``vectors`` (displacement columns) are accurate eigenpairs
-    found another way (a reduced model's, certified); one LU and a short Arnoldi run on the
-    deflated operator, where a solve would find the modes anew.  False also when the check
+@one_blas_thread
+def none_missed(m, d_mat, k, values, vectors, n_modes):
+    """True when the deflated check of :func:`_nearest_missed` finds no eigenvalue of the
+    pencil but ``values`` (and their conjugates) within :data:`RADIUS_RATIO` beyond the
+    ``n_modes``-th lowest of them (with its :data:`CHECK_SLACK`): then they hold its
+    ``n_modes`` lowest modes, as far as a sparse solve's own check can tell (a numerical
+    check, docs/theory.md section 3.1, not a proof).  ``values``, ``vectors`` (displacement
+    columns) are accurate eigenpairs found another way (a reduced model's, certified); one LU
+    and a short Arnoldi run on the deflated operator, where a solve would find the modes
+    anew.  False also when the check
     finds an eigenvalue it cannot place (a real one, say): the caller then solves."""
     if len(values) < n_modes or n_modes <= 0:
         return False

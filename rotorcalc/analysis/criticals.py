@@ -22,6 +22,7 @@ from ..assembly import SystemMatrices, assemble
 from ..units import to_hz, to_rpm
 from .modes import forward_fraction, log_decrement, modes_at, read_only, whirl_label
 from .pair_newton import follow
+from .reduced import ReducedSolver
 from .sweep import TRACKING_RESERVE, Sweep, worker_count, worker_pool
 from .sweep import sweep as run_sweep
 from .tracking import GATE, match_cost
@@ -161,7 +162,7 @@ def _refine(system, bracket, n_solve, solver):
     # the same numbers); Brent's root is usually its last trial speed
     seen = {lo: (ref_value, ref_shape, None), hi: (hi_value, hi_shape, None)}
     # on a reduced basis (the sweep's), the trial speeds' Newton steps run on it, certified
-    reduced = solver.model(system, n_solve) if hasattr(solver, "model") else None
+    reduced = solver.model(system, n_solve) if isinstance(solver, ReducedSolver) else None
 
     def g(w):       # each speed solved once: Brent's method evaluates both ends again
         if w not in seen:
@@ -189,9 +190,10 @@ def _refine(system, bracket, n_solve, solver):
 def _followed(system, speed, seen, ref_value, ref_shape, reduced=None):
     """(eigenvalue, shape, vector) of the branch at ``speed`` by Newton's method from the
     nearest speed already solved (:func:`.pair_newton.follow`: it whirls, keeps its digits
-    and its shape's MAC with the start's is at least ``FOLLOW_MAC``), or None (then solve in
-    full).  Taken only when it also passes the tracker's shape-and-frequency gate against
-    the bracket's reference, as a full solve's pick must.  With ``reduced`` (the sweep's
+    and its shape's MAC with the start's is at least ``FOLLOW_MAC``), or None (then the trial
+    speed is solved by ``solver``: in the full model, or on the reduced basis).  Taken only
+    when it also passes the tracker's shape-and-frequency gate against the bracket's
+    reference, as a solve's pick must.  With ``reduced`` (the sweep's
     reduced model) the steps run on the projected model and the answer is certified in the
     full one by its residual, like every pair of the reduced sweep."""
     start = min(seen, key=lambda w: abs(w - speed))

@@ -15,9 +15,12 @@ fractions of a millisecond to milliseconds where a full solve costs tens of them
 (docs/theory.md, 3.3).
 
 The answer is certified, never assumed: it is returned only when the steps have converged
-and the pair's relative backward error in the full model is below :data:`BACKWARD_LIMIT`
-(then it is an eigenpair of the model to that accuracy); the caller checks that it is the
-mode it wanted (by shape) and solves in full otherwise.  In an isotropic model a mode can
+and the pair's relative backward error in the model solved is below :data:`BACKWARD_LIMIT`
+(then it is an eigenpair of that model to that accuracy); the caller checks that it is the
+mode it wanted (by shape) and solves otherwise.  On a reduced basis the model solved is the
+projected one, and :meth:`~rotorcalc.analysis.reduced.ReducedModel.newton` certifies the
+lifted answer in the full model by the reduced path's residual (tolerance 1e-7), which its
+``backward_error`` then holds.  In an isotropic model a mode can
 be one of a degenerate pair, whose vector Newton's method may return mixed: such an answer
 is refused too, and the full solve splits the pair.
 """
@@ -49,8 +52,13 @@ BACKWARD_LIMIT = 1e-11
 
 @dataclass(frozen=True)
 class NewtonPair:
+    """Newton's answer: ``vector`` holds displacements in the original DOF order (basis
+    coordinates when :func:`newton_pair` solved a projected model), ``backward_error`` the
+    measure that certified it (see the module: the relative backward error, or the reduced
+    path's residual)."""
+
     value: complex
-    vector: np.ndarray      # displacements, original DOF order
+    vector: np.ndarray
     backward_error: float
     steps: int
 
@@ -69,7 +77,7 @@ def newton_pair(m, d_mat, k, value, vector, physical=True):
     projected model's (coordinates on a basis, not DOFs): the caller lifts the answer and
     checks it (a degenerate pair's mixing among them).
     """
-    quad = (_Dense if m.shape[0] <= DENSE_LIMIT else _Banded)(m, d_mat, k)
+    quad = (_Dense if m.shape[0] <= DENSE_LIMIT or not physical else _Banded)(m, d_mat, k)
     x = quad.to_scaled(np.asarray(vector, dtype=complex))
     norm = np.linalg.norm(x)
     if not (norm > 0 and np.isfinite(norm)):

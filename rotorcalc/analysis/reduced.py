@@ -28,8 +28,9 @@ of the reference system's, ``eta`` is to first order twice the relative error of
 eigenvalue, and it measures the vector's error in an energy-like norm (docs/theory.md,
 "Reduced-basis sweeps").  While the basis is built, the residual vectors ``P Q x``
 of the pairs above :data:`TOLERANCE` at a few sample speeds are added to it until
-every one passes, and full-model solves at three samples check that no mode is
-missing.  After that the basis is fixed (results do not depend on the order of
+every one passes, and three samples are checked for a missing mode in the full model (by
+the deflated Arnoldi check with every certified pair deflated, or by a full solve where that
+check cannot decide).  After that the basis is fixed (results do not depend on the order of
 the speeds); a speed where a returned pair still misses the tolerance, or where the
 reduced model shows a growing non-oscillating motion, is solved in the full model.
 Nothing is silent: :meth:`ReducedSolver.summary` reports the basis size, the largest
@@ -50,7 +51,7 @@ from ..fe import bearing as fe_bearing
 from ..notices import Notice
 from ..pencils import DensePencil, times
 from ..solvers import (NUMERICAL_FAILURES, AutoSolver, DenseSolver, SparseSolver, _factor,
-                       _scaling, make_solver, proven_complete)
+                       _scaling, make_solver, none_missed)
 from .modes import GROWTH_RTOL
 
 #: Largest preconditioned relative residual accepted (to first order about twice the
@@ -98,8 +99,9 @@ class Reduction:
     rounds : int
         Enrichment rounds the basis took.
     complete : bool
-        Full-model solves at three sample speeds found no mode the basis lacks (after
-        adding any they found).
+        The check for missing modes ran at three sample speeds (the deflated check, or a
+        full-model solve where it cannot decide) and found none the basis lacks (after adding
+        any it found).
     full_solves : tuple of float
         Speeds (rad/s) solved in the full model because a reduced pair missed the
         tolerance there.
@@ -143,14 +145,19 @@ def _reference_stiffness(system, speed):
 
 
 def projected_solve(m, d, k, n_modes, near=None, zeros=None):
-    """The lowest (or nearest) modes of a projected dense model: from :data:`ARNOLDI_FROM`
-    DOFs by shift-invert Arnoldi on its dense LU with the sparse solve's completeness check
-    (:class:`~rotorcalc.solvers.SparseSolver` on a :class:`~rotorcalc.pencils.DensePencil`),
-    every eigenvalue of the pencil by LAPACK below it or when that check is in doubt."""
-    if m.shape[0] >= ARNOLDI_FROM:
-        pairs = SparseSolver(DensePencil)(m, d, k, n_modes, near, zeros)
-        if not pairs.warnings:
-            return pairs
+    """The lowest (or nearest) modes of a projected dense model.  The lowest, from
+    :data:`ARNOLDI_FROM` DOFs: by shift-invert Arnoldi on its dense LU with the sparse solve's
+    completeness check (:class:`~rotorcalc.solvers.SparseSolver` on a
+    :class:`~rotorcalc.pencils.DensePencil`).  Otherwise, and when that solve is in doubt,
+    fails or comes short, every eigenvalue of the pencil by LAPACK (a ``near`` solve too: the
+    sparse one has no completeness check)."""
+    if m.shape[0] >= ARNOLDI_FROM and near is None:
+        try:
+            pairs = SparseSolver(DensePencil)(m, d, k, n_modes, near, zeros)
+            if not pairs.warnings and len(pairs.values) >= n_modes:
+                return pairs
+        except NUMERICAL_FAILURES:
+            pass             # the dense solve decides
     return DenseSolver()(m, d, k, n_modes, near, zeros)
 
 
@@ -289,7 +296,8 @@ class ReducedModel:
 
         Where the lowest ``n_solve`` reduced pairs are certified and the deflated check, with
         every certified pair deflated, proves that the full model has no other eigenvalue near
-        enough (:func:`~rotorcalc.solvers.proven_complete`), none is missing; otherwise (an
+        enough (:func:`~rotorcalc.solvers.none_missed`), none is taken to be missing (as a
+        sparse solve's own check would take it); otherwise (an
         overdamped eigenvalue in the disk, say: the check cannot place it) the full model is
         solved and compared."""
         out = []
@@ -298,7 +306,7 @@ class ReducedModel:
             k_mat = self.system.stiffness(speed)
             pairs = self._solve(speed, self.n_solve + EXTRA_MODES, None, None, None)
             sure = self.certify(pairs.values, pairs.vectors, d_mat, k_mat)[0] <= self.tolerance
-            if sure[:self.n_solve].all() and proven_complete(      # the extra ones if certified
+            if sure[:self.n_solve].all() and none_missed(      # the extra ones if certified
                     self.system.mass, d_mat, k_mat, pairs.values[sure], pairs.vectors[:, sure],
                     self.n_solve):
                 continue

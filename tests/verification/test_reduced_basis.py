@@ -16,6 +16,7 @@ The generated rotor carries speed-dependent, cross-coupled bearings on a pedesta
 (tests/benchmarks/generated.py), where the bearings change the projected matrices per speed.
 """
 
+import dataclasses
 import math
 
 import numpy as np
@@ -23,7 +24,7 @@ import pytest
 
 from rotorcalc import read_rotor
 from rotorcalc.analysis import critical_speeds, sweep
-from rotorcalc.analysis import reduced
+from rotorcalc.analysis import pair_newton, reduced
 from rotorcalc.analysis.reduced import ReducedModel, ReducedSolver, sweep_solver
 from rotorcalc.analysis.sweep import default_speeds
 from rotorcalc.assembly import assemble
@@ -77,7 +78,7 @@ def test_reduced_sweep_matches_the_full_one_on_each_bundled_case(name):
     _compare(name, system)
 
 
-def test_reduced_sweep_matches_on_speed_dependent_cross_coupled_bearings():
+def test_reduced_sweep_matches_on_speed_dependent_cross_coupled_bearings(monkeypatch):
     """Against the full model's own path at this size (ARPACK with its completeness check):
     the projected model is solved the same way (shift-invert Arnoldi from
     :data:`~rotorcalc.analysis.reduced.ARNOLDI_FROM` columns, the same disk and check), so both
@@ -88,8 +89,14 @@ def test_reduced_sweep_matches_on_speed_dependent_cross_coupled_bearings():
     system = assemble(rotor)
     journal = rotor.bearings[0]
     assert len(journal.speeds) > 1 and journal.coefficients["kxy"][0] != 0
+    arnoldi = []
+    real = reduced.SparseSolver.__call__
+    monkeypatch.setattr(reduced.SparseSolver, "__call__",
+                        lambda self, *a, **k: arnoldi.append(self.pencil) or real(self, *a, **k))
     red = _compare("generated rotor, 40 elements", system)
-    assert red.reduction.basis_size >= reduced.ARNOLDI_FROM   # the Arnoldi path ran
+    # the projected model was solved by Arnoldi (not the dense fallback), no speed in full
+    assert red.reduction.basis_size >= reduced.ARNOLDI_FROM
+    assert reduced.DensePencil in arnoldi and red.reduction.full_solves == ()
     assert red.to_dict()["reduced_basis"]["basis_size"] == red.reduction.basis_size
 
 
@@ -146,6 +153,43 @@ def test_the_end_check_finds_a_mode_the_basis_lacks():
     assert len(model._missing([speeds[0]])) >= 2
 
 
+def test_the_deflated_check_finds_a_mode_the_reduced_model_lacks(monkeypatch):
+    """At the top sample (no overdamped eigenvalue in the disk there) the deflated check runs
+    before any full solve: with every reduced pair it finds nothing missing and no full solve
+    runs; with the third mode left out of the reduced pairs (all the others certified) it
+    finds the gap, and the full solve (the full model's ARPACK solve with its own check, the
+    reference) gives back that mode's eigenvector."""
+    system = assemble(generated_rotor(60, mode_count=4, speed_count=10))
+    speeds = np.linspace(0.0, 1000.0, 5)
+    model = ReducedModel(system, 8, speeds)
+    top = speeds[-1]
+    said, solved = [], []
+    real_check, real_full = reduced.none_missed, reduced.AutoSolver.__call__
+    monkeypatch.setattr(reduced, "none_missed",
+                        lambda *a: said.append(real_check(*a)) or said[-1])
+    monkeypatch.setattr(reduced.AutoSolver, "__call__",
+                        lambda self, *a, **k: solved.append(1) or real_full(self, *a, **k))
+    assert model._missing([top]) == [] and said == [True] and solved == []
+    real_solve = model._solve
+
+    def without_the_third(*args):
+        pairs = real_solve(*args)
+        keep = np.arange(len(pairs.values)) != 2
+        return dataclasses.replace(pairs, values=pairs.values[keep],
+                                   vectors=pairs.vectors[:, keep])
+
+    monkeypatch.setattr(model, "_solve", without_the_third)
+    # the basis certifies the eight lowest modes; asked for six, the six lowest pairs left (the
+    # 1st, 2nd, 4th to 7th modes) are certified, so it is the deflated check that decides
+    model.n_solve = 6
+    found = model._missing([top])
+    assert said == [True, False] and solved == [1] and len(found) == 2
+    third = real_solve(top, 8, None, None, None).vectors[:, 2]     # certified (basis of 8)
+    back = np.hstack(found)
+    gap = third - back @ np.linalg.lstsq(back, third, rcond=None)[0]
+    assert np.linalg.norm(gap) < 1e-6 * np.linalg.norm(third)
+
+
 def test_the_missing_mode_check_runs_even_when_the_rounds_run_out(monkeypatch):
     """With no round to spare (and a tolerance no basis meets), the check for missing modes
     still runs, and the summary says it did."""
@@ -198,11 +242,12 @@ def test_the_screening_records_the_refinements_too():
     assert result.sweep.reduction.complete
 
 
-def test_newton_on_the_projected_model_gives_the_full_models_pair_or_nothing():
+def test_newton_on_the_projected_model_gives_the_full_models_pair_or_nothing(monkeypatch):
     """The critical-speed refinement's steps on a reduced basis (ReducedModel.newton), from
     the reduced pair at a nearby speed: the answer is the full model's eigenvalue (dense
     solve, LAPACK) to 1e-7 relative and carries its certified residual; under a tolerance no
-    basis meets it is refused (the caller then solves), never returned uncertified."""
+    pair meets, Newton's converged answer is refused (the caller then solves), never returned
+    uncertified."""
     rotor = generated_rotor(40, mode_count=6, speed_count=30)
     system = assemble(rotor)
     speeds = default_speeds(rotor)
@@ -215,9 +260,14 @@ def test_newton_on_the_projected_model_gives_the_full_models_pair_or_nothing():
     every = DenseSolver()(system.mass, d_mat, k_mat, 12).values
     for value, vector in zip(pairs.values, pairs.vectors.T):
         found = model.newton(speed, value, vector, d_mat, k_mat)
-        assert found is not None and found.backward_error <= model.tolerance
+        assert found is not None and 0 < found.backward_error <= model.tolerance
         check(f"generated rotor, 40 elements: Newton on the reduced basis, mode near "
               f"{value.imag:.0f} rad/s", "dense full-model solve (LAPACK)", 0.0,
               float(np.min(np.abs(every - found.value)) / abs(found.value)), 1e-7, "abs")
-    strict = ReducedModel(system, 10, speeds, tolerance=1e-30)
-    assert strict.newton(speed, pairs.values[0], pairs.vectors[:, 0], d_mat, k_mat) is None
+    converged = []
+    real = pair_newton.newton_pair
+    monkeypatch.setattr(pair_newton, "newton_pair",
+                        lambda *a, **k: converged.append(real(*a, **k)) or converged[-1])
+    model.tolerance = 0.0
+    assert model.newton(speed, pairs.values[0], pairs.vectors[:, 0], d_mat, k_mat) is None
+    assert converged and converged[-1] is not None     # converged, then refused
