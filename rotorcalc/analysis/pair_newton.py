@@ -30,7 +30,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
-import scipy.linalg as la
+import scipy.linalg.lapack as lapack
 
 from ..errors import SolverError
 from ..pencils import _factor, _Pencil, backward_errors, scaled_dense
@@ -88,7 +88,10 @@ def newton_pair(m, d_mat, k, value, vector, physical=True):
     steps, close = 0, False
     try:
         for steps in range(1, MAX_STEPS + 1):
-            u = quad.solve(lam, quad.d @ x + 2.0 * lam * (quad.m @ x))
+            try:
+                u = quad.solve(lam, quad.d @ x + 2.0 * lam * (quad.m @ x))
+            except Singular:   # lam is an eigenvalue to the last bit: the last x is checked
+                break
             size = np.vdot(v, u)
             if not (size != 0 and np.isfinite(size)):
                 return None
@@ -114,6 +117,14 @@ def mixed(q, m, d_mat, k):
     """True for a vector mixing a degenerate pair's forward and backward modes (isotropic
     models): Newton's answer is then refused and the full solve splits the pair."""
     return bool(mixing(q) > MIXED and is_isotropic(k, d_mat, m))
+
+
+class Singular(np.linalg.LinAlgError):
+    """The shifted quadratic has an exactly zero pivot: the shift is an eigenvalue to the
+    last bit (a converged step, not a failure: the caller checks the pair it has)."""
+
+
+_GETRF, _GETRS = lapack.zgetrf, lapack.zgetrs
 
 
 #: A mode followed by Newton's method is the one it started from when its shape's MAC with
@@ -168,8 +179,10 @@ class _Dense:
         return x / self.scale
 
     def solve(self, lam, rhs):
-        lu = la.lu_factor(self.k + lam * self.d + (lam * lam) * self.m, check_finite=False)
-        return la.lu_solve(lu, rhs, check_finite=False)
+        lu, piv, info = _GETRF(self.k + lam * self.d + (lam * lam) * self.m)
+        if info > 0:        # an exactly zero pivot: Q(lam) is singular
+            raise Singular(f"the shifted quadratic is singular (pivot {info})")
+        return _GETRS(lu, piv, rhs)[0]
 
     def backward_error(self, lam, x):
         return float(backward_errors(self.m, self.d, self.k, np.array([lam]), x[:, None])[0])
@@ -191,7 +204,11 @@ class _Banded:
         return self.pencil.displacements(x[:, None])[:, 0]
 
     def solve(self, lam, rhs):
-        return _factor(self.pencil.shifted(lam), self.pencil.band)(rhs)
+        try:
+            solve = _factor(self.pencil.shifted(lam), self.pencil.band)
+        except np.linalg.LinAlgError as exc:     # LAPACK's banded LU: an exactly zero pivot
+            raise Singular(str(exc)) from None
+        return solve(rhs)
 
     def backward_error(self, lam, x):
         return float(self.pencil.backward_errors(np.array([lam]), x[:, None])[0])

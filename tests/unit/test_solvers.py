@@ -260,6 +260,22 @@ def test_critical_speeds_followed_by_newton_equal_those_of_full_solves(monkeypat
             assert a.log_dec == pytest.approx(b.log_dec, rel=1e-6, abs=1e-9)
 
 
+def test_newton_started_on_an_exact_eigenvalue_returns_it_without_a_warning():
+    """Two uncoupled undamped oscillators, M = I, K = diag(4, 9): eigenvalues +-2i and +-3i
+    (closed form, lam^2 + k = 0).  Started exactly on 2i with the exact vector, the shifted
+    quadratic Q(2i) = diag(0, 5) has an exactly zero pivot: that is a converged step, and the
+    pair is checked and returned (it used to come back as None, with LAPACK's singular-matrix
+    warning on the terminal)."""
+    import warnings
+    from rotorcalc.analysis.pair_newton import newton_pair
+    m, d, k = np.eye(2), np.zeros((2, 2)), np.diag([4.0, 9.0])
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        pair = newton_pair(m, d, k, 2j, np.array([1.0, 0.0]), physical=False)
+    assert pair is not None and pair.value == 2j and pair.backward_error == 0.0
+    assert abs(pair.vector[1]) == 0.0 and abs(pair.vector[0]) > 0
+
+
 def test_newton_pair_reaches_the_dense_solvers_eigenpair(monkeypatch):
     """Reference: LAPACK's eigenvalues of the full model (DenseSolver).  From each mode at one
     speed, Newton's method reaches the same mode 2 % higher in speed, to 1e-12 relative, with
