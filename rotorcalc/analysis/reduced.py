@@ -295,11 +295,10 @@ class ReducedModel:
         """Full-model eigenvectors at ``speeds`` whose eigenvalue the reduced model lacks.
 
         Where the lowest ``n_solve`` reduced pairs are certified and the deflated check, with
-        every certified pair deflated, proves that the full model has no other eigenvalue near
-        enough (:func:`~rotorcalc.solvers.none_missed`), none is taken to be missing (as a
-        sparse solve's own check would take it); otherwise (an
-        overdamped eigenvalue in the disk, say: the check cannot place it) the full model is
-        solved and compared."""
+        every certified pair deflated, finds no other eigenvalue of the full model near enough
+        (:func:`~rotorcalc.solvers.none_missed`), none is taken to be missing (as a sparse
+        solve's own check would take it); otherwise (an overdamped eigenvalue in the disk,
+        say: the check cannot place it) the full model is solved and compared."""
         out = []
         for speed in speeds:
             d_mat = self.system.damping(speed) + speed * self.system.gyroscopic
