@@ -138,7 +138,7 @@ class _Pencil:
         ``x1 = -Q^-1 (s M^ z2 + (D^ + sigma M^) z1)``, ``x2 = (z1 + sigma x1) / s``.
         """
         n, s = self.n, self.ref
-        solve = _factor(self.shifted(sigma), self.band)
+        solve = self.factored(sigma)
         if self.shifts is None:
             right = sp.hstack([self.d + sigma * self.m, s * self.m]).tocsr()
         else:
@@ -151,6 +151,11 @@ class _Pencil:
 
         dtype = complex if isinstance(sigma, complex) else float
         return spla.LinearOperator((2 * n, 2 * n), matvec=apply, dtype=dtype)
+
+    def factored(self, sigma):
+        """A solve with ``K^ + sigma D^ + sigma^2 M^`` (:func:`_factor`: LinAlgError on an
+        exactly zero pivot of LAPACK's banded LU)."""
+        return _factor(self.shifted(sigma), self.band)
 
     def shifted(self, sigma):
         """``K^ + sigma D^ + sigma^2 M^`` (COO) in the pencil's order."""
@@ -174,6 +179,9 @@ class DensePencil:
     same DOF scaling and scaled state, the shift-invert operator from a dense LU of
     ``K^ + sigma D^ + sigma^2 M^`` (no reordering: the matrices are full)."""
 
+    #: the DOFs in their own order (no reordering)
+    perm = slice(None)
+
     def __init__(self, m, d_mat, k):
         self.m, self.d, self.k, self.scale, self.ref = scaled_dense(m, d_mat, k)
         self.n = self.m.shape[0]
@@ -181,23 +189,30 @@ class DensePencil:
     def operator(self, sigma):
         """``T = (A - sigma B)^-1 B`` on the scaled state ``[q^, v]`` (see :class:`_Pencil`)."""
         n, s = self.n, self.ref
-        lu, piv, info = _GETRF[isinstance(sigma, complex)](self.shifted(sigma))
-        if info != 0:
-            raise np.linalg.LinAlgError(f"shifted pencil is singular (info {info})")
-        getrs = _GETRS[isinstance(sigma, complex)]
+        solve = self.factored(sigma)
         right = np.hstack([self.d + sigma * self.m, s * self.m])
 
         def apply(z):
             z = np.ravel(z)
-            x1 = -getrs(lu, piv, right @ z)[0]
+            x1 = -solve(right @ z)
             return np.concatenate([x1, (z[:n] + sigma * x1) / s])
 
         dtype = complex if isinstance(sigma, complex) else float
         return spla.LinearOperator((2 * n, 2 * n), matvec=apply, dtype=dtype)
 
+    def factored(self, sigma):
+        """A solve with ``K^ + sigma D^ + sigma^2 M^`` (LAPACK's LU; LinAlgError on an
+        exactly zero pivot)."""
+        cplx = isinstance(sigma, complex)
+        lu, piv, info = _GETRF[cplx](self.shifted(sigma))
+        if info != 0:
+            raise np.linalg.LinAlgError(f"shifted pencil is singular (info {info})")
+        getrs = _GETRS[cplx]
+        return lambda b: getrs(lu, piv, b)[0]
+
     def shifted(self, sigma):
         """``K^ + sigma D^ + sigma^2 M^`` (dense)."""
-        return self.k + sigma * self.d + sigma ** 2 * self.m
+        return self.k + sigma * self.d + (sigma * sigma) * self.m
 
     def displacements(self, z):
         """Physical displacement vectors of state vectors ``z``."""

@@ -261,8 +261,8 @@ def none_missed(m, d_mat, k, values, vectors, n_modes):
     check, docs/theory.md section 3.1, not a proof).  ``values``, ``vectors`` (displacement
     columns) are accurate eigenpairs found another way (a reduced model's, certified); one LU
     and a short Arnoldi run on the deflated operator, where a solve would find the modes
-    anew.  False also when the check
-    finds an eigenvalue it cannot place (a real one, say): the caller then solves."""
+    anew.  False also when the check finds an eigenvalue it cannot place (a real one, say):
+    the caller then solves."""
     if len(values) < n_modes or n_modes <= 0:
         return False
     pencil = _Pencil(m, d_mat, k)

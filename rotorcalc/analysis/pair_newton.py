@@ -30,10 +30,9 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
-import scipy.linalg.lapack as lapack
 
 from ..errors import SolverError
-from ..pencils import _factor, _Pencil, backward_errors, scaled_dense
+from ..pencils import DensePencil, _Pencil
 from ..solvers import NUMERICAL_FAILURES, OSCILLATORY
 from ..threads import one_blas_thread
 from .circular import MIXED, is_isotropic, mixing
@@ -77,7 +76,8 @@ def newton_pair(m, d_mat, k, value, vector, physical=True):
     projected model's (coordinates on a basis, not DOFs): the caller lifts the answer and
     checks it (a degenerate pair's mixing among them).
     """
-    quad = (_Dense if m.shape[0] <= DENSE_LIMIT or not physical else _Banded)(m, d_mat, k)
+    dense = m.shape[0] <= DENSE_LIMIT or not physical
+    quad = _Quadratic((DensePencil if dense else _Pencil)(m, d_mat, k))
     x = quad.to_scaled(np.asarray(vector, dtype=complex))
     norm = np.linalg.norm(x)
     if not (norm > 0 and np.isfinite(norm)):
@@ -124,9 +124,6 @@ class Singular(np.linalg.LinAlgError):
     last bit (a converged step, not a failure: the caller checks the pair it has)."""
 
 
-_GETRF, _GETRS = lapack.zgetrf, lapack.zgetrs
-
-
 #: A mode followed by Newton's method is the one it started from when its shape's MAC with
 #: the start's is at least this; otherwise the caller solves in full and picks by shape.
 FOLLOW_MAC = 0.98
@@ -166,36 +163,15 @@ def follow(system, speed, value, vector, shape, whirl=None, reduced=None):
     return values[0], shapes[0], vectors[:, 0]
 
 
-class _Dense:
-    """The DOF-scaled quadratic as dense arrays (small models)."""
+class _Quadratic:
+    """A pencil's DOF-scaled quadratic as Newton's steps use it: a
+    :class:`~rotorcalc.pencils.DensePencil` for small (and projected) models, a
+    :class:`~rotorcalc.pencils._Pencil` in a bandwidth-reducing order above; each shift
+    factors the shifted quadratic (``factored``: LAPACK's dense or banded LU)."""
 
-    def __init__(self, m, d_mat, k):
-        self.m, self.d, self.k, self.scale, _ = scaled_dense(m, d_mat, k)
-
-    def to_scaled(self, q):
-        return q * self.scale
-
-    def displacements(self, x):
-        return x / self.scale
-
-    def solve(self, lam, rhs):
-        lu, piv, info = _GETRF(self.k + lam * self.d + (lam * lam) * self.m)
-        if info > 0:        # an exactly zero pivot: Q(lam) is singular
-            raise Singular(f"the shifted quadratic is singular (pivot {info})")
-        return _GETRS(lu, piv, rhs)[0]
-
-    def backward_error(self, lam, x):
-        return float(backward_errors(self.m, self.d, self.k, np.array([lam]), x[:, None])[0])
-
-
-class _Banded:
-    """The DOF-scaled quadratic in a bandwidth-reducing order (large models): each shift
-    factors the pencil's shifted quadratic (:meth:`~rotorcalc.pencils._Pencil.shifted`)
-    by LAPACK's banded LU."""
-
-    def __init__(self, m, d_mat, k):
-        self.pencil = _Pencil(m, d_mat, k)
-        self.m, self.d = self.pencil.m, self.pencil.d
+    def __init__(self, pencil):
+        self.pencil = pencil
+        self.m, self.d = pencil.m, pencil.d
 
     def to_scaled(self, q):
         return q[self.pencil.perm] * self.pencil.scale[self.pencil.perm]
@@ -205,8 +181,8 @@ class _Banded:
 
     def solve(self, lam, rhs):
         try:
-            solve = _factor(self.pencil.shifted(lam), self.pencil.band)
-        except np.linalg.LinAlgError as exc:     # LAPACK's banded LU: an exactly zero pivot
+            solve = self.pencil.factored(lam)
+        except np.linalg.LinAlgError as exc:     # an exactly zero pivot
             raise Singular(str(exc)) from None
         return solve(rhs)
 

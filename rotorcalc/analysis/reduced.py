@@ -53,6 +53,7 @@ from ..pencils import DensePencil, times
 from ..solvers import (NUMERICAL_FAILURES, AutoSolver, DenseSolver, SparseSolver, _factor,
                        _scaling, make_solver, none_missed)
 from .modes import GROWTH_RTOL
+from .pair_newton import NewtonPair, mixed, newton_pair
 
 #: Largest preconditioned relative residual accepted (to first order about twice the
 #: relative eigenvalue error of a well-conditioned mode): the eigenvalues then agree with
@@ -153,7 +154,7 @@ def projected_solve(m, d, k, n_modes, near=None, zeros=None):
     sparse one has no completeness check)."""
     if m.shape[0] >= ARNOLDI_FROM and near is None:
         try:
-            pairs = SparseSolver(DensePencil)(m, d, k, n_modes, near, zeros)
+            pairs = SparseSolver(DensePencil)(m, d, k, n_modes, None, zeros)
             if not pairs.warnings and len(pairs.values) >= n_modes:
                 return pairs
         except NUMERICAL_FAILURES:
@@ -348,7 +349,6 @@ class ReducedModel:
         like a reduced solve's pair (residual at most the tolerance; not a degenerate pair's
         mixture); None otherwise (the caller then solves).  ``d_mat``, ``k_mat``: the full
         model's at ``speed``."""
-        from .pair_newton import NewtonPair, mixed, newton_pair
         m, d, k = self.matrices(speed, whirl)
         start = self.v.T @ (self.scale ** 2 * np.asarray(vector))   # projection, scaled norm
         pair = newton_pair(m, d, k, value, start, physical=False)
