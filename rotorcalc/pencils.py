@@ -342,10 +342,13 @@ def _factor(q, band):
         lu = spla.splu(q.tocsc())
         return lu.solve
     cplx = np.iscomplexobj(q.data)
-    ab = np.zeros((3 * band + 1, n), dtype=complex if cplx else float)
-    ab[2 * band + q.row - q.col, q.col] = q.data
+    # LAPACK's band storage built in Fortran order and factored in place: no copy of it
+    # (half the factoring time at 16 000 DOFs, the same factors; docs/performance.md)
+    rows = 3 * band + 1
+    ab = np.zeros(rows * n, dtype=complex if cplx else float)
+    ab[(2 * band + q.row - q.col) + q.col.astype(np.intp) * rows] = q.data
     trf, trs = (lapack.zgbtrf, lapack.zgbtrs) if cplx else (lapack.dgbtrf, lapack.dgbtrs)
-    lu, piv, info = trf(ab, band, band)
+    lu, piv, info = trf(ab.reshape((rows, n), order="F"), band, band, overwrite_ab=True)
     if info != 0:
         raise np.linalg.LinAlgError(f"shifted pencil is singular (info {info})")
 

@@ -291,11 +291,12 @@ def branches_from(solved, n):
                            for j in range(paths.shape[1])])
     chosen = sorted(np.nonzero(keep)[0], key=lambda j: (first[j] > 0, start_freq[j], first[j]))
     values = np.full((len(solved), len(chosen)), np.nan + 1j * np.nan)
-    shapes = np.full((len(solved), len(chosen), n_nodes, 2), np.nan + 1j * np.nan)
-    for col, j in enumerate(chosen):
-        for k, m in enumerate(solved):
-            i = paths[k, j]
-            if i >= 0:
-                values[k, col] = m.eigenvalues[i]
-                shapes[k, col] = m.shapes[i]
+    # written once, speed by speed (a large model's shapes are hundreds of MB)
+    shapes = np.empty((len(solved), len(chosen), n_nodes, 2), dtype=complex)
+    for k, m in enumerate(solved):
+        at = paths[k, chosen]
+        there = at >= 0
+        values[k, there] = m.eigenvalues[at[there]]
+        shapes[k, there] = m.shapes[at[there]]
+        shapes[k, ~there] = np.nan + 1j * np.nan
     return values, shapes
