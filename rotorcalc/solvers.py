@@ -123,30 +123,45 @@ class DenseSolver:
 
     @one_blas_thread
     def __call__(self, m, d_mat, k, n_modes, near=None, zeros=None):
-        a, b, scale, ref = scaled_pencil(m, d_mat, k)
-        n = m.shape[0]
-        mass_diag = m.diagonal()
-        lower = None
-        if np.all(mass_diag > 0):
-            try:
-                lower = la.cho_factor(b[n:, n:], lower=True, check_finite=False)
-            except la.LinAlgError:   # positive diagonal, yet not positive definite
-                lower = None
-        if lower is not None:
-            # Positive-definite mass: the standard problem B^-1 A is cheaper than QZ.
-            a2 = a.copy()
-            a2[n:, :] = la.cho_solve(lower, a[n:, :], check_finite=False)
-            values, vectors = la.eig(a2, check_finite=False)
-        else:
-            values, vectors = la.eig(a, b, check_finite=False)
-        finite = np.isfinite(values)
-        values, vectors = values[finite], vectors[:, finite]
+        values, q, ref = _every_eigenpair(m, d_mat, k)
         zero, oscillatory, real = _classify(values, ref, zeros)
         real = values[real].real
-        values, vectors = values[oscillatory], vectors[:, oscillatory]
+        values, q = values[oscillatory], q[:, oscillatory]
         order = _pick(values, n_modes, near)
-        q = vectors[:n, order] / scale[:, None]
-        return Eigenpairs(values[order], q, np.sort(real), int(zero.sum()))
+        return Eigenpairs(values[order], q[:, order], np.sort(real), int(zero.sum()))
+
+
+def _every_eigenpair(m, d_mat, k):
+    """Every finite eigenvalue of the quadratic by LAPACK, its displacement vector and the
+    reference frequency (the scaled state-space pencil of :func:`scaled_pencil`)."""
+    a, b, scale, ref = scaled_pencil(m, d_mat, k)
+    n = m.shape[0]
+    lower = None
+    if np.all(m.diagonal() > 0):
+        try:
+            lower = la.cho_factor(b[n:, n:], lower=True, check_finite=False)
+        except la.LinAlgError:   # positive diagonal, yet not positive definite
+            lower = None
+    if lower is not None:
+        # Positive-definite mass: the standard problem B^-1 A is cheaper than QZ.
+        a2 = a.copy()
+        a2[n:, :] = la.cho_solve(lower, a[n:, :], check_finite=False)
+        values, vectors = la.eig(a2, check_finite=False)
+    else:
+        values, vectors = la.eig(a, b, check_finite=False)
+    finite = np.isfinite(values)
+    return values[finite], vectors[:n, finite] / scale[:, None], ref
+
+
+@one_blas_thread
+def real_eigenpairs(m, d_mat, k, zeros=None):
+    """The finite real (non-oscillating) eigenvalues of the quadratic that are not zero, with
+    their real displacement vectors, by LAPACK (:class:`DenseSolver`'s pencil): for small and
+    projected models (a reduced model's overdamped pairs, for the deflated check)."""
+    values, q, ref = _every_eigenpair(m, d_mat, k)
+    real = _classify(values, ref, zeros)[2]
+    order = np.argsort(np.abs(values[real]))
+    return values[real].real[order], q[:, real].real[:, order]
 
 
 # --- sparse shift-invert ----------------------------------------------------------------
@@ -261,15 +276,18 @@ def none_missed(m, d_mat, k, values, vectors, n_modes):
     check, docs/theory.md section 3.1, not a proof).  ``values``, ``vectors`` (displacement
     columns) are accurate eigenpairs found another way (a reduced model's, certified); one LU
     and a short Arnoldi run on the deflated operator, where a solve would find the modes
-    anew.  False also when the check finds an eigenvalue it cannot place (a real one, say):
-    the caller then solves."""
-    if len(values) < n_modes or n_modes <= 0:
+    anew.  ``values`` may hold real (overdamped) eigenvalues too, with real vectors: they are
+    deflated like the others and do not count among the ``n_modes``.  False also when the
+    check finds an eigenvalue it cannot place (a real one not given, say): the caller then
+    solves."""
+    frequencies = np.sort(values.imag[values.imag > 0])
+    if len(frequencies) < n_modes or n_modes <= 0:
         return False
     pencil = _Pencil(m, d_mat, k)
     sigma = SHIFT * pencil.ref
     q = (vectors * pencil.scale[:, None])[pencil.perm]
     z = np.vstack([q, q * (values / pencil.ref)])        # the scaled state [q^, lam q^ / s]
-    top = np.sort(values.imag)[n_modes - 1]
+    top = frequencies[n_modes - 1]
     needed = RADIUS_RATIO * abs(1j * top - sigma)
     missed = _nearest_missed(pencil.operator(sigma), 1.0 / (values - sigma), z, sigma, 0)
     return bool(CHECK_SLACK * missed >= needed)

@@ -18,12 +18,16 @@ The certificate covers the pairs returned, not the modes a basis might lack: a u
 that against full solves at a few states (the screen does, and drops the projection on a
 miss).  The solver counts its projected and full solves and keeps the largest certified
 ``eta`` (:meth:`ProjectedSolver.describe`; docs/theory.md, section 3.3).
+
+:class:`Projection` holds a system's matrices on a basis with the speed-dependent bearings
+kept apart (the reduced sweep's, :mod:`.reduced`, and the response surrogate's).
 """
 
 from __future__ import annotations
 
 import numpy as np
 
+from ..fe import bearing as fe_bearing
 from ..pencils import backward_errors, times
 from ..solvers import DenseSolver, Eigenpairs, make_solver
 
@@ -86,3 +90,32 @@ class ProjectedSolver:
         return (f"{self.projected} projected solves on a basis of {self.basis.shape[1]} "
                 f"vectors (largest backward error {self.largest:.1e}), "
                 f"{self.full_solves} full solves")
+
+
+def links(system):
+    """Every bearing, seal and source link of ``system``."""
+    return system.links + system.source_links
+
+
+class Projection:
+    """A system's matrices on a real basis ``v`` (n_dof, r): the constant parts projected
+    once; a bearing whose coefficients change with speed changes only its few-DOF term,
+    through the rows of ``v`` at its DOFs (the reduced sweep's and the response surrogate's,
+    :mod:`.response_surrogate`)."""
+
+    def __init__(self, system, v):
+        self.links = links(system)
+        self.m = v.T @ (system.mass @ v)
+        self.g = v.T @ (system.gyroscopic @ v)
+        self.k = v.T @ ((system.shaft_stiffness + system.support_stiffness) @ v)
+        self.c = v.T @ (system.support_damping @ v)
+        self.rows = [v[link.dofs] for link in self.links]
+
+    def matrices(self, speed, whirl=None):
+        """The projected ``(M, D, K)`` at spin speed ``speed`` (rad/s), ``D = C + speed G``."""
+        k, c = self.k.copy(), self.c.copy()
+        for link, rows in zip(self.links, self.rows):
+            k2, c2 = link.bearing.matrices(speed, whirl)
+            k += rows.T @ fe_bearing.element(k2, len(link.dofs)) @ rows
+            c += rows.T @ fe_bearing.element(c2, len(link.dofs)) @ rows
+        return self.m, c + speed * self.g, k

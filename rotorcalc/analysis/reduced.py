@@ -47,13 +47,13 @@ import scipy.sparse as sp
 import scipy.sparse.linalg as spla
 from scipy.sparse.csgraph import reverse_cuthill_mckee
 
-from ..fe import bearing as fe_bearing
 from ..notices import Notice
 from ..pencils import DensePencil, times
 from ..solvers import (NUMERICAL_FAILURES, AutoSolver, DenseSolver, SparseSolver, _factor,
-                       _scaling, make_solver, none_missed)
+                       _scaling, make_solver, none_missed, real_eigenpairs)
 from .modes import GROWTH_RTOL
 from .pair_newton import NewtonPair, mixed, newton_pair
+from .projected import Projection, links
 
 #: Largest preconditioned relative residual accepted (to first order about twice the
 #: relative eigenvalue error of a well-conditioned mode): the eigenvalues then agree with
@@ -134,10 +134,6 @@ class Reduction:
                 "speeds_solved_in_full_rad_s": [float(v) for v in self.full_solves]}
 
 
-def _links(system):
-    return system.links + system.source_links
-
-
 def _reference_stiffness(system, speed):
     """Shaft, supports and every bearing's direct stiffness (kxx, kyy, not below 0)."""
     return (system.shaft_stiffness + system.support_stiffness
@@ -160,30 +156,6 @@ def projected_solve(m, d, k, n_modes, near=None, zeros=None):
         except NUMERICAL_FAILURES:
             pass             # the dense solve decides
     return DenseSolver()(m, d, k, n_modes, near, zeros)
-
-
-class Projection:
-    """A system's matrices on a real basis ``v`` (n_dof, r): the constant parts projected
-    once; a bearing whose coefficients change with speed changes only its few-DOF term,
-    through the rows of ``v`` at its DOFs (the reduced sweep's and the response surrogate's,
-    :mod:`.response_surrogate`)."""
-
-    def __init__(self, system, v):
-        self.links = _links(system)
-        self.m = v.T @ (system.mass @ v)
-        self.g = v.T @ (system.gyroscopic @ v)
-        self.k = v.T @ ((system.shaft_stiffness + system.support_stiffness) @ v)
-        self.c = v.T @ (system.support_damping @ v)
-        self.rows = [v[link.dofs] for link in self.links]
-
-    def matrices(self, speed, whirl=None):
-        """The projected ``(M, D, K)`` at spin speed ``speed`` (rad/s), ``D = C + speed G``."""
-        k, c = self.k.copy(), self.c.copy()
-        for link, rows in zip(self.links, self.rows):
-            k2, c2 = link.bearing.matrices(speed, whirl)
-            k += rows.T @ fe_bearing.element(k2, len(link.dofs)) @ rows
-            c += rows.T @ fe_bearing.element(c2, len(link.dofs)) @ rows
-        return self.m, c + speed * self.g, k
 
 
 class _Compliance:
@@ -232,7 +204,7 @@ class ReducedModel:
     def _loads(self):
         """Unit forces at every bearing, seal and support DOF; unit moments at the disks."""
         system = self.system
-        dofs = {int(d) for link in _links(system) for d in link.dofs}
+        dofs = {int(d) for link in links(system) for d in link.dofs}
         for disk in system.rotor.disks:
             if disk.polar_inertia > 0 or disk.transverse_inertia > 0:
                 node = system.mesh.station_nodes[disk.station]
@@ -306,9 +278,8 @@ class ReducedModel:
             k_mat = self.system.stiffness(speed)
             pairs = self._solve(speed, self.n_solve + EXTRA_MODES, None, None, None)
             sure = self.certify(pairs.values, pairs.vectors, d_mat, k_mat)[0] <= self.tolerance
-            if sure[:self.n_solve].all() and none_missed(      # the extra ones if certified
-                    self.system.mass, d_mat, k_mat, pairs.values[sure], pairs.vectors[:, sure],
-                    self.n_solve):
+            if sure[:self.n_solve].all() and self._none_missed(
+                    speed, d_mat, k_mat, pairs.values[sure], pairs.vectors[:, sure]):
                 continue
             full = AutoSolver()(self.system.mass, d_mat, k_mat, self.n_solve)
             mine = pairs.values
@@ -316,6 +287,23 @@ class ReducedModel:
                 if not len(mine) or np.min(np.abs(mine - value)) > MATCH * abs(value):
                     out += [vector.real[:, None], vector.imag[:, None]]
         return out
+
+    def _none_missed(self, speed, d_mat, k_mat, values, vectors):
+        """The deflated check with the certified pairs (the extra ones too); where it finds an
+        eigenvalue it cannot place (an overdamped one, at rest, say), once more with the
+        reduced model's certified real eigenpairs deflated as well."""
+        mass = self.system.mass
+        if none_missed(mass, d_mat, k_mat, values, vectors, self.n_solve):
+            return True
+        real, x = real_eigenpairs(*self.matrices(speed))
+        if not len(real):
+            return False
+        x = self.v @ x
+        sure = self.certify(real.astype(complex), x.astype(complex), d_mat, k_mat)[0] \
+            <= self.tolerance
+        return bool(sure.any()) and none_missed(
+            mass, d_mat, k_mat, np.concatenate([values, real[sure]]),
+            np.hstack([vectors, x[:, sure]]), self.n_solve)
 
     # --- one speed ------------------------------------------------------------------
 

@@ -28,7 +28,7 @@ from scipy.sparse.linalg import splu
 
 from ..solvers import NUMERICAL_FAILURES
 from .projected import orthonormal
-from .reduced import Projection
+from .projected import Projection
 
 
 class ResponseSurrogate:
