@@ -337,16 +337,28 @@ def _layout(mats):
 
 def _factor(q, band):
     """A solve function for ``q`` (COO): LAPACK's banded LU, or SuperLU for wide bands."""
-    n = q.shape[0]
     if band > BAND_LIMIT:
         lu = spla.splu(q.tocsc())
         return lu.solve
-    cplx = np.iscomplexobj(q.data)
-    # LAPACK's band storage built in Fortran order and factored in place: no copy of it
-    # (half the factoring time at 16 000 DOFs, the same factors; docs/performance.md)
+    return band_lu(band_positions(q.row, q.col, band), q.data, q.shape[0], band)
+
+
+def band_positions(row, col, band):
+    """Where entries ``(row, col)`` go in LAPACK's band storage (``band`` sub- and
+    superdiagonals, room for the LU's fill), the storage flattened in Fortran order; a caller
+    that factors one pattern many times computes them once."""
+    return (2 * band + np.asarray(row) - col) + np.asarray(col, dtype=np.intp) * (3 * band + 1)
+
+
+def band_lu(positions, data, n, band):
+    """A solve function for the ``n x n`` matrix with entries ``data`` at ``positions``
+    (:func:`band_positions`): LAPACK's banded LU.  The band storage is built in Fortran order
+    and factored in place, so that it is never copied (half the factoring time at 16 000
+    DOFs, the same factors; docs/performance.md)."""
+    cplx = np.iscomplexobj(data)
     rows = 3 * band + 1
     ab = np.zeros(rows * n, dtype=complex if cplx else float)
-    ab[(2 * band + q.row - q.col) + q.col.astype(np.intp) * rows] = q.data
+    ab[positions] = data
     trf, trs = (lapack.zgbtrf, lapack.zgbtrs) if cplx else (lapack.dgbtrf, lapack.dgbtrs)
     lu, piv, info = trf(ab.reshape((rows, n), order="F"), band, band, overwrite_ab=True)
     if info != 0:

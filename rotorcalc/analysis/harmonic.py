@@ -22,6 +22,7 @@ from scipy.sparse.csgraph import reverse_cuthill_mckee
 from ..assembly import SystemMatrices
 from ..errors import SolverError
 from ..fe import bearing as fe_bearing
+from ..pencils import BAND_LIMIT, band_lu, band_positions
 from ..solvers import NUMERICAL_FAILURES, _factor, one_blas_thread
 from ..units import to_rpm
 
@@ -61,6 +62,8 @@ class HarmonicSolver:
         keys = keys[order]
         self.row, self.col = inverse[pattern.row[order]], inverse[pattern.col[order]]
         self.band = int(np.abs(self.row - self.col).max()) if pattern.nnz else 0
+        self.positions = band_positions(self.row, self.col, self.band) \
+            if self.band <= BAND_LIMIT else None     # in the band storage, once
 
         def at(r, c):
             return np.searchsorted(keys, np.asarray(r, dtype=np.int64) * n + c)
@@ -99,9 +102,11 @@ class HarmonicSolver:
         p, n = self.order, self.system.n_dof
         for shift in (0.0, 1e-9, -1e-9):
             w = omega * (1.0 + shift)
-            z = sp.coo_matrix((self._values(w), (self.row, self.col)), shape=(n, n))
             try:
-                solve = _factor(z, self.band)
+                solve = _factor(sp.coo_matrix((self._values(w), (self.row, self.col)),
+                                              shape=(n, n)), self.band) \
+                    if self.positions is None else \
+                    band_lu(self.positions, self._values(w), n, self.band)
                 break
             except (RuntimeError, np.linalg.LinAlgError):  # exactly singular
                 continue

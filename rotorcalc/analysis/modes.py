@@ -337,9 +337,10 @@ def modes_at(rotor_or_system, speed, mode_count=None, solver=None, near=None, wh
     products = getattr(pairs, "products", None)
     if products is not None and not np.array_equal(q, pairs.vectors):
         products = None
-    values, shapes, vectors = settle(
-        system, speed, values[order], q[:, order], c_mat, d_mat, k_mat,
-        None if products is None else tuple(p[:, order] for p in products))
+    if not np.array_equal(order, np.arange(len(order))):     # no copies when in order
+        values, q = values[order], q[:, order]
+        products = None if products is None else tuple(p[:, order] for p in products)
+    values, shapes, vectors = settle(system, speed, values, q, c_mat, d_mat, k_mat, products)
     warnings = list(system.table_warnings(speed)) + list(getattr(pairs, "warnings", ()))
     scale = float(np.abs(values).min()) if len(values) else 1.0
     growing = pairs.real_eigenvalues[pairs.real_eigenvalues > GROWTH_RTOL * scale]
@@ -349,8 +350,8 @@ def modes_at(rotor_or_system, speed, mode_count=None, solver=None, near=None, wh
                         "without whirling", "growth", (speed,)))
     rigid = basis.shape[1]
     if rigid:
-        warnings.append(Notice(f"{rigid} rigid-body mode(s) at zero frequency: the rotor is not fully "
-                        "supported; they are not listed as modes", "rigid-body"))
+        warnings.append(Notice(f"{rigid} rigid-body mode(s) at zero frequency: the rotor is not "
+                               "fully supported; they are not listed as modes", "rigid-body"))
     return Modes(speed, values, shapes, vectors, system.mesh.node_z,
                  system.mesh.station_nodes, pairs.real_eigenvalues, tuple(warnings), rigid)
 
