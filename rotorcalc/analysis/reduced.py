@@ -186,6 +186,7 @@ class ReducedModel:
         self.scale, ref = _scaling(m, k0)
         self.lu = _Compliance(k0 + SHIFT * ref ** 2 * m)
         self.largest, self.full_solves, self.rounds, self.checked = 0.0, [], 0, False
+        self._sampled = None     # (basis, {speed: (pairs, eta)}) of the last round, see solve
         n = system.n_dof
         n_modes = MODES_PER_MODE * n_solve + EXTRA_MODES
         if n_modes >= MAX_SHARE * n:
@@ -239,14 +240,16 @@ class ReducedModel:
         full = [(speed, s.damping(speed) + speed * s.gyroscopic, s.stiffness(speed))
                 for speed in samples]          # the full matrices, once for every round
         for self.rounds in range(1, ROUNDS + 1):
-            directions = []
+            directions, solved = [], {}
             for speed, d_mat, k_mat in full:
                 pairs = self._solve(speed, self.n_solve, None, None, None)
                 eta, z = self.certify(pairs.values, pairs.vectors, d_mat, k_mat)
+                solved[float(speed)] = (pairs, eta)
                 bad = eta > self.tolerance
                 if bad.any():
                     directions += [z[:, bad].real, z[:, bad].imag]
             if not directions:
+                self._sampled = (self.v, solved)
                 directions = self._missing(ends)
                 self.checked = True
                 if not directions:
@@ -349,12 +352,25 @@ class ReducedModel:
         self.largest = max(self.largest, float(eta[0]))
         return NewtonPair(pair.value, x[:, 0], float(eta[0]), pair.steps)
 
+    def _known(self, speed, n_modes, near, zeros, whirl):
+        """The pairs and residuals the basis's last round solved at ``speed`` (a sample), when
+        the basis is still the one they were solved on and they answer this solve (the same
+        modes, synchronous, no rigid-body modes); each is handed out once (then freed)."""
+        if self._sampled is None or self._sampled[0] is not self.v or near is not None \
+                or whirl is not None or zeros or n_modes != self.n_solve:
+            return None
+        return self._sampled[1].pop(float(speed), None)
+
     def solve(self, speed, n_modes, near, zeros, whirl, d_mat, k_mat):
         """Eigenpairs at ``speed``, certified, or from the full model when they are not."""
         reason = ""
         try:
-            pairs = self._solve(speed, n_modes, near, zeros, whirl)
-            eta, _, products = self._certified(pairs.values, pairs.vectors, d_mat, k_mat)
+            known = self._known(speed, n_modes, near, zeros, whirl)
+            if known is not None:       # solved and certified as the basis was built
+                (pairs, eta), products = known, None
+            else:
+                pairs = self._solve(speed, n_modes, near, zeros, whirl)
+                eta, _, products = self._certified(pairs.values, pairs.vectors, d_mat, k_mat)
             worst = float(eta.max()) if len(eta) else 0.0
             scale = float(np.abs(pairs.values).min()) if len(pairs.values) else 1.0
             if n_modes and not len(pairs.values):

@@ -229,6 +229,29 @@ def test_the_deflated_check_places_the_overdamped_eigenvalues_at_rest(monkeypatc
     assert not real_check(system.mass, d_mat, k_mat, values[keep], vectors[:, keep], 10)
 
 
+def test_the_basis_rounds_solves_serve_the_sweep(monkeypatch):
+    """The last round of the basis solves and certifies the sample speeds, which are sweep
+    speeds: the sweep takes those pairs instead of solving them again (each once), with the
+    same numbers as solving them anew, digit for digit."""
+    rotor = generated_rotor(40, mode_count=6, speed_count=30)
+    system = assemble(rotor)
+    solver = ReducedSolver()
+    model = solver.model(system, rotor.settings.mode_count)
+    sampled = set(model._sampled[1])
+    assert len(sampled) == reduced.SAMPLES and model._sampled[0] is model.v
+    calls = []
+    real_solve = ReducedModel._solve
+    monkeypatch.setattr(ReducedModel, "_solve",
+                        lambda self, speed, *a: calls.append(speed) or real_solve(self, speed, *a))
+    reused = sweep(system, solver=solver)
+    assert len(calls) == len(reused.speeds) - len(sampled)
+    assert not sampled & set(calls) and model._sampled[1] == {}
+    monkeypatch.setattr(ReducedModel, "_known", lambda self, *a: None)
+    anew = sweep(system, solver=ReducedSolver())
+    np.testing.assert_array_equal(reused.eigenvalues, anew.eigenvalues)
+    np.testing.assert_array_equal(reused.shapes, anew.shapes)
+
+
 def test_the_missing_mode_check_runs_even_when_the_rounds_run_out(monkeypatch):
     """With no round to spare (and a tolerance no basis meets), the check for missing modes
     still runs, and the summary says it did."""
