@@ -28,7 +28,7 @@ from rotorcalc.analysis import reduced
 from rotorcalc.analysis.reduced import ReducedModel, ReducedSolver, sweep_solver
 from rotorcalc.analysis.sweep import default_speeds
 from rotorcalc.assembly import assemble
-from rotorcalc.solvers import RADIUS_RATIO, AutoSolver, DenseSolver
+from rotorcalc.solvers import RADIUS_RATIO, AutoSolver, DenseSolver, none_missed
 from tests.benchmarks.generated import generated_rotor
 from tests.conftest import ROOT
 from tests.verification.record import check
@@ -153,6 +153,18 @@ def test_the_end_check_finds_a_mode_the_basis_lacks():
     assert len(model._missing([speeds[0]])) >= 2
 
 
+def _spy_on_the_checks(monkeypatch):
+    """Lists that record each deflated check's answer and each full solve of the reduced
+    path (the functions themselves still run)."""
+    said, solved = [], []
+    real_check, real_full = reduced.none_missed, reduced.AutoSolver.__call__
+    monkeypatch.setattr(reduced, "none_missed",
+                        lambda *a: said.append(real_check(*a)) or said[-1])
+    monkeypatch.setattr(reduced.AutoSolver, "__call__",
+                        lambda self, *a, **k: solved.append(1) or real_full(self, *a, **k))
+    return said, solved
+
+
 def test_the_deflated_check_finds_a_mode_the_reduced_model_lacks(monkeypatch):
     """At the top sample (no overdamped eigenvalue in the disk there) the deflated check runs
     before any full solve: with every reduced pair it finds nothing missing and no full solve
@@ -163,12 +175,7 @@ def test_the_deflated_check_finds_a_mode_the_reduced_model_lacks(monkeypatch):
     speeds = np.linspace(0.0, 1000.0, 5)
     model = ReducedModel(system, 8, speeds)
     top = speeds[-1]
-    said, solved = [], []
-    real_check, real_full = reduced.none_missed, reduced.AutoSolver.__call__
-    monkeypatch.setattr(reduced, "none_missed",
-                        lambda *a: said.append(real_check(*a)) or said[-1])
-    monkeypatch.setattr(reduced.AutoSolver, "__call__",
-                        lambda self, *a, **k: solved.append(1) or real_full(self, *a, **k))
+    said, solved = _spy_on_the_checks(monkeypatch)
     assert model._missing([top]) == [] and said == [True] and solved == []
     real_solve = model._solve
 
@@ -215,18 +222,13 @@ def test_the_deflated_check_places_the_overdamped_eigenvalues_at_rest(monkeypatc
           "disk, reduced model against the full one, largest relative difference",
           "dense full-model solve (LAPACK)", 0.0,
           float(np.max(np.abs(np.sort(mine) - np.sort(inside)) / np.abs(inside))), 1e-7, "abs")
-    said, solved = [], []
-    real_check, real_full = reduced.none_missed, reduced.AutoSolver.__call__
-    monkeypatch.setattr(reduced, "none_missed",
-                        lambda *a: said.append(real_check(*a)) or said[-1])
-    monkeypatch.setattr(reduced.AutoSolver, "__call__",
-                        lambda self, *a, **k: solved.append(1) or real_full(self, *a, **k))
+    said, solved = _spy_on_the_checks(monkeypatch)
     assert model._missing([0.0]) == [] and said == [False, True] and solved == []
     values, vectors = np.concatenate([pairs.values, real[sure]]), np.hstack([pairs.vectors,
                                                                              x[:, sure]])
-    assert real_check(system.mass, d_mat, k_mat, values, vectors, 10)
+    assert none_missed(system.mass, d_mat, k_mat, values, vectors, 10)
     keep = np.arange(len(values)) != 9
-    assert not real_check(system.mass, d_mat, k_mat, values[keep], vectors[:, keep], 10)
+    assert not none_missed(system.mass, d_mat, k_mat, values[keep], vectors[:, keep], 10)
 
 
 def test_the_basis_rounds_solves_serve_the_sweep(monkeypatch):
