@@ -18,7 +18,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .modes import forward_fraction, log_decrement
+from .modes import Readings
 from .pair_newton import follow, state_matrices
 from .tracking import mac_matrix
 
@@ -88,24 +88,12 @@ def judged(modes, j):
 
 
 @dataclass(frozen=True)
-class Followed:
+class Followed(Readings):
     """The modes Newton's method reached, read as :func:`nearest_forward` reads a solve's."""
 
     eigenvalues: np.ndarray
     shapes: np.ndarray
     vectors: np.ndarray
-
-    @property
-    def frequency(self):
-        return self.eigenvalues.imag
-
-    @property
-    def log_dec(self):
-        return log_decrement(self.eigenvalues)
-
-    @property
-    def forward_fraction(self):
-        return forward_fraction(self.shapes)
 
 
 def follow_near(system, speed, start):

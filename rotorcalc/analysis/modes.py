@@ -181,8 +181,26 @@ def _check_digits(values, rayleigh, speed):
             "stiff bearing as a pin of 1e3 x the shaft's stiffness")
 
 
+class Readings:
+    """What a result with complex ``eigenvalues`` (rad/s) and node ``shapes`` reads off them,
+    point by point: damped natural frequency (rad/s), log decrement, forward share."""
+
+    @property
+    def frequency(self):
+        """Damped natural frequency, rad/s."""
+        return self.eigenvalues.imag
+
+    @property
+    def log_dec(self):
+        return log_decrement(self.eigenvalues)
+
+    @property
+    def forward_fraction(self):
+        return forward_fraction(self.shapes)
+
+
 @dataclass(frozen=True)
-class Modes:
+class Modes(Readings):
     """Damped modes of a rotor at one speed.
 
     Attributes
@@ -214,11 +232,6 @@ class Modes:
         read_only(self)
 
     @property
-    def frequency(self):
-        """Damped natural frequency, rad/s."""
-        return self.eigenvalues.imag
-
-    @property
     def frequency_hz(self):
         return to_hz(self.frequency)
 
@@ -229,14 +242,6 @@ class Modes:
     @property
     def damping_ratio(self):
         return -self.eigenvalues.real / np.abs(self.eigenvalues)
-
-    @property
-    def log_dec(self):
-        return log_decrement(self.eigenvalues)
-
-    @property
-    def forward_fraction(self):
-        return forward_fraction(self.shapes)
 
     @property
     def whirl(self):

@@ -20,7 +20,7 @@ from ..notices import Notice, record
 from ..units import to_hz, to_rpm
 from ..workers import worker_count, worker_pool  # noqa: F401 (the sweep's options)
 from .reduced import Reduction, sweep_solver
-from .modes import forward_fraction, log_decrement, modes_at, read_only, whirl_label
+from .modes import Readings, modes_at, read_only, whirl_label
 from .tracking import track
 
 #: Modes solved beyond the ones reported, so a branch that climbs past the
@@ -73,7 +73,7 @@ def with_operating_speeds(grid, operating, more=()):
 
 
 @dataclass(frozen=True)
-class Sweep:
+class Sweep(Readings):
     """Tracked modes over a speed sweep.
 
     Attributes
@@ -104,18 +104,6 @@ class Sweep:
 
     def __post_init__(self):
         read_only(self)
-
-    @property
-    def frequency(self):
-        return self.eigenvalues.imag
-
-    @property
-    def log_dec(self):
-        return log_decrement(self.eigenvalues)
-
-    @property
-    def forward_fraction(self):
-        return forward_fraction(self.shapes)
 
     @property
     def present(self):
