@@ -4,8 +4,7 @@ At the maximum continuous speed, a cross-coupled stiffness ``q`` (force on the s
 ``-[[0, q], [-q, 0]] (x, y)``: tangential, in the sense of forward whirl) is applied at the
 chosen stations and swept from zero to several times the expected amount.  The first forward
 mode is followed by its shape (the modal assurance criterion against the previous step, not
-by its place in the frequency order; :mod:`.coupling_follow`: by Newton's method from the step
-before where it can, checked against solves), and its log decrement read at every step.  Where that
+by its place in the frequency order), and its log decrement read at every step.  Where that
 log decrement crosses zero is refined by Brent's method: the threshold amount.  The verdict
 compares the log decrement at the expected amount and the ratio threshold / expected with the
 screening criteria (common practice, from memory; both selectable).
@@ -37,10 +36,10 @@ from ..vocabulary import BearingRole, Outcome
 from .margins import CAUTION
 from ..solvers import NUMERICAL_FAILURES
 from .modes import modes_at, read_only
-from .coupling_follow import Judged, first_forward, follow_near, judged, nearest_forward
 from .projected import ProjectedSolver
 from .own_frequency import at_own_frequency, own_frequency_notes
 from .sources_check import SourcesCheck, _synchronous_note, sources_check  # noqa: F401
+from .tracking import mac_matrix
 
 #: Steps of the sweep from zero to the top amount.
 STEPS = 41
@@ -163,6 +162,45 @@ def applied_sources(shares, total):
                  for i, (station, share) in enumerate(shares))
 
 
+def _first_forward(modes):
+    """Index of the lowest forward-whirling mode (None when there is none)."""
+    for i in np.argsort(modes.frequency):
+        if modes.forward_fraction[i] >= 0.5 and modes.frequency[i] > 0:
+            return int(i)
+    return None
+
+
+#: A mode mixed with the followed one lies this close in frequency (a share of it): the
+#: supports' small anisotropy splits the pair.
+PAIR_SPREAD = 0.25
+#: ... and deflects alike: the assurance criterion of the two modes' deflections (each
+#: station's orbit size, whatever its whirl) at least this.
+PAIR_ALIKE = 0.9
+
+
+def _nearest_forward(modes, reference):
+    """Index of the mode to judge: the mode most like ``reference`` (modal assurance
+    criterion) or, where it belongs to a mixed pair, the pair's more forward mode.
+
+    Near-isotropic supports mix the first backward and forward modes into two elliptical
+    whirls of one deflected shape (on straight lines, forward share 0.5 each, where the
+    supports' anisotropy outweighs the cross-coupling) whose forward shares change with the
+    applied amount: the mode that was forward at zero may turn backward as the amount grows
+    while its partner turns forward and loses its damping.  Following the shape alone
+    follows the first; the screen judges the forward one.  The pair: modes within
+    :data:`PAIR_SPREAD` in frequency whose deflections (orbit size at each node) agree to
+    :data:`PAIR_ALIKE` (assurance criterion)."""
+    best = int(np.argmax(mac_matrix(reference[None], modes.shapes)[0]))
+    size = np.sqrt(np.sum(np.abs(modes.shapes) ** 2, axis=-1))          # (modes, nodes)
+    alike = mac_matrix(size[best][None], size)[0] >= PAIR_ALIKE
+    near = np.abs(modes.frequency - modes.frequency[best]) <= PAIR_SPREAD * modes.frequency[best]
+    pair = np.flatnonzero(alike & near)
+    share = modes.forward_fraction[pair]
+    if share.max() - modes.forward_fraction[best] <= 1e-9:
+        return best
+    return int(pair[np.argmax(share)])
+
+
 def _station_shares(rotor, placement, speed, mode_count):
     if placement == "sources":
         qs = [(s.station, source_q(s, rotor.operating.max_speed)) for s in rotor.sources]
@@ -180,7 +218,7 @@ def _station_shares(rotor, placement, speed, mode_count):
     # largest first-mode amplitude among the stations, without the sources
     bare = dataclasses.replace(rotor, sources=())
     modes = modes_at(bare, speed, mode_count)
-    first = first_forward(modes)
+    first = _first_forward(modes)
     if first is None:
         raise _no_forward_mode()
     system = assemble(bare)
@@ -216,9 +254,6 @@ class _Judge:
         self.own, self.notes = own, []
         self.bare = assemble(rotor)      # once: each amount changes only the sources
         self.solver, self.solved = None, {}     # the projection; amount -> (system, modes)
-        # Newton's method from amount to amount (not where each mode is iterated to its own
-        # whirl frequency); amount -> (judged eigenvalue, reference) of its answers
-        self.newton, self.by_newton = not (own and self.bare.whirl_dependent), {}
 
     def project(self, top):
         """Solve the amounts that follow on a basis (:mod:`.projected`): the modes with none
@@ -239,19 +274,10 @@ class _Judge:
             self.solver = ProjectedSolver(np.hstack([ends[0].vectors, ends[1].vectors, static]))
 
     def verify(self, q):
-        """Check what was judged at ``q`` by Newton's method against a solve (the same mode
-        chosen, its eigenvalue within :data:`PROJECTION_MATCH`; else Newton's method is
-        dropped), then the projected modes at ``q`` against a full solve: every full-model
-        mode must have a projected one within :data:`PROJECTION_MATCH` (a mode the basis
-        lacks would be off by far more).  On a miss the projection is dropped and every
-        amount is solved in full.  True when both stand (or were not used)."""
-        if q in self.by_newton:
-            value, reference = self.by_newton[q]
-            _, modes = self.modes(q)
-            j = nearest_forward(modes, reference.shape)
-            if not abs(modes.eigenvalues[j] - value) <= PROJECTION_MATCH * abs(value):
-                self.newton, self.by_newton = False, {}
-                return False
+        """Check the projected modes at ``q`` against a full solve: every full-model mode
+        must have a projected one within :data:`PROJECTION_MATCH` (a mode the basis lacks
+        would be off by far more).  On a miss the projection is dropped and every amount
+        is solved in full.  True when the projection stands (or was not used)."""
         if self.solver is None:
             return True
         _, projected = self.modes(q)
@@ -274,25 +300,16 @@ class _Judge:
         return self.solved[q]
 
     def __call__(self, q, reference=None):
-        """(log dec, frequency rad/s, :class:`~.coupling_follow.Judged`) of the judged mode
-        with ``q`` (N/m) applied; ``reference`` the judged one at the amount before (by
-        Newton's method from it where it can, :mod:`.coupling_follow`)."""
-        if reference is not None and reference.near and self.newton:
-            found = follow_near(with_sources(self.bare, applied_sources(self.shares, q)),
-                                self.speed, reference)
-            if found is not None:
-                j = nearest_forward(found, reference.shape)
-                self.by_newton[q] = (found.eigenvalues[j], reference)
-                return float(found.log_dec[j]), float(found.frequency[j]), judged(found, j)
+        """(log dec, frequency rad/s, shape) of the judged mode with ``q`` (N/m) applied."""
         system, modes = self.modes(q)
         if reference is None:
-            j = first_forward(modes)
+            j = _first_forward(modes)
             if j is None:
                 raise _no_forward_mode()
         else:
-            j = nearest_forward(modes, reference.shape)
+            j = _nearest_forward(modes, reference)
         if not (self.own and system.whirl_dependent):
-            return float(modes.log_dec[j]), float(modes.frequency[j]), judged(modes, j)
+            return float(modes.log_dec[j]), float(modes.frequency[j]), modes.shapes[j]
         r = at_own_frequency(system, self.speed, modes.shapes[j], modes.frequency[j],
                              modes.log_dec[j], self.mode_count, value=modes.eigenvalues[j],
                              vector=modes.vectors[:, j])
@@ -300,7 +317,7 @@ class _Judge:
                                         "the first forward mode with q ="):
             if note not in self.notes:
                 self.notes.append(note)
-        return r.log_dec, r.frequency, Judged(r.shape)
+        return r.log_dec, r.frequency, r.shape
 
 
 def _follow(judge, amounts):
@@ -365,10 +382,9 @@ def cross_coupling_screen(rotor, expected=None, placement=None, top_ratio=None,
     while True:
         log_dec, freq, shapes = _follow(judge, amounts)
         threshold = _threshold(judge, amounts, log_dec, shapes, xtol_share * amounts[-1])
-        # no mode missing from the basis, the mode Newton's method followed the one a solve
-        # picks: checked at the middle amount, the expected one and the threshold; a miss
-        # drops the basis or Newton's method and solves again
-        checks = list(dict.fromkeys([amounts[len(amounts) // 2], expected, threshold or expected]))
+        # no mode missing from the basis: checked in full at the middle amount and at the
+        # threshold (or the expected amount); a miss drops the basis and solves again
+        checks = [amounts[len(amounts) // 2], expected if not threshold else threshold]
         if all(judge.verify(q) for q in checks):
             break
     notes = judge.notes + _synchronous_note(bare, criteria)

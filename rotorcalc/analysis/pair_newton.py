@@ -129,7 +129,7 @@ class Singular(np.linalg.LinAlgError):
 FOLLOW_MAC = 0.98
 
 
-def follow(system, speed, value, vector, shape, whirl=None, reduced=None, matrices=None):
+def follow(system, speed, value, vector, shape, whirl=None, reduced=None):
     """(eigenvalue, shape, vector) of the mode of ``system`` at ``speed`` (rad/s; bearing
     tables over whirl frequency read at ``whirl``) that Newton's method reaches from the
     eigenpair ``(value, vector)`` of a nearby state, checked like a solved mode
@@ -142,13 +142,13 @@ def follow(system, speed, value, vector, shape, whirl=None, reduced=None, matric
     step is an inverse iteration, a rough start will do).  ``reduced``, a
     :class:`~rotorcalc.analysis.reduced.ReducedModel` of ``system``: the steps run on its
     projected model, the answer certified in the full one
-    (:meth:`~.reduced.ReducedModel.newton`).  ``matrices``: ``(C, D, K)`` of ``system`` at
-    ``speed`` (``D = C + speed G``) when the caller has them (several modes of one state)."""
+    (:meth:`~.reduced.ReducedModel.newton`)."""
     if vector is None:
         vector = np.zeros(system.mass.shape[0], dtype=complex)
         tdofs = system.translation_dofs
         vector[tdofs[:, 0]], vector[tdofs[:, 1]] = shape[:, 0], shape[:, 1]
-    c_mat, d_mat, k_mat = state_matrices(system, speed, whirl) if matrices is None else matrices
+    c_mat, k_mat = system.damping(speed, whirl), system.stiffness(speed, whirl)
+    d_mat = c_mat + speed * system.gyroscopic
     pair = newton_pair(system.mass, d_mat, k_mat, value, vector) if reduced is None else \
         reduced.newton(speed, value, vector, d_mat, k_mat, whirl)
     if pair is None or not pair.value.imag > OSCILLATORY * abs(pair.value):
@@ -161,12 +161,6 @@ def follow(system, speed, value, vector, shape, whirl=None, reduced=None, matric
     if mac_matrix(np.asarray(shape)[None], shapes)[0, 0] < FOLLOW_MAC:
         return None
     return values[0], shapes[0], vectors[:, 0]
-
-
-def state_matrices(system, speed, whirl=None):
-    """``(C, D, K)`` of ``system`` at spin speed ``speed``, ``D = C + speed G``."""
-    c_mat = system.damping(speed, whirl)
-    return c_mat, c_mat + speed * system.gyroscopic, system.stiffness(speed, whirl)
 
 
 class _Quadratic:

@@ -13,10 +13,6 @@ and each placement:
 * every projected pair certified (relative backward error at most 1e-10), and no amount
   solved in full on these cases; the full-solve check of the middle and threshold amounts
   finds no mode missing (else the projection would be dropped).
-
-The same holds for the screen as it runs by default, its modes followed from amount to amount
-by Newton's method (rotorcalc.analysis.coupling_follow), which a check against solves at the
-middle, expected and threshold amounts drops on any difference.
 """
 
 import dataclasses
@@ -40,10 +36,8 @@ CASES = [("compressor", "sources"), ("compressor", "mid-span"),
          ("feed_pump_sleeve", "mid-span")]
 
 
-def _screens(rotor, placement, monkeypatch, newton=False):
-    """(screen on the projection, its solver, full screen); Newton's method from amount to
-    amount (:mod:`rotorcalc.analysis.coupling_follow`) off unless ``newton``, and off in the
-    full screen: every amount solved there."""
+def _screens(rotor, placement, monkeypatch):
+    """(projected screen, its solver, full screen)."""
     made = []
     project = module._Judge.project
 
@@ -53,12 +47,9 @@ def _screens(rotor, placement, monkeypatch, newton=False):
     expected = None if rotor.sources else 1e6
     with monkeypatch.context() as patch:
         patch.setattr(module._Judge, "project", recording)
-        if not newton:
-            patch.setattr(module, "follow_near", lambda *a: None)
         fast = module.cross_coupling_screen(rotor, expected=expected, placement=placement)
     with monkeypatch.context() as patch:
         patch.setattr(module._Judge, "project", lambda judge, top: None)
-        patch.setattr(module, "follow_near", lambda *a: None)
         full = module.cross_coupling_screen(rotor, expected=expected, placement=placement)
     return fast, made[0], full
 
@@ -78,57 +69,6 @@ def test_the_projected_screen_equals_the_full_one(name, placement, monkeypatch):
     else:
         check(f"{name}, {placement}: threshold amount on the projected basis, N/m", SOURCE,
               full.threshold, fast.threshold, 1e-5, "rel")
-
-
-#: Cases whose screen reads the tables at the spin speed (Newton's method is not used where each
-#: mode is iterated to its own whirl frequency).
-SYNCHRONOUS = [c for c in CASES if c[0] not in ("compressor_tilting_pad",
-                                                 "hp_compressor_damper_seal")]
-
-
-@pytest.mark.parametrize("name,placement", SYNCHRONOUS)
-def test_the_screen_followed_by_newtons_method_equals_the_full_one(name, placement,
-                                                                    monkeypatch):
-    """From the second amount on, the judged mode and every mode near it in frequency are
-    followed by Newton's method; the full screen (every amount solved, no projection) is the
-    reference: the same log decrements (1e-9) and thresholds (1e-5 relative), with only the
-    first amount and the checked ones solved on the projection."""
-    rotor = read_rotor(ROOT / "cases" / f"{name}.toml")
-    fast, solver, full = _screens(rotor, placement, monkeypatch, newton=True)
-    assert solver.projected <= 4 and solver.full_solves == 0
-    check(f"{name}, {placement}: cross-coupling screen followed by Newton's method, largest "
-          f"log decrement difference over {len(full.applied)} amounts", SOURCE, 0.0,
-          float(np.max(np.abs(fast.log_dec - full.log_dec))), 1e-9, "abs")
-    if full.threshold is None:
-        assert fast.threshold is None
-    else:
-        check(f"{name}, {placement}: threshold amount followed by Newton's method, N/m",
-              SOURCE, full.threshold, fast.threshold, 1e-5, "rel")
-
-
-def test_newtons_method_is_dropped_when_a_check_finds_another_mode(monkeypatch):
-    """Newton's answers standing in for another mode (here the judged mode's eigenvalue moved
-    by 1e-4 at every amount): the check at the middle, expected and threshold amounts against
-    a solve finds the difference, drops Newton's method and solves every amount: the screen
-    is then the projection's, digit for digit."""
-    rotor = read_rotor(ROOT / "cases" / "compressor.toml")
-    real = module.follow_near
-
-    def off(*args):
-        found = real(*args)
-        return None if found is None else dataclasses.replace(
-            found, eigenvalues=found.eigenvalues * (1 + 1e-4))
-    judges = []
-    init = module._Judge.__init__
-    with monkeypatch.context() as patch:
-        patch.setattr(module, "follow_near", off)
-        patch.setattr(module._Judge, "__init__",
-                      lambda self, *a: init(self, *a) or judges.append(self))
-        moved = module.cross_coupling_screen(rotor)
-    assert judges[0].newton is False and judges[0].by_newton == {}
-    projected, _, _ = _screens(rotor, "sources", monkeypatch)
-    np.testing.assert_array_equal(moved.log_dec, projected.log_dec)
-    assert moved.threshold == projected.threshold
 
 
 def test_a_pair_that_fails_its_certificate_is_solved_in_full(monkeypatch):
