@@ -119,6 +119,11 @@ class SystemMatrices:
         return DOF_PER_NODE * node + np.arange(DOF_PER_NODE)
 
     @property
+    def every_link(self):
+        """The bearings' and seals' links, then the destabilising sources'."""
+        return self.links + self.source_links
+
+    @property
     def translation_dofs(self):
         """(n_nodes, 2) global DOFs of x and y at every shaft node."""
         base = DOF_PER_NODE * np.arange(self.mesh.n_nodes)
@@ -129,8 +134,7 @@ class SystemMatrices:
         as a sparse matrix; ``part`` maps each 2x2 block first (the reduced basis's
         reference keeps the direct terms)."""
         rows, cols, data = [], [], []
-        for link, (k2, c2) in zip(self.links + self.source_links,
-                                  self._coefficients(omega, whirl)):
+        for link, (k2, c2) in zip(self.every_link, self._coefficients(omega, whirl)):
             block = k2 if which == "k" else c2
             local = fe_bearing.element(block if part is None else part(block), len(link.dofs))
             r, c = np.meshgrid(link.dofs, link.dofs, indexing="ij")
@@ -148,7 +152,7 @@ class SystemMatrices:
         if key not in self._last:
             self._last.clear()
             self._last[key] = [link.bearing.matrices(omega, whirl)
-                               for link in self.links + self.source_links]
+                               for link in self.every_link]
         return self._last[key]
 
     def stiffness(self, omega, whirl=None):
@@ -164,7 +168,7 @@ class SystemMatrices:
     @property
     def whirl_dependent(self):
         """The bearings, seals and sources whose coefficients depend on whirl frequency."""
-        return tuple(link.bearing for link in self.links + self.source_links
+        return tuple(link.bearing for link in self.every_link
                      if link.bearing.whirl_dependent)
 
     def rigid_body_basis(self, omega):
@@ -416,7 +420,7 @@ _LOCK = threading.Lock()
 def _scatter(system, which):
     """The :class:`_Scatter` of ``system``'s K (``which="k"``) or C, found once per constant
     part and link layout."""
-    links = system.links + system.source_links
+    links = system.every_link
     constant = ((system.shaft_stiffness, system.support_stiffness) if which == "k"
                 else (system.support_damping,))
     key = (which, tuple(id(x) for x in constant),

@@ -44,7 +44,7 @@ class HarmonicSolver:
         parts = [s.mass, s.gyroscopic, s.shaft_stiffness + s.support_stiffness, s.support_damping]
         pattern = sum(abs(x) for x in parts)
         rows, cols = [], []
-        for link in s.links + s.source_links:  # bearing cross terms appear at every speed
+        for link in s.every_link:  # bearing cross terms appear at every speed
             r, c = np.meshgrid(link.dofs, link.dofs, indexing="ij")
             rows.append(r.ravel())
             cols.append(c.ravel())
@@ -75,7 +75,7 @@ class HarmonicSolver:
             return out
 
         self.m, self.g, self.k, self.c = (on_pattern(x) for x in parts)
-        self.links = [(link, at(r, c)) for link, r, c in zip(s.links + s.source_links, rows, cols)]
+        self.links = [(link, at(r, c)) for link, r, c in zip(s.every_link, rows, cols)]
 
     def _values(self, omega):
         """``Z(omega)`` on the fixed pattern (values in pattern order)."""
@@ -91,6 +91,14 @@ class HarmonicSolver:
         return (s.stiffness(omega) - omega * omega * s.mass
                 + 1j * omega * (s.damping(omega) + omega * s.gyroscopic))
 
+    def _factored(self, omega):
+        """A solve with ``Z(omega)``: its values placed straight into LAPACK's band storage
+        (positions found once), or SuperLU's for a wide band."""
+        z, n = self._values(omega), self.system.n_dof
+        if self.positions is not None:
+            return band_lu(self.positions, z, n, self.band)
+        return _factor(sp.coo_matrix((z, (self.row, self.col)), shape=(n, n)), self.band)
+
     @one_blas_thread
     def solve(self, omega, rhs):
         """Solve ``Z(omega) Q = rhs`` (``rhs`` (n_dof, k) complex).
@@ -99,14 +107,11 @@ class HarmonicSolver:
         response is unbounded there); the solve then moves by one part in 1e9
         of the speed, where the response is finite and huge, as it should be.
         """
-        p, n = self.order, self.system.n_dof
+        p = self.order
         for shift in (0.0, 1e-9, -1e-9):
             w = omega * (1.0 + shift)
             try:
-                solve = _factor(sp.coo_matrix((self._values(w), (self.row, self.col)),
-                                              shape=(n, n)), self.band) \
-                    if self.positions is None else \
-                    band_lu(self.positions, self._values(w), n, self.band)
+                solve = self._factored(w)
                 break
             except (RuntimeError, np.linalg.LinAlgError):  # exactly singular
                 continue

@@ -92,11 +92,6 @@ class ProjectedSolver:
                 f"{self.full_solves} full solves")
 
 
-def links(system):
-    """Every bearing, seal and source link of ``system``."""
-    return system.links + system.source_links
-
-
 class Projection:
     """A system's matrices on a real basis ``v`` (n_dof, r): the constant parts projected
     once; a bearing whose coefficients change with speed changes only its few-DOF term,
@@ -104,7 +99,7 @@ class Projection:
     :mod:`.response_surrogate`)."""
 
     def __init__(self, system, v):
-        self.links = links(system)
+        self.links = system.every_link
         self.m = v.T @ (system.mass @ v)
         self.g = v.T @ (system.gyroscopic @ v)
         self.k = v.T @ ((system.shaft_stiffness + system.support_stiffness) @ v)

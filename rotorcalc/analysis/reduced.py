@@ -53,7 +53,7 @@ from ..solvers import (NUMERICAL_FAILURES, AutoSolver, DenseSolver, SparseSolver
                        _scaling, make_solver, none_missed, real_eigenpairs)
 from .modes import GROWTH_RTOL
 from .pair_newton import NewtonPair, mixed, newton_pair
-from .projected import Projection, links
+from .projected import Projection
 
 #: Largest preconditioned relative residual accepted (to first order about twice the
 #: relative eigenvalue error of a well-conditioned mode): the eigenvalues then agree with
@@ -205,7 +205,7 @@ class ReducedModel:
     def _loads(self):
         """Unit forces at every bearing, seal and support DOF; unit moments at the disks."""
         system = self.system
-        dofs = {int(d) for link in links(system) for d in link.dofs}
+        dofs = {int(d) for link in system.every_link for d in link.dofs}
         for disk in system.rotor.disks:
             if disk.polar_inertia > 0 or disk.transverse_inertia > 0:
                 node = system.mesh.station_nodes[disk.station]
