@@ -1,6 +1,6 @@
 """Where rotorcalc keeps, between runs, what it computes once for many: the film tables
-(:mod:`rotorcalc.bearings.film_cache`) and pint's parsed unit definitions (a ``units``
-folder inside).
+(:mod:`rotorcalc.bearings.film_cache`), pint's parsed unit definitions and the quantity
+texts read before (:mod:`rotorcalc.quantity_memo`), both in a ``units`` folder inside.
 
 ``$ROTORCALC_CACHE`` names the folder (``off`` keeps nothing on disk), else
 ``$XDG_CACHE_HOME/rotorcalc/films`` or ``~/.cache/rotorcalc/films``.  Delete it to clear

@@ -5,17 +5,22 @@ done by pint, whose expression parser is a small grammar of its own (no Python
 ``eval``).  A bare number is taken as SI, except for a rotational speed: there
 rpm, Hz and rad/s differ by factors of 6 to 60, so a speed needs its unit
 everywhere (in the rotor file and on the command line); only 0 may stand bare.
+A text read once is remembered between runs (:mod:`rotorcalc.quantity_memo`): pint is
+imported only for a text not read before.
 """
 
 from __future__ import annotations
 
+import functools
 import math
 import re
 from dataclasses import dataclass
 
+from . import quantity_memo
 from .errors import InputError
 
 
+@functools.cache
 def _import_pint():
     """pint, imported without dask: pint imports dask whenever it is installed (for arrays
     of quantities, which rotorcalc never makes), 0.17 s of every command on this machine.
@@ -34,14 +39,11 @@ def _import_pint():
     return pint
 
 
-pint = _import_pint()
-
-
-
 def _registry():
     """pint's registry, its parsed definitions kept between runs in the cache folder's
     ``units`` (:mod:`rotorcalc.cache`; a tenth of the time of parsing them, which every
     command paid); built afresh when the cache is off or cannot be used."""
+    pint = _import_pint()
     from .cache import folder
     where = folder()
     if where is not None:
@@ -53,10 +55,16 @@ def _registry():
     return pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
 
 
-_UREG = _registry()
-_UREG.define("cycles_per_minute = revolution / minute = cpm")
-_UREG.define("@alias revolution = rev")
-_UREG.define("@alias revolutions_per_minute = RPM")
+@functools.cache
+def _ureg():
+    """The registry every text is read with, with the rotor files' own definitions; made on
+    first use (a text not read before: :mod:`rotorcalc.quantity_memo`)."""
+    registry = _registry()
+    registry.define("cycles_per_minute = revolution / minute = cpm")
+    registry.define("@alias revolution = rev")
+    registry.define("@alias revolutions_per_minute = RPM")
+    return registry
+
 
 #: Angular speeds: pint takes Hz as 1/s, which would read "50 Hz" as 50 rad/s.
 #: For a rotational speed or frequency, Hz means revolutions per second.
@@ -82,7 +90,7 @@ class Dimension:
 
     @property
     def dimensionality(self):
-        return _UREG.Quantity(1.0, self.si_unit).dimensionality
+        return _ureg().Quantity(1.0, self.si_unit).dimensionality
 
 
 LENGTH = Dimension("length", "m", '"80 mm", "3.5 in"', 1e-6, 1e3)          # 1 um to 1 km
@@ -186,19 +194,24 @@ def _bounded(text, key, expected):
 def _parse_text(text, dim, key, expected):
     if not text.strip():
         raise InputError(key, "is empty", value=text, expected=expected, kind="missing")
+    known = quantity_memo.recall(text.strip(), dim.name)
+    if known is not None:
+        return known
     _bounded(text, key, expected)
     try:
-        quantity = _UREG.Quantity(text.strip())
+        quantity = _ureg().Quantity(text.strip())
     except Exception as exc:  # pint raises a zoo of parser errors
         raise InputError(key, f"cannot be read as a quantity ({type(exc).__name__})",
                          value=text, expected=expected, kind="unit") from None
     try:
-        return _to_si(quantity, dim, key, text, expected)
+        number = _to_si(quantity, dim, key, text, expected)
     except InputError:
         raise
     except Exception as exc:  # overflow of huge numbers and the like
         raise InputError(key, f"cannot be converted ({type(exc).__name__})", value=text,
                          expected=expected, kind="unit") from None
+    quantity_memo.remember(text.strip(), dim.name, number)
+    return number
 
 
 def _bare_speed(key, value):
@@ -215,7 +228,8 @@ def _bare_temperature(key, value):
 
 
 def _to_si(quantity, dim, key, text, expected):
-    if not isinstance(quantity, _UREG.Quantity):
+    ureg = _ureg()
+    if not isinstance(quantity, ureg.Quantity):
         number = float(quantity)  # plain number written as text: SI
         if dim is SPEED and number != 0.0:
             raise _bare_speed(key, text)
@@ -236,7 +250,7 @@ def _to_si(quantity, dim, key, text, expected):
         names = str(quantity.units)
         has_angle = any(name in names for name in _ANGLE_NAMES)
         if any(name in names for name in _HZ_NAMES) and not has_angle:
-            quantity = quantity * _UREG.Quantity(2.0 * math.pi, "rad")   # Hz: rev/s
+            quantity = quantity * ureg.Quantity(2.0 * math.pi, "rad")   # Hz: rev/s
         elif not has_angle:
             # "50 /s" or "50 cps" (pint: counts per second) would silently lose 2 pi
             raise InputError(key, "has no angle or revolution in its unit", value=text,
@@ -244,7 +258,7 @@ def _to_si(quantity, dim, key, text, expected):
         # with an angle in the unit, Hz is 1/s: "150 rad*Hz" is 150 rad/s
     try:
         return float(quantity.to(dim.si_unit).magnitude)
-    except pint.DimensionalityError:
+    except _import_pint().DimensionalityError:
         article = "an" if dim.name[0] in "aeiou" else "a"
         raise InputError(key, f"has units of {quantity.dimensionality}, not {article} {dim.name}",
                          value=text, expected=expected, kind="unit") from None
