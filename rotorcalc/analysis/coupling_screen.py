@@ -162,10 +162,17 @@ def applied_sources(shares, total):
                  for i, (station, share) in enumerate(shares))
 
 
+#: A forward share within this of one half is a straight-line whirl: roundoff alone puts it
+#: on one side (the projection's basis changed which of two such modes was "forward").
+STRAIGHT_LINE = 1e-6
+
+
 def _first_forward(modes):
-    """Index of the lowest forward-whirling mode (None when there is none)."""
+    """Index of the lowest mode whirling forward or on a straight line (None when there is
+    none): anisotropic supports without cross-coupling give straight-line whirls, the lowest
+    of which the applied amount turns forward (:func:`_nearest_forward` follows it)."""
     for i in np.argsort(modes.frequency):
-        if modes.forward_fraction[i] >= 0.5 and modes.frequency[i] > 0:
+        if modes.forward_fraction[i] >= 0.5 - STRAIGHT_LINE and modes.frequency[i] > 0:
             return int(i)
     return None
 

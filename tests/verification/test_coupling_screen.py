@@ -29,6 +29,7 @@ import numpy as np
 import pytest
 
 from rotorcalc import standards
+from rotorcalc.analysis import coupling_screen
 from rotorcalc.analysis.coupling_screen import cross_coupling_screen
 from rotorcalc.rules import CouplingRule
 from rotorcalc.model import Bearing, OperatingRange
@@ -126,7 +127,9 @@ def test_the_followed_mode_is_forward_and_keeps_its_frequency(screen):
 ANISO = "Anisotropic cross-coupled Jeffcott rotor (derived from the same equations)"
 
 
-def test_the_screen_follows_the_mode_that_turns_forward_on_anisotropic_supports():
+def anisotropic_jeffcott():
+    """The Jeffcott rotor on supports stiffer in y by 2 delta, damped at the disk; with the
+    threshold sqrt((c w)^2 + delta^2) of its forward root."""
     delta = 0.2 * Q0                                # half the difference k_y - k_x, N/m
     damper = Bearing(1, {"kxx": (0.0,), "kyy": (2.0 * delta,), "cxx": (C_DISK,),
                          "cyy": (C_DISK,)}, name="disk damper")
@@ -136,7 +139,11 @@ def test_the_screen_follows_the_mode_that_turns_forward_on_anisotropic_supports(
                              operating=OperatingRange(240.0, 300.0), mode_count=2)
     k_mean = K_EFF + delta
     w = math.sqrt(k_mean / MJ)
-    q0 = math.sqrt((C_DISK * w) ** 2 + delta ** 2)
+    return rotor, delta, k_mean, math.sqrt((C_DISK * w) ** 2 + delta ** 2)
+
+
+def test_the_screen_follows_the_mode_that_turns_forward_on_anisotropic_supports():
+    rotor, delta, k_mean, q0 = anisotropic_jeffcott()
     result = cross_coupling_screen(rotor, expected=q0 / 2.5, placement="mid-span",
                                    xtol_share=1e-10)
     check("Anisotropic Jeffcott: threshold sqrt((c w)^2 + delta^2)", ANISO, q0,
@@ -148,6 +155,22 @@ def test_the_screen_follows_the_mode_that_turns_forward_on_anisotropic_supports(
           -2.0 * math.pi * s.real / s.imag, result.log_dec_expected, TOL)
     beyond = result.applied > 1.01 * delta
     assert np.all(np.diff(result.log_dec[beyond]) < 0.0)
+
+
+@pytest.mark.parametrize("guard", [0, 1, 2, 3])
+def test_the_judged_mode_does_not_depend_on_the_projection(guard, monkeypatch):
+    """Without cross-coupling the anisotropic supports' first two modes whirl on straight
+    lines: forward share 0.5 each, up to roundoff.  Which of them is the first forward mode
+    must not be decided by that roundoff (which the projection's basis changes): with guard
+    modes 0 to 3 the screen judges the same mode and finds the same threshold."""
+    monkeypatch.setattr(coupling_screen, "PROJECTION_GUARD", guard)
+    rotor, _, k_mean, q0 = anisotropic_jeffcott()
+    result = cross_coupling_screen(rotor, expected=q0 / 2.5, placement="mid-span",
+                                   xtol_share=1e-10)
+    assert "projected solves" in result.solves and "0 full solves" in result.solves
+    check(f"Anisotropic Jeffcott, projection with {guard} guard modes: threshold", ANISO, q0,
+          result.threshold, TOL)
+    assert np.all(result.frequency < 1.5 * math.sqrt(k_mean / MJ))   # the first pair's only
 
 
 def test_stage_estimate_by_hand_in_us_units():
