@@ -237,10 +237,11 @@ def _station_shares(rotor, placement, speed, mode_count):
 SCREEN_MODES = 8
 #: Modes beyond those judged whose shapes at the sweep's ends join the projection basis.  Every
 #: projected pair is certified whatever the guard: it only trades basis size against solves
-#: falling back to the full model.  Two (not four): a basis of 52 vectors, not 58, on the
-#: compressor, 0.41 -> 0.32 s CPU for its screen, no fallback on any bundled case, log
-#: decrements the same to 4e-12 (tests/verification/test_projected.py; docs/performance.md).
-PROJECTION_GUARD = 2
+#: falling back to the full model.  One: a basis of 48 vectors on the compressor (four: 58,
+#: two: 52), its screen 0.41 -> 0.30 -> 0.25 s CPU, no fallback on any bundled case and
+#: placement, log decrements the same to 4e-12 (tests/verification/test_projected.py;
+#: docs/performance.md).  None would save 0.01 s more and leave no mode beyond the judged.
+PROJECTION_GUARD = 1
 #: A full-model eigenvalue must have a projected one this close (relative) at the checked
 #: amounts; the certified pairs agree to about 1e-9.
 PROJECTION_MATCH = 1e-6
