@@ -168,7 +168,8 @@ def test_the_judged_mode_does_not_depend_on_the_projection(guard, monkeypatch):
     result = cross_coupling_screen(rotor, expected=q0 / 2.5, placement="mid-span",
                                    xtol_share=1e-10)
     assert "projected solves" in result.solves and "0 full solves" in result.solves
-    check(f"Anisotropic Jeffcott, projection with {guard} guard mode{'' if guard == 1 else 's'}: threshold", ANISO, q0,
+    modes = "1 guard mode" if guard == 1 else f"{guard} guard modes"
+    check(f"Anisotropic Jeffcott, projection with {modes}: threshold", ANISO, q0,
           result.threshold, TOL)
     assert np.all(result.frequency < 1.5 * math.sqrt(k_mean / MJ))   # the first pair's only
 
