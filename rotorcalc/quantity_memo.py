@@ -22,8 +22,8 @@ from pathlib import Path
 from . import __version__
 from .cache import folder
 
-#: Most texts kept; a file with more is started afresh.
-LIMIT = 20000
+#: Most texts kept (a file of about 200 kB, read in a few ms); beyond it the memo starts afresh.
+LIMIT = 5000
 
 _known: dict = {}               # key -> SI value, loaded on first use
 _new = False                    # texts read since the file was loaded
@@ -92,7 +92,7 @@ def save():
     try:
         _where.parent.mkdir(parents=True, exist_ok=True)
         part = _where.with_name(f"{_where.name}.{os.getpid()}.part")
-        part.write_text(json.dumps({"stamp": _stamp(), "values": _known}), encoding="utf-8")
+        part.write_text(json.dumps({"stamp": _stamp(), "values": dict(_known)}), encoding="utf-8")
         os.replace(part, _where)
         _new = False
     except OSError:
