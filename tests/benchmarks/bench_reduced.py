@@ -33,7 +33,8 @@ residual, the basis size, and the growth exponent of CPU time with model size (l
 on log-log, over the sizes run).  For the bundled cases it prints the same comparison (their
 sizes are below the automatic choice, so the reduced path is forced) and the CPU time of
 their what-if commands (in the process), then whole commands on the compressor in fresh
-processes with their start-up (``--commands`` alone prints only these).  No time is asserted
+processes with their start-up, in rounds (every command once a round, the least and the most
+of five rounds printed; ``--commands`` alone prints only these).  No time is asserted
 anywhere: this prints figures.
 """
 
@@ -199,14 +200,17 @@ def levers_work(rotor):
 
 
 def child_cpu(args):
-    """CPU seconds (user + system) of a child process, best of three."""
-    best = math.inf
-    for _ in range(3):
-        before = resource.getrusage(resource.RUSAGE_CHILDREN)
-        subprocess.run(args, capture_output=True, check=False)
-        after = resource.getrusage(resource.RUSAGE_CHILDREN)
-        best = min(best, after.ru_utime - before.ru_utime + after.ru_stime - before.ru_stime)
-    return best
+    """CPU seconds (user + system) of one child process."""
+    before = resource.getrusage(resource.RUSAGE_CHILDREN)
+    subprocess.run(args, capture_output=True, check=False)
+    after = resource.getrusage(resource.RUSAGE_CHILDREN)
+    return after.ru_utime - before.ru_utime + after.ru_stime - before.ru_stime
+
+
+#: Rounds of the commands in fresh processes: each round runs every command once (a burst of
+#: the shared machine's load then touches one sample of each, not all of one), and the least
+#: of each command's samples is printed (noise only ever adds time).
+ROUNDS = 5
 
 
 def commands():
@@ -221,9 +225,16 @@ def commands():
             ("rotorcalc criticals compressor", [exe, "criticals", case, "--jobs", "1"]),
             ("rotorcalc levers compressor", [exe, "levers", case]),
             ("rotorcalc window compressor", [exe, "window", case, "--jobs", "1"])]
-    print("\nCommands in a fresh process, CPU s (user + system, best of 3)")
-    for label, args in rows:
-        print(f"{label:36} {child_cpu(args):6.2f}", flush=True)
+    for _, args in rows:        # once first: the cache folder's unit texts and film tables
+        subprocess.run(args, capture_output=True, check=False)
+    samples = {label: [] for label, _ in rows}
+    for _ in range(ROUNDS):
+        for label, args in rows:
+            samples[label].append(child_cpu(args))
+    print(f"\nCommands in a fresh process, CPU s (user + system): least and most of {ROUNDS} "
+          "rounds")
+    for label, _ in rows:
+        print(f"{label:36} {min(samples[label]):6.2f} {max(samples[label]):6.2f}", flush=True)
 
 
 def main():
