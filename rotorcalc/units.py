@@ -116,6 +116,11 @@ KINEMATIC_VISCOSITY = Dimension("kinematic viscosity", "m**2/s", '"46 mm^2/s", "
                                 1e-7, 1e-1)
 GAUGE_PRESSURE = Dimension("pressure", "Pa", '"0.15 MPa", "1.5 bar", "20 psi"', 1e-3, 1e9)
 
+# the memo of texts read before keys them by dimension name: one name, one dimension
+if len({d.name for d in globals().values() if isinstance(d, Dimension)}) != \
+        sum(isinstance(d, Dimension) for d in globals().values()):
+    raise RuntimeError("two dimensions share a name")
+
 #: Longest text a quantity may be written with, and the largest power in a unit.
 TEXT_LIMIT = 100
 POWER_LIMIT = 4
@@ -144,6 +149,7 @@ def parse(value, dim: Dimension, key: str) -> float:
     if isinstance(value, bool):
         raise InputError(key, "is a true/false value, not a number", value=value,
                          expected=expected, kind="type")
+    new = False
     if isinstance(value, (int, float)):
         number = float(value)
         if dim is SPEED and number != 0.0:
@@ -151,7 +157,7 @@ def parse(value, dim: Dimension, key: str) -> float:
         if dim is TEMPERATURE:
             raise _bare_temperature(key, value)
     elif isinstance(value, str):
-        number = _parse_text(value, dim, key, expected)
+        number, new = _parse_text(value, dim, key, expected)
     else:
         raise InputError(key, f"has the wrong type ({type(value).__name__})",
                          value=value, expected=expected, kind="type")
@@ -165,6 +171,8 @@ def parse(value, dim: Dimension, key: str) -> float:
         raise InputError(key, f"is outside the range of any machine ({dim.low:g} to "
                          f"{dim.high:g} {dim.si_unit})", value=value,
                          expected=f"{article} {dim.name} inside that range", kind="range")
+    if new:             # read by pint and accepted by every check here: kept for later runs
+        quantity_memo.remember(value.strip(), dim.name, number)
     return number
 
 
@@ -192,12 +200,13 @@ def _bounded(text, key, expected):
 
 
 def _parse_text(text, dim, key, expected):
+    """(SI value, read by pint now) of ``text``: remembered from an earlier run, else by pint."""
     if not text.strip():
         raise InputError(key, "is empty", value=text, expected=expected, kind="missing")
+    _bounded(text, key, expected)
     known = quantity_memo.recall(text.strip(), dim.name)
     if known is not None:
-        return known
-    _bounded(text, key, expected)
+        return known, False
     try:
         quantity = _ureg().Quantity(text.strip())
     except Exception as exc:  # pint raises a zoo of parser errors
@@ -210,8 +219,7 @@ def _parse_text(text, dim, key, expected):
     except Exception as exc:  # overflow of huge numbers and the like
         raise InputError(key, f"cannot be converted ({type(exc).__name__})", value=text,
                          expected=expected, kind="unit") from None
-    quantity_memo.remember(text.strip(), dim.name, number)
-    return number
+    return number, True
 
 
 def _bare_speed(key, value):

@@ -69,7 +69,7 @@ def memo_in(tmp_path, monkeypatch):
     quantity_memo.recall("", "")        # leave the memo on the suite's setting
 
 
-def test_a_text_read_again_gives_what_pint_gave(memo_in):
+def test_a_text_read_again_gives_what_pint_gave(memo_in, monkeypatch):
     first = [units.parse(text, dim, "k") for text, dim, _ in TEXTS]
     for value, (_, _, expected) in zip(first, TEXTS):
         assert math.isclose(value, expected, rel_tol=1e-12)
@@ -77,8 +77,35 @@ def test_a_text_read_again_gives_what_pint_gave(memo_in):
     kept = json.loads((memo_in / "units" / "read.json").read_text())["values"]
     assert len(kept) == len(TEXTS)
     quantity_memo._base = ...           # as a new process: load the file again
+
+    def no_pint():
+        raise AssertionError("pint was asked for a text read before")
+
+    monkeypatch.setattr(units, "_ureg", no_pint)
     again = [units.parse(text, dim, "k") for text, dim, _ in TEXTS]
     assert again == first
+
+
+def test_a_text_is_remembered_for_its_dimension_only(memo_in):
+    """A bare number written as text is SI for a length, refused for a speed (which needs
+    its unit): remembering it as a length must not make it a speed."""
+    assert units.parse("12", units.LENGTH, "k") == 12.0
+    with pytest.raises(InputError, match="needs a unit"):
+        units.parse("12", units.SPEED, "k")
+
+
+def test_the_bounds_on_the_text_apply_before_the_memo(memo_in):
+    units.parse("125 mm", units.LENGTH, "k")
+    with pytest.raises(InputError, match="longer than"):
+        units.parse("125 mm" + " " * units.TEXT_LIMIT, units.LENGTH, "k")
+
+
+def test_the_stamp_written_is_the_one_the_values_were_read_under(memo_in, monkeypatch):
+    units.parse("125 mm", units.LENGTH, "k")
+    loaded = quantity_memo._stamp()
+    monkeypatch.setattr(quantity_memo, "_stamp", lambda: "units.py edited since")
+    quantity_memo.save()
+    assert json.loads((memo_in / "units" / "read.json").read_text())["stamp"] == loaded
 
 
 def test_a_remembered_value_still_meets_the_range_checks(memo_in):
@@ -93,10 +120,13 @@ def test_a_stale_or_damaged_file_is_not_believed(memo_in):
     where = memo_in / "units" / "read.json"
     data = json.loads(where.read_text())
     data["values"][f"{units.LENGTH.name}|125 mm"] = 99.0
-    data["stamp"] = "an older rotorcalc"
-    where.write_text(json.dumps(data))
-    quantity_memo._base = ...
-    assert units.parse("125 mm", units.LENGTH, "k") == 0.125
+    version, digest, pint_mark = data["stamp"].split("|", 2)
+    for stale in (f"0.0.1|{digest}|{pint_mark}", f"{version}|{'0' * len(digest)}|{pint_mark}",
+                  f"{version}|{digest}|another pint"):
+        data["stamp"] = stale
+        where.write_text(json.dumps(data))
+        quantity_memo._base = ...
+        assert units.parse("125 mm", units.LENGTH, "k") == 0.125
     for damaged in ("{not json", "[1, 2]", '{"stamp": 3}'):
         where.write_text(damaged)
         quantity_memo._base = ...
@@ -104,9 +134,11 @@ def test_a_stale_or_damaged_file_is_not_believed(memo_in):
 
 
 def test_refused_texts_are_not_kept(memo_in):
-    with pytest.raises(InputError):
-        units.parse("3000 kg", units.SPEED, "k")
-    assert quantity_memo.recall("3000 kg", units.SPEED.name) is None
+    for text, dim in (("3000 kg", units.SPEED), ("-3000 rpm", units.SPEED),
+                      ("5 km", units.LENGTH)):
+        with pytest.raises(InputError):
+            units.parse(text, dim, "k")
+        assert quantity_memo.recall(text, dim.name) is None
 
 
 def test_with_the_cache_off_nothing_is_kept(tmp_path, monkeypatch):
@@ -120,10 +152,11 @@ def test_with_the_cache_off_nothing_is_kept(tmp_path, monkeypatch):
 def test_a_file_read_before_is_read_without_pint(tmp_path):
     """The point of the memo: a command on a file read before does not import pint."""
     case = Path(__file__).resolve().parents[2] / "cases" / "compressor.toml"
-    code = ("import sys; from rotorcalc.reader import read_rotor; "
-            f"r = read_rotor({str(case)!r}); print('pint' in sys.modules, r.operating.max_speed)")
+    code = ("import sys, hashlib; from rotorcalc.reader import read_rotor; "
+            f"r = read_rotor({str(case)!r}); "
+            "print('pint' in sys.modules, hashlib.sha256(repr(r).encode()).hexdigest())")
     env = dict(os.environ, ROTORCALC_CACHE=str(tmp_path))
     runs = [subprocess.run([sys.executable, "-c", code], env=env, capture_output=True,
                            text=True, check=True).stdout.split() for _ in range(2)]
     assert runs[0][0] == "True" and runs[1][0] == "False"
-    assert runs[0][1] == runs[1][1]
+    assert runs[0][1] == runs[1][1]             # the same rotor, every number
