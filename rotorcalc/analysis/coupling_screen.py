@@ -35,7 +35,7 @@ from ..units import to_rpm
 from ..vocabulary import BearingRole, Outcome
 from .margins import CAUTION
 from ..solvers import NUMERICAL_FAILURES
-from .modes import modes_at, read_only
+from .modes import STRAIGHT_LINE, modes_at, read_only
 from .projected import ProjectedSolver
 from .own_frequency import at_own_frequency, own_frequency_notes
 from .sources_check import SourcesCheck, _synchronous_note, sources_check  # noqa: F401
@@ -162,19 +162,21 @@ def applied_sources(shares, total):
                  for i, (station, share) in enumerate(shares))
 
 
-#: A forward share within this of one half is a straight-line whirl: roundoff alone puts it
-#: on one side (the projection's basis changed which of two such modes was "forward").
-STRAIGHT_LINE = 1e-6
+def _lowest_forward(modes, least):
+    """Index of the lowest mode (by frequency) whose forward share is at least ``least``."""
+    for i in np.argsort(modes.frequency):
+        if modes.forward_fraction[i] >= least and modes.frequency[i] > 0:
+            return int(i)
+    return None
 
 
 def _first_forward(modes):
     """Index of the lowest mode whirling forward or on a straight line (None when there is
-    none): anisotropic supports without cross-coupling give straight-line whirls, the lowest
-    of which the applied amount turns forward (:func:`_nearest_forward` follows it)."""
-    for i in np.argsort(modes.frequency):
-        if modes.forward_fraction[i] >= 0.5 - STRAIGHT_LINE and modes.frequency[i] > 0:
-            return int(i)
-    return None
+    none): supports stiffer one way than the other give straight-line whirls without
+    cross-coupling, the lowest of which is judged (roundoff alone would call it or its
+    partner forward); :func:`_nearest_forward` moves to the partner where it turns the more
+    forward as the amount grows."""
+    return _lowest_forward(modes, 0.5 - STRAIGHT_LINE)
 
 
 #: A mode mixed with the followed one lies this close in frequency (a share of it): the
@@ -203,8 +205,8 @@ def _nearest_forward(modes, reference):
     near = np.abs(modes.frequency - modes.frequency[best]) <= PAIR_SPREAD * modes.frequency[best]
     pair = np.flatnonzero(alike & near)
     share = modes.forward_fraction[pair]
-    if share.max() - modes.forward_fraction[best] <= 1e-9:
-        return best
+    if share.max() - modes.forward_fraction[best] <= 2.0 * STRAIGHT_LINE:
+        return best             # as forward as its partner to roundoff: by shape alone
     return int(pair[np.argmax(share)])
 
 
@@ -409,8 +411,12 @@ def _threshold(judge, amounts, log_dec, shapes, xtol):
     if not len(crossing):
         return None
     k = int(crossing[0])
-    return float(brentq(lambda q: judge(q, shapes[k])[0], amounts[k], amounts[k + 1],
-                        xtol=xtol))
+    ends = {amounts[k]: log_dec[k], amounts[k + 1]: log_dec[k + 1]}
+
+    def judged(q):      # the bracket's ends as followed (their signs differ), the rest solved
+        return ends[q] if q in ends else judge(q, shapes[k])[0]
+
+    return float(brentq(judged, amounts[k], amounts[k + 1], xtol=xtol))
 
 
 @dataclass(frozen=True)

@@ -68,6 +68,12 @@ def forward_fraction(shapes):
     return np.where(total > 0, fwd / np.where(total > 0, total, 1.0), 0.5)
 
 
+#: A forward share within this of one half is a straight-line whirl: roundoff alone puts it
+#: on one side (a projection's basis changed which of two such modes a screen took as
+#: "forward"); the cross-coupling screens take such a mode as a candidate for forward.
+STRAIGHT_LINE = 1e-6
+
+
 def whirl_label(fraction):
     """'forward', 'backward' or 'mixed' from a forward share (:data:`WHIRL_PURITY`)."""
     if fraction >= WHIRL_PURITY:

@@ -16,7 +16,7 @@ from ..notices import Notice
 from ..rules import CouplingRule
 from ..units import to_rpm
 from ..vocabulary import Outcome
-from .modes import modes_at, read_only
+from .modes import STRAIGHT_LINE, modes_at, read_only
 from .own_frequency import at_own_frequency, own_frequency_notes
 
 
@@ -105,7 +105,8 @@ def sources_check(rotor, min_log_dec=None):
     system = assemble(rotor)
     modes = modes_at(system, speed, rotor.settings.mode_count)
     order = [int(i) for i in np.argsort(modes.frequency)]
-    keep = [i for i in order if modes.forward_fraction[i] >= 0.5]
+    # forward, or on a straight line (roundoff alone would put it on either side)
+    keep = [i for i in order if modes.forward_fraction[i] >= 0.5 - STRAIGHT_LINE]
     numbers = tuple(order.index(i) + 1 for i in keep)
     frequency = np.array([modes.frequency[i] for i in keep])
     log_dec = np.array([modes.log_dec[i] for i in keep])

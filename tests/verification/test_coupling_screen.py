@@ -283,3 +283,19 @@ def test_the_screen_judges_the_forward_one_of_a_mixed_pair_on_tilting_pads():
           "forward mode's of the mixed pair", "The rotor's eigenproblem solved directly",
           float(modes.log_dec[forward]), result.log_dec_expected, 1e-6)
     assert result.log_dec[-1] < result.log_dec[1]
+
+
+def test_the_threshold_bracket_keeps_the_followed_ends():
+    """Brent's method (Brent 1973, Algorithms for Minimization without Derivatives, ch. 4)
+    needs opposite signs at its bracket's ends.  The screen's curve has them; a mode picked
+    afresh at an end (a mixed pair's other member) might not.  The ends are taken from the
+    curve as followed: a judge that disagrees there cannot make the search fail, and the root
+    of a judge linear inside the bracket is found to the tolerance."""
+    amounts = np.array([0.0, 1.0, 2.0, 3.0])
+    log_dec = np.array([0.3, 0.2, 0.1, -0.1])
+
+    def judge(q, _shape):       # crosses zero at q = 2.5 inside, positive at its right end
+        return (abs(0.1 - 0.2 * (q - 2.0)) if q == 3.0 else 0.1 - 0.2 * (q - 2.0), 0.0, None)
+
+    root = coupling_screen._threshold(judge, amounts, log_dec, [None] * 4, 1e-12)
+    assert abs(root - 2.5) < 1e-9
