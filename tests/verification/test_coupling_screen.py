@@ -127,10 +127,11 @@ def test_the_followed_mode_is_forward_and_keeps_its_frequency(screen):
 ANISO = "Anisotropic cross-coupled Jeffcott rotor (derived from the same equations)"
 
 
-def anisotropic_jeffcott():
-    """The Jeffcott rotor on supports stiffer in y by 2 delta, damped at the disk; with the
-    threshold sqrt((c w)^2 + delta^2) of its forward root."""
-    delta = 0.2 * Q0                                # half the difference k_y - k_x, N/m
+def anisotropic_jeffcott(share=0.2):
+    """The Jeffcott rotor on supports stiffer in y by 2 delta (delta = ``share`` q0 of the
+    isotropic rotor), damped at the disk; with the threshold sqrt((c w)^2 + delta^2) of its
+    forward root."""
+    delta = share * Q0                              # half the difference k_y - k_x, N/m
     damper = Bearing(1, {"kxx": (0.0,), "kyy": (2.0 * delta,), "cxx": (C_DISK,),
                          "cyy": (C_DISK,)}, name="disk damper")
     rotor = disk_at_mid_span(MJ, (isotropic(0, KPIN, name="pin A"),
@@ -155,6 +156,17 @@ def test_the_screen_follows_the_mode_that_turns_forward_on_anisotropic_supports(
           -2.0 * math.pi * s.real / s.imag, result.log_dec_expected, TOL)
     beyond = result.applied > 1.01 * delta
     assert np.all(np.diff(result.log_dec[beyond]) < 0.0)
+
+
+def test_the_screen_judges_the_right_mode_when_the_supports_split_the_pair_far_apart():
+    """Supports so unequal that the two straight-line modes lie 26 % apart in frequency (more
+    than the mixed pair's spread): the lowest is judged at zero and the threshold is still
+    the forward root's."""
+    rotor, _, _, q0 = anisotropic_jeffcott(share=3.0)
+    result = cross_coupling_screen(rotor, expected=q0 / 2.5, placement="mid-span",
+                                   xtol_share=1e-10)
+    check("Anisotropic Jeffcott, modes 26 % apart: threshold sqrt((c w)^2 + delta^2)",
+          ANISO, q0, result.threshold, TOL)
 
 
 @pytest.mark.parametrize("guard", [0, 1, 2, 3])
