@@ -268,9 +268,22 @@ class _Judge:
     def project(self, top):
         """Solve the amounts that follow on a basis (:mod:`.projected`): the modes with none
         and with ``top`` (N/m) applied, and the deflections under a unit force at each
-        loaded DOF of the bare rotor (the directions the applied stiffness acts in)."""
-        ends = [modes_at(with_sources(self.bare, applied_sources(self.shares, q)),
-                         self.speed, self.mode_count + PROJECTION_GUARD) for q in (0.0, top)]
+        loaded DOF of the bare rotor (the directions the applied stiffness acts in).  Where
+        the first forward mode is the highest or next-highest of the modes solved, more are
+        solved (at every amount, too): the mode after it (a mixed pair's partner) and the
+        guard beyond."""
+        def ends_with(count):
+            return [modes_at(with_sources(self.bare, applied_sources(self.shares, q)),
+                             self.speed, count) for q in (0.0, top)]
+
+        ends = ends_with(self.mode_count + PROJECTION_GUARD)
+        first = _first_forward(ends[0])
+        rank = None if first is None else int(np.argsort(ends[0].frequency).tolist().index(first))
+        if rank is not None and rank + 2 > self.mode_count:
+            # the judged mode high among those solved: its partner of a mixed pair must be
+            # solved at every amount too, and the basis hold the guard beyond the two
+            self.mode_count = rank + 2
+            ends = ends_with(self.mode_count + PROJECTION_GUARD)
         system = with_sources(self.bare, applied_sources(self.shares, 1.0))
         dofs = np.concatenate([link.dofs for link in system.source_links])
         loads = np.zeros((system.mass.shape[0], len(dofs)))

@@ -23,6 +23,7 @@ calculation.
    lbf in) and in SI (60 000 / (2 pi) turns kW / rpm into N m).
 """
 
+import dataclasses
 import math
 
 import numpy as np
@@ -311,3 +312,17 @@ def test_the_threshold_bracket_keeps_the_followed_ends():
 
     root = coupling_screen._threshold(judge, amounts, log_dec, [None] * 4, 1e-12)
     assert abs(root - 2.5) < 1e-9
+
+
+def test_the_judged_mode_high_among_those_solved_brings_its_partner(monkeypatch):
+    """Solving a single mode would leave the anisotropic rotor's straight-line partner out
+    of every amount (and of the basis): the screen solves the mode after the judged one too,
+    and finds the forward root's threshold."""
+    monkeypatch.setattr(coupling_screen, "SCREEN_MODES", 1)
+    rotor, _, _, q0 = anisotropic_jeffcott()
+    rotor = dataclasses.replace(rotor, settings=dataclasses.replace(rotor.settings,
+                                                                    mode_count=1))
+    result = cross_coupling_screen(rotor, expected=q0 / 2.5, placement="mid-span",
+                                   xtol_share=1e-10)
+    check("Anisotropic Jeffcott, one mode asked for: threshold sqrt((c w)^2 + delta^2)",
+          ANISO, q0, result.threshold, TOL)
