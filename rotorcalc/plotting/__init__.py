@@ -6,6 +6,10 @@ when none is given, and returns what it drew: a frozen record derived from
 result objects made by :mod:`rotorcalc.analysis`.  Matplotlib is imported here
 without choosing a backend; the command line selects a non-interactive one.
 
+Keys and notes sit outside the axes (to the right, or below).  On a figure of your own, make
+room for them: ``plt.subplots(layout="constrained")`` does, or save with
+``bbox_inches="tight"`` (as :func:`save` does); a figure made here leaves the room itself.
+
 One module per picture: ``speedmap`` (whirl-speed map), ``shapes`` (mode
 shape), ``layout`` (rotor layout), ``bodeplot``, ``polarplot``, ``orbitplot``
 (unbalance response), ``stiffmap`` (critical-speed map), ``overlay`` (variants'

@@ -15,6 +15,7 @@ matplotlib.use("Agg")
 import numpy as np
 import pytest
 from matplotlib.axes import Axes
+from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.figure import Figure
 
 import rotorcalc.plotting
@@ -371,3 +372,27 @@ def test_whirl_speed_map_names_what_it_is_of():
     named = plot_whirl_speed_map(_sweep(), title="Brine pump 3")
     assert named.ax.get_title(loc="left") == "Whirl-speed map: Brine pump 3"
 
+
+
+# --- a figure of the caller's -------------------------------------------------------
+
+@pytest.mark.parametrize("draw", [
+    lambda ax: plot_whirl_speed_map(_sweep(), _criticals(), OPERATING, ax=ax,
+                                    margins=_margins(_criticals())),
+    lambda ax: plot_mode_shape(_modes(), 1, ax=ax, rotor=_rotor())],
+    ids=["whirl-speed map", "mode shape"])
+def test_keys_fit_a_callers_figure_with_the_layout_the_docs_advise(draw):
+    """The keys sit outside the axes (right, below): on a figure of the caller's with the
+    layout the docs advise (plotting package docstring, docs/usage.md) every key lies whole
+    inside the figure, where the figure's default layout cuts the key off."""
+    def key_inside(layout):
+        fig = Figure(figsize=(9, 6), layout=layout)
+        out = draw(fig.add_subplot(1, 1, 1))
+        renderer = FigureCanvasAgg(fig).get_renderer()
+        fig.draw(renderer)
+        box = out.legend.get_window_extent(renderer)
+        return fig.bbox.x0 <= box.x0 and box.x1 <= fig.bbox.x1 and \
+            fig.bbox.y0 <= box.y0 and box.y1 <= fig.bbox.y1
+
+    assert key_inside("constrained")
+    assert not key_inside(None)          # the case the advice is for
