@@ -31,9 +31,11 @@ import pytest
 
 from rotorcalc import standards
 from rotorcalc.analysis import coupling_screen
-from rotorcalc.analysis.coupling_screen import cross_coupling_screen
+from rotorcalc.analysis.coupling_screen import applied_sources, cross_coupling_screen
+from rotorcalc.analysis.modes import modes_at
+from rotorcalc.assembly import assemble, with_sources
 from rotorcalc.rules import CouplingRule
-from rotorcalc.model import Bearing, OperatingRange
+from rotorcalc.model import Bearing, Disk, OperatingRange, Rotor, Section, Settings
 from rotorcalc.units import RPM
 from tests.conftest import LIGHT, STEEL, disk_at_mid_span, isotropic
 from tests.verification import closed_forms as cf
@@ -326,3 +328,38 @@ def test_the_judged_mode_high_among_those_solved_brings_its_partner(monkeypatch)
                                    xtol_share=1e-10)
     check("Anisotropic Jeffcott, one mode asked for: threshold sqrt((c w)^2 + delta^2)",
           ANISO, q0, result.threshold, TOL)
+
+
+DIRECT = "The rotor's eigenproblem solved directly at each amount (LAPACK / ARPACK through scipy)"
+
+
+@pytest.mark.parametrize("polar", [1e-6, 1e-4])
+def test_a_nearly_straight_line_mode_of_a_spinning_rotor_is_judged_right(polar):
+    """The disk off mid-span tilts, so its polar inertia couples the planes: with 1e-6 kg m^2
+    the lowest mode is backward by 1.3e-7 of forward share (within the straight-line
+    tolerance: a candidate), with 1e-4 by 1.3e-5 (not one).  Either way the threshold is the
+    first amount at which a full solve finds the two lowest modes' least log decrement at or
+    below zero (an 80-point grid of full solves brackets it)."""
+    delta = 3.0 * Q0
+    damper = Bearing(1, {"kxx": (0.0,), "kyy": (2.0 * delta,), "cxx": (C_DISK,),
+                         "cyy": (C_DISK,)}, name="disk damper")
+    near, far = Section(0.35 * LJ, DJ, LIGHT, elements=2), Section(0.65 * LJ, DJ, LIGHT,
+                                                                      elements=2)
+    rotor = Rotor((near, far), OperatingRange(240.0, 300.0),
+                  disks=(Disk(1, MJ, polar, polar / 2),),
+                  bearings=(isotropic(0, KPIN, name="pin A"), isotropic(2, KPIN, name="pin B"),
+                            damper),
+                  settings=Settings(beam_theory="euler-bernoulli", mode_count=2))
+    result = cross_coupling_screen(rotor, expected=4e5, placement="mid-span",
+                                   xtol_share=1e-10)
+    bare = assemble(rotor)
+    grid = np.linspace(0.0, result.applied[-1], 80)
+    least = []
+    for q in grid:
+        modes = modes_at(with_sources(bare, applied_sources(result.shares, q)), 300.0, 8)
+        least.append(modes.log_dec[np.argsort(modes.frequency)[:2]].min())
+    first = int(np.nonzero(np.array(least) <= 0.0)[0][0])
+    assert grid[first - 1] < result.threshold <= grid[first]
+    check(f"Nearly straight-line spinning rotor (polar inertia {polar:g} kg m^2): threshold "
+          "inside the bracket of full solves", DIRECT, 0.5 * (grid[first - 1] + grid[first]),
+          result.threshold, 0.5 * (grid[1] - grid[0]), kind="abs")
