@@ -36,17 +36,25 @@ _where: Path | None = None
 _stamped = ""                   # the stamp when loaded: the code the values were read with
 
 
+def _code_digest():
+    here = Path(__file__)
+    return hashlib.sha256(here.with_name("units.py").read_bytes() + here.read_bytes()).hexdigest()
+
+
+#: The code the values are read with, as it was when this process imported it (a file edited
+#: later in a long-lived process does not vouch for values the old code read).
+_CODE = _code_digest()
+
+
 def _stamp():
-    """What the values depend on beyond their texts, as the files are now on disk."""
+    """What the values depend on beyond their texts: this package's version, its reading code
+    as imported, and where pint is installed and when."""
     import importlib.util
     spec = importlib.util.find_spec("pint")
     pint_file = Path(spec.origin) if spec is not None and spec.origin else None
     pint_mark = (f"{pint_file}:{pint_file.stat().st_mtime_ns}:{pint_file.stat().st_size}"
                  if pint_file is not None and pint_file.exists() else "no pint")
-    here = Path(__file__)
-    ours = hashlib.sha256(here.with_name("units.py").read_bytes()
-                          + here.read_bytes()).hexdigest()
-    return f"{__version__}|{ours}|{pint_mark}"
+    return f"{__version__}|{_CODE}|{pint_mark}"
 
 
 def _load():

@@ -329,6 +329,8 @@ class _Judge:
             j = _first_forward(modes)
             if j is None:
                 raise _no_forward_mode()
+            # as at every later amount: of a mixed pair, the more forward mode is judged
+            j = _nearest_forward(modes, modes.shapes[j])
         else:
             j = _nearest_forward(modes, reference)
         if not (self.own and system.whirl_dependent):

@@ -121,16 +121,24 @@ def test_a_stale_or_damaged_file_is_not_believed(memo_in):
     data = json.loads(where.read_text())
     data["values"][f"{units.LENGTH.name}|125 mm"] = 99.0
     version, digest, pint_mark = data["stamp"].split("|", 2)
+    def as_a_new_process_finds(text):
+        quantity_memo._new = False          # nothing of this process's to write over it
+        where.write_text(text)
+        quantity_memo._base = ...
+        assert units.parse("125 mm", units.LENGTH, "k") == 0.125
+        assert quantity_memo._new           # read by pint: the file was not believed
+
     for stale in (f"0.0.1|{digest}|{pint_mark}", f"{version}|{'0' * len(digest)}|{pint_mark}",
                   f"{version}|{digest}|another pint"):
         data["stamp"] = stale
-        where.write_text(json.dumps(data))
-        quantity_memo._base = ...
-        assert units.parse("125 mm", units.LENGTH, "k") == 0.125
+        as_a_new_process_finds(json.dumps(data))
     for damaged in ("{not json", "[1, 2]", '{"stamp": 3}'):
-        where.write_text(damaged)
-        quantity_memo._base = ...
-        assert units.parse("125 mm", units.LENGTH, "k") == 0.125
+        as_a_new_process_finds(damaged)
+    data["stamp"] = f"{version}|{digest}|{pint_mark}"      # the file's own stamp: believed
+    quantity_memo._new = False
+    where.write_text(json.dumps(data))
+    quantity_memo._base = ...
+    assert units.parse("125 mm", units.LENGTH, "k") == 99.0
 
 
 def test_refused_texts_are_not_kept(memo_in):
