@@ -224,9 +224,10 @@ def _station_shares(rotor, placement, speed, mode_count):
         z = np.concatenate([[0.0], np.cumsum([s.length for s in rotor.sections])])
         middle = 0.5 * (z[ends[0]] + z[ends[-1]]) if ends else 0.5 * z[-1]
         return ((int(np.argmin(np.abs(z - middle))), 1.0),)
-    # largest first-mode amplitude among the stations, without the sources
+    # largest first-mode amplitude among the stations, without the sources; among as many
+    # modes as the screen's projection solves (the judged mode may be a guard mode there)
     bare = dataclasses.replace(rotor, sources=())
-    modes = modes_at(bare, speed, mode_count)
+    modes = modes_at(bare, speed, mode_count + PROJECTION_GUARD)
     first = _first_forward(modes)
     if first is None:
         raise _no_forward_mode()

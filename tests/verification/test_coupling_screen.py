@@ -370,3 +370,21 @@ def test_a_nearly_straight_line_mode_of_a_spinning_rotor_is_judged_right(polar):
     check(f"Nearly straight-line spinning rotor (polar inertia {polar:g} kg m^2): threshold "
           "inside the bracket of full solves", DIRECT, 0.5 * (grid[first - 1] + grid[first]),
           result.threshold, 0.5 * (grid[1] - grid[0]), kind="abs")
+
+
+def test_the_largest_amplitude_placement_finds_a_first_forward_mode_among_the_guard(monkeypatch):
+    """A spinning rotor whose lowest mode is backward, screened with one mode asked for: the
+    first forward mode is the second, among the projection's guard modes.  Placed at the
+    station of its largest amplitude (the disk's, as mid-span here) the screen finds the same
+    threshold as placed at mid-span (before, it stopped: no forward mode among one)."""
+    monkeypatch.setattr(coupling_screen, "SCREEN_MODES", 1)
+    near, far = Section(0.35 * LJ, DJ, LIGHT, elements=2), Section(0.65 * LJ, DJ, LIGHT,
+                                                                      elements=2)
+    rotor = Rotor((near, far), OperatingRange(240.0, 300.0), disks=(Disk(1, MJ, 0.1, 0.05),),
+                  bearings=(isotropic(0, KPIN, name="pin A"), isotropic(2, KPIN, name="pin B"),
+                            isotropic(1, 0.0, C_DISK, name="disk damper")),
+                  settings=Settings(beam_theory="euler-bernoulli", mode_count=1))
+    placed = [cross_coupling_screen(rotor, expected=1e5, placement=where, xtol_share=1e-10)
+              for where in ("largest-amplitude", "mid-span")]
+    assert placed[0].shares == placed[1].shares == ((1, 1.0),)
+    assert placed[0].threshold == pytest.approx(placed[1].threshold, rel=1e-9)
