@@ -52,7 +52,7 @@ from rotorcalc.errors import InputError  # noqa: E402
 
 # Conversion factors by definition (NIST SP 811, 2008 edition, appendix B: the inch is
 # 25.4 mm exactly, the pound-mass 0.45359237 kg, the pound-force 4.4482216152605 N; the
-# revolution 2 pi rad; the Celsius temperature t/degC = T/K - 273.15)
+# revolution 2 pi rad; the Celsius temperature t/degC = T/K - 273.15; from memory)
 TEXTS = [("125 mm", units.LENGTH, 0.125), ("3.5 in", units.LENGTH, 3.5 * 0.0254),
          ("26 lb", units.MASS, 26 * 0.45359237),
          ("650 klbf/in", units.STIFFNESS, 650e3 * 4.4482216152605 / 0.0254),
