@@ -309,9 +309,9 @@ def test_the_screen_judges_the_forward_one_of_a_mixed_pair_on_tilting_pads():
 def test_the_threshold_bracket_keeps_the_followed_ends():
     """Brent's method (Brent 1973, Algorithms for Minimization without Derivatives, ch. 4,
     from memory) needs opposite signs at its bracket's ends.  The screen's curve has them; a
-    mode picked afresh at an end (a mixed pair's other member) might not.  The ends are taken from the
-    curve as followed: a judge that disagrees there cannot make the search fail, and the root
-    of a judge linear inside the bracket is found to the tolerance."""
+    mode picked afresh at an end (a mixed pair's other member) might not.  The ends are taken
+    from the curve as followed: a judge that disagrees there cannot make the search fail, and
+    the root of a judge linear inside the bracket is found to the tolerance."""
     amounts = np.array([0.0, 1.0, 2.0, 3.0])
     log_dec = np.array([0.3, 0.2, 0.1, -0.1])
 
