@@ -8,11 +8,6 @@ import math
 from . import units as u
 from ._toml import _array_of_tables, _number, _quantity, _string, check_keys
 from ._read_response import _angle
-from .bearings.film import CAVITATION_MODELS, FilmOptions
-from .bearings.journal import BORES, MODEL_GRID, FilmJournal
-from .bearings.pad_journal import PAD_GRID, PadJournal
-from .bearings.pad_ring import PadRing, first_pivot_angle
-from .bearings.lubricant import Lubricant
 from .errors import InputError
 
 FILM_KEYS = {"bore", "diameter", "length", "clearance", "preload", "groove_width", "grooves",
@@ -29,6 +24,10 @@ OIL_KEYS = {"grade", "points", "inlet_temperature", "film_temperature", "rise_sh
 
 def read_film(table, where):
     """The :class:`FilmJournal` of a ``[[bearing]]`` table with a ``film`` sub-table."""
+    # the film models are loaded for a film bearing only (a table-bearing rotor's commands
+    # start about 0.02 s sooner: docs/performance.md)
+    from .bearings.journal import BORES, MODEL_GRID, FilmJournal
+    from .bearings.pad_journal import PAD_GRID
     fw, ow = f"{where}.film", f"{where}.oil"
     film = table["film"]
     if not isinstance(film, dict):
@@ -99,6 +98,8 @@ def read_film(table, where):
 
 def _pads(film, fw, values):
     """A :class:`PadJournal` from the common values and the pad keys."""
+    from .bearings.pad_journal import PadJournal
+    from .bearings.pad_ring import PadRing, first_pivot_angle
     for name in ("grooves", "groove_width", "feed_pressure"):
         if name in film:
             raise InputError(f"{fw}.{name}", "is given for a tilting-pad bearing",
@@ -150,7 +151,9 @@ def _pair(table, key, where, dim):
     return tuple(u.parse(v, dim, f"{where}.{key}[{i}]") for i, v in enumerate(raw))
 
 
-def _options(film, where, default=MODEL_GRID):
+def _options(film, where, default):
+    from .bearings.film import CAVITATION_MODELS, FilmOptions
+    from .bearings.journal import MODEL_GRID
     grid = film.get("grid", [default.n_theta, default.n_z])
     if not (isinstance(grid, list) and len(grid) == 2):
         raise InputError(f"{where}.grid", "must be two whole numbers", value=grid,
@@ -167,6 +170,7 @@ def _options(film, where, default=MODEL_GRID):
 
 
 def _lubricant(oil, where):
+    from .bearings.lubricant import Lubricant
     extra = {"key": where, "name": _string(oil, "name", where, default="")}
     if "density" in oil:
         extra["reference_density"] = _quantity(oil, "density", u.DENSITY, where)

@@ -14,7 +14,6 @@ from typing import Callable
 import numpy as np
 
 from .analysis.margins import side_and_margin
-from .analysis.whatif import excess_state
 from .units import to_hz, to_rpm
 
 
@@ -317,8 +316,14 @@ def comparison_columns(comparison):
 WINDOW_SCAN_COLUMNS = [
     Column("Factor", lambda r: float(r[0]), "x{:.3g}", "factor"),
     Column("Smallest margin excess %", lambda r: float(r[1]), "{:+.1f}", "excess_percent"),
-    Column("Result", lambda r: excess_state(float(r[1])), "{}", "result"),
+    Column("Result", lambda r: _excess_state(float(r[1])), "{}", "result"),
 ]
+
+
+def _excess_state(excess):
+    # the what-if studies are loaded when one of their tables is written, not by every command
+    from .analysis.whatif import excess_state
+    return excess_state(excess)
 
 
 def _limiting(end, get):

@@ -6,9 +6,7 @@ fixed way and only hand the pieces out.
 
 from __future__ import annotations
 
-import multiprocessing
 import os
-from concurrent.futures import ProcessPoolExecutor
 from contextlib import contextmanager
 
 import numpy as np
@@ -32,6 +30,8 @@ def worker_count(workers):
 @contextmanager
 def worker_pool(workers):
     """A pool of ``workers`` processes, each with one BLAS thread (unless set otherwise)."""
+    # loaded with the first pool: a command run with one worker never needs it
+    from concurrent.futures import ProcessPoolExecutor
     with _one_blas_thread(), ProcessPoolExecutor(workers, mp_context=_context()) as pool:
         yield pool
 
@@ -42,6 +42,7 @@ def _context():
     A forked worker starts at once but inherits the parent's BLAS threads; a
     spawned one imports numpy afresh and reads ``OPENBLAS_NUM_THREADS`` then.
     """
+    import multiprocessing
     single = all(os.environ.get(v) == "1" for v in BLAS_THREAD_VARIABLES)
     if single and "fork" in multiprocessing.get_all_start_methods():
         return multiprocessing.get_context("fork")

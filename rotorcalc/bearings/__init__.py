@@ -12,27 +12,35 @@ Theory and conventions: docs/bearings.md.  Screening only: confirm bearing data 
 maker's analysis, the applicable standard and a licensed engineer's review.
 """
 
-from .equilibrium import Equilibrium, find_equilibrium
-from .journal import BORES, FilmJournal
-from .table import CoefficientTable, Coefficients, read_table
-from .film import CAVITATION_MODELS, FilmOptions, FilmSolution, solve_film
-from .fixed_film import FilmCoefficients, coefficients
-from .lubricant import Lubricant, effective_temperature
-from .geometry import (Groove, Land, LobedBore, PlainBore, elliptical_bore, lobe,
-                       offset_halves_bore, plain_bore)
+import importlib
 
-__all__ = ["coefficients", "FilmCoefficients", "find_equilibrium", "Equilibrium",
-           "CAVITATION_MODELS", "FilmOptions", "FilmSolution", "solve_film", "Groove", "Land",
-           "LobedBore", "PlainBore", "elliptical_bore", "lobe", "offset_halves_bore",
-           "plain_bore", "Lubricant", "effective_temperature", "FilmJournal", "BORES",
-           "CoefficientTable", "Coefficients", "read_table",
-           "tabulate_films", "FilmRecord"]
+#: Where each name lives.  Every module is loaded when a name of it is first asked for: a
+#: rotor with table bearings never needs the film solvers, and loading them cost every
+#: command about 0.02 s of CPU (docs/performance.md).
+_HOMES = {
+    "equilibrium": ("Equilibrium", "find_equilibrium"),
+    "journal": ("BORES", "FilmJournal"),
+    "table": ("CoefficientTable", "Coefficients", "read_table"),
+    "film": ("CAVITATION_MODELS", "FilmOptions", "FilmSolution", "solve_film"),
+    "fixed_film": ("FilmCoefficients", "coefficients"),
+    "lubricant": ("Lubricant", "effective_temperature"),
+    "geometry": ("Groove", "Land", "LobedBore", "PlainBore", "elliptical_bore", "lobe",
+                 "offset_halves_bore", "plain_bore"),
+    # tabulate_films needs the statics (and so the assembly): the film solver alone stays
+    # light and free of the model's import chain
+    "tabulate": ("tabulate_films", "FilmRecord"),
+}
+_HOME_OF = {name: module for module, names in _HOMES.items() for name in names}
+
+__all__ = [name for names in _HOMES.values() for name in names]
 
 
 def __getattr__(name):
-    # tabulate_films needs the statics (and so the assembly): loaded when first asked for,
-    # so that the film solver alone stays light and free of the model's import chain
-    if name in ("tabulate_films", "FilmRecord"):
-        from . import tabulate
-        return getattr(tabulate, name)
-    raise AttributeError(name)
+    if name in _HOME_OF:
+        module = importlib.import_module(f".{_HOME_OF[name]}", __name__)
+        return getattr(module, name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+
+
+def __dir__():
+    return sorted(set(globals()) | set(__all__))

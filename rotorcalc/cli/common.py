@@ -10,7 +10,6 @@ from pathlib import Path
 import typer
 from rich.console import Console
 from rich.markup import escape
-from rich.progress import BarColumn, Progress, TextColumn, TimeRemainingColumn
 from rich.table import Table
 
 from .. import units as u
@@ -158,6 +157,8 @@ class SweepProgress:
             elapsed = time.perf_counter() - self.start
             if elapsed / done * total < 1.0 or not console.is_terminal:
                 return
+            # loaded for a bar that will show: most commands finish sooner
+            from rich.progress import BarColumn, Progress, TextColumn, TimeRemainingColumn
             self.bar = Progress(TextColumn("{task.description}"), BarColumn(),
                                 TextColumn("{task.completed}/{task.total}"),
                                 TimeRemainingColumn(), console=errors, transient=True)
@@ -233,8 +234,11 @@ def output_errors(path):
 def write_outputs(command, case, result_dict, warnings, json_path, csv_path, columns, rows,
                   inputs=None):
     """The result as JSON (with the input's path and SHA-256: ``case``, or each of
-    ``inputs`` when a command reads many files) and its rows as CSV."""
+    ``inputs`` when a command reads many files) and its rows as CSV.  ``result_dict`` may be a
+    callable that makes it: then it is made only when the JSON is asked for."""
     if json_path is not None:
+        if callable(result_dict):
+            result_dict = result_dict()
         document = envelope(command, case, result_dict, warnings)
         if inputs is not None:
             document["input"] = [{"path": str(f), "sha256": file_hash(f) if Path(f).is_file()

@@ -100,8 +100,11 @@ def command(
     warnings = print_comparison(rotor, comparison, variants)
     console.print(f"[dim]{len(comparison.names)} screenings in {elapsed:.1f} s. {CAUTION}[/]",
                   highlight=False)
-    document = comparison.to_dict()
-    document["base_file"] = {"path": str(base_path), "sha256": file_hash(base_path)}
+    def document():
+        made = comparison.to_dict()
+        made["base_file"] = {"path": str(base_path), "sha256": file_hash(base_path)}
+        return made
+
     write_outputs("compare", case, document, warnings, json_path, csv_path,
                   comparison_columns(comparison), comparison.rows)
     if plot is not None:

@@ -112,7 +112,7 @@ def command(
     for note in result.notes:
         console.print(f"[yellow]note[/] {escape(note)}", highlight=False)
     console.print(f"[dim]{CAUTION}[/]", highlight=False)
-    write_outputs("cross-coupling", case, result.to_dict(), (), json_path, csv_path,
+    write_outputs("cross-coupling", case, result.to_dict, (), json_path, csv_path,
                   COUPLING_STEP_COLUMNS, screen.rows)
     if plot is not None:
         save_figure(screen.plot().figure, plot)

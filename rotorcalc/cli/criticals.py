@@ -165,11 +165,11 @@ def run(case, plot_path, json_path, csv_path, command, workers=None, **overrides
                                        "--csv": csv_path}, workers)
     print_margins(result)
     print_solve_note(result.sweep)
-    document = result.to_dict()   # the same document as `sweep` writes
     warnings = tuple(dict.fromkeys(result.sweep.warnings
                                    + (result.response.warnings if result.response else ())))
     print_warnings(warnings)
-    write_outputs(command, case, document, warnings, json_path, csv_path,
+    # the same document as `sweep` writes, made only for --json
+    write_outputs(command, case, result.to_dict, warnings, json_path, csv_path,
                   margin_columns(result.margins), result.margins.rows)
     if plot_path is not None:
         save_figure(result.plot().figure, plot_path)

@@ -67,7 +67,7 @@ def command(
     console.print(f"Envelope: {escape(verdict)} ({len(envelope.comparison.names)} screenings "
                   f"in {elapsed:.1f} s)", highlight=False)
     console.print(f"[dim]{CAUTION}[/]", highlight=False)
-    write_outputs("envelope", case, envelope.to_dict(), warnings, json_path, csv_path,
+    write_outputs("envelope", case, envelope.to_dict, warnings, json_path, csv_path,
                   WORST_CASE_COLUMNS, envelope.worst)
     if plot is not None:
         draw = plotting_function("plot_variant_maps")

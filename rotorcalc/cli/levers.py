@@ -70,7 +70,7 @@ def command(
                       "judged, or outside --near-fraction); --all includes them.")
     console.print(f"[dim]{len(rows)} levers in {elapsed:.1f} s. {CAUTION}[/]", highlight=False)
     print_warnings(result.sweep.warnings)
-    write_outputs("levers", case, table.to_dict(), result.sweep.warnings, json_path, csv_path,
+    write_outputs("levers", case, table.to_dict, result.sweep.warnings, json_path, csv_path,
                   SENSITIVITY_COLUMNS, rows)
 
 

@@ -41,7 +41,7 @@ def command(
     columns = mode_columns(result)
     print_table(f"{rotor.name}: modes at {to_rpm(omega):.0f} rpm", columns, rows)
     print_warnings(result.warnings)
-    write_outputs("modes", case, result.to_dict(), result.warnings, json_path, csv_path,
+    write_outputs("modes", case, result.to_dict, result.warnings, json_path, csv_path,
                   columns, rows)
     if plot is not None:
         if plot_mode > len(rows):

@@ -81,7 +81,7 @@ def command(
     console.print(f"Verdict: {verdict}")
     print_warnings(result.warnings)
     rows = [r for i in range(len(result.cases)) for r in response_rows(result, i)]
-    write_outputs("response", case, result.to_dict(), result.warnings, json_path, csv_path,
+    write_outputs("response", case, result.to_dict, result.warnings, json_path, csv_path,
                   response_columns(result), rows)
     if bode is not None or polar is not None or orbits is not None:
         from .. import plotting

@@ -46,7 +46,7 @@ def command(
                     caption=STATIC_FILM_CAPTION)
     console.print(escape(solution.summary()), highlight=False)
     console.print(f"[dim]{CAUTION}[/]", highlight=False)
-    write_outputs("statics", case, solution.to_dict(), (), json_path, csv_path,
+    write_outputs("statics", case, solution.to_dict, (), json_path, csv_path,
                   STATIC_REACTION_COLUMNS, solution.rows)
     if plot is not None:
         save_figure(solution.plot().figure, plot)

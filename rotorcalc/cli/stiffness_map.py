@@ -156,7 +156,7 @@ def command(
             low, high, count = study.window_span()
         study = study.with_window(run_window(rotor, target, target_text, low, high, count))
         console.print(study.reference_text(target_text), highlight=False)
-    write_outputs("stiffness-map", case, study.to_dict(), (), json_path, csv_path,
+    write_outputs("stiffness-map", case, study.to_dict, (), json_path, csv_path,
                   crossing_columns(rotor.operating), study.map.crossings)
     if plot is not None:
         save_figure(study.plot().figure, plot)

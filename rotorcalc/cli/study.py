@@ -176,7 +176,7 @@ def command(
                      highlight=False, soft_wrap=True)
     console.print(f"[dim]{CAUTION}[/]", highlight=False)
     columns = sample_columns(found)
-    write_outputs("study", study, found.to_dict(), (), json_path, csv_path, columns,
+    write_outputs("study", study, found.to_dict, (), json_path, csv_path, columns,
                   found.records)
     from .. import plotting
     for path, draw in ((plot, "plot_study_criticals"), (plot_probability,

@@ -39,7 +39,7 @@ def command(
     print_solve_note(sw)
     print_warnings(sw.warnings)
     rows = list(sweep_rows(sw))
-    write_outputs("sweep", case, result.to_dict(), sw.warnings, json_path, csv_path,
+    write_outputs("sweep", case, result.to_dict, sw.warnings, json_path, csv_path,
                   sweep_columns(sw), rows)
     if plot_path is not None:
         save_figure(result.plot().figure, plot_path)

@@ -103,7 +103,7 @@ def command(
     target, target_text = bearing_target(rotor, bearing)
     result = run_window(rotor, target, target_text, low, high, factors, with_sources, jobs)
     console.print(f"[dim]{CAUTION}[/]", highlight=False)
-    write_outputs("window", case, result.to_dict(), (), json_path, csv_path,
+    write_outputs("window", case, result.to_dict, (), json_path, csv_path,
                   WINDOW_SCAN_COLUMNS, result.scan_rows())
 
 

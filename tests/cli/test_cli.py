@@ -11,6 +11,7 @@ from tests.conftest import ROOT
 
 runner = CliRunner()
 PUMP = str(ROOT / "cases" / "feed_pump.toml")
+COMPRESSOR = str(ROOT / "cases" / "compressor.toml")
 
 
 def run(*args):
@@ -48,6 +49,39 @@ def test_help_loads_no_analysis_numpy_or_plotting():
                          check=True)
     assert out.stdout.strip() == "[]"
 
+
+
+def test_criticals_on_table_bearings_loads_only_what_it_runs():
+    """``criticals`` on a rotor whose bearings are tables, with one worker, loads neither the
+    film solvers, the process pool, the progress bar nor the what-if studies: each costs
+    start-up time at every command (docs/performance.md) and none of them runs here.  The
+    compressor's result is then the same as with them loaded (the verdict printed)."""
+    import subprocess
+    import sys
+    code = ("import sys; from typer.testing import CliRunner; from rotorcalc.cli import app; "
+            f"r = CliRunner().invoke(app, ['criticals', {COMPRESSOR!r}, '--jobs', '1']); "
+            "assert r.exit_code == 0, r.output; "
+            "print(sorted(m for m in ('rotorcalc.bearings.film', 'rotorcalc.bearings.journal', "
+            "'rotorcalc.bearings.pad_journal', 'rotorcalc.bearings.equilibrium', "
+            "'multiprocessing', 'rich.progress', 'rotorcalc.analysis.whatif', "
+            "'rotorcalc.analysis.levers', 'rotorcalc.variants') if m in sys.modules))")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
+                         check=True)
+    assert out.stdout.strip() == "[]"
+
+
+def test_the_json_document_is_made_only_when_asked_for(tmp_path, monkeypatch):
+    """Without --json the command does not build the document (0.01 s of the compressor's
+    `criticals`); with it, the document is the screening's own."""
+    from rotorcalc.analysis.screening import Screening
+    made = []
+    original = Screening.to_dict
+    monkeypatch.setattr(Screening, "to_dict", lambda self: made.append(1) or original(self))
+    assert run("criticals", PUMP, "--jobs", "1").exit_code == 0
+    assert made == []
+    out = tmp_path / "p.json"
+    assert run("criticals", PUMP, "--jobs", "1", "--json", out).exit_code == 0
+    assert made == [1] and "verdict" in read_json(out)["result"]
 
 def test_a_reduced_basis_sweep_says_so_and_records_its_certificate(tmp_path, monkeypatch):
     from rotorcalc.analysis import reduced
