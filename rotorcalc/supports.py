@@ -12,7 +12,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ._checks import _freeze, _one_of, _positive
-from .bearings.table import CoefficientTable, as_arrays, read_table
+from .bearings.table import CoefficientTable, TableReader
 from .errors import InputError
 from .vocabulary import BearingRole, old_keywords
 
@@ -220,11 +220,10 @@ class Bearing:
         outside the table.  ``whirl`` (rad/s) is the whirl frequency a two-way table is
         read at; ``None`` reads it at ``omega``: the synchronous coefficients.
         """
-        if "_arrays" not in self.__dict__:         # the tables as arrays, made once
-            object.__setattr__(self, "_arrays", (np.asarray(self.speeds, dtype=float),
-                                                 np.asarray(self.whirl, dtype=float),
-                                                 as_arrays(self.coefficients)))
-        return read_table(*self._arrays, omega, whirl)
+        if "_reader" not in self.__dict__:         # the tables made ready once
+            object.__setattr__(self, "_reader",
+                               TableReader(self.speeds, self.whirl, self.coefficients))
+        return self._reader(omega, whirl)
 
     @property
     def model(self):

@@ -44,3 +44,25 @@ def test_a_geometry_bearing_is_its_film_model():
     table = np.concatenate([k.ravel(), c.ravel()])
     assert np.linalg.norm(table - solved) / np.linalg.norm(solved) < 0.05
     assert math.isclose(b.speeds[0], record.speeds[0])
+
+
+def test_a_speed_table_reads_as_numpys_linear_interpolation_bit_for_bit():
+    """``Bearing.matrices`` reads all eight coefficients of a table over speed at once; each
+    must equal numpy's ``interp`` of its own column (linear between table points, the end
+    values held: numpy's documented rule), to the last bit, at table points, between them,
+    at and beyond both ends, with constant and missing coefficients among them."""
+    speeds = (50.0, 120.0, 300.0, 301.5, 900.0)
+    columns = {"kxx": (1.1e8, 2.7e8, 3.3e8, 3.31e8, 9.9e8), "kxy": (1e6, -2e6, 3e6, 0.0, 5e6),
+               "kyx": (7.5e6,), "kyy": (2e8, 2.2e8, 2.9e8, 3e8, 8.1e8),
+               "cxx": (1e5, 3e5, 2e5, 2.5e5, 1.7e5), "cyy": (1.3e5,)}
+    b = Bearing(0, columns, speeds=speeds)
+    names = ("kxx", "kxy", "kyx", "kyy", "cxx", "cxy", "cyx", "cyy")
+    probes = [0.0, 49.999, 50.0, 77.7, 120.0, 299.9999999, 300.0, 300.75, 301.5, 612.3,
+              900.0, 900.0000001, 1e4] + list(np.linspace(40.0, 950.0, 97))
+    for speed in probes:
+        k, c = b.matrices(speed)
+        got = np.concatenate([k.ravel(), c.ravel()])
+        for value, name in zip(got, names):
+            column = np.asarray(columns.get(name, (0.0,)))
+            want = column[0] if column.size == 1 else np.interp(speed, speeds, column)
+            assert value == want, (speed, name, value, want)
