@@ -71,9 +71,12 @@ class SourcesCheck:
     def summary(self):
         """The check's outcome in one sentence, with its rule."""
         lowest = float(np.min(self.log_dec)) if len(self.log_dec) else math.nan
-        return (f"Lowest forward-mode log decrement {lowest:.3f} at {to_rpm(self.speed):.0f} "
-                f"rpm with every source of the file applied; needed {self.min_log_dec:g} "
-                f"({self.label}).")
+        count = len(self.numbers)
+        kinds = ", ".join(dict.fromkeys(str(w) for w in self.whirl)) or "none"
+        modes = "the 1 mode" if count == 1 else f"the {count} modes"
+        return (f"Lowest log decrement {lowest:.3f} of {modes} whirling at least half forward "
+                f"({kinds}) at {to_rpm(self.speed):.0f} rpm with every source of the file "
+                f"applied; needed {self.min_log_dec:g} ({self.label}).")
 
     @property
     def at_own_frequency(self):
