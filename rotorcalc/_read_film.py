@@ -25,7 +25,7 @@ OIL_KEYS = {"grade", "points", "inlet_temperature", "film_temperature", "rise_sh
 def read_film(table, where):
     """The :class:`FilmJournal` of a ``[[bearing]]`` table with a ``film`` sub-table."""
     # the film models are loaded for a film bearing only (a table-bearing rotor's commands
-    # start about 0.02 s sooner: docs/performance.md)
+    # start about 0.017 s sooner: docs/performance.md, "seventh pass")
     from .bearings.journal import BORES, MODEL_GRID, FilmJournal
     from .bearings.pad_journal import PAD_GRID
     fw, ow = f"{where}.film", f"{where}.oil"

@@ -225,6 +225,11 @@ class Bearing:
                                TableReader(self.speeds, self.whirl, self.coefficients))
         return self._reader(omega, whirl)
 
+    def __getstate__(self):
+        # the reader is made again where it is needed: a pickle (for a worker, or a cache
+        # key's digest) holds the bearing as given, whether it was read before or not
+        return {k: v for k, v in self.__dict__.items() if k != "_reader"}
+
     @property
     def model(self):
         """The bearing model behind the coefficients, with ``coefficients(speed, load, *,

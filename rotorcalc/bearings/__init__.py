@@ -16,7 +16,7 @@ import importlib
 
 #: Where each name lives.  Every module is loaded when a name of it is first asked for: a
 #: rotor with table bearings never needs the film solvers, and loading them cost every
-#: command about 0.02 s of CPU (docs/performance.md).
+#: command about 0.017 s of CPU (docs/performance.md, "seventh pass").
 _HOMES = {
     "equilibrium": ("Equilibrium", "find_equilibrium"),
     "journal": ("BORES", "FilmJournal"),
@@ -38,7 +38,8 @@ __all__ = [name for names in _HOMES.values() for name in names]
 def __getattr__(name):
     if name in _HOME_OF:
         module = importlib.import_module(f".{_HOME_OF[name]}", __name__)
-        return getattr(module, name)
+        value = globals()[name] = getattr(module, name)     # found once
+        return value
     raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
 
 

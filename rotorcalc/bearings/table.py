@@ -5,8 +5,9 @@ interpolation with the end values held.
 Every bearing model answers ``coefficients(speed, load, *, whirl=None)`` with an object
 that has ``stiffness`` and ``damping`` (2 x 2, SI): this one ignores the load (a table was
 computed for one), :class:`rotorcalc.bearings.FilmJournal` needs it.  A
-:class:`rotorcalc.supports.Bearing` given by tables reads itself through
-:func:`read_table`; ``Bearing.model`` gives its model either way.
+:class:`rotorcalc.supports.Bearing` given by tables reads itself through a
+:class:`TableReader` (the same numbers as :func:`read_table`, faster); ``Bearing.model``
+gives its model either way.
 """
 
 from __future__ import annotations
@@ -70,13 +71,16 @@ def as_arrays(values):
 
 
 class TableReader:
-    """:func:`read_table` for one table, made once and read many times (an analysis reads
-    every bearing at every speed it solves: 4000 reads in one ``criticals``).  A table over
-    speed alone is read all eight coefficients at once: one search for the interval and
-    numpy's own interpolation formula, ``slope * (speed - s[j]) + value[j]`` with the table
-    value itself at a table point and the end values held, so that each coefficient equals
-    ``np.interp`` of its own column bit for bit (tests/unit/test_bearing_models.py); three
-    times faster than eight calls.  A two-way table is read by :func:`read_table`."""
+    """:func:`read_table` for one table, made once and read many times: an analysis reads every
+    bearing at every speed it solves (about 4000 reads in the compressor's ``criticals``).
+
+    A table over speed alone has its eight coefficients read at once: one search for the
+    interval, then numpy's own interpolation formula ``slope * (speed - s[j]) + value[j]`` on
+    all of them, the table value itself at a table point, the end values held outside, and
+    coefficients given by one value (or not given) taken as they are.  Each coefficient so
+    equals ``np.interp`` of its own column bit for bit (tests/unit/test_bearing_models.py);
+    a read costs 5 us against 16 us for eight interpolations (docs/performance.md).  A
+    two-way table, and a speed that is not a number, are read by :func:`read_table`."""
 
     def __init__(self, speeds, whirl, values):
         self.speeds = np.asarray(speeds, dtype=float)
@@ -84,20 +88,24 @@ class TableReader:
         self.values = as_arrays(values)
         self.stack = None
         if all(v.ndim <= 1 for v in self.values.values()):
-            rows = max(len(self.speeds), 1)
-            stack = np.zeros((rows, len(NAMES)))
+            stack = np.zeros((max(len(self.speeds), 1), len(NAMES)))
+            fixed = np.ones(len(NAMES), dtype=bool)     # one value, or none (zero)
             for i, name in enumerate(NAMES):
                 column = self.values.get(name)
                 if column is not None:
                     stack[:, i] = column[0] if column.size == 1 else column
-            self.stack = stack
+                    fixed[i] = column.size == 1
+            self.stack, self.fixed, self.fixed_values = stack, fixed, stack[0, fixed]
             self.points = self.speeds.tolist()      # searched by bisect: the fastest here
             self.slopes = ((stack[1:] - stack[:-1])
                            / (self.speeds[1:] - self.speeds[:-1])[:, None])
+            for array in (self.stack, self.slopes, self.fixed_values):
+                array.flags.writeable = False
 
     def __call__(self, speed, frequency=None):
-        """``(K, C)`` at ``speed`` (rad/s), as :func:`read_table`."""
-        if self.stack is None:
+        """``(K, C)`` at ``speed`` (rad/s), as :func:`read_table`: new arrays at every call."""
+        speed = float(speed)
+        if self.stack is None or speed != speed:
             return read_table(self.speeds, self.whirl, self.values, speed, frequency)
         s, stack = self.speeds, self.stack
         if len(stack) == 1 or not speed > s[0]:
@@ -106,8 +114,11 @@ class TableReader:
             row = stack[-1].copy()        # at or beyond its last point, held
         else:
             j = bisect.bisect_right(self.points, speed) - 1
-            row = stack[j].copy() if s[j] == speed else \
-                self.slopes[j] * (speed - s[j]) + stack[j]
+            if s[j] == speed:
+                row = stack[j].copy()
+            else:
+                row = self.slopes[j] * (speed - s[j]) + stack[j]
+                row[self.fixed] = self.fixed_values     # as given (a -0.0 stays -0.0)
         return row[:4].reshape(2, 2), row[4:].reshape(2, 2)
 
 

@@ -34,8 +34,8 @@ on log-log, over the sizes run).  For the bundled cases it prints the same compa
 sizes are below the automatic choice, so the reduced path is forced) and the CPU time of
 their what-if commands (in the process), then whole commands on the compressor in fresh
 processes with their start-up, in rounds (every command once a round, the least and the most
-of seven rounds printed; ``--commands`` alone prints only these), and last each target of the
-issue beside what this run measured.  No time is asserted anywhere: this prints figures.
+of seven rounds printed; ``--commands`` alone prints only these), and last each target of
+issue 15 beside what this run measured.  No time is asserted anywhere: this prints figures.
 """
 
 from __future__ import annotations
@@ -243,8 +243,9 @@ def commands():
     return {label: min(values) for label, values in samples.items()}
 
 
-#: The issue's targets: (what, limit, unit).  Times are CPU seconds, the least disturbed
-#: run (best of fresh processes, least of the rounds): noise on a shared machine only adds.
+#: The targets of issue 15 (interactive speed): (what, limit, unit).  Times are CPU seconds,
+#: the least disturbed run (best of fresh processes, least of the rounds): noise on a shared
+#: machine only adds.
 TARGETS = {
     "pipeline 1000": ("1000 elements: sweep, criticals, response (best of 3)", 3.0, "s"),
     "pipeline 4000": ("4000 elements: the same (best of 3)", 10.0, "s"),
