@@ -1,6 +1,7 @@
-"""The check with every source applied: each forward mode's log decrement at the maximum
-continuous speed, with the rotor file's destabilising sources in place, against the rule's
-required value (each mode at its own whirl frequency when the rule asks,
+"""The check with every source applied: the log decrement of each mode whirling at least half
+forward (forward share one half or more: forward, mixed and straight-line modes) at the
+maximum continuous speed, with the rotor file's destabilising sources in place, against the
+rule's required value (each mode at its own whirl frequency when the rule asks,
 :mod:`rotorcalc.analysis.own_frequency`).  Part of what ``check`` judges under
 ``[coupling_screen]`` (:func:`rotorcalc.analysis.coupling_screen.coupling_study`)."""
 
@@ -12,6 +13,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..assembly import assemble
+from ..errors import InputError
 from ..notices import Notice
 from ..rules import CouplingRule
 from ..units import to_rpm
@@ -34,10 +36,10 @@ def _synchronous_note(rotor, criteria):
 
 @dataclass(frozen=True)
 class SourcesCheck:
-    """Every forward mode at the maximum continuous speed with every source of the rotor
-    file applied, against ``min_log_dec``.  With ``coefficients_at = "mode-frequency"``
-    ``frequency`` and ``log_dec`` are each mode's at its own whirl frequency and
-    ``synchronous_log_dec`` the values with every table read at the spin speed."""
+    """Every mode whirling at least half forward at the maximum continuous speed with every
+    source of the rotor file applied, against ``min_log_dec``.  With ``coefficients_at =
+    "mode-frequency"`` ``frequency`` and ``log_dec`` are each mode's at its own whirl frequency
+    and ``synchronous_log_dec`` the values with every table read at the spin speed."""
 
     speed: float
     min_log_dec: float
@@ -61,7 +63,7 @@ class SourcesCheck:
     @property
     def rows(self):
         """(mode number, frequency rad/s, log dec, whirl, passed, synchronous log dec,
-        converged) per forward mode."""
+        converged) per mode judged."""
         sync = self.log_dec if self.synchronous_log_dec is None else self.synchronous_log_dec
         converged = self.converged or (True,) * len(self.numbers)
         return [(n, float(f), float(d), w, bool(d >= self.min_log_dec), float(ds), bool(ok))
@@ -72,11 +74,11 @@ class SourcesCheck:
         """The check's outcome in one sentence, with its rule."""
         lowest = float(np.min(self.log_dec)) if len(self.log_dec) else math.nan
         count = len(self.numbers)
-        kinds = ", ".join(dict.fromkeys(str(w) for w in self.whirl)) or "none"
-        modes = "the 1 mode" if count == 1 else f"the {count} modes"
-        return (f"Lowest log decrement {lowest:.3f} of {modes} whirling at least half forward "
-                f"({kinds}) at {to_rpm(self.speed):.0f} rpm with every source of the file "
-                f"applied; needed {self.min_log_dec:g} ({self.label}).")
+        kinds = ", ".join(dict.fromkeys(str(w) for w in self.whirl))
+        modes = "the only mode" if count == 1 else f"the {count} modes"
+        return (f"Lowest log decrement {lowest:.3f} of {modes} with a forward share of one "
+                f"half or more ({kinds}) at {to_rpm(self.speed):.0f} rpm with every source of "
+                f"the file applied; needed {self.min_log_dec:g} ({self.label}).")
 
     @property
     def at_own_frequency(self):
@@ -99,8 +101,10 @@ class SourcesCheck:
 
 
 def sources_check(rotor, min_log_dec=None):
-    """The forward modes' log decrements at the maximum continuous speed, sources applied
-    (each at its own whirl frequency when the rule asks, :mod:`.own_frequency`)."""
+    """The log decrements of the modes whirling at least half forward at the maximum
+    continuous speed, sources applied (each at its own whirl frequency when the rule asks,
+    :mod:`.own_frequency`).  InputError when no such mode is among those the file asks for:
+    a check that judged nothing must not pass."""
     rule = rotor.coupling_rule or CouplingRule()
     need = rule.min_log_dec_sources if min_log_dec is None else min_log_dec
     label = rule.label if min_log_dec is None else "set by the user"
@@ -110,6 +114,12 @@ def sources_check(rotor, min_log_dec=None):
     order = [int(i) for i in np.argsort(modes.frequency)]
     # forward, or on a straight line (roundoff alone would put it on either side)
     keep = [i for i in order if modes.forward_fraction[i] >= 0.5 - STRAIGHT_LINE]
+    if not keep:
+        raise InputError("analysis.mode_count", "leaves the check with every source applied "
+                         "no mode whirling at least half forward at the maximum continuous "
+                         "speed", value=rotor.settings.mode_count,
+                         expected="more modes, so that the forward ones are among them",
+                         kind="range")
     numbers = tuple(order.index(i) + 1 for i in keep)
     frequency = np.array([modes.frequency[i] for i in keep])
     log_dec = np.array([modes.log_dec[i] for i in keep])
