@@ -36,18 +36,23 @@ def test_the_command_list_quotes_each_command_s_own_help():
         assert name in listing
 
 
-def test_help_loads_no_analysis_numpy_or_plotting():
-    """``rotorcalc --help`` must start fast: it imports neither numpy nor the analyses
-    (measured CPU in docs/performance.md; no time is asserted here)."""
+def _loaded_by(args, modules):
+    """Which of ``modules`` a fresh process has loaded after running ``rotorcalc args``."""
     import subprocess
     import sys
     code = ("import sys; from typer.testing import CliRunner; from rotorcalc.cli import app; "
-            "r = CliRunner().invoke(app, ['--help']); assert r.exit_code == 0, r.output; "
-            "print(sorted(m for m in ('numpy', 'scipy', 'matplotlib', 'pint', "
-            "'rotorcalc.analysis', 'rotorcalc.model') if m in sys.modules))")
+            f"r = CliRunner().invoke(app, {list(args)!r}); assert r.exit_code == 0, r.output; "
+            f"print(sorted(m for m in {tuple(modules)!r} if m in sys.modules))")
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
                          check=True)
-    assert out.stdout.strip() == "[]"
+    return out.stdout.strip()
+
+
+def test_help_loads_no_analysis_numpy_or_plotting():
+    """``rotorcalc --help`` must start fast: it imports neither numpy nor the analyses
+    (measured CPU in docs/performance.md; no time is asserted here)."""
+    assert _loaded_by(["--help"], ("numpy", "scipy", "matplotlib", "pint",
+                                   "rotorcalc.analysis", "rotorcalc.model")) == "[]"
 
 
 def test_criticals_on_table_bearings_loads_only_what_it_runs():
@@ -55,18 +60,10 @@ def test_criticals_on_table_bearings_loads_only_what_it_runs():
     film solvers, the process pool, the progress bar nor the what-if studies: together they
     cost about 0.035 s of start-up at every command (docs/performance.md, "seventh pass") and
     none of them runs here."""
-    import subprocess
-    import sys
-    code = ("import sys; from typer.testing import CliRunner; from rotorcalc.cli import app; "
-            f"r = CliRunner().invoke(app, ['criticals', {COMPRESSOR!r}, '--jobs', '1']); "
-            "assert r.exit_code == 0, r.output; "
-            "print(sorted(m for m in ('rotorcalc.bearings.film', 'rotorcalc.bearings.journal', "
-            "'rotorcalc.bearings.pad_journal', 'rotorcalc.bearings.equilibrium', "
-            "'multiprocessing', 'rich.progress', 'rotorcalc.analysis.whatif', "
-            "'rotorcalc.analysis.levers', 'rotorcalc.variants') if m in sys.modules))")
-    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
-                         check=True)
-    assert out.stdout.strip() == "[]"
+    assert _loaded_by(["criticals", COMPRESSOR, "--jobs", "1"], (
+        "rotorcalc.bearings.film", "rotorcalc.bearings.journal", "rotorcalc.bearings.pad_journal",
+        "rotorcalc.bearings.equilibrium", "multiprocessing", "rich.progress",
+        "rotorcalc.analysis.whatif", "rotorcalc.analysis.levers", "rotorcalc.variants")) == "[]"
 
 
 def test_the_json_document_is_made_only_when_asked_for(tmp_path, monkeypatch):
