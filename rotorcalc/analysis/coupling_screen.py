@@ -162,21 +162,16 @@ def applied_sources(shares, total):
                  for i, (station, share) in enumerate(shares))
 
 
-def _lowest_forward(modes, least):
-    """Index of the lowest mode (by frequency) whose forward share is at least ``least``."""
-    for i in np.argsort(modes.frequency):
-        if modes.forward_fraction[i] >= least and modes.frequency[i] > 0:
-            return int(i)
-    return None
-
-
 def _first_forward(modes):
     """Index of the lowest mode whirling forward or on a straight line (None when there is
     none): supports stiffer one way than the other give straight-line whirls without
     cross-coupling, the lowest of which is judged (roundoff alone would call it or its
     partner forward); :func:`_nearest_forward` moves to the partner where it turns the more
     forward as the amount grows."""
-    return _lowest_forward(modes, 0.5 - STRAIGHT_LINE)
+    for i in np.argsort(modes.frequency):
+        if modes.forward_fraction[i] >= 0.5 - STRAIGHT_LINE and modes.frequency[i] > 0:
+            return int(i)
+    return None
 
 
 #: A mode mixed with the followed one lies this close in frequency (a share of it): the

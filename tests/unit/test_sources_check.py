@@ -2,10 +2,16 @@
 half forward (forward share 0.5 or more), mixed and straight-line ones among them, not only
 the ones labelled forward."""
 
-import numpy as np
+import dataclasses
 
-from rotorcalc.analysis.sources_check import SourcesCheck
+import numpy as np
+import pytest
+
+from rotorcalc.analysis.sources_check import SourcesCheck, sources_check
+from rotorcalc.errors import InputError
+from rotorcalc.reader import read_rotor
 from rotorcalc.vocabulary import Whirl
+from tests.conftest import ROOT
 
 
 def _check(whirl, log_dec):
@@ -31,14 +37,6 @@ def test_a_check_that_finds_no_forward_mode_stops_rather_than_passes():
     """The compressor asked for one mode: at its maximum continuous speed the lowest mode
     whirls backward, so the check with its stages applied judges nothing; it used to pass
     (an empty set of modes meets every limit).  Now it asks for more modes."""
-    import dataclasses
-
-    import pytest
-
-    from rotorcalc.analysis.sources_check import sources_check
-    from rotorcalc.errors import InputError
-    from rotorcalc.reader import read_rotor
-    from tests.conftest import ROOT
     rotor = read_rotor(ROOT / "cases" / "compressor.toml")
     one = dataclasses.replace(rotor, settings=dataclasses.replace(rotor.settings, mode_count=1))
     with pytest.raises(InputError, match="mode_count"):
